@@ -1,0 +1,65 @@
+/**
+ * The stored design of a board type (`*.board.json`, our own schema). Validated at the edge with zod;
+ * the core trusts a parsed `BoardDesign`. Physics checks (a divider that cuts the transistor off,
+ * a target above the supply) live in `validateBoardPhysics` beside the model.
+ */
+import { z } from 'zod';
+
+const resistor = z.object({
+  ohm: z.number().positive('a resistance must be above 0 ohm').finite(),
+  tolerancePct: z.number().min(0).max(50).default(5),
+  ref: z.string().optional(),
+});
+
+const capacitor = z.object({
+  farad: z.number().positive('a capacitance must be above 0 F').max(1, 'a ramp capacitor above 1 F is not a ramp capacitor').finite(),
+  tolerancePct: z.number().min(0).max(80).default(10),
+  ref: z.string().optional(),
+});
+
+export const boardDesignSchema = z.object({
+  name: z.string().min(1, 'a board design needs a name'),
+  mainsHz: z.number().min(45, 'mains frequency must be 45-65 Hz').max(65, 'mains frequency must be 45-65 Hz'),
+  rectifier: z.enum(['half-wave', 'full-wave']),
+  /** Supply of the current source (V), emitter resistor side. */
+  supplyV: z.number().positive('the supply must be above 0 V').max(100),
+  /** Ramp height wanted at the end of the charging interval (V). */
+  rampTargetV: z.number().positive('the ramp target must be above 0 V'),
+  alphaMinDeg: z.number().min(0).max(180).default(0),
+  alphaMaxDeg: z.number().gt(0).max(180),
+  /** Phase shift of the sync transformer/filter; readings are corrected by it (degrees, lag positive). */
+  syncPhaseDeg: z.number().min(-90).max(90).default(0),
+  /** How long the sync circuit holds the ramp capacitor in reset around each zero crossing (us). */
+  syncResetUs: z.number().min(0).max(5000).default(300),
+  /** Width of the gate pulse the board's pulse stage makes (us). Hard firing uses tens to hundreds of us (from memory). */
+  gatePulseUs: z.number().positive().max(10000).default(200),
+  parts: z.object({
+    rEmitter: resistor,
+    rBiasTop: resistor,
+    rBiasBottom: resistor,
+    cRamp: capacitor,
+    rDischarge: resistor.optional(),
+    rControlTop: resistor.optional(),
+    potControl: resistor.optional(),
+  }),
+  transistor: z
+    .object({
+      // Typical small-signal PNP values, from memory (REFERENCES.md: V_EB 0.6-0.7 V, beta 100-300, V_A 20-100 V).
+      vebV: z.number().min(0.3).max(1.0).default(0.65),
+      beta: z.number().min(10).max(2000).default(150),
+      earlyV: z.number().positive().max(1000).default(60),
+      vecSatV: z.number().min(0).max(2).default(0.2),
+    })
+    .default({ vebV: 0.65, beta: 150, earlyV: 60, vecSatV: 0.2 }),
+  tolerances: z
+    .object({
+      rampPeakPct: z.number().positive().default(3),
+      alphaDeg: z.number().positive().default(2),
+      startDelayDeg: z.number().positive().default(3),
+    })
+    .default({ rampPeakPct: 3, alphaDeg: 2, startDelayDeg: 3 }),
+});
+
+export type BoardDesign = z.output<typeof boardDesignSchema>;
+export type BoardDesignInput = z.input<typeof boardDesignSchema>;
+export type PartRole = keyof BoardDesign['parts'];

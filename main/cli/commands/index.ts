@@ -1,0 +1,6 @@
+/** Every command of the command line, in the order `rampwright --help` lists them. One line per command. */
+import type { Command } from 'commander';
+
+export function registerCommands(program: Command): void {
+  void program;
+}

@@ -1,0 +1,45 @@
+// Builds the command line (dist/rampwright.js), the Electron shell and the renderer bundle with esbuild.
+// Runs on `npm install` (prepare), so `node dist/rampwright.js ...` works right after install.
+import { build } from 'esbuild';
+import { existsSync, mkdirSync, cpSync, chmodSync } from 'node:fs';
+
+const targets = [
+  {
+    entryPoints: ['main/cli/rampwright.ts'],
+    outfile: 'dist/rampwright.js',
+    platform: 'node',
+    format: 'esm',
+    packages: 'external',
+    banner: { js: '#!/usr/bin/env node' },
+  },
+  {
+    entryPoints: ['main/electron/main.ts'],
+    outfile: 'dist/electron/main.js',
+    platform: 'node',
+    format: 'esm',
+    packages: 'external',
+  },
+  {
+    entryPoints: ['main/electron/preload.ts'],
+    outfile: 'dist/electron/preload.cjs',
+    platform: 'node',
+    format: 'cjs',
+    external: ['electron'],
+  },
+  {
+    entryPoints: ['renderer/index.ts'],
+    outfile: 'dist/renderer/index.js',
+    platform: 'browser',
+    format: 'esm',
+    bundle: true,
+  },
+];
+
+mkdirSync('dist', { recursive: true });
+for (const target of targets) {
+  const entry = target.entryPoints[0];
+  if (!existsSync(entry)) continue;
+  await build({ bundle: true, target: 'es2022', sourcemap: true, logLevel: 'warning', ...target });
+}
+if (existsSync('dist/rampwright.js')) chmodSync('dist/rampwright.js', 0o755);
+if (existsSync('renderer/static')) cpSync('renderer/static', 'dist/renderer', { recursive: true });

@@ -1,0 +1,149 @@
+import { InputError } from '../errors';
+import type { SampleBlock } from '../capture/samples';
+
+/**
+ * Collects samples one at a time into uniform-rate `SampleBlock`s, for every file reader.
+ *
+ * Two ways to know time:
+ * - a fixed rate (a CSV without `t` given a rate, a COMTRADE file with a sample rate line): sample k of the
+ *   file sits at origin + k / rate, the origin being the first sample's own time when it has one;
+ * - a time per sample (`t` column, COMTRADE timestamps when nrates is 0): the rate of a stretch is
+ *   (n - 1) / (t_last - t_first) over the stretch so far, which averages out small jitter in printed times,
+ *   and an interval longer than 1.5 sample periods is a gap: the stretch ends, the next block has
+ *   `afterGap` set (1.5 is half a period of slack either way around a single missing sample, common practice).
+ */
+export interface SampleBlockBuilderOptions {
+  blockSamples: number;
+  hasControl: boolean;
+  /** Fixed sample rate; without it every sample must come with its time. */
+  fixedRateHz?: number;
+  /** Rate for a stretch of a single timed sample, where no interval exists to measure. */
+  fallbackRateHz?: number;
+  /** Says where the reader is (file and line or record) for error messages. */
+  where: () => string;
+}
+
+const gapPeriods = 1.5;
+
+export class SampleBlockBuilder {
+  private readonly blockSamples: number;
+  private readonly hasControl: boolean;
+  private readonly fixedRateHz: number | undefined;
+  private readonly fallbackRateHz: number | undefined;
+  private readonly where: () => string;
+
+  private sync: Float64Array;
+  private ramp: Float64Array;
+  private gate: Float64Array;
+  private control: Float64Array | null;
+  private count = 0;
+  private blockStartS = 0;
+  private blockAfterGap = false;
+
+  /** Samples taken so far (fixed rate) and the time origin of the file. */
+  private samplesSeen = 0;
+  private originS = 0;
+
+  /** The current gap-free stretch (timed mode). */
+  private stretchFirstS = 0;
+  private stretchLastS = 0;
+  private stretchSamples = 0;
+  private previousPeriodS: number | undefined;
+
+  constructor(options: SampleBlockBuilderOptions) {
+    this.blockSamples = Math.max(1, Math.floor(options.blockSamples));
+    this.hasControl = options.hasControl;
+    this.fixedRateHz = options.fixedRateHz;
+    this.fallbackRateHz = options.fallbackRateHz;
+    this.where = options.where;
+    this.sync = new Float64Array(this.blockSamples);
+    this.ramp = new Float64Array(this.blockSamples);
+    this.gate = new Float64Array(this.blockSamples);
+    this.control = this.hasControl ? new Float64Array(this.blockSamples) : null;
+  }
+
+  get totalSamples(): number {
+    return this.samplesSeen;
+  }
+
+  /**
+   * Adds one sample. `timeS` is the sample's time in seconds (NaN when the file has none for it).
+   * Completed blocks are pushed onto `out`.
+   */
+  append(timeS: number, sync: number, ramp: number, gate: number, control: number, out: SampleBlock[]): void {
+    if (this.fixedRateHz !== undefined) {
+      if (this.samplesSeen === 0 && Number.isFinite(timeS)) this.originS = timeS;
+      if (this.count === 0) this.blockStartS = this.originS + this.samplesSeen / this.fixedRateHz;
+    } else {
+      if (!Number.isFinite(timeS)) throw new InputError('the sample has no time', this.where());
+      if (this.stretchSamples === 0) {
+        this.startStretch(timeS);
+      } else {
+        const intervalS = timeS - this.stretchLastS;
+        if (!(intervalS > 0)) {
+          throw new InputError(`time does not increase (${timeS} s after ${this.stretchLastS} s)`, this.where());
+        }
+        const periodS = this.stretchSamples > 1 ? (this.stretchLastS - this.stretchFirstS) / (this.stretchSamples - 1) : this.previousPeriodS;
+        if (periodS !== undefined && intervalS > gapPeriods * periodS) {
+          if (this.count > 0) out.push(this.takeBlock());
+          if (this.stretchSamples > 1) this.previousPeriodS = periodS;
+          this.startStretch(timeS);
+          this.blockAfterGap = true;
+        } else {
+          this.stretchLastS = timeS;
+          this.stretchSamples++;
+        }
+      }
+      if (this.count === 0) this.blockStartS = timeS;
+    }
+    const index = this.count;
+    this.sync[index] = sync;
+    this.ramp[index] = ramp;
+    this.gate[index] = gate;
+    if (this.control !== null) this.control[index] = control;
+    this.count = index + 1;
+    this.samplesSeen++;
+    if (this.count === this.blockSamples) out.push(this.takeBlock());
+  }
+
+  /** Ends the stream: the partial block, if any. */
+  flush(out: SampleBlock[]): void {
+    if (this.count > 0) out.push(this.takeBlock());
+  }
+
+  private startStretch(timeS: number): void {
+    this.stretchFirstS = timeS;
+    this.stretchLastS = timeS;
+    this.stretchSamples = 1;
+  }
+
+  private currentRateHz(): number {
+    if (this.fixedRateHz !== undefined) return this.fixedRateHz;
+    if (this.stretchSamples > 1) return (this.stretchSamples - 1) / (this.stretchLastS - this.stretchFirstS);
+    if (this.previousPeriodS !== undefined) return 1 / this.previousPeriodS;
+    if (this.fallbackRateHz !== undefined) return this.fallbackRateHz;
+    throw new InputError('cannot tell the sample rate: a single timed sample and no rate given', this.where());
+  }
+
+  private takeBlock(): SampleBlock {
+    const length = this.count;
+    const block: SampleBlock = {
+      startS: this.blockStartS,
+      sampleRateHz: this.currentRateHz(),
+      sync: length === this.blockSamples ? this.sync : this.sync.slice(0, length),
+      ramp: length === this.blockSamples ? this.ramp : this.ramp.slice(0, length),
+      gate: length === this.blockSamples ? this.gate : this.gate.slice(0, length),
+      control: this.control === null ? null : length === this.blockSamples ? this.control : this.control.slice(0, length),
+      afterGap: this.blockAfterGap,
+    };
+    this.blockAfterGap = false;
+    this.count = 0;
+    if (length === this.blockSamples) {
+      this.sync = new Float64Array(this.blockSamples);
+      this.ramp = new Float64Array(this.blockSamples);
+      this.gate = new Float64Array(this.blockSamples);
+      this.control = this.hasControl ? new Float64Array(this.blockSamples) : null;
+    }
+    return block;
+  }
+}

@@ -1,0 +1,173 @@
+/**
+ * Records the screens ask for: designs, units, sessions, trim plans, logbook rows and comparisons.
+ * Times are ISO 8601 strings (UTC) so they cross every transport unchanged.
+ */
+import { z } from 'zod';
+import { boardDesignSchema } from '../board/design';
+import { foldTraceSchema, linkHealthSchema, stepReportSchema, transferFitSchema, transferPointSchema, commissioningStepSchema } from './readings';
+
+export const isoTimeSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z|[+-]\d{2}:\d{2})$/, 'a time must be ISO 8601, e.g. 2026-03-01T09:30:00Z');
+
+export const designSummarySchema = z.object({
+  name: z.string(),
+  version: z.number().int().positive(),
+  mainsHz: z.number(),
+  rectifier: z.enum(['half-wave', 'full-wave']),
+  rampTargetV: z.number(),
+  savedAt: isoTimeSchema.nullable(),
+});
+export type DesignSummary = z.infer<typeof designSummarySchema>;
+
+export const storedDesignSchema = z.object({
+  summary: designSummarySchema,
+  design: boardDesignSchema,
+});
+export type StoredDesign = z.infer<typeof storedDesignSchema>;
+
+export const designProblemSchema = z.object({ field: z.string(), message: z.string() });
+export type DesignProblem = z.infer<typeof designProblemSchema>;
+
+export const unitSummarySchema = z.object({
+  serial: z.string(),
+  designName: z.string().nullable(),
+  sessions: z.number().int().nonnegative(),
+  lastSessionAt: isoTimeSchema.nullable(),
+});
+export type UnitSummary = z.infer<typeof unitSummarySchema>;
+
+export const sessionStatusSchema = z.enum(['open', 'closed', 'interrupted']);
+
+export const openSessionSchema = z.object({
+  id: z.number().int().positive(),
+  unitSerial: z.string(),
+  designName: z.string(),
+  designVersion: z.number().int().positive(),
+  operator: z.string(),
+  startedAt: isoTimeSchema,
+});
+export type OpenSession = z.infer<typeof openSessionSchema>;
+
+export const benchStateSchema = z.object({
+  session: openSessionSchema.nullable(),
+  link: linkHealthSchema,
+  /** The screen's plot is frozen; data still flows into the session. */
+  held: z.boolean(),
+  steps: z.array(stepReportSchema),
+  currentStep: commissioningStepSchema,
+  /** True after "I fitted this" until the ramp has been checked again. */
+  recheckNeeded: z.boolean(),
+});
+export type BenchState = z.infer<typeof benchStateSchema>;
+
+export const trimSuggestionSchema = z.object({
+  part: z.string(),
+  /** The board's own designator (e.g. R7), when the design names it. */
+  partRef: z.string().nullable(),
+  method: z.enum(['replace', 'parallel', 'series']),
+  fromOhm: z.number().positive(),
+  /** Effective resistance of that position after the change. */
+  toOhm: z.number().positive(),
+  /** The resistor to add for parallel/series, null for replace. */
+  addOhm: z.number().positive().nullable(),
+  series: z.string(),
+  predictedPeakV: z.number(),
+  predictedAlphaMaxDeg: z.number().nullable(),
+  headroomV: z.number().nullable(),
+  reason: z.string(),
+  /** The model's ramp after the change over one charging interval, for drawing over the measured one. */
+  predictedRamp: foldTraceSchema.nullable(),
+});
+export type TrimSuggestion = z.infer<typeof trimSuggestionSchema>;
+
+export const trimPlanSchema = z.object({
+  inTolerance: z.boolean(),
+  message: z.string(),
+  measuredPeakV: z.number().nullable(),
+  targetPeakV: z.number(),
+  estimate: z.object({ chargingCurrentA: z.number(), vebV: z.number() }).nullable(),
+  suggestions: z.array(trimSuggestionSchema),
+  measuredRamp: foldTraceSchema.nullable(),
+});
+export type TrimPlanView = z.infer<typeof trimPlanSchema>;
+
+export const appliedTrimSchema = z.object({
+  id: z.number().int().positive(),
+  part: z.string(),
+  fromOhm: z.number(),
+  toOhm: z.number(),
+  reason: z.string(),
+  at: isoTimeSchema,
+});
+export type AppliedTrim = z.infer<typeof appliedTrimSchema>;
+
+export const sessionRowSchema = z.object({
+  id: z.number().int().positive(),
+  unit: z.string(),
+  designName: z.string(),
+  designVersion: z.number().int().positive(),
+  operator: z.string(),
+  status: sessionStatusSchema,
+  startedAt: isoTimeSchema,
+  endedAt: isoTimeSchema.nullable(),
+  cycles: z.number().int().nonnegative(),
+  alphaDeg: z.number().nullable(),
+  rampPeakV: z.number().nullable(),
+  linkErrors: z.number().int().nonnegative(),
+});
+export type SessionRow = z.infer<typeof sessionRowSchema>;
+
+export const linkEventSchema = z.object({ at: isoTimeSchema, kind: z.string(), detail: z.string() });
+
+export const sessionDetailSchema = z.object({
+  row: sessionRowSchema,
+  notes: z.string().nullable(),
+  /** Readings recorded at each step's check, with verdicts against the design version the session used. */
+  steps: z.array(stepReportSchema),
+  transfer: z.object({ points: z.array(transferPointSchema), fit: transferFitSchema.nullable() }),
+  trims: z.array(appliedTrimSchema),
+  linkEvents: z.array(linkEventSchema),
+  /** Per-cycle summary for plots over the session (decimated to a few hundred rows). */
+  perCycle: z.array(z.object({ t: z.number(), alphaDeg: z.number().nullable(), rampPeakV: z.number().nullable(), controlV: z.number().nullable() })),
+  captures: z.array(z.object({ id: z.number().int().positive(), startS: z.number(), seconds: z.number(), label: z.string().nullable() })),
+});
+export type SessionDetail = z.infer<typeof sessionDetailSchema>;
+
+export const sessionComparisonSchema = z.object({
+  a: sessionRowSchema,
+  b: sessionRowSchema,
+  rows: z.array(
+    z.object({
+      key: z.string(),
+      label: z.string(),
+      unit: z.string(),
+      a: z.number().nullable(),
+      b: z.number().nullable(),
+      difference: z.number().nullable(),
+      /** True when the difference is larger than the design's tolerance for that reading. */
+      beyondTolerance: z.boolean(),
+    }),
+  ),
+  transferA: z.array(transferPointSchema),
+  transferB: z.array(transferPointSchema),
+});
+export type SessionComparison = z.infer<typeof sessionComparisonSchema>;
+
+export const driftPointSchema = z.object({
+  sessionId: z.number().int().positive(),
+  startedAt: isoTimeSchema,
+  rampPeakV: z.number().nullable(),
+  slopeVPerMs: z.number().nullable(),
+  alphaGainDegPerV: z.number().nullable(),
+  alphaOffsetDeg: z.number().nullable(),
+  alphaStdDeg: z.number().nullable(),
+});
+export type DriftPoint = z.infer<typeof driftPointSchema>;
+
+export const exportFormatSchema = z.object({
+  id: z.string(),
+  label: z.string(),
+  mediaType: z.string(),
+  extension: z.string(),
+});
+export type ExportFormat = z.infer<typeof exportFormatSchema>;
+

@@ -25,6 +25,13 @@ export const noticeSchema = z.object({
 });
 export type Notice = z.infer<typeof noticeSchema>;
 
+/** A command from the desktop shell's application menu for the screens (browser mode never sends it). */
+export const menuCommandSchema = z.discriminatedUnion('command', [
+  z.object({ command: z.literal('show-screen'), screen: z.enum(['board', 'bench', 'transfer', 'trim', 'logbook']) }),
+  z.object({ command: z.literal('show-safety-note') }),
+]);
+export type MenuCommand = z.infer<typeof menuCommandSchema>;
+
 export const benchEvents = {
   /** Throttled live view: fold, step readings, link health. Not sent while the plot is held. */
   live: liveFrameSchema,
@@ -36,6 +43,8 @@ export const benchEvents = {
   transfer: z.object({ sessionId: z.number().int().positive().nullable(), points: z.array(transferPointSchema) }),
   /** Something the technician should read: link lost and reopened, session marked interrupted. */
   notice: noticeSchema,
+  /** The desktop menu asked the screens to do something. */
+  menuCommand: menuCommandSchema,
 } as const;
 
 export type BenchEvents = typeof benchEvents;

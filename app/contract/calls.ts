@@ -90,7 +90,7 @@ export const benchCalls = {
   stopSession: call(z.object({ notes: z.string().optional() }).strict(), sessionRowSchema, 'Close the open session (without signing off).'),
   benchState: call(empty, benchStateSchema, 'Everything the Bench screen shows at once, for a fresh screen.'),
   setHold: call(z.object({ held: z.boolean() }).strict(), z.object({ held: z.boolean() }), 'Freeze or release the live plot (data keeps flowing into the session).'),
-  keepCapture: call(z.object({ seconds: z.number().positive().max(60).default(2), label: z.string().optional() }).strict(), z.object({ captureId: z.number().int().positive(), seconds: z.number() }), 'Keep the last seconds of raw samples in the session.'),
+  keepCapture: call(z.object({ seconds: z.number().positive().max(10).default(2), label: z.string().optional() }).strict(), z.object({ captureId: z.number().int().positive(), seconds: z.number() }), 'Keep the last seconds of raw samples in the session.'),
   checkStep: call(z.object({ step: commissioningStepSchema }).strict(), stepReportSchema, 'Take the step\'s readings now, judge them against the design and record them in the session.'),
   signOff: call(z.object({ notes: z.string().optional() }).strict(), sessionRowSchema, 'Record the sign-off step and close the session.'),
 

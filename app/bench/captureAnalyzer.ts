@@ -1,0 +1,252 @@
+/**
+ * The analysis engine: sample blocks in, a reading per firing interval out as each completes, a capture summary at
+ * the end. The same object serves a live logger stream and a file read block by block; memory stays at about one
+ * mains cycle of samples plus constant-size statistics (per-interval readings are kept only if asked for).
+ * After a gap (or a change of sample rate) cycle tracking restarts: nothing is joined across a gap.
+ */
+import type { SampleBlock } from '../capture/samples';
+import { GatePulseTracker, type GatePulse } from '../signal/gatePulses';
+import { MainsFrequencyTracker } from '../signal/mainsFrequency';
+import { analyzeRampSegment } from '../signal/rampSegment';
+import { SampleHistory } from '../signal/sampleHistory';
+import { ZeroCrossingTracker, type ZeroCrossing } from '../signal/zeroCrossings';
+import { learnFirstLevels, type FirstLevels } from './firstLevels';
+import type { CaptureReadings, CycleReading, Rectifier } from './readings';
+import { ReadingsSummary } from './readingsSummary';
+
+export interface CaptureAnalyzerOptions {
+  rectifier: Rectifier;
+  /** Sync transformer/filter phase lag (deg, from the design): angles are referred back to the mains crossing. */
+  syncPhaseDeg?: number;
+  /** Keep every interval's reading for the summary's `perCycle` (default true; a long live stream passes false). */
+  keepPerCycle?: boolean;
+  /** Seconds of samples used to learn the first levels (default 0.2 s: ten cycles at 50 Hz). */
+  warmupS?: number;
+  /** A sync smaller than this is taken as absent (default 0.05 V). */
+  minimumSyncAmplitudeV?: number;
+}
+
+export interface CaptureAnalyzer {
+  push(block: SampleBlock): CycleReading[];
+  finish(): CaptureReadings;
+}
+
+interface FiringWindow {
+  startIndex: number;
+  direction: ZeroCrossing['direction'];
+  /** Crossing before the start (full-wave) for the period; NaN when unknown. */
+  priorIndex: number;
+  /** Falling crossing inside a half-wave window. */
+  midIndex: number;
+  endIndex: number;
+}
+
+export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureAnalyzer {
+  const rectifier = options.rectifier;
+  const syncPhaseDeg = options.syncPhaseDeg ?? 0;
+  const warmupS = options.warmupS ?? 0.2;
+  const summary = new ReadingsSummary({ keepPerCycle: options.keepPerCycle ?? true });
+  const frequency = new MainsFrequencyTracker();
+  const history = new SampleHistory();
+  const assigned = new WeakSet<GatePulse>();
+  let warmupBlocks: SampleBlock[] | null = [];
+  let warmupSeconds = 0;
+  let levels: FirstLevels | null = null;
+  let crossingTracker: ZeroCrossingTracker | null = null;
+  let pulseTracker: GatePulseTracker | null = null;
+  let sampleRateHz = Number.NaN;
+  let segmentStartS = 0;
+  let nextIndex = 0;
+  let segments = 0;
+  let firstStartS = Number.NaN;
+  let lastEndS = Number.NaN;
+  let openWindow: FiringWindow | null = null;
+  let previousCrossingIndex = Number.NaN;
+  const pending: FiringWindow[] = [];
+  let pulses: GatePulse[] = [];
+  let lastChargeEndIndex = Number.NaN;
+
+  const timeOf = (index: number): number => segmentStartS + index / sampleRateHz;
+
+  function startSegment(block: SampleBlock): void {
+    flushSegment();
+    segments += 1;
+    sampleRateHz = block.sampleRateHz;
+    segmentStartS = block.startS;
+    nextIndex = 0;
+    history.reset(0);
+    crossingTracker?.restart();
+    pulseTracker?.restart();
+    frequency.restart();
+    openWindow = null;
+    previousCrossingIndex = Number.NaN;
+    pulses = [];
+    lastChargeEndIndex = Number.NaN;
+  }
+
+  /** Closes a stretch: windows whose end is known are analysed with whatever margin exists. */
+  function flushSegment(): CycleReading[] {
+    const readings: CycleReading[] = [];
+    while (pending.length > 0) readings.push(analyzeWindow(pending.shift() as FiringWindow));
+    return readings;
+  }
+
+  function onCrossing(crossing: ZeroCrossing): void {
+    frequency.add(timeOf(crossing.index), crossing.direction);
+    const isBoundary = rectifier === 'full-wave' || crossing.direction === 'rising';
+    if (isBoundary) {
+      if (openWindow) {
+        openWindow.endIndex = crossing.index;
+        pending.push(openWindow);
+      }
+      openWindow = { startIndex: crossing.index, direction: crossing.direction, priorIndex: previousCrossingIndex, midIndex: Number.NaN, endIndex: Number.NaN };
+    } else if (openWindow) {
+      openWindow.midIndex = crossing.index;
+    }
+    previousCrossingIndex = crossing.index;
+  }
+
+  function windowPeriodSamples(window: FiringWindow): number {
+    if (rectifier === 'half-wave') return window.endIndex - window.startIndex;
+    return Number.isFinite(window.priorIndex) ? window.endIndex - window.priorIndex : 2 * (window.endIndex - window.startIndex);
+  }
+
+  function analyzeWindow(window: FiringWindow): CycleReading {
+    const periodSamples = windowPeriodSamples(window);
+    const toDeg = (samples: number): number => (samples / periodSamples) * 360 + syncPhaseDeg;
+    const marginSamples = Math.max(2, Math.ceil(0.05 * periodSamples));
+    const cut = history.window(window.startIndex - marginSamples, window.endIndex + marginSamples + 1);
+    const minimumSpanV = Math.max(0.05, 0.2 * (levels?.rampSpreadV ?? 0));
+    const segment = analyzeRampSegment(cut.values, {
+      windowStartIndex: window.startIndex - cut.firstIndex,
+      windowEndIndex: window.endIndex - cut.firstIndex,
+      chargeEndCrossingIndex: (rectifier === 'full-wave' ? window.endIndex : window.midIndex) - cut.firstIndex,
+      minimumSpanV,
+    });
+    let resetUs: number | null = null;
+    if (segment) {
+      const startIndex = segment.startIndex + cut.firstIndex;
+      if (Number.isFinite(lastChargeEndIndex)) resetUs = ((startIndex - lastChargeEndIndex) / sampleRateHz) * 1e6;
+      lastChargeEndIndex = segment.endIndex + cut.firstIndex;
+    }
+    // Pulses: those rising inside the window; the right half-cycle is the whole window (full-wave) or its first half.
+    let firstPulse: GatePulse | null = null;
+    let rightHalf = 0;
+    let wrongHalf = 0;
+    const remaining: GatePulse[] = [];
+    for (const pulse of pulses) {
+      if (pulse.riseIndex >= window.endIndex) {
+        remaining.push(pulse);
+        continue;
+      }
+      if (pulse.riseIndex < window.startIndex) continue;
+      const inRightHalf = rectifier === 'full-wave' || !Number.isFinite(window.midIndex) || pulse.riseIndex < window.midIndex;
+      if (!inRightHalf) {
+        wrongHalf += 1;
+      } else {
+        rightHalf += 1;
+        if (!firstPulse) firstPulse = pulse;
+      }
+      if (pulse.fallIndex !== null) summary.addPulseShape(((pulse.fallIndex - pulse.riseIndex) / sampleRateHz) * 1e6, pulse.amplitudeV);
+      else assigned.add(pulse);
+    }
+    pulses = remaining;
+    history.discardBefore(window.endIndex - marginSamples - 1);
+    const reading: CycleReading = {
+      t: timeOf(window.startIndex),
+      halfCycle: window.direction === 'rising' ? 'positive' : 'negative',
+      periodS: periodSamples / sampleRateHz,
+      alphaDeg: firstPulse ? toDeg(firstPulse.riseIndex - window.startIndex) : null,
+      controlV: firstPulse ? firstPulse.controlV : null,
+      pulses: rightHalf,
+      wrongHalfCyclePulses: wrongHalf,
+      rampPeakV: segment ? segment.peakV : null,
+      rampFloorV: segment ? segment.floorV : null,
+      slopeVPerMs: segment ? (segment.slopeVPerSample * sampleRateHz) / 1000 : null,
+      startDelayDeg: segment ? toDeg(segment.startIndex + cut.firstIndex - window.startIndex) : null,
+      nonlinearityPct: segment ? segment.nonlinearityPct : null,
+      clipped: segment ? segment.clipped : null,
+      resetUs,
+    };
+    summary.addInterval(reading);
+    return reading;
+  }
+
+  function processBlock(block: SampleBlock): CycleReading[] {
+    const length = block.sync.length;
+    if (length === 0) return [];
+    const readings: CycleReading[] = [];
+    const expectedStartS = segmentStartS + nextIndex / sampleRateHz;
+    const contiguous = segments > 0 && !block.afterGap && block.sampleRateHz === sampleRateHz && Math.abs(block.startS - expectedStartS) <= 0.5 / sampleRateHz;
+    if (!contiguous) {
+      readings.push(...flushSegment());
+      startSegment(block);
+    }
+    if (!Number.isFinite(firstStartS)) firstStartS = block.startS;
+    lastEndS = block.startS + length / sampleRateHz;
+    const firstIndex = nextIndex;
+    history.append(block.ramp);
+    if (crossingTracker) for (const crossing of crossingTracker.push(block.sync, firstIndex)) onCrossing(crossing);
+    if (pulseTracker) {
+      const found = pulseTracker.push(block.gate, block.control, firstIndex);
+      pulses.push(...found.started);
+      for (const pulse of found.completed) {
+        if (assigned.has(pulse) && pulse.fallIndex !== null) summary.addPulseShape(((pulse.fallIndex - pulse.riseIndex) / sampleRateHz) * 1e6, pulse.amplitudeV);
+      }
+    }
+    nextIndex += length;
+    const lastIndex = nextIndex - 1;
+    while (pending.length > 0) {
+      const window = pending[0];
+      if (window.endIndex + Math.max(2, Math.ceil(0.05 * windowPeriodSamples(window))) > lastIndex) break;
+      readings.push(analyzeWindow(pending.shift() as FiringWindow));
+    }
+    // Bound memory when no cycle is being tracked (dead sync): keep about two slow mains cycles.
+    const holdSamples = Math.ceil((2 / 45) * sampleRateHz);
+    const oldestNeeded = pending.length > 0 ? pending[0].startIndex : openWindow ? openWindow.startIndex : lastIndex;
+    const keepFrom = Math.min(oldestNeeded, lastIndex) - Math.ceil(0.1 * holdSamples);
+    history.discardBefore(Math.max(keepFrom, lastIndex - 2 * holdSamples));
+    if (!openWindow && pending.length === 0) pulses = pulses.filter((pulse) => pulse.riseIndex > lastIndex - holdSamples);
+    return readings;
+  }
+
+  function endWarmup(): CycleReading[] {
+    const blocks = warmupBlocks ?? [];
+    warmupBlocks = null;
+    levels = learnFirstLevels(blocks, { minimumSyncAmplitudeV: options.minimumSyncAmplitudeV ?? 0.05 });
+    crossingTracker = levels.sync ? new ZeroCrossingTracker(levels.sync) : null;
+    pulseTracker = new GatePulseTracker(levels.gate);
+    const readings: CycleReading[] = [];
+    for (const block of blocks) readings.push(...processBlock(block));
+    return readings;
+  }
+
+  return {
+    push(block: SampleBlock): CycleReading[] {
+      if (warmupBlocks) {
+        warmupBlocks.push(block);
+        warmupSeconds += block.sync.length / block.sampleRateHz;
+        return warmupSeconds >= warmupS ? endWarmup() : [];
+      }
+      return processBlock(block);
+    },
+    finish(): CaptureReadings {
+      if (warmupBlocks) endWarmup();
+      flushSegment();
+      const gateLevels = pulseTracker?.gateLevels ?? null;
+      const syncLevels = crossingTracker?.levels ?? null;
+      return summary.build({
+        rectifier,
+        syncPhaseDeg,
+        sampleRateHz: Number.isFinite(sampleRateHz) ? sampleRateHz : null,
+        durationS: Number.isFinite(firstStartS) ? lastEndS - firstStartS : 0,
+        gaps: Math.max(0, segments - 1),
+        mains: frequency.reading(),
+        syncOffsetV: syncLevels ? syncLevels.offsetV : null,
+        syncAmplitudeV: syncLevels ? syncLevels.amplitudeV : null,
+        gateLowV: gateLevels ? gateLevels.lowV : null,
+        gateHighV: gateLevels ? gateLevels.highV : null,
+      });
+    },
+  };
+}

@@ -1,0 +1,124 @@
+/**
+ * Gate pulses, block by block in constant memory. Edges are the 50 % (mesial) crossings between the IEEE 181
+ * state levels, found by linear interpolation between the bracketing samples; a pulse starts only when the signal
+ * also passes 10 % of the span beyond the mesial level (hysteresis against noise), and ends likewise.
+ * The control voltage is interpolated at each pulse's rising crossing: the firing instant.
+ */
+export interface GatePulse {
+  /** Rising 50 % crossing (sub-sample position in the stream's numbering). */
+  riseIndex: number;
+  /** Falling 50 % crossing, null while the pulse lasts. */
+  fallIndex: number | null;
+  /** Mean of the samples above the mesial level, minus the low state level. */
+  amplitudeV: number;
+  /** Control voltage at the rising crossing, null without a control channel. */
+  controlV: number | null;
+}
+
+export interface GateLevels {
+  lowV: number;
+  highV: number;
+}
+
+export interface GatePulseOptions {
+  /** Hysteresis beyond the mesial level, fraction of the span (default 0.1). */
+  hysteresisFraction?: number;
+  /** Smallest low-to-high span that counts as pulses (default 0.5 V; a gate drive test point swings volts, common practice). */
+  minimumSpanV?: number;
+}
+
+export class GatePulseTracker {
+  private levels: GateLevels | null;
+  private readonly hysteresisFraction: number;
+  private readonly minimumSpanV: number;
+  private high = false;
+  private previousValue = Number.NaN;
+  private previousControl = Number.NaN;
+  private candidateIndex = Number.NaN;
+  private candidateControl = Number.NaN;
+  private open: GatePulse | null = null;
+  private openSumV = 0;
+  private openCount = 0;
+  // Running extremes, used only when the first record showed no pulses to learn levels from.
+  private seenMinV = Number.POSITIVE_INFINITY;
+  private seenMaxV = Number.NEGATIVE_INFINITY;
+
+  constructor(levels: GateLevels | null, options: GatePulseOptions = {}) {
+    this.hysteresisFraction = options.hysteresisFraction ?? 0.1;
+    this.minimumSpanV = options.minimumSpanV ?? 0.5;
+    this.levels = levels && levels.highV - levels.lowV >= this.minimumSpanV ? levels : null;
+  }
+
+  get gateLevels(): GateLevels | null {
+    return this.levels;
+  }
+
+  /** Forgets an unfinished pulse (after a gap). */
+  restart(): void {
+    this.high = false;
+    this.open = null;
+    this.previousValue = Number.NaN;
+    this.previousControl = Number.NaN;
+    this.candidateIndex = Number.NaN;
+  }
+
+  /**
+   * Feeds samples numbered from `firstIndex`. `started` lists pulses whose rising edge is in this block
+   * (their `fallIndex` is filled in later, on the same object); `completed` lists pulses that ended in it.
+   */
+  push(gate: ArrayLike<number>, control: ArrayLike<number> | null, firstIndex: number): { started: GatePulse[]; completed: GatePulse[] } {
+    const started: GatePulse[] = [];
+    const completed: GatePulse[] = [];
+    for (let i = 0; i < gate.length; i++) {
+      const value = gate[i];
+      const controlValue = control ? control[i] : Number.NaN;
+      const index = firstIndex + i;
+      if (!this.levels) this.learnLevels(value);
+      const levels = this.levels;
+      if (levels) {
+        const spanV = levels.highV - levels.lowV;
+        const mesialV = levels.lowV + spanV / 2;
+        const hysteresisV = this.hysteresisFraction * spanV;
+        const previous = this.previousValue;
+        // Remember the latest mesial crossing in each direction: the edge instant once hysteresis confirms it.
+        if (Number.isFinite(previous) && (previous <= mesialV) !== (value <= mesialV)) {
+          const fraction = (mesialV - previous) / (value - previous);
+          this.candidateIndex = index - 1 + fraction;
+          this.candidateControl = control ? this.previousControl + fraction * (controlValue - this.previousControl) : Number.NaN;
+        }
+        if (!this.high && value > mesialV + hysteresisV) {
+          this.high = true;
+          const riseIndex = Number.isFinite(this.candidateIndex) ? this.candidateIndex : index;
+          const controlV = control ? (Number.isFinite(this.candidateControl) ? this.candidateControl : controlValue) : null;
+          this.open = { riseIndex, fallIndex: null, amplitudeV: 0, controlV };
+          this.openSumV = 0;
+          this.openCount = 0;
+          started.push(this.open);
+        } else if (this.high && value < mesialV - hysteresisV) {
+          this.high = false;
+          if (this.open) {
+            this.open.fallIndex = Number.isFinite(this.candidateIndex) ? this.candidateIndex : index;
+            this.open.amplitudeV = this.openCount > 0 ? this.openSumV / this.openCount - levels.lowV : spanV;
+            completed.push(this.open);
+            this.open = null;
+          }
+        }
+        if (this.high && this.open && value > mesialV) {
+          this.openSumV += value;
+          this.openCount += 1;
+        }
+      }
+      this.previousValue = value;
+      this.previousControl = controlValue;
+    }
+    return { started, completed };
+  }
+
+  private learnLevels(value: number): void {
+    if (value < this.seenMinV) this.seenMinV = value;
+    if (value > this.seenMaxV) this.seenMaxV = value;
+    if (this.seenMaxV - this.seenMinV >= this.minimumSpanV) {
+      this.levels = { lowV: this.seenMinV, highV: this.seenMaxV };
+    }
+  }
+}

@@ -1,0 +1,163 @@
+/**
+ * One charging interval of the ramp, found inside the samples around one firing interval.
+ * Levels follow IEEE 181 ideas applied to a ramp: the floor is the level before the rise (median, robust to noise),
+ * the span runs from the floor to the peak, and the linear part lies between the 10 % and 90 % reference levels.
+ * - slope: least-squares line over the linear part;
+ * - start: where that line meets the floor (the ramp's start instant, free of the noise at the foot);
+ * - peak: the level at the end of the charging interval, from a least-squares line through the last few samples
+ *   before the reset, evaluated where the reset begins (so a low sample rate does not lose up to one sample's rise;
+ *   where it begins within the last sample interval is taken from the reset's symmetry about the crossing);
+ * - nonlinearity: largest deviation from the line over the linear part, in % of the peak;
+ * - clipping: the ramp flattens before the interval ends (the current source saturates, REFERENCES.md): the slope
+ *   over the last 10 % of the interval is below 40 % of the linear-part slope. An Early-effect ramp keeps most of its
+ *   slope to the end (about 75 % for a strong Early effect), a saturated source none (our rule).
+ */
+import { fitLine } from './leastSquares';
+
+export interface RampSegment {
+  floorV: number;
+  peakV: number;
+  /** Linear-part slope per sample interval (V); times the sample rate / 1000 gives V/ms. */
+  slopeVPerSample: number;
+  /** Start of charging (sub-sample position within the given values). */
+  startIndex: number;
+  /** End of charging: where the reset begins (sub-sample position). */
+  endIndex: number;
+  nonlinearityPct: number;
+  clipped: boolean;
+  /** Tail slope / linear-part slope, the clipping measure. */
+  tailSlopeRatio: number;
+  /** Samples in the linear-part fit. */
+  fitSamples: number;
+}
+
+export interface RampSegmentOptions {
+  /** Where to look for the foot: the index of the firing interval's starting zero crossing in `values`. */
+  windowStartIndex: number;
+  /** Index of the interval's closing zero crossing in `values`. */
+  windowEndIndex: number;
+  /** The zero crossing that ends charging (closing crossing full-wave, the falling one half-wave), when known. */
+  chargeEndCrossingIndex?: number;
+  /** Smallest floor-to-peak rise that counts as a ramp (V). */
+  minimumSpanV: number;
+}
+
+export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegmentOptions): RampSegment | null {
+  const length = values.length;
+  if (length < 4) return null;
+  // Foot: lowest sample up to a quarter of the way into the interval (the reset straddles the zero crossing).
+  const footSearchEnd = Math.min(length, Math.max(1, Math.ceil(options.windowStartIndex + (options.windowEndIndex - options.windowStartIndex) / 4)));
+  let lowIndex = 0;
+  for (let i = 1; i < footSearchEnd; i++) if (values[i] < values[lowIndex]) lowIndex = i;
+  let maxIndex = lowIndex;
+  for (let i = lowIndex + 1; i < length; i++) if (values[i] > values[maxIndex]) maxIndex = i;
+  const lowV = values[lowIndex];
+  const roughSpanV = values[maxIndex] - lowV;
+  if (!(roughSpanV >= options.minimumSpanV)) return null;
+
+  // Reset: first sample after the maximum below the 50 % level.
+  const roughMesialV = lowV + roughSpanV / 2;
+  let fallIndex = -1;
+  for (let i = maxIndex + 1; i < length; i++) {
+    if (values[i] < roughMesialV) {
+      fallIndex = i;
+      break;
+    }
+  }
+  if (fallIndex < 0) return null;
+  const fallCrossing = fallIndex - 1 + (values[fallIndex - 1] - roughMesialV) / (values[fallIndex - 1] - values[fallIndex]);
+  let lastHighIndex = fallIndex - 1;
+  const roughDistalV = lowV + 0.9 * roughSpanV;
+  while (lastHighIndex > maxIndex && values[lastHighIndex] < roughDistalV) lastHighIndex -= 1;
+
+  // Foot: the samples between the previous reset's fall and this rise (below the 50 % level).
+  const roughProximalV = lowV + 0.1 * roughSpanV;
+  let riseIndex = lastUpCrossing(values, roughProximalV, lowIndex, maxIndex);
+  if (riseIndex < 0) riseIndex = lowIndex + 1;
+  let footStart = riseIndex - 1;
+  while (footStart > 0 && values[footStart - 1] < roughMesialV) footStart -= 1;
+
+  const chargingSamples = lastHighIndex - riseIndex;
+  let endIndex = Math.min(fallCrossing, lastHighIndex + 1);
+  const indices = indexRamp(length);
+  const tailWidth = Math.max(3, Math.round(0.03 * chargingSamples));
+  const tailFit = fitLine(indices, values, { from: Math.max(riseIndex, lastHighIndex - tailWidth + 1), to: lastHighIndex + 1 });
+  const levelAt = (index: number): number => (tailFit ? tailFit.slope * index + tailFit.intercept : values[lastHighIndex]);
+  let peakV = levelAt(endIndex);
+
+  // Two passes: the floor is the median of the foot samples up to the start the line gives, and the line's
+  // 10 % level depends on the floor; starting from the lowest sample, the second pass is settled.
+  let floorV = lowV;
+  let fit: ReturnType<typeof fitLine> = null;
+  let linearFrom = riseIndex;
+  let startIndex = riseIndex;
+  for (let pass = 0; pass < 2; pass++) {
+    const spanV = peakV - floorV;
+    if (!(spanV >= options.minimumSpanV)) return null;
+    // Linear part: from the last 10 % up-crossing before the end to the first 90 % up-crossing after it.
+    const proximalV = floorV + 0.1 * spanV;
+    const distalV = floorV + 0.9 * spanV;
+    linearFrom = lastUpCrossing(values, proximalV, footStart, lastHighIndex);
+    if (linearFrom < 0) linearFrom = riseIndex;
+    let linearTo = linearFrom;
+    while (linearTo <= lastHighIndex && values[linearTo] < distalV) linearTo += 1;
+    fit = fitLine(indices, values, { from: linearFrom, to: linearTo }) ?? fitLine(indices, values, { from: linearFrom - 1, to: linearTo + 1 });
+    if (!fit || !(fit.slope > 0)) return null;
+    startIndex = (floorV - fit.intercept) / fit.slope;
+    floorV = median(values, footStart, Math.max(footStart + 1, Math.min(riseIndex, Math.floor(startIndex) + 1)));
+    startIndex = (floorV - fit.intercept) / fit.slope;
+  }
+  if (!fit) return null;
+  // The reset is symmetric about the zero crossing on the usual sync circuits (|sync| below a threshold holds the
+  // capacitor): charging ends as long before the closing crossing as it started after the opening one. The fall is
+  // only known to lie between the last high sample and the first low one, so the estimate is kept inside them.
+  if (options.chargeEndCrossingIndex !== undefined && Number.isFinite(options.chargeEndCrossingIndex)) {
+    const symmetricEnd = options.chargeEndCrossingIndex - (startIndex - options.windowStartIndex);
+    endIndex = Math.min(fallIndex, Math.max(lastHighIndex, symmetricEnd));
+    peakV = levelAt(endIndex);
+  }
+
+  // Clipping: slope over the last 10 % of the interval against the linear-part slope.
+  const tailFrom = Math.max(linearFrom, Math.floor(endIndex - 0.1 * (endIndex - startIndex)));
+  const clipFit = fitLine(indices, values, { from: tailFrom, to: lastHighIndex + 1 });
+  const tailSlopeRatio = clipFit ? clipFit.slope / fit.slope : 1;
+  return {
+    floorV,
+    peakV,
+    slopeVPerSample: fit.slope,
+    startIndex,
+    endIndex,
+    nonlinearityPct: (fit.maxAbsResidual / Math.abs(peakV)) * 100,
+    clipped: tailSlopeRatio < 0.4,
+    tailSlopeRatio,
+    fitSamples: fit.count,
+  };
+}
+
+/** Index of the first sample above `levelV` after the last crossing up through it in [from, to], or -1. */
+function lastUpCrossing(values: ArrayLike<number>, levelV: number, from: number, to: number): number {
+  for (let i = Math.min(to, values.length - 1); i > Math.max(0, from); i--) {
+    if (values[i] >= levelV && values[i - 1] < levelV) return i;
+  }
+  return -1;
+}
+
+function median(values: ArrayLike<number>, from: number, to: number): number {
+  const part = new Float64Array(Math.max(1, to - from));
+  for (let i = 0; i < part.length; i++) part[i] = values[from + i];
+  part.sort();
+  const middle = part.length >> 1;
+  return part.length % 2 === 1 ? part[middle] : (part[middle - 1] + part[middle]) / 2;
+}
+
+const indexRampCache: { values: Float64Array } = { values: new Float64Array(0) };
+
+/** 0, 1, 2, ... as x values for fits over sample positions (shared, grown on demand). */
+function indexRamp(length: number): Float64Array {
+  if (indexRampCache.values.length < length) {
+    const grown = new Float64Array(Math.max(length, indexRampCache.values.length * 2));
+    for (let i = 0; i < grown.length; i++) grown[i] = i;
+    indexRampCache.values = grown;
+  }
+  return indexRampCache.values;
+}

@@ -1,0 +1,94 @@
+/**
+ * The transfer curve (firing angle against control voltage) in constant memory: a running least-squares line
+ * (gain deg/V, offset deg) and the convex hull of the points. The largest |residual| from any line is reached at a
+ * vertex of the hull (|residual| is convex in the point), so the max deviation from linear is exact without keeping
+ * every point; a hull of noisy near-linear points stays small.
+ */
+import { LineAccumulator } from './leastSquares';
+
+export interface TransferFitReading {
+  points: number;
+  gainDegPerV: number;
+  offsetDeg: number;
+  maxDeviationDeg: number;
+  controlMinV: number;
+  controlMaxV: number;
+}
+
+interface Point {
+  x: number;
+  y: number;
+}
+
+export class TransferCurveAccumulator {
+  private readonly line = new LineAccumulator();
+  private hull: Point[] = [];
+  private controlMinV = Number.POSITIVE_INFINITY;
+  private controlMaxV = Number.NEGATIVE_INFINITY;
+
+  get points(): number {
+    return this.line.count;
+  }
+
+  add(controlV: number, alphaDeg: number): void {
+    if (!Number.isFinite(controlV) || !Number.isFinite(alphaDeg)) return;
+    this.line.add(controlV, alphaDeg);
+    if (controlV < this.controlMinV) this.controlMinV = controlV;
+    if (controlV > this.controlMaxV) this.controlMaxV = controlV;
+    const point = { x: controlV, y: alphaDeg };
+    if (this.hull.length >= 3 && insideConvex(this.hull, point)) return;
+    this.hull = convexHull([...this.hull, point]);
+  }
+
+  /**
+   * Null until there are 3 points spread over at least `minimumRangeV` of control (default 0.05 V):
+   * a gain fitted to a fixed control voltage means nothing.
+   */
+  reading(options: { minimumRangeV?: number } = {}): TransferFitReading | null {
+    const fit = this.line.fit();
+    if (!fit || this.line.count < 3 || this.controlMaxV - this.controlMinV < (options.minimumRangeV ?? 0.05)) return null;
+    let maxDeviationDeg = 0;
+    for (const vertex of this.hull) {
+      maxDeviationDeg = Math.max(maxDeviationDeg, Math.abs(vertex.y - (fit.slope * vertex.x + fit.intercept)));
+    }
+    return {
+      points: this.line.count,
+      gainDegPerV: fit.slope,
+      offsetDeg: fit.intercept,
+      maxDeviationDeg,
+      controlMinV: this.controlMinV,
+      controlMaxV: this.controlMaxV,
+    };
+  }
+}
+
+function cross(o: Point, a: Point, b: Point): number {
+  return (a.x - o.x) * (b.y - o.y) - (a.y - o.y) * (b.x - o.x);
+}
+
+/** Andrew's monotone chain; counter-clockwise, collinear points dropped. */
+export function convexHull(points: readonly Point[]): Point[] {
+  const sorted = [...points].sort((a, b) => a.x - b.x || a.y - b.y);
+  if (sorted.length < 3) return sorted;
+  const lower: Point[] = [];
+  for (const point of sorted) {
+    while (lower.length >= 2 && cross(lower[lower.length - 2], lower[lower.length - 1], point) <= 0) lower.pop();
+    lower.push(point);
+  }
+  const upper: Point[] = [];
+  for (let i = sorted.length - 1; i >= 0; i--) {
+    const point = sorted[i];
+    while (upper.length >= 2 && cross(upper[upper.length - 2], upper[upper.length - 1], point) <= 0) upper.pop();
+    upper.push(point);
+  }
+  lower.pop();
+  upper.pop();
+  return lower.concat(upper);
+}
+
+function insideConvex(hull: readonly Point[], point: Point): boolean {
+  for (let i = 0; i < hull.length; i++) {
+    if (cross(hull[i], hull[(i + 1) % hull.length], point) < 0) return false;
+  }
+  return true;
+}

@@ -15,73 +15,85 @@ const dot = 0x2e;
 const zero = 0x30;
 const nine = 0x39;
 
+/** Where the last `scanAsciiNumber` stopped: the first byte after the number and its trailing spaces. */
+export const scanState = { stop: 0 };
+
 /**
- * Parses `[spaces][+|-]digits[.digits][(e|E)[+|-]digits][spaces]` from `bytes[start, end)`.
- * Returns NaN when the text is not such a number (check `isNotANumberText` to accept a literal NaN).
+ * Reads `[spaces][+|-]digits[.digits][(e|E)[+|-]digits][spaces]` starting at `start`, stopping at the first
+ * byte that cannot continue it (a comma, say) or at `end`; `scanState.stop` says where. Returns NaN when no
+ * digits were found. Parsing while scanning saves a separate pass to find the field's end.
  */
-export function parseAsciiNumber(bytes: Uint8Array, start: number, end: number): number {
-  while (start < end && (bytes[start] === space || bytes[start] === tab)) start++;
-  while (end > start && (bytes[end - 1] === space || bytes[end - 1] === tab)) end--;
+export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number): number {
   let index = start;
+  let code = index < end ? bytes[index] : -1;
+  while (code === space || code === tab) code = ++index < end ? bytes[index] : -1;
   let negative = false;
-  if (index < end && (bytes[index] === minus || bytes[index] === plus)) {
-    negative = bytes[index] === minus;
-    index++;
+  if (code === minus || code === plus) {
+    negative = code === minus;
+    code = ++index < end ? bytes[index] : -1;
   }
   let mantissa = 0;
   let significantDigits = 0;
   let decimalExponent = 0;
   let sawDigit = false;
-  while (index < end) {
-    const code = bytes[index];
-    if (code < zero || code > nine) break;
+  // Leading zeros are not significant.
+  while (code === zero) {
     sawDigit = true;
-    if (mantissa !== 0 || code !== zero) {
-      if (significantDigits < 16) mantissa = mantissa * 10 + (code - zero);
-      else decimalExponent++;
-      significantDigits++;
-    }
-    index++;
+    code = ++index < end ? bytes[index] : -1;
   }
-  if (index < end && bytes[index] === dot) {
-    index++;
-    while (index < end) {
-      const code = bytes[index];
-      if (code < zero || code > nine) break;
+  while (code >= zero && code <= nine) {
+    sawDigit = true;
+    if (significantDigits < 16) mantissa = mantissa * 10 + (code - zero);
+    else decimalExponent++;
+    significantDigits++;
+    code = ++index < end ? bytes[index] : -1;
+  }
+  if (code === dot) {
+    code = ++index < end ? bytes[index] : -1;
+    if (mantissa === 0) {
+      while (code === zero) {
+        sawDigit = true;
+        decimalExponent--;
+        code = ++index < end ? bytes[index] : -1;
+      }
+    }
+    while (code >= zero && code <= nine) {
       sawDigit = true;
-      if (mantissa !== 0 || code !== zero) {
-        if (significantDigits < 16) {
-          mantissa = mantissa * 10 + (code - zero);
-          decimalExponent--;
-        }
-        significantDigits++;
-      } else {
+      if (significantDigits < 16) {
+        mantissa = mantissa * 10 + (code - zero);
         decimalExponent--;
       }
-      index++;
+      significantDigits++;
+      code = ++index < end ? bytes[index] : -1;
     }
   }
-  if (!sawDigit) return Number.NaN;
-  if (index < end && (bytes[index] === 0x65 || bytes[index] === 0x45)) {
-    index++;
+  if (!sawDigit) {
+    scanState.stop = index;
+    return Number.NaN;
+  }
+  if (code === 0x65 || code === 0x45) {
+    code = ++index < end ? bytes[index] : -1;
     let exponentNegative = false;
-    if (index < end && (bytes[index] === minus || bytes[index] === plus)) {
-      exponentNegative = bytes[index] === minus;
-      index++;
+    if (code === minus || code === plus) {
+      exponentNegative = code === minus;
+      code = ++index < end ? bytes[index] : -1;
     }
     let exponent = 0;
     let exponentDigits = 0;
-    while (index < end) {
-      const code = bytes[index];
-      if (code < zero || code > nine) break;
+    while (code >= zero && code <= nine) {
       if (exponent < 100000) exponent = exponent * 10 + (code - zero);
       exponentDigits++;
-      index++;
+      code = ++index < end ? bytes[index] : -1;
     }
-    if (exponentDigits === 0) return Number.NaN;
+    if (exponentDigits === 0) {
+      scanState.stop = index;
+      return Number.NaN;
+    }
     decimalExponent += exponentNegative ? -exponent : exponent;
   }
-  if (index !== end) return Number.NaN;
+  const numberEnd = index;
+  while (code === space || code === tab) code = ++index < end ? bytes[index] : -1;
+  scanState.stop = index;
   if (mantissa === 0) return negative ? -0 : 0;
   if (significantDigits <= 15 && decimalExponent >= -22 && decimalExponent <= 22) {
     const magnitude = decimalExponent < 0 ? mantissa / exactPowersOfTen[-decimalExponent] : mantissa * exactPowersOfTen[decimalExponent];
@@ -89,8 +101,17 @@ export function parseAsciiNumber(bytes: Uint8Array, start: number, end: number):
   }
   // Validated above, so Number() sees a plain decimal and rounds it correctly.
   let text = '';
-  for (let position = start; position < end; position++) text += String.fromCharCode(bytes[position]);
+  for (let position = start; position < numberEnd; position++) text += String.fromCharCode(bytes[position]);
   return Number(text);
+}
+
+/**
+ * Parses a whole field `bytes[start, end)` as a number (spaces around it allowed).
+ * Returns NaN when the field is not such a number (check `isNotANumberText` to accept a literal NaN).
+ */
+export function parseAsciiNumber(bytes: Uint8Array, start: number, end: number): number {
+  const value = scanAsciiNumber(bytes, start, end);
+  return scanState.stop === end ? value : Number.NaN;
 }
 
 /** True for `NaN` in any letter case, with optional surrounding spaces: how our CSV writer marks a missing sample. */

@@ -1,7 +1,7 @@
 import { InputError } from '../errors';
 import type { SampleBlock } from '../capture/samples';
 import { defaultBlockSamples, type CaptureReader } from './captureReader';
-import { fieldTextForMessage, isBlankText, isNotANumberText, parseAsciiNumber } from './asciiNumber';
+import { fieldTextForMessage, isBlankText, isNotANumberText, scanAsciiNumber, scanState } from './asciiNumber';
 import { parseCsvHeader, type CsvLayout } from './csvHeader';
 import { LineSplitter } from './lineSplitter';
 import { SampleBlockBuilder } from './sampleBlockBuilder';
@@ -61,21 +61,27 @@ export function createCsvReader(options: CsvReaderOptions = {}): CaptureReader {
     let fieldStart = start;
     row[0] = Number.NaN;
     for (;;) {
-      let fieldEnd = fieldStart;
-      while (fieldEnd < end && bytes[fieldEnd] !== 0x2c) fieldEnd++;
-      if (column < columnCount) {
-        const slot = slots[column];
-        if (slot >= 0) {
-          const value = parseAsciiNumber(bytes, fieldStart, fieldEnd);
-          if (value !== value && !(slot > 0 && isNotANumberText(bytes, fieldStart, fieldEnd))) {
-            const text = fieldTextForMessage(bytes, fieldStart, fieldEnd);
-            throw new InputError(`column ${currentLayout.names[column]} holds "${text}", which is not a number`, where());
-          }
-          if (slot === 0 && !Number.isFinite(value)) {
-            throw new InputError(`column ${currentLayout.names[column]} holds "${fieldTextForMessage(bytes, fieldStart, fieldEnd)}", not a time in seconds`, where());
-          }
-          row[slot] = value;
+      const slot = column < columnCount ? slots[column] : -1;
+      let fieldEnd: number;
+      if (slot >= 0) {
+        // Parse while scanning: the number should stop right at the comma or the line's end.
+        let value = scanAsciiNumber(bytes, fieldStart, end);
+        fieldEnd = scanState.stop;
+        if (fieldEnd < end && bytes[fieldEnd] !== 0x2c) {
+          value = Number.NaN;
+          while (fieldEnd < end && bytes[fieldEnd] !== 0x2c) fieldEnd++;
         }
+        if (value !== value && !(slot > 0 && isNotANumberText(bytes, fieldStart, fieldEnd))) {
+          const text = fieldTextForMessage(bytes, fieldStart, fieldEnd);
+          throw new InputError(`column ${currentLayout.names[column]} holds "${text}", which is not a number`, where());
+        }
+        if (slot === 0 && !Number.isFinite(value)) {
+          throw new InputError(`column ${currentLayout.names[column]} holds "${fieldTextForMessage(bytes, fieldStart, fieldEnd)}", not a time in seconds`, where());
+        }
+        row[slot] = value;
+      } else {
+        fieldEnd = fieldStart;
+        while (fieldEnd < end && bytes[fieldEnd] !== 0x2c) fieldEnd++;
       }
       column++;
       if (fieldEnd >= end) break;

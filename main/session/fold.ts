@@ -21,8 +21,9 @@ export function foldTraceMinMax(blocks: readonly SampleBlock[], role: SignalRole
     const values = block[role];
     if (!values) return null;
     const stepS = 1 / block.sampleRateHz;
-    const first = Math.max(0, Math.ceil((startS - block.startS) / stepS));
-    const last = Math.min(values.length, Math.ceil((endS - block.startS) / stepS));
+    // Sample positions are exact multiples of the step; the tolerance keeps rounding from taking a sample twice.
+    const first = Math.max(0, Math.ceil((startS - block.startS) / stepS - 1e-6));
+    const last = Math.min(values.length, Math.ceil((endS - block.startS) / stepS - 1e-6));
     for (let index = first; index < last; index++) {
       const deg = (360 * (block.startS + index * stepS - startS)) / periodS;
       const bucket = Math.min(buckets - 1, Math.max(0, Math.floor((deg / 360) * buckets)));

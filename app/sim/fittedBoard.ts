@@ -1,0 +1,63 @@
+/**
+ * The board as the virtual board builds it: the design, changed by the board faults, put through the one ramp
+ * model (app/board/rampModel.ts). Nothing here models the ramp a second time; faults only change part values
+ * or timing.
+ */
+import type { BoardDesign } from '../board/design';
+import { boardPartValues, type PartOverrides } from '../board/parts';
+import { predictRamp, type RampPrediction } from '../board/rampModel';
+import { InputError } from '../errors';
+import type { BoardFaultName } from './faults';
+
+/** Factors of the part faults (our own scenario values: a wrong part two preferred-value steps away). */
+export const wrongEmitterFactor = 1.5;
+export const lowCapacitorFactor = 0.7;
+/** Extra sync lag of `sync-phase-shift` (degrees). */
+export const syncShiftDeg = 20;
+/** `clipped-ramp`: the active-region rise asked for, as a multiple of the room up to the clipping level. */
+const clipOverdrive = 1.35;
+
+export interface FittedBoard {
+  design: BoardDesign;
+  partOverrides: PartOverrides;
+  prediction: RampPrediction;
+  /** Time constant of the reset discharge: discharge resistor times ramp capacitor (s). */
+  dischargeTimeConstantS: number;
+  /** Level the ramp settles to while held in reset: charging current through the discharge resistor (V). */
+  resetSettledV: number;
+  /** Extra lag of the ramp reset behind the sync test point's zero crossing (s). */
+  extraSyncLagS: number;
+}
+
+function overdrivenCapacitor(design: BoardDesign, overrides: PartOverrides): number {
+  let farad = boardPartValues(design, overrides).cRampFarad;
+  for (let pass = 0; pass < 12; pass++) {
+    const prediction = predictRamp(design, { partOverrides: { ...overrides, cRamp: farad } });
+    if (prediction.clipped && prediction.headroomV < -0.2 * (prediction.clipV - prediction.floorV)) return farad;
+    const unclippedRiseV = prediction.clipV - prediction.headroomV - prediction.floorV;
+    const wantedRiseV = clipOverdrive * (prediction.clipV - prediction.floorV);
+    // The rise goes as 1/C (slope = I/C); the Early effect bends it a little, hence the passes.
+    farad *= Math.min(0.9, unclippedRiseV / wantedRiseV);
+  }
+  return farad;
+}
+
+export function fitBoard(design: BoardDesign, faults: readonly BoardFaultName[]): FittedBoard {
+  if (faults.includes('wrong-half-cycle-pulses') && design.rectifier !== 'half-wave') {
+    throw new InputError('the fault wrong-half-cycle-pulses applies to half-wave boards only: a full-wave board fires in every half-cycle by design', '--fault');
+  }
+  const overrides: PartOverrides = {};
+  if (faults.includes('wrong-emitter-resistor')) overrides.rEmitter = design.parts.rEmitter.ohm * wrongEmitterFactor;
+  if (faults.includes('capacitor-low')) overrides.cRamp = design.parts.cRamp.farad * lowCapacitorFactor;
+  if (faults.includes('clipped-ramp')) overrides.cRamp = overdrivenCapacitor(design, overrides);
+  const prediction = predictRamp(design, { partOverrides: overrides });
+  const values = boardPartValues(design, overrides);
+  return {
+    design,
+    partOverrides: overrides,
+    prediction,
+    dischargeTimeConstantS: values.rDischargeOhm * values.cRampFarad,
+    resetSettledV: prediction.chargingCurrentA * values.rDischargeOhm,
+    extraSyncLagS: faults.includes('sync-phase-shift') ? syncShiftDeg / (360 * design.mainsHz) : 0,
+  };
+}

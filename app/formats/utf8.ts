@@ -41,42 +41,58 @@ export function encodeUtf8(text: string): Uint8Array {
   return bytes.slice(0, length);
 }
 
-/** Decodes bytes; malformed sequences become U+FFFD (one per bad byte), so any input yields a printable string. */
+/**
+ * Decodes bytes as the WHATWG Encoding Standard's UTF-8 decoder does: each maximal ill-formed subsequence
+ * becomes one U+FFFD, so any input yields a printable string.
+ */
 export function decodeUtf8(bytes: Uint8Array, start = 0, end = bytes.length): string {
   const codes: number[] = [];
-  let index = start;
-  while (index < end) {
-    const first = bytes[index];
-    if (first < 0x80) {
-      codes.push(first);
-      index++;
-      continue;
-    }
-    const extra = first >= 0xf0 && first < 0xf5 ? 3 : first >= 0xe0 ? (first < 0xf0 ? 2 : -1) : first >= 0xc2 ? 1 : -1;
-    if (extra < 0 || index + extra >= end) {
-      codes.push(0xfffd);
-      index++;
-      continue;
-    }
-    let code = first & (0xff >> (extra + 2));
-    let valid = true;
-    for (let step = 1; step <= extra; step++) {
-      const next = bytes[index + step];
-      if ((next & 0xc0) !== 0x80) {
-        valid = false;
-        break;
+  let needed = 0;
+  let seen = 0;
+  let codePoint = 0;
+  let lower = 0x80;
+  let upper = 0xbf;
+  for (let index = start; index < end; index++) {
+    const byte = bytes[index];
+    if (needed === 0) {
+      if (byte <= 0x7f) {
+        codes.push(byte);
+      } else if (byte >= 0xc2 && byte <= 0xdf) {
+        needed = 1;
+        codePoint = byte & 0x1f;
+      } else if (byte >= 0xe0 && byte <= 0xef) {
+        if (byte === 0xe0) lower = 0xa0;
+        if (byte === 0xed) upper = 0x9f;
+        needed = 2;
+        codePoint = byte & 0x0f;
+      } else if (byte >= 0xf0 && byte <= 0xf4) {
+        if (byte === 0xf0) lower = 0x90;
+        if (byte === 0xf4) upper = 0x8f;
+        needed = 3;
+        codePoint = byte & 0x07;
+      } else {
+        codes.push(0xfffd);
       }
-      code = (code << 6) | (next & 0x3f);
-    }
-    const minimum = extra === 1 ? 0x80 : extra === 2 ? 0x800 : 0x10000;
-    if (!valid || code < minimum || code > 0x10ffff || (code >= 0xd800 && code <= 0xdfff)) {
-      codes.push(0xfffd);
-      index++;
       continue;
     }
-    codes.push(code);
-    index += extra + 1;
+    if (byte < lower || byte > upper) {
+      codePoint = needed = seen = 0;
+      lower = 0x80;
+      upper = 0xbf;
+      codes.push(0xfffd);
+      index--; // the byte starts afresh
+      continue;
+    }
+    lower = 0x80;
+    upper = 0xbf;
+    codePoint = (codePoint << 6) | (byte & 0x3f);
+    seen++;
+    if (seen === needed) {
+      codes.push(codePoint);
+      codePoint = needed = seen = 0;
+    }
   }
+  if (needed !== 0) codes.push(0xfffd);
   let text = '';
   for (let offset = 0; offset < codes.length; offset += 8192) {
     text += String.fromCodePoint(...codes.slice(offset, offset + 8192));

@@ -1,0 +1,54 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { isNotANumberText, parseAsciiNumber, scanAsciiNumber, scanState } from '../../../app/formats/asciiNumber';
+
+const bytesOf = (text: string) => new TextEncoder().encode(text);
+const parse = (text: string) => {
+  const bytes = bytesOf(text);
+  return parseAsciiNumber(bytes, 0, bytes.length);
+};
+
+describe('parseAsciiNumber', () => {
+  // The outside reference is the JavaScript engine's own decimal conversion, Number(text), correctly rounded (ECMA-262).
+  it('equals Number() for the shortest text of any finite double', () => {
+    fc.assert(
+      fc.property(fc.double({ noNaN: true, noDefaultInfinity: true }), (value) => {
+        expect(Object.is(parse(String(value)), Number(String(value)))).toBe(true);
+      }),
+      { numRuns: 3000 },
+    );
+  });
+
+  it('equals Number() for fixed-decimal text as loggers and our writer print it', () => {
+    fc.assert(
+      fc.property(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.integer({ min: 0, max: 12 }), (value, digits) => {
+        const text = value.toFixed(digits);
+        expect(parse(text)).toBe(Number(text));
+      }),
+      { numRuns: 3000 },
+    );
+  });
+
+  it('equals Number() for hand-picked forms: signs, exponents, leading dots, padding, long mantissas', () => {
+    for (const text of ['0', '-0', '+7', '.5', '5.', '-.25e1', '1e-7', '1E+21', '123456789012345678', '0.000000000000000000000000012', ' 3.25 ', '\t-4\t', '9007199254740993', '1.7976931348623157e308', '4.9e-324']) {
+      expect(Object.is(parse(text), Number(text.trim()))).toBe(true);
+    }
+  });
+
+  it('rejects what is not a plain decimal number', () => {
+    for (const text of ['', ' ', '-', '.', 'e5', '1e', '1e+', '1.2.3', '1,5', '0x10', 'Infinity', 'NaN', '1 2', '--1', '1-']) {
+      expect(Number.isNaN(parse(text))).toBe(true);
+    }
+  });
+
+  it('scanning stops at the first byte that cannot continue the number', () => {
+    const bytes = bytesOf('12.5 ,x');
+    expect(scanAsciiNumber(bytes, 0, bytes.length)).toBe(12.5);
+    expect(scanState.stop).toBe(5);
+  });
+
+  it('accepts NaN in any letter case as the missing-sample marker', () => {
+    for (const text of ['NaN', 'nan', ' NAN ']) expect(isNotANumberText(bytesOf(text), 0, text.length)).toBe(true);
+    for (const text of ['NaNa', 'na', '']) expect(isNotANumberText(bytesOf(text), 0, text.length)).toBe(false);
+  });
+});

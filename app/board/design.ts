@@ -33,6 +33,13 @@ export const boardDesignSchema = z.object({
   syncResetUs: z.number().min(0).max(5000).default(300),
   /** Width of the gate pulse the board's pulse stage makes (us). Hard firing uses tens to hundreds of us (from memory). */
   gatePulseUs: z.number().positive().max(10000).default(200),
+  /** Supply of the control divider (rControlTop + potControl), when it is not supplyV (V). */
+  controlSupplyV: z.number().positive('the control supply must be above 0 V').max(100).optional(),
+  /** Ambient range the board must work over (C), for the tolerance analysis. Default 0-50 C (common practice for indoor gear). */
+  ambientC: z
+    .object({ minC: z.number().min(-55).max(125), maxC: z.number().min(-55).max(125) })
+    .refine((range) => range.minC <= range.maxC, 'ambientC.minC must not be above ambientC.maxC')
+    .default({ minC: 0, maxC: 50 }),
   parts: z.object({
     rEmitter: resistor,
     rBiasTop: resistor,

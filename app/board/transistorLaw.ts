@@ -16,6 +16,8 @@ export interface TransistorConditions {
   vebShiftV?: number;
   /** Board temperature (C); V_EB drifts by vebDriftVPerK from nominalTemperatureC. */
   temperatureC?: number;
+  /** Current gain of the fitted transistor, when it is not the design's (the junction law I_S stays the design's). */
+  beta?: number;
 }
 
 export function biasNetworkOf(design: BoardDesign, overrides: PartOverrides = {}): BiasNetwork {
@@ -33,5 +35,5 @@ export function transistorLawOf(design: BoardDesign, conditions: TransistorCondi
   const { vebV, beta, earlyV } = design.transistor;
   const nominalI = saturationCurrentFor(biasNetworkOf(design), vebV, beta, earlyV, thermalV);
   const shiftV = (conditions.vebShiftV ?? 0) + vebDriftVPerK * (temperatureC - nominalTemperatureC);
-  return { saturationCurrentA: nominalI * Math.exp(-shiftV / thermalV), beta, earlyV, thermalV };
+  return { saturationCurrentA: nominalI * Math.exp(-shiftV / thermalV), beta: conditions.beta ?? beta, earlyV, thermalV };
 }

@@ -33,6 +33,8 @@ export interface FiringBoardDeckOptions {
   partOverrides?: PartOverrides;
   /** The fitted transistor needs this much more V_EB than the design's at the same current (V). */
   vebShiftV?: number;
+  /** Current gain of the fitted transistor, when not the design's. */
+  beta?: number;
   /** Height of the gate pulse (V). Default 5 V. */
   gateHighV?: number;
 }
@@ -93,7 +95,7 @@ export function buildFiringBoardDeck(design: BoardDesign, options: FiringBoardDe
     `R2 base 0 ${number(values.rBiasBottomOhm)}`,
     `RE vcc emit ${number(values.rEmitterOhm)}`,
     `Q1 ramp base emit QRAMP`,
-    `.model QRAMP PNP(IS=${number(law.saturationCurrentA)} BF=${number(design.transistor.beta)} VAF=${number(design.transistor.earlyV)} BR=1 NF=1)`,
+    `.model QRAMP PNP(IS=${number(law.saturationCurrentA)} BF=${number(options.beta ?? design.transistor.beta)} VAF=${number(design.transistor.earlyV)} BR=1 NF=1)`,
     `Cramp ramp 0 ${number(values.cRampFarad)}`,
     `Bdischarge ramp 0 I=v(reset)*v(ramp)/${number(values.rDischargeOhm)}`,
     control,

@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { alphaForControl } from '../../../app/board/firingAngle';
 import { predictRamp } from '../../../app/board/rampModel';
 import { isInputError } from '../../../app/errors';
-import { faultDescriptions, faultNames, parseFaults } from '../../../app/sim/faults';
+import { faultDescriptions, faultNames, parseFaults, type FaultName } from '../../../app/sim/faults';
 import { createVirtualBoard } from '../../../app/sim/virtualBoard';
 import { fallingCrossings, gateEdges, halfWaveBoard, join, peaksBetween, risingCrossings } from './simFixtures';
 
@@ -15,7 +15,7 @@ const clean = { sampleRateHz: rateHz, noiseV: 0, adcBits: 16, seed: 11 } as cons
 const design = halfWaveBoard();
 const nominal = predictRamp(design);
 
-function run(faults: Parameters<typeof createVirtualBoard>[1]['faults'], extra: Record<string, unknown> = {}) {
+function run(faults: FaultName[], extra: Record<string, unknown> = {}) {
   const board = createVirtualBoard(design, { ...clean, faults, ...extra });
   return { board, signals: join([board.nextBlock(25_000)]) };
 }

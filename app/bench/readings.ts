@@ -68,6 +68,8 @@ export interface PulseSummary {
   multiplePulses: number;
   gateLowV: number | null;
   gateHighV: number | null;
+  /** Mean control voltage at the firing instants, null without a control channel. */
+  controlV: number | null;
 }
 
 export interface TransferSummary {

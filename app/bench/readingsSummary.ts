@@ -34,6 +34,7 @@ export class ReadingsSummary {
   private readonly width = new RunningStatistics();
   private readonly amplitude = new RunningStatistics();
   private readonly transfer = new TransferCurveAccumulator();
+  private readonly control = new RunningStatistics();
   private intervals = 0;
   private chargingIntervals = 0;
   private clippedIntervals = 0;
@@ -57,7 +58,10 @@ export class ReadingsSummary {
     if (reading.pulses > 1) this.multiplePulses += 1;
     if (reading.alphaDeg !== null) {
       this.alpha.add(reading.alphaDeg);
-      if (reading.controlV !== null) this.transfer.add(reading.controlV, reading.alphaDeg);
+      if (reading.controlV !== null) {
+        this.transfer.add(reading.controlV, reading.alphaDeg);
+        this.control.add(reading.controlV);
+      }
     }
     if (reading.rampPeakV !== null) {
       this.chargingIntervals += 1;
@@ -107,6 +111,7 @@ export class ReadingsSummary {
         multiplePulses: this.multiplePulses,
         gateLowV: context.gateLowV,
         gateHighV: context.gateHighV,
+        controlV: this.control.mean,
       },
       transfer: this.transfer.reading(),
       perCycle: this.perCycle,

@@ -4,10 +4,12 @@
  *   transformer's or logger's offset does not shift the crossings and partial cycles do not bias it.
  * - Hysteresis: a crossing counts only when the signal passes from below -band to above +band (or back),
  *   band = 30 % of the amplitude by default, so noise near zero never makes extra crossings (common practice).
- * - The instant is the zero of a least-squares line through the samples inside the band plus the two bracketing
- *   samples outside it: near a zero crossing a sine is close to a straight line and odd about the crossing, so the
- *   fit is unbiased and uses every sample the band holds; with only the two bracketing samples it is plain linear
- *   interpolation (IEEE 181 crossing instants).
+ * - The instant is the zero of a least-squares fit through the samples inside the band plus the two bracketing
+ *   samples outside it, so every sample the band holds counts. Near its zero crossing a sine is odd:
+ *   y = a + b u + c u^3 + O(u^5) about the crossing, so a line is fitted first and then the odd cubic about the line's
+ *   zero; a line alone is biased by the cubic term whenever the sampled window is not symmetric. With four samples or
+ *   fewer the line is kept, and with only the two bracketing samples it is plain linear interpolation (IEEE 181
+ *   crossing instants).
  */
 export type CrossingDirection = 'rising' | 'falling';
 
@@ -43,10 +45,9 @@ export class ZeroCrossingTracker {
   private entryValue = Number.NaN;
   // Whole-cycle sums for the offset and amplitude of the next cycle.
   private cycleSumV = 0;
-  private cycleCount = 0;
   private cycleMinV = Number.POSITIVE_INFINITY;
   private cycleMaxV = Number.NEGATIVE_INFINITY;
-  private seenRising = false;
+  private lastRisingIndex = Number.NaN;
 
   constructor(levels: SyncLevels, options: ZeroCrossingOptions = {}) {
     this.offsetV = levels.offsetV;
@@ -67,10 +68,9 @@ export class ZeroCrossingTracker {
     this.bandCount = 0;
     this.entryIndex = Number.NaN;
     this.cycleSumV = 0;
-    this.cycleCount = 0;
     this.cycleMinV = Number.POSITIVE_INFINITY;
     this.cycleMaxV = Number.NEGATIVE_INFINITY;
-    this.seenRising = false;
+    this.lastRisingIndex = Number.NaN;
   }
 
   /** Feeds samples numbered `firstIndex`, `firstIndex + 1`, ... and returns the crossings they complete. */
@@ -80,15 +80,15 @@ export class ZeroCrossingTracker {
       const value = values[i];
       const index = firstIndex + i;
       this.cycleSumV += value;
-      this.cycleCount += 1;
       if (value < this.cycleMinV) this.cycleMinV = value;
       if (value > this.cycleMaxV) this.cycleMaxV = value;
       const bandV = this.bandFraction * this.amplitudeV;
       const deviation = value - this.offsetV;
       if (deviation > bandV) {
         if (this.state === 'low') {
-          crossings.push({ index: this.crossingIndex(index, deviation), direction: 'rising' });
-          this.closeCycle();
+          const crossing = this.crossingIndex(index, deviation);
+          crossings.push({ index: crossing, direction: 'rising' });
+          this.closeCycle(crossing, deviation);
         }
         this.state = 'high';
         this.leaveBand(index, deviation);
@@ -130,53 +130,59 @@ export class ZeroCrossingTracker {
     this.bandCount += 1;
   }
 
-  /** Zero of the least-squares line through entry sample, band samples and exit sample. */
+  /** Zero of the least-squares fit through entry sample, band samples and exit sample (see the file comment). */
   private crossingIndex(exitIndex: number, exitValue: number): number {
     const hasEntry = Number.isFinite(this.entryIndex);
-    let count = 0;
-    let meanX = 0;
-    let meanY = 0;
-    const forEachPoint = (pass: (x: number, y: number) => void): void => {
-      if (hasEntry) pass(this.entryIndex, this.entryValue);
-      for (let k = 0; k < this.bandCount; k++) pass(this.bandIndex[k], this.bandValue[k]);
-      pass(exitIndex, exitValue);
-    };
-    // Indices are taken relative to the exit sample so a long stream's large sample numbers cost no precision.
-    forEachPoint((x, y) => {
-      count += 1;
-      meanX += x - exitIndex;
-      meanY += y;
-    });
-    meanX /= count;
-    meanY /= count;
-    let sxx = 0;
-    let sxy = 0;
-    forEachPoint((x, y) => {
-      const dx = x - exitIndex - meanX;
-      sxx += dx * dx;
-      sxy += dx * (y - meanY);
-    });
-    const lastInsideIndex = this.bandCount > 0 ? this.bandIndex[this.bandCount - 1] : hasEntry ? this.entryIndex : exitIndex - 1;
-    const firstIndex = hasEntry ? this.entryIndex : this.bandCount > 0 ? this.bandIndex[0] : exitIndex - 1;
-    if (sxx > 0 && sxy !== 0) {
-      const zero = exitIndex + meanX - meanY / (sxy / sxx);
-      if (zero >= firstIndex && zero <= exitIndex) return zero;
+    const count = this.bandCount + 1 + (hasEntry ? 1 : 0);
+    // Positions relative to the exit sample, so a long stream's large sample numbers cost no precision.
+    const x = new Float64Array(count);
+    const y = new Float64Array(count);
+    let n = 0;
+    if (hasEntry) {
+      x[n] = this.entryIndex - exitIndex;
+      y[n++] = this.entryValue;
     }
+    for (let k = 0; k < this.bandCount; k++) {
+      x[n] = this.bandIndex[k] - exitIndex;
+      y[n++] = this.bandValue[k];
+    }
+    x[n] = 0;
+    y[n] = exitValue;
+    const zero = oddCubicZero(x, y);
+    if (zero !== null && zero >= x[0] && zero <= 0) return exitIndex + zero;
     // Fallback: interpolate between the last sample before the exit and the exit sample.
-    const beforeValue = this.bandCount > 0 ? this.bandValue[this.bandCount - 1] : hasEntry ? this.entryValue : 0;
+    const beforeValue = count > 1 ? y[count - 2] : 0;
+    const beforeIndex = count > 1 ? x[count - 2] : -1;
     const fraction = beforeValue === exitValue ? 0.5 : -beforeValue / (exitValue - beforeValue);
-    return lastInsideIndex + Math.min(1, Math.max(0, fraction)) * (exitIndex - lastInsideIndex);
+    return exitIndex + beforeIndex + Math.min(1, Math.max(0, fraction)) * -beforeIndex;
   }
 
-  /** At each rising crossing: the mean over the whole cycle just ended becomes the offset (DC removed over whole cycles). */
-  private closeCycle(): void {
-    if (this.seenRising && this.cycleCount > 0) {
-      this.offsetV = this.cycleSumV / this.cycleCount;
-      this.amplitudeV = (this.cycleMaxV - this.cycleMinV) / 2;
+  /**
+   * At each rising crossing the mean over the whole cycle just ended becomes the offset (DC removed over whole
+   * cycles). The mean is taken between the two crossing instants, not between whole samples: each sample stands for
+   * one sample interval (rectangle rule) and the fractions of an interval at either end, where the signal is at the
+   * offset by definition of the crossing, are added at the offset. Otherwise a cycle of about 200 samples would carry
+   * up to half a sample's worth of the sine's slope into the offset, which moves the next crossings.
+   */
+  private closeCycle(crossing: number, exitDeviation: number): void {
+    // Samples after the crossing (the band samples past it and the exit sample) belong to the next cycle.
+    const boundary = Math.floor(crossing);
+    let tailV = exitDeviation + this.offsetV;
+    for (let k = this.bandCount - 1; k >= 0 && this.bandIndex[k] > boundary; k--) {
+      tailV += this.bandValue[k] + this.offsetV;
     }
-    this.seenRising = true;
-    this.cycleSumV = 0;
-    this.cycleCount = 0;
+    if (Number.isFinite(this.lastRisingIndex)) {
+      const start = this.lastRisingIndex;
+      const lengthSamples = crossing - start;
+      const wholeSumV = this.cycleSumV - tailV;
+      const endCorrection = Math.ceil(start) - 0.5 - start + (crossing - boundary - 0.5);
+      if (lengthSamples > 2) {
+        this.offsetV = (wholeSumV + endCorrection * this.offsetV) / lengthSamples;
+        this.amplitudeV = (this.cycleMaxV - this.cycleMinV) / 2;
+      }
+    }
+    this.lastRisingIndex = crossing;
+    this.cycleSumV = tailV;
     this.cycleMinV = Number.POSITIVE_INFINITY;
     this.cycleMaxV = Number.NEGATIVE_INFINITY;
   }
@@ -204,4 +210,64 @@ export function estimateSyncLevels(values: ArrayLike<number>): SyncLevels | null
   let sumV = 0;
   for (let i = from; i < to; i++) sumV += values[i];
   return { offsetV: sumV / (to - from), amplitudeV: rough.amplitudeV };
+}
+
+/** Zero of a line fit, refined by a fit of a + b u + c u^3 about it (Newton on the cubic); null when degenerate. */
+function oddCubicZero(x: Float64Array, y: Float64Array): number | null {
+  const count = x.length;
+  let meanX = 0;
+  let meanY = 0;
+  for (let i = 0; i < count; i++) {
+    meanX += x[i];
+    meanY += y[i];
+  }
+  meanX /= count;
+  meanY /= count;
+  let sxx = 0;
+  let sxy = 0;
+  for (let i = 0; i < count; i++) {
+    sxx += (x[i] - meanX) ** 2;
+    sxy += (x[i] - meanX) * (y[i] - meanY);
+  }
+  if (!(sxx > 0) || sxy === 0) return null;
+  const lineZero = meanX - meanY / (sxy / sxx);
+  if (count < 5) return lineZero;
+  // Normal equations of [1, u, u^3] with u = x - lineZero.
+  const m = [0, 0, 0, 0, 0, 0, 0];
+  const r = [0, 0, 0];
+  for (let i = 0; i < count; i++) {
+    const u = x[i] - lineZero;
+    const u2 = u * u;
+    const u3 = u2 * u;
+    m[0] += 1;
+    m[1] += u;
+    m[2] += u2;
+    m[3] += u3;
+    m[4] += u2 * u2;
+    m[6] += u3 * u3;
+    r[0] += y[i];
+    r[1] += u * y[i];
+    r[2] += u3 * y[i];
+  }
+  // Matrix [[n, S1, S3], [S1, S2, S4], [S3, S4, S6]] solved by Cramer's rule (3x3, well scaled by centring).
+  const a11 = m[0], a12 = m[1], a13 = m[3], a22 = m[2], a23 = m[4], a33 = m[6];
+  const determinant = a11 * (a22 * a33 - a23 * a23) - a12 * (a12 * a33 - a23 * a13) + a13 * (a12 * a23 - a22 * a13);
+  if (!(Math.abs(determinant) > 0)) return lineZero;
+  const solve = (b1: number, b2: number, b3: number, column: number): number => {
+    const c = [
+      [a11, a12, a13],
+      [a12, a22, a23],
+      [a13, a23, a33],
+    ];
+    c[0][column] = b1;
+    c[1][column] = b2;
+    c[2][column] = b3;
+    return (c[0][0] * (c[1][1] * c[2][2] - c[1][2] * c[2][1]) - c[0][1] * (c[1][0] * c[2][2] - c[1][2] * c[2][0]) + c[0][2] * (c[1][0] * c[2][1] - c[1][1] * c[2][0])) / determinant;
+  };
+  const a = solve(r[0], r[1], r[2], 0);
+  const b = solve(r[0], r[1], r[2], 1);
+  const c = solve(r[0], r[1], r[2], 2);
+  let u = -a / b;
+  for (let iteration = 0; iteration < 4; iteration++) u -= (a + b * u + c * u * u * u) / (b + 3 * c * u * u);
+  return Number.isFinite(u) ? lineZero + u : lineZero;
 }

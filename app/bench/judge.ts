@@ -1,0 +1,91 @@
+/**
+ * Readings against the board's design: one check per reading with the design's value, the tolerance and a verdict.
+ * Our rule for the verdict: within 75 % of the tolerance is in tolerance; beyond 75 % but within the tolerance is
+ * marginal (a part near its limit, worth a look before sign-off); beyond it is out of tolerance. A limit (alpha max,
+ * alpha min) is judged on how far the reading passes it. Expected values come from the design and the board model
+ * (app/board: predicted ramp start, firing angle for the measured control voltage).
+ */
+import type { Verdict } from '../contract/readings';
+import type { BoardDesign } from '../board/design';
+import { alphaForControl } from '../board/firingAngle';
+import { predictRamp } from '../board/rampModel';
+import type { CaptureReadings } from './readings';
+
+export interface ReadingCheck {
+  key: string;
+  label: string;
+  measured: number | boolean | null;
+  expected: number | boolean | null;
+  /** Allowed deviation in the reading's unit; 0 for counts that must be exact; null for yes/no checks. */
+  toleranceAbs: number | null;
+  unit: string;
+  /** Null when there was nothing to measure. */
+  verdict: Verdict | null;
+  note: string | null;
+}
+
+/** Fraction of the tolerance beyond which an in-tolerance reading is marginal (our rule). */
+export const marginalFraction = 0.75;
+
+/** Mains frequency tolerance: +-1 % (EN 50160 for interconnected systems, from memory). */
+const mainsTolerancePct = 1;
+
+/** Gate pulse width tolerance: +-20 % of the design width (our rule: RC pulse stages with 10 % capacitors). */
+const pulseWidthTolerancePct = 20;
+
+export function verdictFor(deviation: number, toleranceAbs: number): Verdict {
+  const size = Math.abs(deviation);
+  if (toleranceAbs <= 0) return size === 0 ? 'in-tolerance' : 'out-of-tolerance';
+  if (size > toleranceAbs) return 'out-of-tolerance';
+  return size > marginalFraction * toleranceAbs ? 'marginal' : 'in-tolerance';
+}
+
+function against(key: string, label: string, unit: string, measured: number | null, expected: number, toleranceAbs: number, note: string | null = null): ReadingCheck {
+  return { key, label, measured, expected, toleranceAbs, unit, verdict: measured === null ? null : verdictFor(measured - expected, toleranceAbs), note };
+}
+
+function limit(key: string, label: string, unit: string, measured: number | null, limitValue: number, toleranceAbs: number, side: 'max' | 'min'): ReadingCheck {
+  const beyond = measured === null ? 0 : side === 'max' ? Math.max(0, measured - limitValue) : Math.max(0, limitValue - measured);
+  // Approaching the limit from inside is fine; passing it is judged by how far.
+  return { key, label, measured, expected: limitValue, toleranceAbs, unit, verdict: measured === null ? null : verdictFor(beyond, toleranceAbs), note: side === 'max' ? 'limit: at most' : 'limit: at least' };
+}
+
+export function judgeReadings(readings: CaptureReadings, design: BoardDesign): ReadingCheck[] {
+  const checks: ReadingCheck[] = [];
+  const prediction = predictRamp(design);
+  checks.push(against('frequencyHz', 'Mains frequency', 'Hz', readings.frequencyHz, design.mainsHz, (design.mainsHz * mainsTolerancePct) / 100));
+  checks.push(against('rampPeakV', 'Ramp peak', 'V', readings.ramp.peakV, design.rampTargetV, (design.rampTargetV * design.tolerances.rampPeakPct) / 100));
+  const expectedStartDeg = design.syncPhaseDeg + 360 * design.mainsHz * prediction.startDelayS;
+  checks.push(against('rampStartDelayDeg', 'Ramp start after zero crossing', 'deg', readings.ramp.startDelayDeg, expectedStartDeg, design.tolerances.startDelayDeg));
+  checks.push({
+    key: 'rampClipped',
+    label: 'Ramp clipping',
+    measured: readings.ramp.chargingIntervals > 0 ? readings.ramp.clipped : null,
+    expected: false,
+    toleranceAbs: null,
+    unit: '',
+    verdict: readings.ramp.chargingIntervals === 0 ? null : readings.ramp.clipped ? 'out-of-tolerance' : 'in-tolerance',
+    note: readings.ramp.clippedIntervals > 0 ? `${readings.ramp.clippedIntervals} of ${readings.ramp.chargingIntervals} ramps flatten before the half-cycle ends` : null,
+  });
+  const alphaToleranceDeg = design.tolerances.alphaDeg;
+  if (readings.transfer) {
+    // A swept control: the fitted line at both ends of the range against the model there.
+    for (const [end, controlV] of [['Low', readings.transfer.controlMinV], ['High', readings.transfer.controlMaxV]] as const) {
+      const expected = alphaForControl(design, controlV, { prediction });
+      if (expected === null) continue;
+      const fitted = readings.transfer.offsetDeg + readings.transfer.gainDegPerV * controlV;
+      checks.push(against(`alphaAtControl${end}Deg`, `Alpha at ${controlV.toFixed(2)} V control`, 'deg', fitted, expected, alphaToleranceDeg));
+    }
+  } else if (readings.pulse.controlV !== null) {
+    const expected = alphaForControl(design, readings.pulse.controlV, { prediction });
+    if (expected !== null) checks.push(against('alphaDeg', `Alpha at ${readings.pulse.controlV.toFixed(2)} V control`, 'deg', readings.pulse.alphaDeg, expected, alphaToleranceDeg));
+  }
+  checks.push(limit('alphaMaxDeg', 'Largest alpha', 'deg', readings.pulse.alphaMaxDeg, design.alphaMaxDeg, alphaToleranceDeg, 'max'));
+  checks.push(limit('alphaMinDeg', 'Smallest alpha', 'deg', readings.pulse.alphaMinDeg, design.alphaMinDeg, alphaToleranceDeg, 'min'));
+  checks.push(against('pulseWidthUs', 'Gate pulse width', 'us', readings.pulse.widthUs, design.gatePulseUs, (design.gatePulseUs * pulseWidthTolerancePct) / 100));
+  const counted = readings.firingIntervals > 0;
+  checks.push(against('wrongHalfCyclePulses', 'Pulses in the wrong half-cycle', '', counted ? readings.pulse.wrongHalfCycle : null, 0, 0));
+  checks.push(against('missingPulses', 'Missing pulses', '', counted ? readings.pulse.missing : null, 0, 0));
+  checks.push(against('multiplePulses', 'Half-cycles with more than one pulse', '', counted ? readings.pulse.multiplePulses : null, 0, 0));
+  return checks;
+}

@@ -1,0 +1,39 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { fitLine } from '../../../app/signal/leastSquares';
+import { TransferCurveAccumulator } from '../../../app/signal/transferCurve';
+
+describe('TransferCurveAccumulator', () => {
+  it('gain, offset and max deviation equal a brute-force fit over all points (property)', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.tuple(fc.double({ min: 0, max: 10, noNaN: true }), fc.double({ min: -3, max: 3, noNaN: true })), { minLength: 3, maxLength: 200 }),
+        (points) => {
+          const accumulator = new TransferCurveAccumulator();
+          // A near-linear transfer (deg = 170 - 15 V) plus the scatter the property draws.
+          const data = points.map(([controlV, scatterDeg]) => [controlV, 170 - 15 * controlV + scatterDeg] as const);
+          for (const [controlV, alphaDeg] of data) accumulator.add(controlV, alphaDeg);
+          const reading = accumulator.reading();
+          const brute = fitLine(data.map((p) => p[0]), data.map((p) => p[1]));
+          const rangeV = Math.max(...data.map((p) => p[0])) - Math.min(...data.map((p) => p[0]));
+          if (!brute || rangeV < 0.05) {
+            expect(reading).toBeNull();
+            return;
+          }
+          expect(reading).not.toBeNull();
+          expect(reading?.gainDegPerV).toBeCloseTo(brute.slope, 5);
+          expect(reading?.offsetDeg).toBeCloseTo(brute.intercept, 4);
+          // Exactness of the hull shortcut: the same largest residual as checking every point.
+          expect(reading?.maxDeviationDeg).toBeCloseTo(brute.maxAbsResidual, 5);
+          expect(reading?.points).toBe(data.length);
+        },
+      ),
+    );
+  });
+
+  it('a fixed control voltage gives no transfer fit', () => {
+    const accumulator = new TransferCurveAccumulator();
+    for (let i = 0; i < 10; i++) accumulator.add(2.5, 90 + i * 0.01);
+    expect(accumulator.reading()).toBeNull();
+  });
+});

@@ -1,0 +1,234 @@
+/**
+ * Bench: the commissioning steps down the left; on the right the unit and session, large readings readable at arm's
+ * length, the cycle fold, link health, and the Hold / Keep capture actions.
+ */
+import type { LiveFrame } from '../../app/contract/bench-events';
+import type { CommissioningStep, LinkHealth } from '../../app/contract/readings';
+import { CycleFoldChart, type RampTarget } from '../charts/cycleFoldChart';
+import { h, fill } from '../dom/h';
+import { verdictBadge } from '../dom/verdictBadge';
+import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
+import { designText, mergeSteps, pickReading } from '../shaping/stepView';
+import { runAction, type Screen, type ScreenContext } from '../shell/screen';
+import { BenchSetup } from './benchSetup';
+import { StepList } from './stepList';
+
+const bigReadingKeys: readonly { title: string; keys: string[] }[] = [
+  { title: 'Mains frequency', keys: ['frequencyHz'] },
+  { title: 'Ramp peak', keys: ['rampPeakV', 'peakV'] },
+  { title: 'Firing angle α', keys: ['alphaDeg', 'alphaMeanDeg'] },
+  { title: 'Pulse width', keys: ['widthUs', 'pulseWidthUs'] },
+];
+
+export class BenchScreen implements Screen {
+  readonly name = 'bench' as const;
+  readonly title = 'Bench';
+  readonly element: HTMLElement;
+  private readonly setup: BenchSetup;
+  private readonly steps: StepList;
+  private readonly fold: CycleFoldChart;
+  private readonly canvas = h('canvas', { role: 'img', 'aria-label': 'Cycle fold: no cycles yet', 'data-testid': 'fold-canvas' });
+  private readonly heldBadge = h('span', { class: 'held-badge', hidden: true }, 'Held');
+  private readonly bigReadings = h('div', { class: 'big-readings', 'aria-live': 'off' });
+  private readonly linkPanel = h('div', { class: 'link-health', 'data-testid': 'link-health' });
+  private readonly sessionLine = h('div', { class: 'row', 'data-testid': 'session-line' });
+  private readonly foldCaption = h('span', { class: 'muted', 'data-testid': 'fold-caption' }, 'No cycles yet');
+  private readonly holdButton = h('button', { class: 'secondary', type: 'button', 'aria-pressed': 'false', 'data-testid': 'hold' }, 'Hold');
+  private readonly keepButton = h('button', { class: 'secondary', type: 'button', 'data-testid': 'keep-capture' }, 'Keep capture');
+  private readonly stopButton = h('button', { class: 'secondary', type: 'button', 'data-testid': 'stop-session' }, 'Close session without sign-off');
+  private readonly sessionArea: HTMLElement;
+  private lastFrame: LiveFrame | null = null;
+  /** Readings text is redrawn a few times a second, the fold every frame: numbers that flicker cannot be read. */
+  private lastTextRenderMs = 0;
+
+  constructor(private readonly context: ScreenContext) {
+    this.setup = new BenchSetup(context);
+    this.steps = new StepList({
+      check: (step, button) => void this.check(step, button),
+      open: (step) => context.go(step === 'trim' ? 'trim' : 'transfer'),
+      select: (step) => context.store.selectStep(step),
+    });
+    this.holdButton.addEventListener('click', () => this.toggleHold());
+    this.keepButton.addEventListener('click', () => this.keepCapture());
+    this.stopButton.addEventListener('click', () => void runAction(context, this.stopButton, async () => {
+      await context.client.stopSession({});
+      await context.store.refresh();
+      context.notices.show('info', 'Session closed without sign-off; it is in the logbook.');
+    }));
+    const plot = h('div', { class: 'plot' }, this.canvas);
+    this.fold = new CycleFoldChart(this.canvas);
+    this.sessionArea = h(
+      'div',
+      { class: 'bench' },
+      h('section', { 'aria-label': 'Commissioning steps' }, this.steps.element),
+      h(
+        'div',
+        { class: 'bench-main' },
+        h('section', { class: 'panel', 'aria-label': 'Unit and session' }, this.sessionLine),
+        this.bigReadings,
+        h(
+          'section',
+          { class: 'panel plot-panel', 'aria-labelledby': 'fold-title' },
+          h('h2', { id: 'fold-title' }, 'Cycle fold'),
+          this.heldBadge,
+          plot,
+          h(
+            'div',
+            { class: 'plot-caption' },
+            ...(['sync', 'ramp', 'gate', 'control'] as const).map((role) => h('span', {}, h('span', { class: `swatch ${role}`, 'aria-hidden': 'true' }), role[0].toUpperCase() + role.slice(1))),
+            h('span', {}, h('span', { class: 'swatch ramp', 'aria-hidden': 'true' }), 'dashed: ramp target and band'),
+            this.foldCaption,
+          ),
+          h('div', { class: 'row' }, this.holdButton, this.keepButton, this.stopButton),
+        ),
+        h('section', { class: 'panel', 'aria-labelledby': 'link-title' }, h('h2', { id: 'link-title' }, 'Link health'), this.linkPanel),
+      ),
+    );
+    this.element = h('div', {}, h('h1', { class: 'screen-title visually-hidden' }, 'Bench'), this.setup.element, this.sessionArea);
+    context.store.on('state', () => this.render());
+    context.store.on('step', () => this.render());
+    context.store.on('live', (frame) => this.onLive(frame as LiveFrame));
+    context.store.on('health', (health) => this.renderLink(health as LinkHealth));
+  }
+
+  shown(): void {
+    if (!this.context.store.state?.session) void this.setup.load().catch((error) => this.context.notices.fromError(error));
+    this.render();
+    if (this.lastFrame) this.drawFold(this.lastFrame);
+  }
+
+  restyle(): void {
+    this.fold.restyle();
+  }
+
+  /** Keyboard: Enter records the selected step. */
+  checkSelected(): void {
+    const button = this.element.querySelector<HTMLButtonElement>(`[data-testid="check-${this.context.store.selectedStep}"]`);
+    if (button && !button.disabled) button.click();
+  }
+
+  toggleHold(): void {
+    const held = !(this.context.store.state?.held ?? false);
+    void runAction(this.context, this.holdButton, async () => {
+      await this.context.client.setHold({ held });
+      await this.context.store.refresh();
+    });
+  }
+
+  keepCapture(): void {
+    if (!this.context.store.state?.session) {
+      this.context.notices.show('warning', 'Start a session before keeping a capture.');
+      return;
+    }
+    void runAction(this.context, this.keepButton, async () => {
+      const kept = await this.context.client.keepCapture({ seconds: 2 });
+      this.context.notices.show('info', `Kept ${kept.seconds.toFixed(1)} s of samples as capture ${kept.captureId}.`);
+    });
+  }
+
+  private async check(step: CommissioningStep, button: HTMLButtonElement): Promise<void> {
+    await runAction(this.context, button, async () => {
+      if (step === 'sign-off') {
+        const row = await this.context.client.signOff({});
+        this.context.notices.show('info', `Unit ${row.unit} signed off; session ${row.id} is in the logbook.`);
+      } else {
+        const report = await this.context.client.checkStep({ step });
+        const words = report.verdict === 'in-tolerance' ? 'in tolerance' : report.verdict === 'marginal' ? 'marginal' : report.verdict === 'out-of-tolerance' ? 'out of tolerance' : 'recorded';
+        this.context.notices.show(report.verdict === 'out-of-tolerance' ? 'warning' : 'info', `${step[0].toUpperCase()}${step.slice(1)} recorded: ${words}.`);
+      }
+      await this.context.store.refresh();
+    });
+  }
+
+  private onLive(frame: LiveFrame): void {
+    this.lastFrame = frame;
+    if (this.element.hidden) return; // not on screen: keep the frame, skip the drawing
+    this.drawFold(frame);
+    const nowMs = performance.now();
+    if (nowMs - this.lastTextRenderMs < 400) return;
+    this.lastTextRenderMs = nowMs;
+    this.renderSteps();
+    this.renderBigReadings();
+  }
+
+  private drawFold(frame: LiveFrame): void {
+    const ramp = pickReading(frame.steps, ['rampPeakV', 'peakV']);
+    const target: RampTarget | null = ramp && ramp.expected !== null ? { targetV: ramp.expected, lowV: ramp.low, highV: ramp.high } : null;
+    this.fold.update(frame.fold, target);
+    const alpha = pickReading(frame.steps, ['alphaDeg', 'alphaMeanDeg']);
+    const summary = `${this.fold.cyclesShown} cycles overlaid${alpha?.value != null ? `, firing at ${formatFixed(alpha.value, '°')}` : ''}${ramp?.value != null ? `, ramp peak ${formatSi(ramp.value, 'V')}` : ''}`;
+    this.foldCaption.textContent = summary;
+    this.canvas.setAttribute('aria-label', `Cycle fold: ${summary}`);
+    this.canvas.dataset.cycles = String(this.fold.cyclesShown);
+  }
+
+  private render(): void {
+    const state = this.context.store.state;
+    const session = state?.session ?? null;
+    this.setup.element.hidden = session !== null;
+    this.sessionArea.hidden = false;
+    fill(
+      this.sessionLine,
+      session
+        ? [
+            h('span', { class: 'chip' }, 'Unit ', h('strong', {}, session.unitSerial)),
+            h('span', { class: 'chip' }, 'Design ', h('strong', {}, `${session.designName} v${session.designVersion}`)),
+            h('span', { class: 'chip' }, 'Operator ', h('strong', {}, session.operator)),
+            h('span', { class: 'chip', 'data-testid': 'session-id' }, `Session ${session.id} · open since ${new Date(session.startedAt).toLocaleTimeString()}`),
+          ]
+        : h('span', { class: 'muted' }, 'No session open. The fold shows the link when it streams; readings are recorded once a session is open.'),
+    );
+    const held = state?.held ?? false;
+    this.holdButton.textContent = held ? 'Release hold' : 'Hold';
+    this.holdButton.setAttribute('aria-pressed', String(held));
+    this.heldBadge.hidden = !held;
+    this.keepButton.disabled = !session;
+    this.stopButton.hidden = !session;
+    this.renderSteps();
+    this.renderBigReadings();
+    if (this.context.store.health) this.renderLink(this.context.store.health);
+  }
+
+  private renderSteps(): void {
+    const state = this.context.store.state;
+    const rows = mergeSteps(state?.steps ?? [], this.lastFrame?.steps ?? []);
+    this.steps.render(rows, this.context.store.selectedStep, !!state?.session, state?.recheckNeeded ?? false);
+  }
+
+  private renderBigReadings(): void {
+    const steps = this.lastFrame?.steps ?? this.context.store.state?.steps ?? [];
+    fill(
+      this.bigReadings,
+      bigReadingKeys.map(({ title, keys }) => {
+        const reading = pickReading(steps, keys);
+        const format = (value: number | null) => formatReading(value, reading?.unit ?? '');
+        return h(
+          'div',
+          { class: 'big-reading', 'data-testid': `big-${keys[0]}` },
+          h('div', { class: 'label' }, title),
+          h('div', { class: 'value' }, reading ? format(reading.value) : '–'),
+          h('div', { class: 'design' }, reading ? verdictBadge(reading.verdict, 'No verdict') : null, ' ', reading ? designText(reading, format) ?? '' : 'waiting for signal'),
+        );
+      }),
+    );
+  }
+
+  private renderLink(link: LinkHealth): void {
+    const stateWords: Record<string, string> = { disconnected: 'Not connected', connecting: 'Connecting', streaming: 'Streaming', stalled: 'No data arriving', lost: 'Link lost' };
+    const source = link.source ? (link.source.kind === 'serial' ? `Logger on ${link.source.path}` : `Virtual board (${link.source.designName}${link.source.faults.length ? `, fault: ${link.source.faults.join(', ')}` : ''})`) : 'None';
+    const cell = (label: string, value: string, testId?: string) => h('div', { 'data-testid': testId ?? null }, h('span', {}, label), h('strong', {}, value));
+    fill(
+      this.linkPanel,
+      cell('State', stateWords[link.state] ?? link.state, 'link-state'),
+      cell('Source', source),
+      cell('Sample rate', formatSi(link.sampleRateHz, 'S/s')),
+      cell('Arriving', formatSi(link.arrivingSamplesPerS, 'S/s'), 'link-rate'),
+      cell('Blocks', String(link.blocks)),
+      cell('Dropped blocks', `${link.droppedBlocks} (${link.droppedSamples} samples)`, 'link-drops'),
+      cell('CRC errors', String(link.crcErrors), 'link-crc'),
+      cell('Bad lines', String(link.badLines)),
+      cell('Last data', link.lastDataAgoMs === null ? '–' : formatSi(link.lastDataAgoMs / 1000, 's') + ' ago'),
+      link.message ? h('div', {}, h('span', {}, 'Message'), h('strong', {}, link.message)) : null,
+    );
+  }
+}

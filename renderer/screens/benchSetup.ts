@@ -1,0 +1,88 @@
+/**
+ * Starting a session: which board design, which unit, who is at the bench, and where the signals come from
+ * (the logger on a serial port, or the virtual board with a fault of our own to practise on).
+ */
+import type { ConnectPayload } from '../../app/contract/calls';
+import { h, fill, uniqueId } from '../dom/h';
+import { runAction, type ScreenContext } from '../shell/screen';
+
+/** The virtual board's named faults (issue on the bench link), in words a technician reads. */
+const virtualFaults: readonly { id: string; label: string }[] = [
+  { id: '', label: 'No fault: a board built to its design' },
+  { id: 'wrong-emitter-resistor', label: 'Wrong emitter resistor fitted' },
+  { id: 'capacitor-low', label: 'Ramp capacitor below value' },
+  { id: 'sync-phase-shift', label: 'Sync phase shifted' },
+  { id: 'missing-pulses', label: 'Missing gate pulses' },
+  { id: 'wrong-half-cycle', label: 'Pulses in the wrong half-cycle' },
+  { id: 'noisy-sync', label: 'Noisy sync' },
+  { id: 'clipped-ramp', label: 'Ramp clipping' },
+];
+
+function field(label: string, control: HTMLElement, hint?: string): HTMLElement {
+  const id = uniqueId('setup');
+  control.id = id;
+  return h('label', { class: 'field', for: id }, label, control, hint ? h('span', { class: 'muted' }, hint) : null);
+}
+
+export class BenchSetup {
+  readonly element: HTMLElement;
+  private readonly designSelect = h('select', { name: 'design', 'data-testid': 'setup-design' });
+  private readonly serialInput = h('input', { name: 'unit', type: 'text', autocomplete: 'off', placeholder: 'e.g. FB-2026-0142', 'data-testid': 'setup-unit' });
+  private readonly operatorInput = h('input', { name: 'operator', type: 'text', autocomplete: 'name', placeholder: 'Your name', 'data-testid': 'setup-operator' });
+  private readonly sourceSelect = h('select', { name: 'source', 'data-testid': 'setup-source' });
+  private readonly faultSelect = h('select', { name: 'fault', 'data-testid': 'setup-fault' }, virtualFaults.map((fault) => h('option', { value: fault.id }, fault.label)));
+  private readonly faultField: HTMLElement;
+  private readonly startButton = h('button', { class: 'primary', type: 'submit', 'data-testid': 'start-session' }, 'Connect and start session');
+  private readonly problem = h('p', { class: 'field-problem', role: 'alert' });
+
+  constructor(private readonly context: ScreenContext) {
+    this.faultField = field('Virtual board fault', this.faultSelect, 'The virtual board follows the design, then adds this fault.');
+    this.sourceSelect.addEventListener('change', () => this.updateSource());
+    const form = h(
+      'form',
+      { class: 'stack', 'aria-label': 'Start a session', onsubmit: (event: Event) => { event.preventDefault(); void this.start(); } },
+      h('div', { class: 'form-grid' }, field('Board design', this.designSelect), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect)),
+      this.faultField,
+      this.problem,
+      h('div', { class: 'row' }, this.startButton, h('button', { class: 'secondary', type: 'button', onclick: () => context.go('board') }, 'Edit board designs')),
+    );
+    this.element = h('section', { class: 'panel stack', 'aria-labelledby': 'setup-title' }, h('h2', { id: 'setup-title' }, 'Start a session'), h('p', { class: 'muted' }, 'Pick the board design, type the unit’s serial number and connect. Readings go into the logbook as they come.'), form);
+  }
+
+  async load(): Promise<void> {
+    const [designs, ports] = await Promise.all([this.context.client.listDesigns(), this.context.client.listPorts().catch(() => ({ ports: [] }))]);
+    const previous = this.designSelect.value;
+    fill(this.designSelect, designs.designs.length === 0 ? h('option', { value: '' }, 'No designs yet: add one on the Board screen') : designs.designs.map((design) => h('option', { value: design.name }, `${design.name} (v${design.version}, ${design.mainsHz} Hz ${design.rectifier})`)));
+    if (previous) this.designSelect.value = previous;
+    const previousSource = this.sourceSelect.value;
+    fill(this.sourceSelect, h('option', { value: 'virtual' }, 'Virtual board (no hardware)'), ports.ports.map((port) => h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.manufacturer ? ` (${port.manufacturer})` : ''}`)));
+    if (previousSource) this.sourceSelect.value = previousSource;
+    this.updateSource();
+  }
+
+  private updateSource(): void {
+    this.faultField.hidden = this.sourceSelect.value !== 'virtual';
+  }
+
+  private async start(): Promise<void> {
+    const designName = this.designSelect.value;
+    const unitSerial = this.serialInput.value.trim();
+    const operator = this.operatorInput.value.trim();
+    const missing = [!designName && 'a board design', !unitSerial && 'the unit serial number', !operator && 'the operator'].filter(Boolean);
+    if (missing.length > 0) {
+      this.problem.textContent = `Please give ${missing.join(', ')}.`;
+      return;
+    }
+    this.problem.textContent = '';
+    const source = this.sourceSelect.value;
+    const payload: ConnectPayload = source.startsWith('serial:')
+      ? { kind: 'serial', path: source.slice('serial:'.length) }
+      : { kind: 'virtual', designName, faults: this.faultSelect.value ? [this.faultSelect.value] : [] };
+    await runAction(this.context, this.startButton, async () => {
+      const link = this.context.store.health;
+      if (!link || link.state === 'disconnected' || link.state === 'lost') await this.context.client.connect(payload);
+      await this.context.client.startSession({ unitSerial, designName, operator });
+      await this.context.store.refresh();
+    });
+  }
+}

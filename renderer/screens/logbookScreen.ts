@@ -1,0 +1,286 @@
+/**
+ * Logbook: units and sessions with filters; one session's readings, transfer curve, per-cycle plot, trims and link
+ * events; two sessions side by side; a unit's drift across its sessions.
+ */
+import type { SessionComparison, SessionDetail, SessionRow } from '../../app/contract/records';
+import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
+import { base64ToBytes, downloadBytes } from '../dom/download';
+import { h, fill, uniqueId } from '../dom/h';
+import { verdictBadge } from '../dom/verdictBadge';
+import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
+import { readingsCsv } from '../shaping/readingsCsv';
+import { stepTitles } from '../shaping/stepView';
+import { fitLinePoints, toPoints } from '../shaping/transferView';
+import { runAction, type Screen, type ScreenContext } from '../shell/screen';
+
+type LineChart = Chart<'line', { x: number; y: number }[]>;
+
+export class LogbookScreen implements Screen {
+  readonly name = 'logbook' as const;
+  readonly title = 'Logbook';
+  readonly element: HTMLElement;
+  private readonly unitSelect = h('select', { 'data-testid': 'filter-unit' });
+  private readonly designSelect = h('select', { 'data-testid': 'filter-design' });
+  private readonly fromInput = h('input', { type: 'date', 'data-testid': 'filter-from' });
+  private readonly toInput = h('input', { type: 'date', 'data-testid': 'filter-to' });
+  private readonly unitsList = h('ul', { class: 'stack', 'data-testid': 'units-list' });
+  private readonly sessionsTable = h('div', { 'data-testid': 'sessions' });
+  private readonly compareButton = h('button', { class: 'primary', type: 'button', disabled: true, 'data-testid': 'compare' }, 'Compare the two ticked sessions');
+  private readonly detail = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Session', 'data-testid': 'session-detail' });
+  private readonly comparison = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Two sessions side by side', 'data-testid': 'comparison' });
+  private readonly drift = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Drift of the unit', 'data-testid': 'drift' });
+  private readonly charts: LineChart[] = [];
+  private sessions: SessionRow[] = [];
+  private ticked: number[] = [];
+  private selectedId: number | null = null;
+
+  constructor(private readonly context: ScreenContext) {
+    for (const control of [this.unitSelect, this.designSelect, this.fromInput, this.toInput]) control.addEventListener('change', () => void this.loadSessions());
+    this.compareButton.addEventListener('click', () => void this.compare());
+    const field = (label: string, control: HTMLElement) => {
+      const id = uniqueId('filter');
+      control.id = id;
+      return h('label', { class: 'field', for: id }, label, control);
+    };
+    this.element = h(
+      'div',
+      {},
+      h('h1', { class: 'screen-title' }, 'Logbook'),
+      h(
+        'div',
+        { class: 'logbook' },
+        h(
+          'div',
+          { class: 'stack' },
+          h('section', { class: 'panel stack', 'aria-labelledby': 'filters-title' }, h('h2', { id: 'filters-title' }, 'Filters'), field('Unit', this.unitSelect), field('Board design', this.designSelect), field('From', this.fromInput), field('To', this.toInput)),
+          h('section', { class: 'panel stack', 'aria-labelledby': 'units-title' }, h('h2', { id: 'units-title' }, 'Units'), this.unitsList),
+        ),
+        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sessionsTable, h('div', { class: 'row' }, this.compareButton)), this.detail, this.comparison, this.drift),
+      ),
+    );
+  }
+
+  shown(): void {
+    void this.loadFilters().then(() => this.loadSessions());
+  }
+
+  restyle(): void {
+    for (const chart of this.charts) restyleChart(chart);
+  }
+
+  private async loadFilters(): Promise<void> {
+    const result = await runAction(this.context, null, () => Promise.all([this.context.client.listUnits({}), this.context.client.listDesigns()]));
+    if (!result) return;
+    const [units, designs] = result;
+    const unitValue = this.unitSelect.value;
+    const designValue = this.designSelect.value;
+    fill(this.unitSelect, h('option', { value: '' }, 'All units'), units.units.map((unit) => h('option', { value: unit.serial }, unit.serial)));
+    fill(this.designSelect, h('option', { value: '' }, 'All designs'), designs.designs.map((design) => h('option', { value: design.name }, design.name)));
+    this.unitSelect.value = unitValue;
+    this.designSelect.value = designValue;
+    fill(
+      this.unitsList,
+      units.units.length === 0 ? h('li', { class: 'empty' }, 'No units yet: commission one on the Bench screen.') : null,
+      units.units.map((unit) => {
+        const pick = h('button', { class: 'secondary', type: 'button', 'data-unit': unit.serial }, unit.serial);
+        pick.addEventListener('click', () => {
+          this.unitSelect.value = unit.serial;
+          void this.loadSessions();
+          void this.showDrift(unit.serial);
+        });
+        return h('li', {}, pick, h('div', { class: 'muted' }, `${unit.designName ?? 'no design'} · ${unit.sessions} session${unit.sessions === 1 ? '' : 's'}${unit.lastSessionAt ? ` · last ${new Date(unit.lastSessionAt).toLocaleDateString()}` : ''}`));
+      }),
+    );
+  }
+
+  private async loadSessions(): Promise<void> {
+    const dayStart = (value: string, end: boolean) => (value ? `${value}T${end ? '23:59:59' : '00:00:00'}Z` : undefined);
+    const result = await runAction(this.context, null, () =>
+      this.context.client.listSessions({ unitSerial: this.unitSelect.value || undefined, designName: this.designSelect.value || undefined, from: dayStart(this.fromInput.value, false), to: dayStart(this.toInput.value, true) }),
+    );
+    if (!result) return;
+    this.sessions = result.sessions;
+    this.ticked = this.ticked.filter((id) => this.sessions.some((session) => session.id === id));
+    this.renderSessions();
+    if (this.unitSelect.value) void this.showDrift(this.unitSelect.value);
+    else this.drift.hidden = true;
+  }
+
+  private renderSessions(): void {
+    this.compareButton.disabled = this.ticked.length !== 2;
+    if (this.sessions.length === 0) {
+      fill(this.sessionsTable, h('p', { class: 'empty' }, 'No sessions match these filters.'));
+      return;
+    }
+    const statusWords = { open: 'Open', closed: 'Closed', interrupted: 'Interrupted' } as const;
+    fill(
+      this.sessionsTable,
+      h(
+        'table',
+        { class: 'data' },
+        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Design', 'Operator', 'Status', 'Started', 'Cycles', 'α', 'Ramp peak', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
+        h(
+          'tbody',
+          {},
+          this.sessions.map((session) => {
+            const tick = h('input', { type: 'checkbox', 'aria-label': `Compare session ${session.id}`, checked: this.ticked.includes(session.id), 'data-testid': `tick-${session.id}` });
+            tick.addEventListener('click', (event) => event.stopPropagation());
+            tick.addEventListener('change', () => {
+              this.ticked = tick.checked ? [...this.ticked.filter((id) => id !== session.id), session.id].slice(-2) : this.ticked.filter((id) => id !== session.id);
+              this.renderSessions();
+            });
+            const open = h('button', { class: 'secondary', type: 'button', 'data-testid': `open-session-${session.id}` }, `#${session.id}`);
+            open.addEventListener('click', () => void this.showDetail(session.id));
+            return h(
+              'tr',
+              { 'aria-selected': String(session.id === this.selectedId), 'data-session': session.id },
+              h('td', {}, tick),
+              h('td', {}, open),
+              h('td', {}, session.unit),
+              h('td', {}, `${session.designName} v${session.designVersion}`),
+              h('td', {}, session.operator),
+              h('td', {}, statusWords[session.status]),
+              h('td', {}, new Date(session.startedAt).toLocaleString()),
+              h('td', { class: 'number' }, session.cycles),
+              h('td', { class: 'number' }, formatFixed(session.alphaDeg, '°')),
+              h('td', { class: 'number' }, formatSi(session.rampPeakV, 'V')),
+              h('td', { class: 'number' }, session.linkErrors),
+            );
+          }),
+        ),
+      ),
+    );
+  }
+
+  private async showDetail(sessionId: number): Promise<void> {
+    const detail = await runAction(this.context, null, () => this.context.client.sessionDetail({ sessionId }));
+    if (!detail) return;
+    this.selectedId = sessionId;
+    this.renderSessions();
+    this.renderDetail(detail);
+  }
+
+  private renderDetail(detail: SessionDetail): void {
+    const row = detail.row;
+    const transferCanvas = h('canvas', { role: 'img', 'aria-label': `Transfer curve of session ${row.id}: ${detail.transfer.points.length} points`, 'data-testid': 'detail-transfer-canvas', 'data-points': String(detail.transfer.points.length) });
+    const cycleCanvas = h('canvas', { role: 'img', 'aria-label': `Ramp peak per cycle over session ${row.id}`, 'data-testid': 'detail-cycles-canvas', 'data-points': String(detail.perCycle.length) });
+    const exportArea = h('div', { class: 'row' });
+    const csv = h('button', { class: 'secondary', type: 'button', 'data-testid': 'export-readings' }, 'Export readings (CSV)');
+    csv.addEventListener('click', () => downloadBytes(`${row.unit}-session-${row.id}-readings.csv`, 'text/csv', readingsCsv(detail.steps)));
+    exportArea.appendChild(csv);
+    void this.context.client.exportFormats().then(
+      (result) => {
+        for (const format of result.formats) {
+          const button = h('button', { class: 'secondary', type: 'button' }, `Export ${format.label}`);
+          button.addEventListener('click', () => void runAction(this.context, button, async () => {
+            const file = await this.context.client.exportSession({ sessionId: row.id, format: format.id });
+            downloadBytes(file.fileName, file.mediaType, base64ToBytes(file.contentBase64));
+          }));
+          exportArea.appendChild(button);
+        }
+      },
+      () => undefined, // no registered formats: the CSV button stays
+    );
+    const readingRows = detail.steps.flatMap((step) =>
+      step.readings.map((reading) =>
+        h('tr', {}, h('td', {}, stepTitles[step.step]), h('td', {}, reading.label), h('td', { class: 'number', 'data-reading': reading.key }, formatReading(reading.value, reading.unit)), h('td', { class: 'number' }, formatReading(reading.expected, reading.unit)), h('td', {}, verdictBadge(reading.verdict, 'No verdict'))),
+      ),
+    );
+    fill(
+      this.detail,
+      h('h2', {}, `Session ${row.id}: unit ${row.unit}`),
+      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.status} · ${row.cycles} cycles`),
+      detail.notes ? h('p', {}, detail.notes) : null,
+      h('h3', {}, 'Readings'),
+      readingRows.length > 0 ? h('table', { class: 'data', 'data-testid': 'detail-readings' }, h('thead', {}, h('tr', {}, ['Step', 'Reading', 'Value', 'Design', 'Verdict'].map((title) => h('th', { scope: 'col' }, title)))), h('tbody', {}, readingRows)) : h('p', { class: 'empty' }, 'No step was recorded in this session.'),
+      h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), h('div', { class: 'plot small' }, transferCanvas)), h('div', {}, h('h3', {}, 'Ramp peak per cycle'), h('div', { class: 'plot small' }, cycleCanvas))),
+      h('h3', {}, 'Trims applied'),
+      detail.trims.length > 0 ? h('ul', {}, detail.trims.map((trim) => h('li', {}, `${trim.part}: ${formatSi(trim.fromOhm, 'Ω')} → ${formatSi(trim.toOhm, 'Ω')} (${trim.reason || 'no reason given'}), ${new Date(trim.at).toLocaleTimeString()}`))) : h('p', { class: 'empty' }, 'None.'),
+      h('h3', {}, 'Link events'),
+      detail.linkEvents.length > 0 ? h('ul', {}, detail.linkEvents.slice(0, 20).map((event) => h('li', {}, `${new Date(event.at).toLocaleTimeString()} ${event.kind}: ${event.detail}`))) : h('p', { class: 'empty' }, 'None: the link was clean.'),
+      exportArea,
+    );
+    this.detail.hidden = false;
+    const transfer = this.chart(transferCanvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${value}°`);
+    const fit = detail.transfer.fit;
+    transfer.data.datasets = [
+      pointsDataset('Points', cssColour('gate'), toPoints(detail.transfer.points), { pointRadius: 2 }),
+      lineDataset('Fit', cssColour('control'), fit ? fitLinePoints(fit, fit.controlMinV, fit.controlMaxV) : [], { borderWidth: 2 }),
+    ];
+    transfer.update('none');
+    const cycles = this.chart(cycleCanvas, 'Seconds into the session', 'Ramp peak', (value) => `${value} s`, (value) => `${value} V`);
+    cycles.data.datasets = [lineDataset('Ramp peak', cssColour('ramp'), detail.perCycle.filter((cycle) => cycle.rampPeakV !== null).map((cycle) => ({ x: cycle.t, y: cycle.rampPeakV as number })), { borderWidth: 1.5 })];
+    cycles.update('none');
+  }
+
+  private async compare(): Promise<void> {
+    if (this.ticked.length !== 2) return;
+    const [sessionIdA, sessionIdB] = [...this.ticked].sort((a, b) => a - b);
+    const comparison = await runAction(this.context, this.compareButton, () => this.context.client.compareSessions({ sessionIdA, sessionIdB }));
+    if (comparison) this.renderComparison(comparison);
+  }
+
+  private renderComparison(comparison: SessionComparison): void {
+    const canvas = h('canvas', { role: 'img', 'aria-label': `Transfer curves of sessions ${comparison.a.id} and ${comparison.b.id} overlaid`, 'data-testid': 'compare-canvas', 'data-points': String(comparison.transferA.length + comparison.transferB.length) });
+    fill(
+      this.comparison,
+      h('h2', {}, `Session ${comparison.a.id} and session ${comparison.b.id} side by side`),
+      h(
+        'table',
+        { class: 'data', 'data-testid': 'comparison-table' },
+        h('thead', {}, h('tr', {}, ['Reading', `#${comparison.a.id} (${comparison.a.unit})`, `#${comparison.b.id} (${comparison.b.unit})`, 'Difference', ''].map((title) => h('th', { scope: 'col' }, title)))),
+        h(
+          'tbody',
+          {},
+          comparison.rows.map((row) =>
+            h('tr', {}, h('td', {}, row.label), h('td', { class: 'number' }, formatReading(row.a, row.unit)), h('td', { class: 'number' }, formatReading(row.b, row.unit)), h('td', { class: 'number' }, formatReading(row.difference, row.unit)), h('td', {}, row.beyondTolerance ? h('span', { class: 'flag' }, '✕ beyond tolerance') : h('span', { class: 'muted' }, 'within tolerance'))),
+          ),
+        ),
+      ),
+      h('div', { class: 'plot small' }, canvas),
+      h('div', { class: 'plot-caption' }, h('span', {}, h('span', { class: 'swatch gate', 'aria-hidden': 'true' }), `session ${comparison.a.id}`), h('span', {}, h('span', { class: 'swatch control', 'aria-hidden': 'true' }), `session ${comparison.b.id}`)),
+    );
+    this.comparison.hidden = false;
+    const chart = this.chart(canvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${value}°`);
+    chart.data.datasets = [pointsDataset(`Session ${comparison.a.id}`, cssColour('gate'), toPoints(comparison.transferA), { pointRadius: 2 }), pointsDataset(`Session ${comparison.b.id}`, cssColour('control'), toPoints(comparison.transferB), { pointRadius: 2, pointStyle: 'triangle' })];
+    chart.update('none');
+  }
+
+  private async showDrift(unitSerial: string): Promise<void> {
+    const result = await runAction(this.context, null, () => this.context.client.drift({ unitSerial }));
+    if (!result) return;
+    const canvas = h('canvas', { role: 'img', 'aria-label': `Ramp peak of unit ${unitSerial} across ${result.points.length} sessions`, 'data-testid': 'drift-canvas', 'data-points': String(result.points.length) });
+    fill(
+      this.drift,
+      h('h2', {}, `Drift of unit ${unitSerial}`),
+      h(
+        'table',
+        { class: 'data' },
+        h('thead', {}, h('tr', {}, ['Session', 'Date', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'α jitter'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaStdDeg, '°', 2))))),
+      ),
+      h('div', { class: 'plot small' }, canvas),
+    );
+    this.drift.hidden = false;
+    const chart = this.chart(canvas, 'Session number', 'Ramp peak', (value) => `#${value}`, (value) => `${value} V`);
+    chart.data.datasets = [lineDataset('Ramp peak', cssColour('ramp'), result.points.filter((point) => point.rampPeakV !== null).map((point) => ({ x: point.sessionId, y: point.rampPeakV as number })), { pointRadius: 4, borderWidth: 2 })];
+    chart.update('none');
+  }
+
+  private chart(canvas: HTMLCanvasElement, xTitle: string, yTitle: string, xTick: (value: number) => string, yTick: (value: number) => string): LineChart {
+    this.replaceCharts();
+    const chart = createXyChart(canvas, { xTitle, yTitle, xTick, yTick, tooltip: true });
+    this.charts.push(chart);
+    return chart;
+  }
+
+  /** Charts whose canvas left the page are destroyed (chart.js keeps listeners otherwise). */
+  private replaceCharts(): void {
+    for (let index = this.charts.length - 1; index >= 0; index--) {
+      if (!this.charts[index].canvas.isConnected) {
+        this.charts[index].destroy();
+        this.charts.splice(index, 1);
+      }
+    }
+  }
+}

@@ -1,0 +1,182 @@
+/**
+ * Trim: the ranked trim plan (which part, which standard value, what the ramp will then do), the predicted ramp
+ * drawn over the measured one, and "I fitted this", which records the change and asks for a re-check.
+ */
+import type { TrimPlanView, TrimSuggestion } from '../../app/contract/records';
+import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
+import { h, fill, uniqueId } from '../dom/h';
+import { formatSi } from '../shaping/formatSi';
+import { foldTracePoints } from '../shaping/foldPoints';
+import { runAction, type Screen, type ScreenContext } from '../shell/screen';
+
+const methodWords: Record<TrimSuggestion['method'], string> = { replace: 'Replace', parallel: 'Add in parallel', series: 'Add in series' };
+const partWords: Record<string, string> = { rEmitter: 'Emitter resistor', rBiasTop: 'Bias divider, top', rBiasBottom: 'Bias divider, bottom', rControlTop: 'Control limit resistor', cRamp: 'Ramp capacitor' };
+
+export class TrimScreen implements Screen {
+  readonly name = 'trim' as const;
+  readonly title = 'Trim';
+  readonly element: HTMLElement;
+  private readonly seriesSelect = h('select', { 'data-testid': 'trim-series' }, ['E12', 'E24', 'E48', 'E96'].map((series) => h('option', { value: series }, series)));
+  private readonly refreshButton = h('button', { class: 'secondary', type: 'button', 'data-testid': 'trim-refresh' }, 'Work out the plan again');
+  private readonly summary = h('div', { class: 'stack', 'data-testid': 'trim-summary', 'aria-live': 'polite' });
+  private readonly table = h('div', { 'data-testid': 'trim-plan' });
+  private readonly recheck = h('div', { class: 'banner', role: 'alert', hidden: true, 'data-testid': 'trim-recheck' });
+  private readonly canvas = h('canvas', { role: 'img', 'aria-label': 'Ramp: measured and predicted', 'data-testid': 'trim-canvas' });
+  private readonly chart: Chart<'line', { x: number; y: number }[]>;
+  private plan: TrimPlanView | null = null;
+  private chosen = 0;
+
+  constructor(private readonly context: ScreenContext) {
+    this.seriesSelect.value = 'E24';
+    this.chart = createXyChart(this.canvas, { xTitle: 'Electrical degrees', yTitle: 'Ramp volts', xMin: 0, xMax: 360, xStep: 30, xTick: (value) => `${value}°`, yTick: (value) => `${value} V`, tooltip: true });
+    this.seriesSelect.addEventListener('change', () => void this.load());
+    this.refreshButton.addEventListener('click', () => void this.load());
+    const seriesId = uniqueId('series');
+    this.seriesSelect.id = seriesId;
+    this.element = h(
+      'div',
+      {},
+      h('h1', { class: 'screen-title' }, 'Trim plan'),
+      this.recheck,
+      h(
+        'div',
+        { class: 'two-columns' },
+        h(
+          'div',
+          { class: 'stack' },
+          h('section', { class: 'panel stack', 'aria-label': 'Plan' }, h('div', { class: 'row' }, h('label', { class: 'field', for: seriesId }, 'Standard values from', this.seriesSelect), this.refreshButton), this.summary),
+          h('section', { class: 'panel', 'aria-labelledby': 'trim-list-title' }, h('h2', { id: 'trim-list-title' }, 'Changes, best first'), this.table),
+        ),
+        h(
+          'section',
+          { class: 'panel', 'aria-labelledby': 'trim-plot-title' },
+          h('h2', { id: 'trim-plot-title' }, 'Ramp: measured and predicted'),
+          h('div', { class: 'plot small' }, this.canvas),
+          h(
+            'div',
+            { class: 'plot-caption' },
+            h('span', {}, h('span', { class: 'swatch ramp', 'aria-hidden': 'true' }), 'measured'),
+            h('span', {}, h('span', { class: 'swatch control', 'aria-hidden': 'true' }), 'predicted after the change (dashed)'),
+            h('span', {}, h('span', { class: 'swatch sync', 'aria-hidden': 'true' }), 'target'),
+          ),
+        ),
+      ),
+    );
+    context.store.on('state', () => this.renderRecheck());
+  }
+
+  shown(): void {
+    void this.load();
+    this.renderRecheck();
+  }
+
+  restyle(): void {
+    restyleChart(this.chart);
+    this.draw();
+  }
+
+  private async load(): Promise<void> {
+    if (!this.context.store.state?.session) {
+      this.plan = null;
+      fill(this.summary, h('p', { class: 'empty' }, 'Start a session on the Bench screen; the plan comes from the ramp readings.'));
+      fill(this.table);
+      this.draw();
+      return;
+    }
+    const plan = await runAction(this.context, this.refreshButton, () => this.context.client.trimPlan({ series: this.seriesSelect.value as 'E24' }));
+    if (!plan) return;
+    this.plan = plan;
+    this.chosen = 0;
+    this.render();
+  }
+
+  private render(): void {
+    const plan = this.plan;
+    if (!plan) return;
+    fill(
+      this.summary,
+      h('p', { class: 'big-reading' }, h('span', { class: 'label' }, 'Ramp peak now'), h('span', { class: 'value', 'data-testid': 'trim-measured' }, formatSi(plan.measuredPeakV, 'V')), h('span', { class: 'design' }, ` target ${formatSi(plan.targetPeakV, 'V')}`)),
+      h('p', { 'data-testid': 'trim-message' }, plan.message),
+      plan.estimate ? h('p', { class: 'muted' }, `The board behaves as if the charging current were ${formatSi(plan.estimate.chargingCurrentA, 'A')} with V_EB ${formatSi(plan.estimate.vebV, 'V')}. A current error and a capacitance error look the same from the ramp alone.`) : null,
+    );
+    if (plan.suggestions.length === 0) {
+      fill(this.table, h('p', { class: 'empty', 'data-testid': 'trim-none' }, plan.inTolerance ? 'The ramp is in tolerance: nothing to change.' : 'No standard value brings the ramp to its target; check the parts against the design.'));
+      this.draw();
+      return;
+    }
+    fill(
+      this.table,
+      h(
+        'table',
+        { class: 'data' },
+        h('thead', {}, h('tr', {}, ['Rank', 'Part', 'Change', 'Value', 'Predicted peak', 'Headroom', 'Why', ''].map((title) => h('th', { scope: 'col' }, title)))),
+        h(
+          'tbody',
+          {},
+          plan.suggestions.map((suggestion, index) => {
+            const fitted = h('button', { class: index === 0 ? 'primary' : 'secondary', type: 'button', 'data-testid': `fitted-${index}` }, 'I fitted this');
+            fitted.addEventListener('click', (event) => {
+              event.stopPropagation();
+              void this.applyTrim(suggestion, fitted);
+            });
+            return h(
+              'tr',
+              { class: 'clickable', 'aria-selected': String(index === this.chosen), onclick: () => { this.chosen = index; this.render(); } },
+              h('td', { class: 'number' }, index + 1),
+              h('td', {}, `${partWords[suggestion.part] ?? suggestion.part}${suggestion.partRef ? ` (${suggestion.partRef})` : ''}`),
+              h('td', {}, methodWords[suggestion.method]),
+              h('td', { class: 'number' }, suggestion.addOhm !== null ? `${formatSi(suggestion.addOhm, 'Ω')} ${suggestion.series} → ${formatSi(suggestion.toOhm, 'Ω')}` : `${formatSi(suggestion.fromOhm, 'Ω')} → ${formatSi(suggestion.toOhm, 'Ω')} ${suggestion.series}`),
+              h('td', { class: 'number' }, formatSi(suggestion.predictedPeakV, 'V')),
+              h('td', { class: 'number' }, formatSi(suggestion.headroomV, 'V')),
+              h('td', {}, suggestion.reason),
+              h('td', {}, fitted),
+            );
+          }),
+        ),
+      ),
+    );
+    this.draw();
+  }
+
+  private async applyTrim(suggestion: TrimSuggestion, button: HTMLButtonElement): Promise<void> {
+    await runAction(this.context, button, async () => {
+      const result = await this.context.client.applyTrim({ part: suggestion.part, fromOhm: suggestion.fromOhm, toOhm: suggestion.toOhm, method: suggestion.method, addOhm: suggestion.addOhm, reason: suggestion.reason });
+      this.context.notices.show('info', `Recorded: ${partWords[result.trim.part] ?? result.trim.part} ${formatSi(result.trim.fromOhm, 'Ω')} → ${formatSi(result.trim.toOhm, 'Ω')}. Check the ramp again.`);
+      await this.context.store.refresh();
+    });
+  }
+
+  private renderRecheck(): void {
+    const needed = this.context.store.state?.recheckNeeded ?? false;
+    this.recheck.hidden = !needed;
+    if (!needed) return;
+    const go = h('button', { class: 'primary', type: 'button', 'data-testid': 'go-recheck' }, 'Check the ramp again');
+    go.addEventListener('click', () => {
+      this.context.store.selectStep('ramp');
+      this.context.go('bench');
+    });
+    fill(this.recheck, h('p', {}, h('strong', {}, 'A change was recorded. '), 'Power the board up again and check the ramp: the plan is only right once the new ramp is measured.'), go);
+  }
+
+  private draw(): void {
+    const plan = this.plan;
+    const chosen = plan?.suggestions[this.chosen] ?? null;
+    const measured = plan?.measuredRamp ? foldTracePoints(plan.measuredRamp, 300) : [];
+    const predicted = chosen?.predictedRamp ? foldTracePoints(chosen.predictedRamp, 300) : [];
+    const target = plan ? [{ x: 0, y: plan.targetPeakV }, { x: 360, y: plan.targetPeakV }] : [];
+    let high = plan?.targetPeakV ?? 1;
+    for (const point of [...measured, ...predicted]) high = Math.max(high, point.y);
+    const y = this.chart.options.scales?.y;
+    if (y) {
+      y.min = Math.min(0, ...measured.map((point) => point.y));
+      y.max = Math.ceil(high * 1.15);
+    }
+    this.chart.data.datasets = [
+      lineDataset('Measured ramp', cssColour('ramp'), measured, { borderWidth: 2.2 }),
+      lineDataset('Predicted ramp', cssColour('control'), predicted, { borderWidth: 2.2, borderDash: [7, 4] }),
+      lineDataset('Target', withAlpha(cssColour('sync'), 0.9), target, { borderDash: [3, 3] }),
+    ];
+    this.chart.update('none');
+    this.canvas.dataset.points = String(measured.length + predicted.length);
+  }
+}

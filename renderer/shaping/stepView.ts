@@ -1,0 +1,54 @@
+/**
+ * What the step list shows: for each commissioning step the live readings while measuring, or the recorded ones
+ * once the step was checked and nothing newer is coming in. DOM-free for unit tests.
+ */
+import { commissioningStepNames, type CommissioningStep, type Reading, type StepReport } from '../../app/contract/readings';
+
+export interface StepRow {
+  step: CommissioningStep;
+  report: StepReport;
+  /** True when the step has been checked and recorded in the session. */
+  recorded: boolean;
+}
+
+export const stepTitles: Record<CommissioningStep, string> = {
+  sync: 'Check sync',
+  ramp: 'Check ramp',
+  trim: 'Trim if needed',
+  transfer: 'Record transfer curve',
+  limits: 'Check limits and pulses',
+  'sign-off': 'Sign off',
+};
+
+export function mergeSteps(recorded: readonly StepReport[], live: readonly StepReport[]): StepRow[] {
+  return commissioningStepNames.map((step) => {
+    const done = recorded.find((report) => report.step === step) ?? null;
+    const current = live.find((report) => report.step === step) ?? null;
+    const recordedDone = done !== null && done.status === 'done';
+    // Live readings win while they have data: the technician watches the board change as they trim.
+    const report = current && current.readings.length > 0 ? { ...current, status: recordedDone ? ('done' as const) : current.status } : (done ?? current ?? { step, status: 'waiting' as const, verdict: null, readings: [], cycles: 0, note: null });
+    return { step, report, recorded: recordedDone };
+  });
+}
+
+/** The first reading found under any of `keys`, searching every step. */
+export function pickReading(steps: readonly StepReport[], keys: readonly string[]): Reading | null {
+  for (const key of keys) {
+    for (const report of steps) {
+      const reading = report.readings.find((candidate) => candidate.key === key);
+      if (reading) return reading;
+    }
+  }
+  return null;
+}
+
+/** "design 6 V, 5.82 – 6.18 V" style text for a reading's expectation, or null when the design asks nothing. */
+export function designText(reading: Reading, format: (value: number | null) => string): string | null {
+  if (reading.expected === null && reading.low === null && reading.high === null) return null;
+  const parts: string[] = [];
+  if (reading.expected !== null) parts.push(`design ${format(reading.expected)}`);
+  if (reading.low !== null && reading.high !== null) parts.push(`${format(reading.low)} to ${format(reading.high)}`);
+  else if (reading.low !== null) parts.push(`at least ${format(reading.low)}`);
+  else if (reading.high !== null) parts.push(`at most ${format(reading.high)}`);
+  return parts.join(', ');
+}

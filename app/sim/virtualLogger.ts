@@ -26,6 +26,11 @@ export interface VirtualLogger {
   greeting(): LoggerGreeting;
   /** Every line due up to signal time `timeS` (s since power-up), in order, without terminators. */
   linesUntil(timeS: number): string[];
+  /**
+   * Advances to `timeS` without sending, as a logger whose output buffer is full: the blocks are discarded and
+   * counted as overruns (the next status line reports them, the sequence numbers show the gap).
+   */
+  skipUntil(timeS: number): void;
   /** Answers one host command line (terminator removed); the answer is also queued ahead of the next data. */
   handleCommandLine(line: string): string[];
   /** Signal time produced so far (s). */
@@ -128,6 +133,15 @@ export function createVirtualLogger(design: BoardDesign, options: VirtualLoggerO
     return lines;
   }
 
+  function skipUntil(untilS: number): void {
+    const blockS = blockSamples / board.sampleRateHz;
+    while (!unplugged && timeS() + blockS <= untilS + 1e-12) {
+      board.nextBlock(blockSamples);
+      sequence++;
+      if (started) overruns++;
+    }
+  }
+
   function restartSampling(sampleRateHz: number): void {
     const nowS = timeS();
     const mainsHz = options.mainsHzOverride ?? design.mainsHz;
@@ -170,6 +184,7 @@ export function createVirtualLogger(design: BoardDesign, options: VirtualLoggerO
   return {
     greeting: () => greetingOf(board),
     linesUntil,
+    skipUntil,
     handleCommandLine,
     timeS,
     isStarted: () => started,

@@ -118,3 +118,16 @@ describe('virtual logger', () => {
     expect(decoder.health().sequenceRestarts).toBe(0);
   });
 });
+
+describe('virtual logger that falls behind', () => {
+  it('skipUntil discards blocks as logger overruns, reported by the next status line and seen as a gap', () => {
+    const logger = createVirtualLogger(design, { ...base });
+    const decoder = createLoggerDecoder();
+    logger.linesUntil(0.48).forEach((line) => decoder.pushLine(line));
+    logger.skipUntil(0.48 + 10 * 0.0048); // 10 blocks of 4.8 ms
+    const events = logger.linesUntil(1.2).flatMap((line) => decoder.pushLine(line));
+    const firstAfter = events.find((event) => event.kind === 'block');
+    expect(firstAfter?.kind === 'block' && firstAfter.samplesLost).toBe(10 * 120);
+    expect(decoder.health().loggerOverruns).toBe(10);
+  });
+});

@@ -34,8 +34,8 @@ export function chooseComtradeScaling(minV: number, maxV: number, fileType: Comt
   if (fileType === 'FLOAT32') return { multiplier: 1, offset: 0, minimum: low, maximum: high };
   const limit = comtradeCodeLimits[fileType];
   const offset = (high + low) / 2;
-  // A flat channel still needs a non-zero a (a = 0 is no signal); any small step keeps it exact at b.
-  const halfSpan = high > low ? (high - low) / 2 : Math.max(Math.abs(offset) * 1e-6, 1e-9);
+  // A flat (or nanovolt-wide) channel still needs a usable a (a = 0 is no signal); 1 nV steps are far below any logger's.
+  const halfSpan = Math.max((high - low) / 2, 1e-9);
   return { multiplier: halfSpan / limit, offset, minimum: -limit, maximum: limit };
 }
 

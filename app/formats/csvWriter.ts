@@ -26,7 +26,8 @@ export function createCsvWriter(options: CsvWriterOptions = {}): CsvWriter {
   const lineEnd = options.lineEnd ?? '\n';
   const timeDigits = options.timeFractionDigits ?? 9;
   const voltDigits = options.voltFractionDigits;
-  const formatVolts = voltDigits === undefined ? (value: number) => String(value) : (value: number) => (value === value ? value.toFixed(voltDigits) : 'NaN');
+  // String(-0) is "0"; keep the sign so the text reads back to the very same double.
+  const formatVolts = voltDigits === undefined ? (value: number) => (value === 0 && 1 / value < 0 ? '-0' : String(value)) : (value: number) => (value === value ? value.toFixed(voltDigits) : 'NaN');
   let hasControl: boolean | undefined;
   return {
     write(block) {

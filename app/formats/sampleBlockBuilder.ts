@@ -49,6 +49,7 @@ export class SampleBlockBuilder {
   private stretchLastS = 0;
   private stretchSamples = 0;
   private previousPeriodS: number | undefined;
+  private pending: SampleBlock | null = null;
 
   constructor(options: SampleBlockBuilderOptions) {
     this.blockSamples = Math.max(1, Math.floor(options.blockSamples));
@@ -85,13 +86,19 @@ export class SampleBlockBuilder {
         }
         const periodS = this.stretchSamples > 1 ? (this.stretchLastS - this.stretchFirstS) / (this.stretchSamples - 1) : this.previousPeriodS;
         if (periodS !== undefined && intervalS > gapPeriods * periodS) {
-          if (this.count > 0) out.push(this.takeBlock());
+          if (this.count > 0) this.emit(this.takeBlock(), out);
           if (this.stretchSamples > 1) this.previousPeriodS = periodS;
           this.startStretch(timeS);
           this.blockAfterGap = true;
         } else {
           this.stretchLastS = timeS;
           this.stretchSamples++;
+          if (this.pending !== null) {
+            // The stretch now has an interval: the held block gets its rate and goes out first.
+            this.pending.sampleRateHz = this.currentRateHz();
+            out.push(this.pending);
+            this.pending = null;
+          }
         }
       }
       if (this.count === 0) this.blockStartS = timeS;
@@ -103,12 +110,33 @@ export class SampleBlockBuilder {
     if (this.control !== null) this.control[index] = control;
     this.count = index + 1;
     this.samplesSeen++;
-    if (this.count === this.blockSamples) out.push(this.takeBlock());
+    if (this.count === this.blockSamples) this.emit(this.takeBlock(), out);
   }
 
   /** Ends the stream: the partial block, if any. */
   flush(out: SampleBlock[]): void {
-    if (this.count > 0) out.push(this.takeBlock());
+    if (this.count > 0) this.emit(this.takeBlock(), out);
+    if (this.pending !== null) this.requireRate();
+  }
+
+  /**
+   * A block whose stretch has a single timed sample so far (blocks of one sample) has no rate yet: hold it
+   * until the next sample gives an interval. A gap or the end before that leaves the rate unknowable.
+   */
+  private emit(block: SampleBlock, out: SampleBlock[]): void {
+    if (this.pending !== null) this.requireRate();
+    if (Number.isNaN(block.sampleRateHz)) {
+      if (this.stretchSamples > 1) block.sampleRateHz = this.currentRateHz();
+      else {
+        this.pending = block;
+        return;
+      }
+    }
+    out.push(block);
+  }
+
+  private requireRate(): never {
+    throw new InputError('cannot tell the sample rate: a single timed sample and no rate given', this.where());
   }
 
   private startStretch(timeS: number): void {
@@ -117,12 +145,13 @@ export class SampleBlockBuilder {
     this.stretchSamples = 1;
   }
 
+  /** The rate for the current block; NaN while a first stretch has a single sample and no rate is given. */
   private currentRateHz(): number {
     if (this.fixedRateHz !== undefined) return this.fixedRateHz;
     if (this.stretchSamples > 1) return (this.stretchSamples - 1) / (this.stretchLastS - this.stretchFirstS);
     if (this.previousPeriodS !== undefined) return 1 / this.previousPeriodS;
     if (this.fallbackRateHz !== undefined) return this.fallbackRateHz;
-    throw new InputError('cannot tell the sample rate: a single timed sample and no rate given', this.where());
+    return Number.NaN;
   }
 
   private takeBlock(): SampleBlock {

@@ -213,7 +213,8 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
   function endWarmup(): CycleReading[] {
     const blocks = warmupBlocks ?? [];
     warmupBlocks = null;
-    levels = learnFirstLevels(blocks, { minimumSyncAmplitudeV: options.minimumSyncAmplitudeV ?? 0.05 });
+    const maxSamples = blocks.length > 0 ? Math.round(warmupS * blocks[0].sampleRateHz) : 0;
+    levels = learnFirstLevels(blocks, { minimumSyncAmplitudeV: options.minimumSyncAmplitudeV ?? 0.05, maxSamples });
     crossingTracker = levels.sync ? new ZeroCrossingTracker(levels.sync) : null;
     pulseTracker = new GatePulseTracker(levels.gate);
     const readings: CycleReading[] = [];

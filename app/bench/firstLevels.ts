@@ -14,10 +14,14 @@ export interface FirstLevels {
   rampSpreadV: number;
 }
 
-export function learnFirstLevels(blocks: readonly SampleBlock[], options: { minimumSyncAmplitudeV: number }): FirstLevels {
-  const sync = concatenate(blocks.map((block) => block.sync));
-  const gate = concatenate(blocks.map((block) => block.gate));
-  const ramp = concatenate(blocks.map((block) => block.ramp));
+/**
+ * Uses exactly the first `maxSamples` samples, whatever the block sizes, so a capture gives the same readings however
+ * a reader or the logger cuts it into blocks.
+ */
+export function learnFirstLevels(blocks: readonly SampleBlock[], options: { minimumSyncAmplitudeV: number; maxSamples: number }): FirstLevels {
+  const sync = concatenate(blocks.map((block) => block.sync), options.maxSamples);
+  const gate = concatenate(blocks.map((block) => block.gate), options.maxSamples);
+  const ramp = concatenate(blocks.map((block) => block.ramp), options.maxSamples);
   const syncLevels = estimateSyncLevels(sync);
   const sortedRamp = ramp.sort();
   const rampSpreadV = sortedRamp.length > 0 ? sortedRamp[Math.floor(0.99 * (sortedRamp.length - 1))] - sortedRamp[Math.floor(0.01 * (sortedRamp.length - 1))] : 0;
@@ -28,13 +32,15 @@ export function learnFirstLevels(blocks: readonly SampleBlock[], options: { mini
   };
 }
 
-function concatenate(parts: readonly Float64Array[]): Float64Array {
-  const total = parts.reduce((sum, part) => sum + part.length, 0);
+function concatenate(parts: readonly Float64Array[], maxSamples: number): Float64Array {
+  const total = Math.min(maxSamples, parts.reduce((sum, part) => sum + part.length, 0));
   const joined = new Float64Array(total);
   let offset = 0;
   for (const part of parts) {
-    joined.set(part, offset);
-    offset += part.length;
+    if (offset >= total) break;
+    const take = Math.min(part.length, total - offset);
+    joined.set(part.subarray(0, take), offset);
+    offset += take;
   }
   return joined;
 }

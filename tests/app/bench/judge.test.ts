@@ -1,0 +1,89 @@
+import { describe, expect, it } from 'vitest';
+import { boardDesignSchema } from '../../../app/board/design';
+import { alphaForControl } from '../../../app/board/firingAngle';
+import { predictRamp } from '../../../app/board/rampModel';
+import { judgeReadings, marginalFraction, verdictFor } from '../../../app/bench/judge';
+import type { CaptureReadings } from '../../../app/bench/readings';
+
+// A board of our own (invented name), 50 Hz full-wave.
+const design = boardDesignSchema.parse({
+  name: 'Bench case J1', mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 6, alphaMaxDeg: 165, alphaMinDeg: 10, gatePulseUs: 200,
+  parts: { rEmitter: { ohm: 7500 }, rBiasTop: { ohm: 22000 }, rBiasBottom: { ohm: 100000 }, cRamp: { farad: 4.7e-7 } },
+  tolerances: { rampPeakPct: 3, alphaDeg: 2, startDelayDeg: 3 },
+});
+
+function readings(overrides: { ramp?: Partial<CaptureReadings['ramp']>; pulse?: Partial<CaptureReadings['pulse']>; frequencyHz?: number }): CaptureReadings {
+  const prediction = predictRamp(design);
+  return {
+    frequencyHz: overrides.frequencyHz ?? 50.01,
+    cycles: 50,
+    ramp: {
+      floorV: 0.1, peakV: 6, slopeVPerMs: 0.62, nonlinearityPct: 0.8, clipped: false, clippedIntervals: 0, chargingIntervals: 100,
+      startDelayDeg: 360 * 50 * prediction.startDelayS, resetUs: 300, peakMinV: 5.98, peakMaxV: 6.02, ...overrides.ramp,
+    },
+    pulse: {
+      count: 100, alphaDeg: 90, alphaStdDeg: 0.2, alphaMinDeg: 89.5, alphaMaxDeg: 90.5, widthUs: 205, amplitudeV: 5, wrongHalfCycle: 0, missing: 0,
+      multiplePulses: 0, gateLowV: 0, gateHighV: 5, controlV: null, ...overrides.pulse,
+    },
+    transfer: null, perCycle: [], rectifier: 'full-wave', syncPhaseDeg: 0, sampleRateHz: 20000, durationS: 1, firingIntervals: 100,
+    frequencyDriftHz: 0, frequencyDriftHzPerS: 0, periodJitterUs: 2, syncOffsetV: 0, syncAmplitudeV: 5, gaps: 0,
+  };
+}
+
+const byKey = (checks: ReturnType<typeof judgeReadings>, key: string) => checks.find((check) => check.key === key);
+
+describe('verdictFor (our rule: marginal beyond 75 % of the tolerance)', () => {
+  it('in, marginal, out at the boundaries', () => {
+    expect(marginalFraction).toBe(0.75);
+    expect(verdictFor(0.74, 1)).toBe('in-tolerance');
+    expect(verdictFor(-0.76, 1)).toBe('marginal');
+    expect(verdictFor(1, 1)).toBe('marginal');
+    expect(verdictFor(1.01, 1)).toBe('out-of-tolerance');
+    expect(verdictFor(0, 0)).toBe('in-tolerance');
+    expect(verdictFor(1, 0)).toBe('out-of-tolerance');
+  });
+});
+
+describe('judgeReadings', () => {
+  it('a board on its design is in tolerance throughout', () => {
+    const checks = judgeReadings(readings({}), design);
+    for (const check of checks) expect(check.verdict, check.key).toBe('in-tolerance');
+    expect(byKey(checks, 'rampPeakV')?.toleranceAbs).toBeCloseTo(0.18, 12);
+  });
+
+  it('ramp peak: 2.5 % high is marginal, 3.5 % high is out (tolerance 3 % of 6 V)', () => {
+    expect(byKey(judgeReadings(readings({ ramp: { peakV: 6.15 } }), design), 'rampPeakV')?.verdict).toBe('marginal');
+    expect(byKey(judgeReadings(readings({ ramp: { peakV: 6.21 } }), design), 'rampPeakV')?.verdict).toBe('out-of-tolerance');
+  });
+
+  it('clipping, stray and missing pulses are out of tolerance', () => {
+    const checks = judgeReadings(readings({ ramp: { clipped: true, clippedIntervals: 80 }, pulse: { wrongHalfCycle: 3, missing: 1 } }), design);
+    expect(byKey(checks, 'rampClipped')?.verdict).toBe('out-of-tolerance');
+    expect(byKey(checks, 'rampClipped')?.note).toContain('80 of 100');
+    expect(byKey(checks, 'wrongHalfCyclePulses')?.verdict).toBe('out-of-tolerance');
+    expect(byKey(checks, 'missingPulses')?.verdict).toBe('out-of-tolerance');
+  });
+
+  it('limits are one-sided: inside alpha max is fine, 1.8 deg past it marginal, 2.5 deg past it out', () => {
+    expect(byKey(judgeReadings(readings({ pulse: { alphaMaxDeg: 150 } }), design), 'alphaMaxDeg')?.verdict).toBe('in-tolerance');
+    expect(byKey(judgeReadings(readings({ pulse: { alphaMaxDeg: 166.8 } }), design), 'alphaMaxDeg')?.verdict).toBe('marginal');
+    expect(byKey(judgeReadings(readings({ pulse: { alphaMaxDeg: 167.5 } }), design), 'alphaMaxDeg')?.verdict).toBe('out-of-tolerance');
+    expect(byKey(judgeReadings(readings({ pulse: { alphaMinDeg: 7 } }), design), 'alphaMinDeg')?.verdict).toBe('out-of-tolerance');
+  });
+
+  it('with a control channel, alpha is judged against the board model at the measured control voltage', () => {
+    const expected = alphaForControl(design, 3) ?? Number.NaN;
+    expect(Number.isFinite(expected)).toBe(true);
+    const near = byKey(judgeReadings(readings({ pulse: { controlV: 3, alphaDeg: expected + 0.5 } }), design), 'alphaDeg');
+    expect(near?.expected).toBeCloseTo(expected, 12);
+    expect(near?.verdict).toBe('in-tolerance');
+    expect(byKey(judgeReadings(readings({ pulse: { controlV: 3, alphaDeg: expected + 2.5 } }), design), 'alphaDeg')?.verdict).toBe('out-of-tolerance');
+  });
+
+  it('nothing measured gives no verdict rather than a pass', () => {
+    const checks = judgeReadings(readings({ ramp: { peakV: null, chargingIntervals: 0 }, pulse: { widthUs: null } }), design);
+    expect(byKey(checks, 'rampPeakV')?.verdict).toBeNull();
+    expect(byKey(checks, 'rampClipped')?.verdict).toBeNull();
+    expect(byKey(checks, 'pulseWidthUs')?.verdict).toBeNull();
+  });
+});

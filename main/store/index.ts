@@ -1,0 +1,7 @@
+/** The logbook: the `Logbook` interface and its SQLite implementation. */
+export * from './logbookTypes';
+export { openSqliteLogbook, createSqliteLogbook, canonicalJson } from './sqliteLogbook';
+export { openLogbookDatabase, type OpenLogbookDatabaseOptions } from './openDatabase';
+export { latestSchemaVersion } from './schema';
+export { driftTrend } from './driftTrend';
+export { decodeCapture, encodeCapture, rawCaptureBytes, sha256Hex } from './captureCodec';

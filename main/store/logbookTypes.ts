@@ -1,0 +1,255 @@
+/**
+ * The logbook as the rest of Rampwright sees it. The bench keeps it in SQLite (sqliteLogbook.ts); a workshop that
+ * shares one logbook between benches can implement the same interface over PostgreSQL (ARCHITECTURE.md, "Growth
+ * beyond one bench") and nothing above main/store changes. Every query is async for that reason, even though the
+ * SQLite one answers synchronously. Field names follow the bench API contract's records (app/contract/records.ts).
+ * Times cross this interface as ISO 8601 strings (UTC).
+ */
+import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
+import type { BoardDesign } from '../../app/board/design';
+import type { SampleBlock, SignalRole } from '../../app/capture/samples';
+
+export type SessionStatus = 'open' | 'closed' | 'interrupted';
+
+export interface DesignVersion {
+  id: number;
+  name: string;
+  /** 1, 2, 3... per design name, in the order distinct contents were first saved. */
+  version: number;
+  /** sha-256 of the design's canonical JSON (keys sorted): the identity of this exact version. */
+  contentHash: string;
+  savedAt: string;
+}
+
+export interface UnitRecord {
+  serial: string;
+  designName: string | null;
+  sessions: number;
+  lastSessionAt: string | null;
+}
+
+export interface SessionRow {
+  id: number;
+  unit: string;
+  designName: string;
+  designVersion: number;
+  operator: string;
+  status: SessionStatus;
+  startedAt: string;
+  endedAt: string | null;
+  cycles: number;
+  /** Mean firing angle over the session's cycles (the analysis' `pulse.alphaDeg`). */
+  alphaDeg: number | null;
+  /** Median per-cycle ramp peak (the analysis' `ramp.peakV`). */
+  rampPeakV: number | null;
+  /** Sum of the counts of link events that mean something went wrong (see linkErrorKinds). */
+  linkErrors: number;
+}
+
+export interface TransferPointRecord {
+  t: number;
+  controlV: number;
+  alphaDeg: number;
+}
+
+export interface TransferFitRecord {
+  gainDegPerV: number;
+  offsetDeg: number;
+  maxDeviationDeg: number;
+  controlMinV: number;
+  controlMaxV: number;
+  points: number;
+}
+
+export interface TrimRecord {
+  id: number;
+  part: string;
+  fromOhm: number;
+  toOhm: number;
+  /** How the value was chosen: 'trim plan', 'by hand', ... */
+  method: string;
+  reason: string;
+  at: string;
+}
+
+export type LinkEventKind =
+  | 'opened'
+  | 'closed'
+  | 'reopened'
+  | 'unplugged'
+  | 'watchdog-timeout'
+  | 'lines-dropped'
+  | 'line-too-long'
+  | 'link-error'
+  | 'crc-failures'
+  | 'sequence-gap'
+  | 'samples-lost'
+  | 'garbage'
+  | 'logger-overrun'
+  | 'decoder-problem';
+
+/** The kinds whose counts add up to a session's `linkErrors`. */
+export const linkErrorKinds: readonly LinkEventKind[] = [
+  'unplugged',
+  'watchdog-timeout',
+  'lines-dropped',
+  'line-too-long',
+  'link-error',
+  'crc-failures',
+  'sequence-gap',
+  'garbage',
+  'logger-overrun',
+  'decoder-problem',
+];
+
+export interface LinkEventRecord {
+  kind: LinkEventKind;
+  detail: string;
+  /** How many occurrences this row stands for (a burst of CRC failures is one row). */
+  count: number;
+  at: string;
+}
+
+export interface CaptureInfo {
+  id: number;
+  label: string | null;
+  startS: number;
+  seconds: number;
+  sampleRateHz: number;
+  roles: SignalRole[];
+  startedAt: string;
+  /** sha-256 (hex) of the raw samples as stored: little-endian float64, channel after channel in `roles` order. */
+  sha256: string;
+}
+
+export interface StoredCapture {
+  info: CaptureInfo;
+  block: SampleBlock;
+}
+
+export interface SessionDetail {
+  row: SessionRow;
+  notes: string | null;
+  designId: number;
+  readings: CaptureReadings | null;
+  transfer: { points: TransferPointRecord[]; fit: TransferFitRecord | null };
+  trims: TrimRecord[];
+  linkEvents: LinkEventRecord[];
+  captures: CaptureInfo[];
+}
+
+export interface SessionFilter {
+  unitSerial?: string;
+  designName?: string;
+  /** Sessions started at or after this instant (ISO 8601). */
+  from?: string;
+  /** Sessions started before this instant (ISO 8601). */
+  to?: string;
+}
+
+/** The figures a unit's sessions are compared and trended by. */
+export interface SessionFigures {
+  sessionId: number;
+  startedAt: string;
+  cycles: number;
+  rampPeakV: number | null;
+  slopeVPerMs: number | null;
+  alphaDeg: number | null;
+  alphaStdDeg: number | null;
+  alphaGainDegPerV: number | null;
+  alphaOffsetDeg: number | null;
+}
+
+export interface ComparisonRow {
+  key: keyof Omit<SessionFigures, 'sessionId' | 'startedAt'>;
+  label: string;
+  unit: string;
+  a: number | null;
+  b: number | null;
+  difference: number | null;
+  /** True when |b - a| exceeds the tolerance of the design version session a used (null tolerance: never). */
+  beyondTolerance: boolean;
+}
+
+export interface SessionComparison {
+  a: SessionRow;
+  b: SessionRow;
+  rows: ComparisonRow[];
+  transferA: TransferPointRecord[];
+  transferB: TransferPointRecord[];
+}
+
+/** Least-squares straight line of one figure against days since the unit's first session. */
+export interface DriftTrend {
+  perDay: number;
+  /** Standard error of `perDay` (null with fewer than three sessions). */
+  perDayStandardError: number | null;
+  intercept: number;
+  sessions: number;
+}
+
+export interface UnitDrift {
+  unit: string;
+  points: SessionFigures[];
+  rampPeakV: DriftTrend | null;
+  alphaGainDegPerV: DriftTrend | null;
+}
+
+export interface StartSessionRequest {
+  unitSerial: string;
+  design: BoardDesign;
+  operator: string;
+  notes?: string;
+  /** Defaults to now. */
+  startedAt?: Date;
+}
+
+export interface LogbookWriterStats {
+  /** Items waiting in memory for the next batch. */
+  queued: number;
+  cyclesWritten: number;
+  batches: number;
+  /** Cycles discarded because the queue was full (the disk stopped accepting writes). */
+  cyclesDropped: number;
+  lastBatchMs: number;
+  longestBatchMs: number;
+  lastError: string | null;
+}
+
+/**
+ * One session being recorded. The add* calls only queue in memory and return at once, so the serial reader never
+ * waits on the disk; batches go to the store in one transaction at least every `flushIntervalMs` (default 200 ms).
+ */
+export interface LogbookWriter {
+  readonly sessionId: number;
+  addCycle(reading: CycleReading): void;
+  addTransferPoint(point: TransferPointRecord): void;
+  addLinkEvent(kind: LinkEventKind, detail: string, count?: number): void;
+  addTrim(trim: Omit<TrimRecord, 'id' | 'at'> & { at?: Date }): void;
+  addCapture(block: SampleBlock, label?: string): void;
+  setReadings(readings: CaptureReadings): void;
+  setNotes(notes: string): void;
+  stats(): LogbookWriterStats;
+  /** Writes everything queued now. */
+  flush(): Promise<void>;
+  /** Writes everything queued, then ends the session with this status (default 'closed'). */
+  close(status?: Exclude<SessionStatus, 'open'>): Promise<SessionRow>;
+}
+
+export interface Logbook {
+  /** The file or address of the store, for messages. */
+  readonly location: string;
+  saveDesign(design: BoardDesign): Promise<DesignVersion>;
+  listUnits(): Promise<UnitRecord[]>;
+  startSession(request: StartSessionRequest, options?: { flushIntervalMs?: number; maxQueuedItems?: number }): Promise<LogbookWriter>;
+  listSessions(filter?: SessionFilter): Promise<SessionRow[]>;
+  session(id: number): Promise<SessionDetail | null>;
+  transferCurve(sessionId: number): Promise<TransferPointRecord[]>;
+  readCapture(captureId: number): Promise<StoredCapture | null>;
+  sessionFigures(sessionId: number): Promise<SessionFigures | null>;
+  compareSessions(aId: number, bId: number): Promise<SessionComparison>;
+  unitDrift(unitSerial: string): Promise<UnitDrift>;
+  /** Marks 'open' sessions whose writer is gone as 'interrupted'; returns their ids. Runs on every open too. */
+  recoverInterruptedSessions(): Promise<number[]>;
+  close(): Promise<void>;
+}

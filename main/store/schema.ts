@@ -1,0 +1,116 @@
+/**
+ * The logbook's schema as an ordered list of migrations. `PRAGMA user_version` holds how many have run; each one
+ * runs in its own transaction together with the version bump, so a crash mid-migration leaves the old version whole.
+ * Never edit a released migration: add the next one.
+ * Times are integer milliseconds since 1970 UTC (`*_at_ms`); sample-clock times are seconds (`*_s`).
+ */
+
+/** Marks a file as ours (`PRAGMA application_id`): "RAMP" in ASCII. */
+export const logbookApplicationId = 0x52414d50;
+
+export const migrations: readonly string[] = [
+  // 1: the first logbook.
+  `
+  CREATE TABLE board_designs (
+    id INTEGER PRIMARY KEY,
+    name TEXT NOT NULL,
+    version INTEGER NOT NULL,
+    content_hash TEXT NOT NULL UNIQUE,
+    design_json TEXT NOT NULL,
+    saved_at_ms INTEGER NOT NULL,
+    UNIQUE (name, version)
+  );
+  CREATE TABLE units (
+    id INTEGER PRIMARY KEY,
+    serial TEXT NOT NULL UNIQUE,
+    design_name TEXT,
+    created_at_ms INTEGER NOT NULL
+  );
+  CREATE TABLE sessions (
+    id INTEGER PRIMARY KEY,
+    unit_id INTEGER NOT NULL REFERENCES units(id),
+    design_id INTEGER NOT NULL REFERENCES board_designs(id),
+    operator TEXT NOT NULL,
+    started_at_ms INTEGER NOT NULL,
+    ended_at_ms INTEGER,
+    status TEXT NOT NULL CHECK (status IN ('open', 'closed', 'interrupted')),
+    notes TEXT,
+    readings_json TEXT,
+    writer_host TEXT,
+    writer_pid INTEGER,
+    heartbeat_at_ms INTEGER,
+    cycle_count INTEGER,
+    alpha_mean_deg REAL,
+    ramp_peak_median_v REAL
+  );
+  CREATE INDEX sessions_by_unit ON sessions (unit_id, started_at_ms);
+  CREATE INDEX sessions_by_design ON sessions (design_id, started_at_ms);
+  CREATE INDEX sessions_by_start ON sessions (started_at_ms);
+  CREATE INDEX sessions_by_status ON sessions (status);
+  CREATE TABLE cycles (
+    session_id INTEGER NOT NULL REFERENCES sessions(id),
+    seq INTEGER NOT NULL,
+    t_s REAL NOT NULL,
+    half_cycle TEXT,
+    period_s REAL,
+    alpha_deg REAL,
+    control_v REAL,
+    pulses INTEGER,
+    wrong_half_cycle_pulses INTEGER,
+    ramp_peak_v REAL,
+    ramp_floor_v REAL,
+    slope_v_per_ms REAL,
+    start_delay_deg REAL,
+    nonlinearity_pct REAL,
+    clipped INTEGER,
+    reset_us REAL,
+    recorded_at_ms INTEGER NOT NULL,
+    PRIMARY KEY (session_id, seq)
+  ) WITHOUT ROWID;
+  CREATE TABLE transfer_points (
+    session_id INTEGER NOT NULL REFERENCES sessions(id),
+    seq INTEGER NOT NULL,
+    t_s REAL NOT NULL,
+    control_v REAL NOT NULL,
+    alpha_deg REAL NOT NULL,
+    PRIMARY KEY (session_id, seq)
+  ) WITHOUT ROWID;
+  CREATE TABLE captures (
+    id INTEGER PRIMARY KEY,
+    session_id INTEGER NOT NULL REFERENCES sessions(id),
+    label TEXT,
+    start_s REAL NOT NULL,
+    sample_rate_hz REAL NOT NULL,
+    samples_per_channel INTEGER NOT NULL,
+    roles TEXT NOT NULL,
+    after_gap INTEGER NOT NULL,
+    started_at_ms INTEGER NOT NULL,
+    encoding TEXT NOT NULL,
+    sha256 TEXT NOT NULL,
+    data BLOB NOT NULL
+  );
+  CREATE INDEX captures_by_session ON captures (session_id);
+  CREATE TABLE trims (
+    id INTEGER PRIMARY KEY,
+    session_id INTEGER NOT NULL REFERENCES sessions(id),
+    part TEXT NOT NULL,
+    from_ohm REAL NOT NULL,
+    to_ohm REAL NOT NULL,
+    method TEXT NOT NULL,
+    reason TEXT NOT NULL,
+    at_ms INTEGER NOT NULL
+  );
+  CREATE INDEX trims_by_session ON trims (session_id);
+  CREATE TABLE link_events (
+    id INTEGER PRIMARY KEY,
+    session_id INTEGER NOT NULL REFERENCES sessions(id),
+    kind TEXT NOT NULL,
+    detail TEXT NOT NULL,
+    count INTEGER NOT NULL,
+    at_ms INTEGER NOT NULL
+  );
+  CREATE INDEX link_events_by_session ON link_events (session_id);
+  `,
+];
+
+export const latestSchemaVersion = migrations.length;

@@ -1,0 +1,48 @@
+/**
+ * Sessions left 'open' by a writer that is gone (killed, crashed, power cut) become 'interrupted' with their end set
+ * to the last instant anything of theirs reached the disk. A writer counts as alive when it runs on this host and its
+ * process still exists, or, on another host (a shared logbook), when its heartbeat is recent.
+ */
+import { hostname } from 'node:os';
+import type { SqliteDatabase } from './openDatabase';
+import { storeSessionSummary } from './sessionSummary';
+
+/** A writer touches its session at least every 5 s (logbookWriter.ts); three missed beats mean it is gone. */
+const remoteHeartbeatLimitMs = 15_000;
+
+function processExists(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (error) {
+    // EPERM: the process exists but belongs to someone else.
+    return (error as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+export function writerIsAlive(writer: { host: string | null; pid: number | null; heartbeatAtMs: number | null }, nowMs: number): boolean {
+  if (writer.host === null || writer.pid === null) return false;
+  if (writer.host === hostname()) return processExists(writer.pid);
+  return writer.heartbeatAtMs !== null && nowMs - writer.heartbeatAtMs < remoteHeartbeatLimitMs;
+}
+
+export function recoverInterruptedSessions(db: SqliteDatabase, nowMs = Date.now()): number[] {
+  const open = db
+    .prepare(`SELECT id, writer_host AS host, writer_pid AS pid, heartbeat_at_ms AS heartbeatAtMs, started_at_ms AS startedAtMs FROM sessions WHERE status = 'open'`)
+    .all() as Array<{ id: number; host: string | null; pid: number | null; heartbeatAtMs: number | null; startedAtMs: number }>;
+  const recovered: number[] = [];
+  for (const session of open) {
+    if (writerIsAlive(session, nowMs)) continue;
+    const last = db
+      .prepare(
+        `SELECT max(at) AS at FROM (
+           SELECT max(recorded_at_ms) AS at FROM cycles WHERE session_id = ?
+           UNION ALL SELECT max(at_ms) FROM link_events WHERE session_id = ?)`,
+      )
+      .get(session.id, session.id) as { at: number | null };
+    const endedAtMs = Math.max(session.startedAtMs, session.heartbeatAtMs ?? 0, last.at ?? 0);
+    db.transaction(() => storeSessionSummary(db, session.id, 'interrupted', endedAtMs))();
+    recovered.push(session.id);
+  }
+  return recovered;
+}

@@ -1,8 +1,14 @@
 /** Every command of the command line, in the order `rampwright --help` lists them. One line per command. */
 import type { Command } from 'commander';
+import { registerAnalyzeCommand } from './analyze';
 import { registerSimCommand } from './sim';
+import { registerSizeCommand } from './size';
+import { registerTrimCommand } from './trim';
 
 export function registerCommands(program: Command): void {
   void program;
+  registerAnalyzeCommand(program);
   registerSimCommand(program);
+  registerSizeCommand(program);
+  registerTrimCommand(program);
 }

@@ -1,0 +1,152 @@
+/**
+ * `rampwright analyze <capture>`: reads a capture file block by block (CSV or COMTRADE), runs the analysis engine
+ * and prints the readings, with the checks against a board design when one is given. A thin adapter: the
+ * measurements are app/bench's, the file reading main/capture's.
+ */
+import type { Command } from 'commander';
+import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
+import { judgeReadings, type ReadingCheck } from '../../../app/bench/judge';
+import type { CaptureReadings, Rectifier } from '../../../app/bench/readings';
+import type { BoardDesign } from '../../../app/board/design';
+import { InputError } from '../../../app/errors';
+import { loadBoardDesign } from '../../board/loadBoardDesign';
+import { readCaptureFile } from '../../capture/readCaptureFile';
+
+interface AnalyzeCommandOptions {
+  design?: string;
+  json?: boolean;
+  rate?: string;
+  rectifier?: string;
+}
+
+export interface AnalyzeResult {
+  readings: CaptureReadings;
+  checks: ReadingCheck[] | null;
+  design: BoardDesign | null;
+  rectifierSource: 'option' | 'design' | 'default';
+}
+
+function rateOption(text: string | undefined): number | undefined {
+  if (text === undefined) return undefined;
+  const value = Number(text);
+  if (text.trim() === '' || !Number.isFinite(value) || value < 1000 || value > 1_000_000) {
+    throw new InputError(`must be a sample rate in Hz from 1000 to 1000000 (got "${text}")`, '--rate');
+  }
+  return value;
+}
+
+function rectifierOption(text: string | undefined): Rectifier | undefined {
+  if (text === undefined) return undefined;
+  if (text === 'half-wave' || text === 'full-wave') return text;
+  throw new InputError(`must be half-wave or full-wave (got "${text}")`, '--rectifier');
+}
+
+/** The work of the command without printing: tests and other adapters call it. */
+export async function analyzeCapture(path: string, options: { designPath?: string; sampleRateHz?: number; rectifier?: Rectifier } = {}): Promise<AnalyzeResult> {
+  const design = options.designPath ? await loadBoardDesign(options.designPath) : null;
+  const rectifier = options.rectifier ?? design?.rectifier ?? 'full-wave';
+  const rectifierSource = options.rectifier ? 'option' : design ? 'design' : 'default';
+  const analyzer = createCaptureAnalyzer({ rectifier, syncPhaseDeg: design?.syncPhaseDeg ?? 0, keepPerCycle: true });
+  let samples = 0;
+  for await (const block of readCaptureFile(path, { sampleRateHz: options.sampleRateHz })) {
+    samples += block.sync.length;
+    analyzer.push(block);
+  }
+  if (samples === 0) throw new InputError('the capture holds no samples', path);
+  const readings = analyzer.finish();
+  return { readings, checks: design ? judgeReadings(readings, design) : null, design, rectifierSource };
+}
+
+function fixed(value: number | null, digits: number, unit: string): string {
+  return value === null ? '-' : `${value.toFixed(digits)}${unit ? ` ${unit}` : ''}`;
+}
+
+const verdictText: Record<string, string> = {
+  'in-tolerance': '[ok]   in tolerance',
+  marginal: '[!]    marginal',
+  'out-of-tolerance': '[x]    out of tolerance',
+};
+
+function formatMeasured(check: ReadingCheck): string {
+  if (typeof check.measured === 'boolean') return check.measured ? 'yes' : 'no';
+  if (check.measured === null) return '-';
+  return `${Number.isInteger(check.measured) ? check.measured : check.measured.toFixed(2)}${check.unit ? ` ${check.unit}` : ''}`;
+}
+
+function formatExpected(check: ReadingCheck): string {
+  if (typeof check.expected === 'boolean') return check.expected ? 'yes' : 'no';
+  if (check.expected === null) return '';
+  const tolerance = check.toleranceAbs === null ? '' : check.toleranceAbs === 0 ? ' exactly' : ` +- ${check.toleranceAbs.toFixed(2)}`;
+  const prefix = check.note?.startsWith('limit: at most') ? 'at most ' : check.note?.startsWith('limit: at least') ? 'at least ' : '';
+  const value = Number.isInteger(check.expected) ? String(check.expected) : check.expected.toFixed(2);
+  return `design ${prefix}${value}${check.unit ? ` ${check.unit}` : ''}${tolerance}`;
+}
+
+export function formatAnalysis(path: string, result: AnalyzeResult): string {
+  const r = result.readings;
+  const rows: Array<[string, string, string]> = [];
+  const row = (group: string, label: string, value: string): void => {
+    rows.push([group, label, value]);
+  };
+  row('Sync', 'frequency', fixed(r.frequencyHz, 3, 'Hz'));
+  row('', 'drift', fixed(r.frequencyDriftHz, 3, 'Hz over the capture'));
+  row('', 'period jitter', fixed(r.periodJitterUs, 1, 'us'));
+  row('Ramp', 'floor', fixed(r.ramp.floorV, 3, 'V'));
+  row('', 'start', r.ramp.startDelayDeg === null ? '-' : `${r.ramp.startDelayDeg.toFixed(1)} deg after the zero crossing`);
+  row('', 'slope', fixed(r.ramp.slopeVPerMs, 3, 'V/ms'));
+  row('', 'peak', r.ramp.peakV === null ? '-' : `${r.ramp.peakV.toFixed(3)} V (median; ${fixed(r.ramp.peakMinV, 3, '')} to ${fixed(r.ramp.peakMaxV, 3, 'V')})`);
+  row('', 'nonlinearity', fixed(r.ramp.nonlinearityPct, 2, '% of peak'));
+  row('', 'clipping', r.ramp.chargingIntervals === 0 ? '-' : r.ramp.clipped ? `yes (${r.ramp.clippedIntervals} of ${r.ramp.chargingIntervals} ramps)` : r.ramp.clippedIntervals > 0 ? `no (${r.ramp.clippedIntervals} of ${r.ramp.chargingIntervals} ramps)` : 'no');
+  row('', 'reset', fixed(r.ramp.resetUs, 0, 'us'));
+  row('Gate', 'pulses', `${r.pulse.count} (missing ${r.pulse.missing}, wrong half-cycle ${r.pulse.wrongHalfCycle}, more than one ${r.pulse.multiplePulses})`);
+  row('', 'alpha', r.pulse.alphaDeg === null ? '-' : `${r.pulse.alphaDeg.toFixed(2)} deg mean, jitter ${fixed(r.pulse.alphaStdDeg, 2, 'deg')}, ${fixed(r.pulse.alphaMinDeg, 2, '')} to ${fixed(r.pulse.alphaMaxDeg, 2, 'deg')}`);
+  row('', 'width', fixed(r.pulse.widthUs, 0, 'us'));
+  row('', 'amplitude', fixed(r.pulse.amplitudeV, 2, 'V'));
+  if (r.pulse.controlV !== null) row('Control', 'at firing', fixed(r.pulse.controlV, 3, 'V mean'));
+  if (r.transfer) {
+    row('Transfer', 'gain', `${r.transfer.gainDegPerV.toFixed(2)} deg/V, offset ${r.transfer.offsetDeg.toFixed(2)} deg`);
+    row('', 'linearity', `${r.transfer.maxDeviationDeg.toFixed(2)} deg max deviation over ${r.transfer.points} points`);
+    row('', 'control range', `${r.transfer.controlMinV.toFixed(3)} to ${r.transfer.controlMaxV.toFixed(3)} V`);
+  }
+  const groupWidth = Math.max(...rows.map((entry) => entry[0].length));
+  const labelWidth = Math.max(...rows.map((entry) => entry[1].length));
+  const rectifierNote = result.rectifierSource === 'default' ? ' (assumed; give --rectifier or --design)' : '';
+  const lines = [
+    `Capture ${path}`,
+    `  ${fixed(r.durationS, 2, 's')} at ${fixed(r.sampleRateHz, 0, 'S/s')}, ${r.cycles} cycles, ${r.firingIntervals} firing intervals, ${r.rectifier}${rectifierNote}${r.gaps > 0 ? `, ${r.gaps} gap(s)` : ''}`,
+    '',
+    ...rows.map(([group, label, value]) => `  ${group.padEnd(groupWidth)}  ${label.padEnd(labelWidth)}  ${value}`),
+  ];
+  if (result.checks && result.design) {
+    lines.push('', `Checks against ${result.design.name}`);
+    const labelColumn = Math.max(...result.checks.map((check) => check.label.length));
+    for (const check of result.checks) {
+      const verdict = check.verdict ? verdictText[check.verdict] : '[ ]    not measured';
+      lines.push(`  ${verdict.padEnd(24)}  ${check.label.padEnd(labelColumn)}  ${formatMeasured(check).padEnd(12)}  ${formatExpected(check)}`);
+    }
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+export function registerAnalyzeCommand(program: Command): void {
+  program
+    .command('analyze')
+    .description('Measure a capture: mains frequency, ramp floor/start/slope/peak/linearity/clipping, firing angle, pulses, transfer curve')
+    .argument('<capture>', 'capture file: .csv, or a COMTRADE .cfg/.dat pair')
+    .option('--design <file>', 'board design (*.board.json): rectifier and sync phase from it, and checks against it')
+    .option('--json', 'print the readings as JSON')
+    .option('--rate <Hz>', 'sample rate of a CSV capture that has no t column')
+    .option('--rectifier <kind>', 'half-wave or full-wave (default: from the design, else full-wave)')
+    .action(async (capturePath: string, options: AnalyzeCommandOptions) => {
+      const result = await analyzeCapture(capturePath, {
+        designPath: options.design,
+        sampleRateHz: rateOption(options.rate),
+        rectifier: rectifierOption(options.rectifier),
+      });
+      if (options.json) {
+        process.stdout.write(`${JSON.stringify(result.checks ? { ...result.readings, checks: result.checks } : result.readings, null, 2)}\n`);
+      } else {
+        process.stdout.write(formatAnalysis(capturePath, result));
+      }
+    });
+}

@@ -3,6 +3,7 @@
  * a ramp target the supply or the source's compliance cannot reach, an alpha limit past the end of the ramp.
  * Errors make the design unusable; warnings are shown to the technician beside it.
  */
+import { controlLimitsOf } from './controlDivider';
 import { alphaRangeOf } from './firingAngle';
 import type { BoardDesign } from './design';
 import { theveninOf } from './operatingPoint';
@@ -68,6 +69,14 @@ export function validateBoardPhysics(design: BoardDesign): BoardPhysicsProblem[]
     warning('alphaMaxDeg', `alphaMaxDeg ${format(design.alphaMaxDeg)} deg plus the sync lag reaches the next zero crossing`);
   }
 
+  if (design.parts.rControlTop || design.parts.potControl) {
+    const limits = controlLimitsOf(design, { prediction });
+    if (limits.alphaMaxDeg === null) {
+      warning('parts.rControlTop.ohm', `at the pot's end the control (${format(limits.controlMaxV)} V) is above the ramp's end: the board stops firing instead of holding alphaMaxDeg ${format(design.alphaMaxDeg)} deg`);
+    } else if (limits.alphaMaxDeg > design.alphaMaxDeg + design.tolerances.alphaDeg) {
+      warning('parts.rControlTop.ohm', `the pot's end fires at ${format(limits.alphaMaxDeg)} deg, past alphaMaxDeg ${format(design.alphaMaxDeg)} deg`);
+    }
+  }
   const peakErrorPct = ((prediction.peakV - design.rampTargetV) / design.rampTargetV) * 100;
   if (prediction.clipped) {
     warning('parts.rEmitter.ohm', `the parts charge the ramp into clipping at ${format(prediction.clipV)} V before the half-cycle ends: the current is too high for the supply headroom`);

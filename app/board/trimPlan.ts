@@ -241,8 +241,10 @@ function controlLimitSuggestion(design: BoardDesign, measured: RampReadings, pre
   if (!(measuredOff || predictedOff) || limits.limitResistorOhm === null) return null;
   // Round up: a larger top resistor lowers the pot's end, so alpha stays short of alphaMaxDeg (REFERENCES.md rule).
   const toOhm = standardValueNeighbours(limits.limitResistorOhm, context.series).above;
-  const after = controlLimitsOf(design, { prediction, partOverrides: { ...context.fitted, rControlTop: toOhm } });
   const fromOhm = context.fitted.rControlTop ?? design.parts.rControlTop?.ohm ?? null;
+  // The fitted value is already the best the series offers: the shortfall is the series' step, not a fault.
+  if (fromOhm !== null && Math.abs(fromOhm / toOhm - 1) < 1e-6) return null;
+  const after = controlLimitsOf(design, { prediction, partOverrides: { ...context.fitted, rControlTop: toOhm } });
   const label = partLabel(design, 'rControlTop');
   const seen = measured.alphaMaxDeg != null ? `alpha max measured ${measured.alphaMaxDeg.toFixed(1)} deg` : `alpha max would be ${limits.alphaMaxDeg === null ? 'past the ramp end' : `${limits.alphaMaxDeg.toFixed(1)} deg`}`;
   return {

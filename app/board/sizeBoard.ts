@@ -1,0 +1,135 @@
+/**
+ * Sizing: from targets to a complete part set in standard values, verified with the model.
+ *
+ * 1. Charging current I_C from the ramp: C dv/dt = I_C over the charging interval (REFERENCES.md: slope = I_C/C),
+ *    refined with the full model so the Early droop is included.
+ * 2. Emitter at V (1 - drop fraction); R_E = V_drop / I_E with I_E = I_C (beta+1)/beta (REFERENCES.md: Malvino).
+ * 3. Base at V_E - V_EB; divider R1 = (V - V_B)/I_div, R2 = V_B/(I_div - I_B), I_div by default from the
+ *    stiff-divider rule R_TH <= 0.01 beta R_E (Malvino, from memory).
+ * 4. R1 and R2 rounded each way to the series, R_E re-solved exactly for each pair and rounded each way; the
+ *    combination whose ramp peak lands nearest the target (with headroom to clipping) wins.
+ * 5. Control-limit resistor for alphaMaxDeg, rounded up so alpha stays short of it (controlDivider.ts).
+ */
+import { InputError } from '../errors';
+import { controlLimitsOf } from './controlDivider';
+import { type BoardDesign, boardDesignSchema } from './design';
+import { type ESeriesName, eSeriesTolerancePct, standardValueNeighbours } from './eSeries';
+import { predictRamp, type RampPrediction } from './rampModel';
+import type { SizingTargets } from './sizingTargets';
+import { analyseTolerances, type ToleranceReport } from './toleranceAnalysis';
+import { exactOhmFor } from './trimCandidates';
+
+/** Least headroom between the sized ramp's peak and clipping (V), common practice. */
+export const sizingHeadroomV = 0.5;
+
+export interface SizingResult {
+  design: BoardDesign;
+  prediction: RampPrediction;
+  peakErrorPct: number;
+  tolerance: ToleranceReport;
+  /** The values before rounding to the series (ohm). */
+  exactOhm: { rEmitter: number; rBiasTop: number; rBiasBottom: number; rControlTop: number | null };
+  notes: string[];
+}
+
+function neighbours(value: number, series: ESeriesName): number[] {
+  const { below, above } = standardValueNeighbours(value, series);
+  return below === above ? [below] : [below, above];
+}
+
+function designFrom(targets: SizingTargets, ohm: { rEmitter: number; rBiasTop: number; rBiasBottom: number; rControlTop?: number }): BoardDesign {
+  const tolerancePct = eSeriesTolerancePct[targets.series as ESeriesName];
+  return boardDesignSchema.parse({
+    name: targets.name,
+    mainsHz: targets.mainsHz,
+    rectifier: targets.rectifier,
+    supplyV: targets.supplyV,
+    rampTargetV: targets.rampTargetV,
+    alphaMinDeg: targets.alphaMinDeg,
+    alphaMaxDeg: targets.alphaMaxDeg,
+    syncPhaseDeg: targets.syncPhaseDeg,
+    syncResetUs: targets.syncResetUs,
+    gatePulseUs: targets.gatePulseUs,
+    parts: {
+      rEmitter: { ohm: ohm.rEmitter, tolerancePct },
+      rBiasTop: { ohm: ohm.rBiasTop, tolerancePct },
+      rBiasBottom: { ohm: ohm.rBiasBottom, tolerancePct },
+      cRamp: { farad: targets.cRampFarad, tolerancePct: targets.capacitorTolerancePct },
+      ...(ohm.rControlTop !== undefined ? { rControlTop: { ohm: ohm.rControlTop, tolerancePct } } : {}),
+      potControl: { ohm: targets.potControlOhm, tolerancePct: 20 },
+    },
+    transistor: targets.transistor,
+  });
+}
+
+export function sizeBoard(targets: SizingTargets): SizingResult {
+  const series = targets.series as ESeriesName;
+  const { vebV, beta, vecSatV } = targets.transistor;
+  const notes: string[] = [];
+  const supplyV = targets.supplyV;
+  const emitterV = supplyV * (1 - targets.emitterDropFraction);
+  if (emitterV - vecSatV < targets.rampTargetV + sizingHeadroomV) {
+    throw new InputError(
+      `an emitter drop of ${(targets.emitterDropFraction * 100).toFixed(0)} % puts the emitter at ${emitterV.toFixed(2)} V, so the ramp clips near ${(emitterV - vecSatV).toFixed(2)} V, ` +
+        `too close to the ${targets.rampTargetV} V target (needs ${sizingHeadroomV} V headroom): lower the emitter drop or the target, or raise the supply`,
+      'emitterDropFraction',
+    );
+  }
+  const chargingS = 1 / (2 * targets.mainsHz) - targets.syncResetUs * 1e-6;
+  if (!(chargingS > 0)) throw new InputError('the reset time leaves no charging time in a half-cycle', 'syncResetUs');
+  const collectorA = (targets.cRampFarad * targets.rampTargetV) / chargingS;
+  const emitterA = (collectorA * (beta + 1)) / beta;
+  const rEmitterFirst = (supplyV - emitterV) / emitterA;
+  const baseV = emitterV - vebV;
+  const baseA = emitterA / (beta + 1);
+  // Stiff divider: R_TH = 0.01 beta R_E; with R_TH ~ (V - V_B) V_B / (V I_div) that fixes I_div.
+  const dividerA = targets.dividerCurrentA ?? ((supplyV - baseV) * baseV) / (supplyV * 0.01 * beta * rEmitterFirst);
+  if (dividerA <= 2 * baseA) {
+    throw new InputError(`a divider current of ${(dividerA * 1e6).toFixed(1)} uA is not well above the base current (${(baseA * 1e6).toFixed(2)} uA): raise it`, 'dividerCurrentA');
+  }
+  const exactTop = (supplyV - baseV) / dividerA;
+  const exactBottom = baseV / (dividerA - baseA);
+
+  let best: { design: BoardDesign; prediction: RampPrediction; score: number; exactEmitter: number } | null = null;
+  for (const rBiasTop of neighbours(exactTop, series)) {
+    for (const rBiasBottom of neighbours(exactBottom, series)) {
+      const provisional = designFrom(targets, { rEmitter: rEmitterFirst, rBiasTop, rBiasBottom });
+      if ((supplyV * rBiasBottom) / (rBiasTop + rBiasBottom) + vebV >= supplyV) continue;
+      const exactEmitter = exactOhmFor({ design: provisional, series, vebShiftV: 0, fitted: {} }, 'rEmitter', targets.rampTargetV);
+      if (exactEmitter === null) continue;
+      for (const rEmitter of neighbours(exactEmitter, series)) {
+        const design = designFrom(targets, { rEmitter, rBiasTop, rBiasBottom });
+        const prediction = predictRamp(design);
+        const errorPct = (Math.abs(prediction.peakV - targets.rampTargetV) / targets.rampTargetV) * 100;
+        const score = errorPct + (prediction.clipped || prediction.headroomV < sizingHeadroomV ? 100 : 0);
+        if (best === null || score < best.score) best = { design, prediction, score, exactEmitter };
+      }
+    }
+  }
+  if (best === null) throw new InputError('no divider in the series leaves the transistor conducting at these targets', 'supplyV');
+
+  const limits = controlLimitsOf(best.design, { prediction: best.prediction });
+  let design = best.design;
+  let exactControl: number | null = null;
+  if (limits.limitResistorOhm !== null) {
+    exactControl = limits.limitResistorOhm;
+    // Round up: a larger top resistor keeps alpha short of alphaMaxDeg.
+    const rControlTop = standardValueNeighbours(limits.limitResistorOhm, series).above;
+    design = designFrom(targets, { rEmitter: best.design.parts.rEmitter.ohm, rBiasTop: best.design.parts.rBiasTop.ohm, rBiasBottom: best.design.parts.rBiasBottom.ohm, rControlTop });
+  } else {
+    notes.push(`alphaMaxDeg ${targets.alphaMaxDeg} deg lies outside the ramp: no control-limit resistor fitted`);
+  }
+  const prediction = predictRamp(design);
+  const peakErrorPct = ((prediction.peakV - targets.rampTargetV) / targets.rampTargetV) * 100;
+  if (prediction.clipped || prediction.headroomV < sizingHeadroomV) {
+    notes.push(`only ${prediction.headroomV.toFixed(2)} V headroom to clipping: lower the emitter drop fraction`);
+  }
+  return {
+    design,
+    prediction,
+    peakErrorPct,
+    tolerance: analyseTolerances(design, { runs: 400 }),
+    exactOhm: { rEmitter: best.exactEmitter, rBiasTop: exactTop, rBiasBottom: exactBottom, rControlTop: exactControl },
+    notes,
+  };
+}

@@ -1,0 +1,42 @@
+/**
+ * What a designer asks `size` for (validated at the edge with zod, like the design file): supply, mains,
+ * rectifier, ramp height, the capacitor already chosen, the E-series to buy from, how much of the supply the
+ * emitter resistor drops, and the divider current.
+ */
+import { z } from 'zod';
+import { eSeriesNames } from './eSeries';
+
+export const sizingTargetsSchema = z.object({
+  name: z.string().min(1).default('Sized board'),
+  mainsHz: z.number().min(45, 'mains frequency must be 45-65 Hz').max(65, 'mains frequency must be 45-65 Hz'),
+  rectifier: z.enum(['half-wave', 'full-wave']),
+  supplyV: z.number().positive('the supply must be above 0 V').max(100),
+  rampTargetV: z.number().positive('the ramp target must be above 0 V'),
+  cRampFarad: z.number().positive('the ramp capacitor must be above 0 F').max(1e-3),
+  capacitorTolerancePct: z.number().min(0).max(80).default(10),
+  series: z.enum(eSeriesNames as [string, ...string[]]).default('E24'),
+  /**
+   * Share of the supply across the emitter resistor. A larger drop makes the current less sensitive to V_EB
+   * (its drift is a smaller share of the drop) but leaves less headroom for the ramp. Default 0.15 (common practice: 10-25 %).
+   */
+  emitterDropFraction: z.number().gt(0, 'the emitter drop fraction must be above 0').lt(0.9, 'the emitter drop fraction must be below 0.9').default(0.15),
+  /** Current through the base divider (A). Default: the stiff-divider rule R_TH <= 0.01 beta R_E (Malvino, from memory). */
+  dividerCurrentA: z.number().positive('the divider current must be above 0 A').optional(),
+  alphaMinDeg: z.number().min(0).max(180).default(0),
+  alphaMaxDeg: z.number().gt(0).max(180).default(165),
+  syncPhaseDeg: z.number().min(-90).max(90).default(0),
+  syncResetUs: z.number().min(0).max(5000).default(300),
+  gatePulseUs: z.number().positive().max(10000).default(200),
+  potControlOhm: z.number().positive().default(4700),
+  transistor: z
+    .object({
+      vebV: z.number().min(0.3).max(1.0).default(0.65),
+      beta: z.number().min(10).max(2000).default(150),
+      earlyV: z.number().positive().max(1000).default(60),
+      vecSatV: z.number().min(0).max(2).default(0.2),
+    })
+    .default({ vebV: 0.65, beta: 150, earlyV: 60, vecSatV: 0.2 }),
+});
+
+export type SizingTargets = z.output<typeof sizingTargetsSchema>;
+export type SizingTargetsInput = z.input<typeof sizingTargetsSchema>;

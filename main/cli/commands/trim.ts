@@ -1,0 +1,74 @@
+/**
+ * `rampwright trim --design <file> --capture <file>`: measure the capture, estimate what the board's current
+ * source does, and list the resistor changes (standard values) that bring the ramp to its target
+ * (app/board/trimPlan.ts). The capture is read block by block (main/capture) into the analysis engine (app/bench).
+ */
+import type { Command } from 'commander';
+import type { ESeriesName } from '../../../app/board/eSeries';
+import { formatVolt } from '../../../app/board/formatValues';
+import type { RampReadings } from '../../../app/board/rampReadings';
+import { planTrim, type TrimPlan } from '../../../app/board/trimPlan';
+import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
+import type { CaptureReadings } from '../../../app/bench/readings';
+import { InputError } from '../../../app/errors';
+import { loadBoardDesign } from '../../board/loadBoardDesign';
+import { readCaptureFile } from '../../capture/readCaptureFile';
+
+interface TrimOptions {
+  design: string;
+  capture: string;
+  series: string;
+  rate?: string;
+  json?: boolean;
+}
+
+const allowedSeries = ['E12', 'E24', 'E96'] as const;
+
+/** The ramp readings the trim plan needs, or an InputError saying which reading the capture lacks. */
+export function rampReadingsOf(readings: CaptureReadings, capturePath: string): RampReadings {
+  const ramp = readings.ramp;
+  if (ramp.peakV === null || ramp.floorV === null || ramp.slopeVPerMs === null) {
+    throw new InputError('no complete ramp found (is the ramp test point connected, and the capture a few mains cycles long?)', capturePath);
+  }
+  return { floorV: ramp.floorV, peakV: ramp.peakV, slopeVPerMs: ramp.slopeVPerMs, startDelayDeg: ramp.startDelayDeg ?? undefined, clipped: ramp.clipped };
+}
+
+function printHuman(plan: TrimPlan, ramp: RampReadings): void {
+  const lines = [
+    `Measured ramp: floor ${formatVolt(ramp.floorV)}, peak ${formatVolt(ramp.peakV)}, slope ${ramp.slopeVPerMs.toFixed(3)} V/ms${ramp.clipped ? ', clipped' : ''}`,
+    `Estimate: charging current ${(plan.estimate.chargingCurrentA * 1e3).toFixed(3)} mA (design ${(plan.estimate.designCurrentA * 1e3).toFixed(3)} mA), effective V_EB ${plan.estimate.vebV.toFixed(3)} V`,
+    plan.summary,
+  ];
+  plan.suggestions.forEach((suggestion, index) => lines.push(`  ${index + 1}. ${suggestion.reason}`));
+  if (plan.controlLimit) lines.push(`Control limit: ${plan.controlLimit.reason}`);
+  for (const note of plan.notes) lines.push(`Note: ${note}`);
+  process.stdout.write(`${lines.join('\n')}\n`);
+}
+
+export function registerTrimCommand(program: Command): void {
+  program
+    .command('trim')
+    .description('measure a capture against its board design and say which resistor to change, to which standard value')
+    .requiredOption('--design <file>', 'board design (*.board.json)')
+    .requiredOption('--capture <file>', 'capture (.csv, or COMTRADE .cfg/.dat)')
+    .option('--series <name>', 'E-series to pick values from: E12, E24 or E96', 'E24')
+    .option('--rate <hertz>', 'sample rate of a CSV capture without a t column')
+    .option('--json', 'print the plan as JSON')
+    .action(async (options: TrimOptions) => {
+      const series = options.series.toUpperCase();
+      if (!(allowedSeries as readonly string[]).includes(series)) throw new InputError(`"${options.series}" is not one of E12, E24, E96`, '--series');
+      const sampleRateHz = options.rate === undefined ? undefined : Number(options.rate);
+      if (sampleRateHz !== undefined && !(sampleRateHz > 0)) throw new InputError(`"${options.rate}" is not a sample rate in Hz`, '--rate');
+      const design = await loadBoardDesign(options.design);
+      const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false });
+      for await (const block of readCaptureFile(options.capture, { sampleRateHz })) analyzer.push(block);
+      const readings = analyzer.finish();
+      const ramp = rampReadingsOf(readings, options.capture);
+      const plan = planTrim(design, ramp, { series: series as ESeriesName });
+      if (options.json) {
+        process.stdout.write(`${JSON.stringify({ ...plan, design: options.design, capture: options.capture, ramp: readings.ramp }, null, 2)}\n`);
+      } else {
+        printHuman(plan, ramp);
+      }
+    });
+}

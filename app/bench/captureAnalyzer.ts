@@ -115,12 +115,14 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
     const periodSamples = windowPeriodSamples(window);
     const toDeg = (samples: number): number => (samples / periodSamples) * 360 + syncPhaseDeg;
     const marginSamples = Math.max(2, Math.ceil(0.05 * periodSamples));
-    const cut = history.window(window.startIndex - marginSamples, window.endIndex + marginSamples + 1);
+    // The ramp charges in the half-cycle that fires: the whole window full-wave, up to the falling crossing half-wave.
+    const chargeEndIndex = rectifier === 'half-wave' && Number.isFinite(window.midIndex) ? window.midIndex : window.endIndex;
+    const cut = history.window(window.startIndex - marginSamples, chargeEndIndex + marginSamples + 1);
     const minimumSpanV = Math.max(0.05, 0.2 * (levels?.rampSpreadV ?? 0));
     const segment = analyzeRampSegment(cut.values, {
       windowStartIndex: window.startIndex - cut.firstIndex,
-      windowEndIndex: window.endIndex - cut.firstIndex,
-      chargeEndCrossingIndex: (rectifier === 'full-wave' ? window.endIndex : window.midIndex) - cut.firstIndex,
+      windowEndIndex: chargeEndIndex - cut.firstIndex,
+      chargeEndCrossingIndex: chargeEndIndex - cut.firstIndex,
       minimumSpanV,
     });
     let resetUs: number | null = null;

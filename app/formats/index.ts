@@ -7,6 +7,7 @@ export { parseComtradeConfig } from './comtradeConfigParse';
 export { formatComtradeConfig, formatComtradeDateTime } from './comtradeConfigFormat';
 export { analogScaling, mapComtradeChannels, type ComtradeChannelSource, type ComtradeChannelSources } from './comtradeChannelMap';
 export { createComtradeDataReader, type ComtradeDataReaderOptions } from './comtradeDataReader';
+export { createComtradeCffReader } from './comtradeCffReader';
 export { createComtradeDataEncoder, type ComtradeDataEncoder, type ComtradeEncoderOptions } from './comtradeDataEncoder';
 export {
   chooseComtradeScaling,

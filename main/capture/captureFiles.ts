@@ -3,18 +3,16 @@ import { basename, dirname, extname, join } from 'node:path';
 import { readdirSync } from 'node:fs';
 import { InputError } from '../../app/errors';
 
-export type CaptureFileKind = 'csv' | 'comtrade';
+export type CaptureFileKind = 'csv' | 'comtrade' | 'comtrade-single';
 
 /** Which reader a path needs, from its extension (any letter case). */
 export function captureKindOf(path: string): CaptureFileKind {
   const extension = extname(path).toLowerCase();
   if (extension === '.csv') return 'csv';
   if (extension === '.cfg' || extension === '.dat') return 'comtrade';
-  if (extension === '.cff') {
-    throw new InputError('single-file COMTRADE (.cff) is not read yet: save the record as a .cfg and .dat pair', path);
-  }
+  if (extension === '.cff') return 'comtrade-single';
   throw new InputError(
-    `unknown capture type "${extension || '(no extension)'}": use .csv, or a COMTRADE .cfg with its .dat`,
+    `unknown capture type "${extension || '(no extension)'}": use .csv, a COMTRADE .cfg with its .dat, or a single-file .cff`,
     path,
   );
 }

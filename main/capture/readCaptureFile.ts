@@ -8,6 +8,7 @@ import { createCsvReader } from '../../app/formats/csvReader';
 import { parseComtradeConfig } from '../../app/formats/comtradeConfigParse';
 import type { ComtradeConfig } from '../../app/formats/comtradeConfig';
 import { createComtradeDataReader } from '../../app/formats/comtradeDataReader';
+import { createComtradeCffReader } from '../../app/formats/comtradeCffReader';
 import { assertFileExists, captureKindOf, comtradePartner } from './captureFiles';
 
 export interface ReadCaptureOptions {
@@ -57,7 +58,8 @@ async function* streamThrough(path: string, reader: CaptureReader, chunkBytes: n
 }
 
 /**
- * Reads a capture file block by block: `.csv`, or a COMTRADE pair given by either its `.cfg` or its `.dat`.
+ * Reads a capture file block by block: `.csv`, a COMTRADE pair given by either its `.cfg` or its `.dat`,
+ * or a single-file COMTRADE `.cff` (2013).
  * The data is streamed in chunks, so a capture of any length costs the memory of one chunk and one block.
  */
 export async function* readCaptureFile(path: string, options: ReadCaptureOptions = {}): AsyncGenerator<SampleBlock> {
@@ -66,6 +68,11 @@ export async function* readCaptureFile(path: string, options: ReadCaptureOptions
   await assertFileExists(path);
   if (kind === 'csv') {
     const reader = createCsvReader({ sampleRateHz: options.sampleRateHz, blockSamples: options.blockSamples, source: path });
+    yield* streamThrough(path, reader, chunkBytes);
+    return;
+  }
+  if (kind === 'comtrade-single') {
+    const reader = createComtradeCffReader({ channelMap: options.channelMap, blockSamples: options.blockSamples, source: path });
     yield* streamThrough(path, reader, chunkBytes);
     return;
   }

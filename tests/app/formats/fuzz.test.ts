@@ -3,6 +3,7 @@ import fc from 'fast-check';
 import { createCsvReader } from '../../../app/formats/csvReader';
 import { parseComtradeConfig } from '../../../app/formats/comtradeConfigParse';
 import { createComtradeDataReader } from '../../../app/formats/comtradeDataReader';
+import { createComtradeCffReader } from '../../../app/formats/comtradeCffReader';
 import { InputError } from '../../../app/errors';
 import type { CaptureReader } from '../../../app/formats/captureReader';
 import { fixtureBytes } from './fixtureBytes';
@@ -141,6 +142,16 @@ describe('fuzz: readers fail only with an InputError that names the problem', ()
         });
       }),
       { numRuns: 1500 },
+    );
+  });
+
+  it('COMTRADE single file (.cff), mutated', () => {
+    const originals = [fixtureBytes('unit-rw0142-ascii-2013.cff'), fixtureBytes('unit-rw0142-binary-2013.cff')];
+    fc.assert(
+      fc.property(fc.constantFrom(...originals), fc.array(mutation, { minLength: 1, maxLength: 4 }), fc.array(fc.nat(), { maxLength: 3 }), (original, mutations, cuts) => {
+        onlyInputErrors('fuzz.cff', () => feed(createComtradeCffReader({ source: 'fuzz.cff', blockSamples: 2 }), mutate(original, mutations), cuts));
+      }),
+      { numRuns: 1000 },
     );
   });
 });

@@ -50,6 +50,12 @@ describe('readCaptureFile', () => {
     }
   });
 
+  it('reads a single-file .cff in small chunks', async () => {
+    const capture = joinBlocks(await collect(fixture('unit-rw0142-binary-2013.cff'), { chunkBytes: 9 }));
+    // Same record as unit-rw0142-binary-2013.cfg/.dat: ramp = 0.001 x + 5.
+    expect(capture.ramp.map((value) => Number(value.toFixed(9)))).toEqual([5, 6.5, 8, 0]);
+  });
+
   it('passes the channel map and finds partners written in capitals', async () => {
     copyFileSync(fixture('unit-rw0207-binary32-1999.cfg'), join(folder, 'UNIT7.CFG'));
     copyFileSync(fixture('unit-rw0207-binary32-1999.dat'), join(folder, 'UNIT7.DAT'));
@@ -74,7 +80,7 @@ describe('readCaptureFile', () => {
     writeFileSync(join(folder, 'orphan.dat'), 'x');
     expect((await errorOf(collect(join(folder, 'orphan.dat')))).message).toContain('orphan.dat: the COMTRADE data has no .cfg beside it');
     expect((await errorOf(collect(join(folder, 'capture.txt')))).message).toContain('unknown capture type ".txt"');
-    expect((await errorOf(collect(join(folder, 'capture.cff')))).message).toContain('.cff');
+    expect((await errorOf(collect(join(folder, 'capture.cff')))).message).toContain('capture.cff: no such capture file');
     mkdirSync(join(folder, 'folder.csv'));
     expect((await errorOf(collect(join(folder, 'folder.csv')))).message).toContain('is not a file');
   });

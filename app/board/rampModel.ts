@@ -170,7 +170,9 @@ export function rampVoltageAt(prediction: RampPrediction, elapsedS: number): num
     return activeRampV(floorV, chargingCurrentA, outputConductanceS, capacitanceFarad, timeS);
   }
   const sinceClipS = timeS - clipOnsetS;
-  return prediction.saturatedFinalV + (clipV - prediction.saturatedFinalV) * Math.exp(-sinceClipS / prediction.saturatedTimeConstantS);
+  // A reset too short to pull the ramp below the clipping level starts the saturated part from the floor.
+  const startV = Math.max(clipV, floorV);
+  return prediction.saturatedFinalV + (startV - prediction.saturatedFinalV) * Math.exp(-sinceClipS / prediction.saturatedTimeConstantS);
 }
 
 /**
@@ -184,6 +186,8 @@ export function timeToReachV(prediction: RampPrediction, levelV: number): number
   if (clipOnsetS === null || levelV <= clipV) {
     return clipOnsetTime(floorV, levelV, chargingCurrentA, outputConductanceS, capacitanceFarad);
   }
-  const ratio = (levelV - prediction.saturatedFinalV) / (clipV - prediction.saturatedFinalV);
-  return clipOnsetS - prediction.saturatedTimeConstantS * Math.log(ratio);
+  const ratio = (levelV - prediction.saturatedFinalV) / (Math.max(clipV, floorV) - prediction.saturatedFinalV);
+  const timeS = clipOnsetS - prediction.saturatedTimeConstantS * Math.log(ratio);
+  // A level equal to the peak within rounding on a flat saturated tail: it is reached by the interval's end.
+  return Number.isFinite(timeS) && timeS <= prediction.chargingIntervalS ? timeS : prediction.chargingIntervalS;
 }

@@ -2,9 +2,9 @@
  * `rampwright sim`: the virtual board. Streams the logger protocol to a device path in real time (`--link`), or
  * writes a capture file (`--out`). Options are checked here, at the edge, with messages naming the option.
  */
-import { constants, createWriteStream, existsSync, openSync } from 'node:fs';
+import { closeSync, constants, existsSync, openSync, writeSync } from 'node:fs';
 import { readFile } from 'node:fs/promises';
-import { isatty, ReadStream } from 'node:tty';
+import { isatty, ReadStream, WriteStream } from 'node:tty';
 import type { Command } from 'commander';
 import { parseBoardDesign } from '../../../app/board/parseBoardDesign';
 import type { BoardDesign } from '../../../app/board/design';
@@ -108,8 +108,72 @@ interface LinkRunResult {
   unplugged: boolean;
 }
 
-/** Output buffered beyond this many seconds of data means the reader is not keeping up: the logger overruns. */
+/** Output waiting beyond this many seconds of data means the reader is not keeping up: the logger overruns. */
 const backlogLimitS = 0.5;
+const linkBytesPerS = 271_073; // PROTOCOL.md link budget at 25 kS/s x 4 channels
+
+interface LinkWriter {
+  push(text: string): void;
+  queuedBytes(): number;
+  close(): void;
+}
+
+/**
+ * A terminal (pseudo-terminal) gets libuv's tty stream switched to non-blocking writes: Node makes tty writes
+ * blocking by default, and a blocking write to a terminal nobody reads would freeze the process, Ctrl-C
+ * included. Unsent bytes wait in the stream; their count drives the logger's overruns. A plain file is written
+ * synchronously (it never waits on a reader).
+ */
+function createLinkWriter(fd: number, path: string): LinkWriter {
+  if (isatty(fd)) {
+    const stream = new WriteStream(fd);
+    (stream as unknown as { _handle?: { setBlocking?: (blocking: boolean) => void } })._handle?.setBlocking?.(false);
+    let failure: Error | null = null;
+    stream.on('error', (error) => (failure = error));
+    return {
+      push(text) {
+        if (failure) throw new InputError(`writing failed (${(failure as NodeJS.ErrnoException).code ?? failure.message}): the other end of the link went away`, path);
+        stream.write(text, 'latin1');
+      },
+      queuedBytes: () => stream.writableLength,
+      close: () => stream.destroy(),
+    };
+  }
+  return {
+    push(text) {
+      try {
+        writeSync(fd, text, null, 'latin1');
+      } catch (error) {
+        throw new InputError(`writing failed (${(error as NodeJS.ErrnoException).code ?? String(error)})`, path);
+      }
+    },
+    queuedBytes: () => 0,
+    close: () => closeSync(fd),
+  };
+}
+
+function listenForCommands(path: string, logger: VirtualLogger, onCommand: () => void): ReadStream {
+  const input = new ReadStream(openSync(path, constants.O_RDONLY | constants.O_NOCTTY));
+  try {
+    input.setRawMode(true);
+  } catch {
+    // Raw mode only stops echo and line editing; socat's raw,echo=0 does the same.
+  }
+  let partial = '';
+  input.setEncoding('latin1');
+  input.on('data', (text: string) => {
+    const lines = (partial + text).split('\n');
+    partial = lines.pop() ?? '';
+    if (partial.length > 4096) partial = '';
+    for (const line of lines) {
+      if (line.replace(/\r$/, '').length === 0) continue;
+      logger.handleCommandLine(line);
+      onCommand();
+    }
+  });
+  input.on('error', () => undefined);
+  return input;
+}
 
 export async function streamVirtualLogger(path: string, logger: VirtualLogger, options: LinkRunOptions): Promise<LinkRunResult> {
   if (!existsSync(path)) {
@@ -122,64 +186,34 @@ export async function streamVirtualLogger(path: string, logger: VirtualLogger, o
     const code = (error as NodeJS.ErrnoException).code;
     throw new InputError(code === 'EACCES' ? 'permission denied opening it for writing' : `cannot open it for writing (${code ?? String(error)})`, path);
   }
-  const output = createWriteStream('', { fd: writeFd, autoClose: true });
-  let input: ReadStream | null = null;
+  const writer = createLinkWriter(writeFd, path);
   let commandsAnswered = 0;
-  if (isatty(writeFd)) {
-    const readFd = openSync(path, constants.O_RDONLY | constants.O_NOCTTY);
-    input = new ReadStream(readFd);
-    try {
-      input.setRawMode(true);
-    } catch {
-      // Raw mode only stops echo and line editing; socat's raw,echo=0 does the same.
-    }
-    let partial = '';
-    input.setEncoding('latin1');
-    input.on('data', (text: string) => {
-      const lines = (partial + text).split('\n');
-      partial = lines.pop() ?? '';
-      if (partial.length > 4096) partial = '';
-      for (const line of lines) {
-        if (line.replace(/\r$/, '').length === 0) continue;
-        logger.handleCommandLine(line);
-        commandsAnswered++;
-      }
-    });
-    input.on('error', () => undefined);
-  }
-  let outputError: Error | null = null;
-  output.on('error', (error) => (outputError = error));
-
-  const bytesPerS = 300_000; // PROTOCOL.md link budget, rounded up
+  const input = isatty(writeFd) ? listenForCommands(path, logger, () => commandsAnswered++) : null;
   const tickMs = options.tickMs ?? 20;
   const startedMs = performance.now();
   let dataLines = 0;
   let stopping = false;
-  options.stopSignal?.then(() => (stopping = true));
+  void options.stopSignal?.then(() => (stopping = true));
   try {
     while (!stopping) {
       const elapsedS = (performance.now() - startedMs) / 1000;
       const untilS = options.seconds === null ? elapsedS : Math.min(elapsedS, options.seconds);
-      if (output.writableLength > backlogLimitS * bytesPerS) logger.skipUntil(untilS);
+      if (writer.queuedBytes() > backlogLimitS * linkBytesPerS) logger.skipUntil(untilS);
       const lines = logger.linesUntil(untilS);
       if (lines.length > 0) {
         dataLines += lines.filter((line) => line.startsWith('D ')).length;
-        output.write(`${lines.join('\n')}\n`, 'latin1');
+        writer.push(`${lines.join('\n')}\n`);
       }
-      if (outputError) throw new InputError(`writing failed: ${(outputError as Error).message}`, path);
       options.onTick?.(logger.timeS());
       if (logger.isUnplugged()) break;
       if (options.seconds !== null && untilS >= options.seconds) break;
       await new Promise((resolve) => setTimeout(resolve, tickMs));
     }
+    // Give a slow reader up to a second for what is still queued.
+    for (let wait = 0; wait < 50 && writer.queuedBytes() > 0; wait++) await new Promise((resolve) => setTimeout(resolve, 20));
   } finally {
-    if (input) {
-      input.removeAllListeners('data');
-      input.destroy();
-    }
-    // A reader that never reads would hold the last bytes forever: give it a second, then let go.
-    await Promise.race([new Promise<void>((resolve) => output.end(() => resolve())), new Promise((resolve) => setTimeout(resolve, 1000).unref())]);
-    output.destroy();
+    input?.destroy();
+    writer.close();
   }
   return { dataLines, commandsAnswered, signalS: logger.timeS(), unplugged: logger.isUnplugged() };
 }

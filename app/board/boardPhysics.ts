@@ -18,7 +18,7 @@ export interface BoardPhysicsProblem {
   message: string;
 }
 
-function format(value: number, digits = 3): string {
+function format(value: number, digits = 4): string {
   return Number(value.toPrecision(digits)).toString();
 }
 

@@ -3,7 +3,7 @@
  * page's CSS so a theme change restyles every chart. All charts: `parsing: false` (data already in {x, y}),
  * no animation, fixed scales set by the caller.
  */
-import { Chart, Filler, LinearScale, LineController, LineElement, PointElement, ScatterController, Tooltip, type ChartConfiguration, type ChartDataset } from 'chart.js';
+import { Chart, Filler, LinearScale, LineController, LineElement, PointElement, ScatterController, Tooltip, type ChartConfiguration, type ChartDataset, type Plugin } from 'chart.js';
 
 Chart.register(LineController, ScatterController, LineElement, PointElement, LinearScale, Filler, Tooltip);
 
@@ -34,6 +34,8 @@ export interface XyChartOptions {
   yTick?: (value: number) => string;
   /** Show a tooltip on hover (off for the live fold: it costs frame time). */
   tooltip?: boolean;
+  /** Drawing of our own on top of the datasets (markers). */
+  plugins?: Plugin<'line'>[];
 }
 
 export type XyDataset = ChartDataset<'line', { x: number; y: number }[]>;
@@ -42,6 +44,7 @@ export function createXyChart(canvas: HTMLCanvasElement, options: XyChartOptions
   const config: ChartConfiguration<'line', { x: number; y: number }[]> = {
     type: 'line',
     data: { datasets: [] },
+    plugins: options.plugins ?? [],
     options: {
       parsing: false,
       normalized: true,

@@ -14,13 +14,19 @@ export interface DecimateOptions {
   bucketCount: number;
   xMin: number;
   xMax: number;
+  /**
+   * Keep each bucket's first and last sample as well as its extremes (default true): exact joins between buckets.
+   * Without them a bucket gives at most two points, half the drawing work, for faint background traces.
+   */
+  keepEnds?: boolean;
 }
 
 export function xyDecimateMinMax(series: XYSeries, options: DecimateOptions): XYSeries {
   const { bucketCount, xMin, xMax } = options;
+  const perBucket = options.keepEnds === false ? 2 : 4;
   const length = Math.min(series.x.length, series.y.length);
   if (!(bucketCount >= 1) || !(xMax > xMin)) throw new TypeError('decimation needs bucketCount >= 1 and xMax > xMin');
-  if (length <= bucketCount * 4) return { x: series.x.slice(0, length), y: series.y.slice(0, length) };
+  if (length <= bucketCount * perBucket) return { x: series.x.slice(0, length), y: series.y.slice(0, length) };
 
   const keptIndex = new Int32Array(bucketCount * 4);
   let keptCount = 0;
@@ -34,7 +40,7 @@ export function xyDecimateMinMax(series: XYSeries, options: DecimateOptions): XY
   const flush = (): void => {
     if (firstIndex < 0) return;
     // The four candidates in sample order, without repeats.
-    const candidates = [firstIndex, minIndex, maxIndex, lastIndex].sort((a, b) => a - b);
+    const candidates = perBucket === 4 ? [firstIndex, minIndex, maxIndex, lastIndex].sort((a, b) => a - b) : minIndex < maxIndex ? [minIndex, maxIndex] : [maxIndex, minIndex];
     let previous = -1;
     for (const index of candidates) {
       if (index !== previous) keptIndex[keptCount++] = index;

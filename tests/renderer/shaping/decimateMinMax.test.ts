@@ -35,11 +35,13 @@ describe('xyDecimateMinMax', () => {
       fc.property(
         fc.array(fc.double({ min: -100, max: 100, noNaN: true }), { minLength: 1, maxLength: 3000 }),
         fc.integer({ min: 1, max: 200 }),
-        (values, bucketCount) => {
+        fc.boolean(),
+        (values, bucketCount, keepEnds) => {
+          const perBucket = keepEnds ? 4 : 2;
           const y = Float64Array.from(values);
           const x = Float64Array.from(values, (_, index) => (index / values.length) * 360);
-          const out = xyDecimateMinMax({ x, y }, { bucketCount, xMin: 0, xMax: 360 });
-          expect(out.x.length).toBeLessThanOrEqual(Math.max(values.length <= bucketCount * 4 ? values.length : 0, bucketCount * 4));
+          const out = xyDecimateMinMax({ x, y }, { bucketCount, xMin: 0, xMax: 360, keepEnds });
+          expect(out.x.length).toBeLessThanOrEqual(Math.max(values.length <= bucketCount * perBucket ? values.length : 0, bucketCount * perBucket));
           expect(Math.max(...out.y)).toBe(Math.max(...values));
           expect(Math.min(...out.y)).toBe(Math.min(...values));
           const original = new Map<number, number>();

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { FoldCycle, Reading, StepReport } from '../../../app/contract/readings';
-import { foldCyclesPoints, growScale } from '../../../renderer/shaping/foldPoints';
+import { FoldPointsCache, foldCyclesPoints, growScale } from '../../../renderer/shaping/foldPoints';
 import { readingsCsv } from '../../../renderer/shaping/readingsCsv';
 import { designText, mergeSteps, pickReading } from '../../../renderer/shaping/stepView';
 import { fitLinePoints, transferPointsCsv, transferRangeV } from '../../../renderer/shaping/transferView';
@@ -74,6 +74,17 @@ describe('fold points', () => {
     expect(points.highV).toBe(6.4);
     expect(points.lowV).toBe(-1);
     expect(points.newest.control).toEqual([]);
+  });
+
+  it('reuses a cycle’s points from the cache and redoes a cycle whose stream restarted', () => {
+    const cache = new FoldPointsCache();
+    const first = cache.points([cycle(0, 6), cycle(1, 6.2)], { bucketCount: 100 });
+    const second = cache.points([cycle(0, 6), cycle(1, 6.2), cycle(2, 6.4)], { bucketCount: 100 });
+    expect(second.older.ramp.slice(0, 4)).toEqual(first.older.ramp.slice(0, 4));
+    // Same running index, new start time: a new stream, so its points are worked out again.
+    const restarted = { ...cycle(0, 9), startS: 100 };
+    const third = cache.points([restarted, cycle(9, 6)], { bucketCount: 100 });
+    expect(Math.max(...third.older.ramp.map((point) => point.y))).toBe(9);
   });
 
   it('shows at most the requested number of cycles', () => {

@@ -186,31 +186,62 @@ export function createComtradeDataReader(config: ComtradeConfig, options: Comtra
   const carryView = new DataView(carry.buffer);
   let carryLength = 0;
 
+  const valueType = fileType === 'BINARY' ? 0 : fileType === 'BINARY32' ? 1 : 2;
+  const { kinds, voltsPerCount, offsetV } = plan;
+  /** Volts (or 0/1) of one role's slot in the record at `offset`. */
+  const slotValue = (view: DataView, offset: number, slot: number): number => {
+    const kind = kinds[slot];
+    if (kind === 1) {
+      const at = offset + byteOffset[slot];
+      let count: number;
+      if (valueType === 0) {
+        count = view.getInt16(at, true);
+        if (count === int16Missing) return Number.NaN;
+      } else if (valueType === 1) {
+        count = view.getInt32(at, true);
+        if (count === int32Missing) return Number.NaN;
+      } else {
+        count = view.getFloat32(at, true);
+      }
+      return count * voltsPerCount[slot] + offsetV[slot];
+    }
+    if (kind === 2) return (view.getUint16(offset + byteOffset[slot], true) & bitMask[slot]) === 0 ? 0 : 1;
+    return 0;
+  };
+  const timeOf = (view: DataView, offset: number): number => {
+    const ticks = view.getUint32(offset + 4, true);
+    return ticks === timestampMissing ? Number.NaN : ticks * secondsPerTick;
+  };
+
   const decode = (view: DataView, offset: number): void => {
     recordNumber++;
-    const ticks = view.getUint32(offset + 4, true);
-    row[0] = ticks === timestampMissing ? Number.NaN : ticks * secondsPerTick;
-    for (let slot = 1; slot <= 4; slot++) {
-      const kind = plan.kinds[slot];
-      if (kind === 1) {
-        const at = offset + byteOffset[slot];
-        let count: number;
-        if (fileType === 'BINARY') {
-          count = view.getInt16(at, true);
-          if (count === int16Missing) count = Number.NaN;
-        } else if (fileType === 'BINARY32') {
-          count = view.getInt32(at, true);
-          if (count === int32Missing) count = Number.NaN;
-        } else {
-          count = view.getFloat32(at, true);
-        }
-        row[slot] = count * plan.voltsPerCount[slot] + plan.offsetV[slot];
-      } else if (kind === 2) {
-        row[slot] = (view.getUint16(offset + byteOffset[slot], true) & bitMask[slot]) === 0 ? 0 : 1;
-      }
-    }
+    row[0] = timeOf(view, offset);
     checkTime(row[0]);
-    builder.append(row[0], row[1], row[2], row[3], row[4], out);
+    builder.append(row[0], slotValue(view, offset, 1), slotValue(view, offset, 2), slotValue(view, offset, 3), slotValue(view, offset, 4), out);
+  };
+
+  /**
+   * With a fixed rate, whole runs of records go straight into the block's arrays: no per-sample call into the
+   * builder (the timestamps are not needed beyond the first record's, which sets the time origin).
+   */
+  const decodeRun = (view: DataView, start: number, records: number): void => {
+    let done = 0;
+    while (done < records) {
+      const run = Math.min(builder.roomInBlock, records - done);
+      const { sync, ramp, gate, control } = builder.buffers();
+      const base = builder.writeIndex;
+      let offset = start + done * recordBytes;
+      const firstTimeS = timeOf(view, offset);
+      for (let index = 0; index < run; index++, offset += recordBytes) {
+        sync[base + index] = slotValue(view, offset, 1);
+        ramp[base + index] = slotValue(view, offset, 2);
+        gate[base + index] = slotValue(view, offset, 3);
+        if (control !== null) control[base + index] = slotValue(view, offset, 4);
+      }
+      recordNumber += run;
+      builder.commitFixedRate(run, firstTimeS, out);
+      done += run;
+    }
   };
 
   return {
@@ -228,9 +259,15 @@ export function createComtradeDataReader(config: ComtradeConfig, options: Comtra
         carryLength = 0;
       }
       const view = new DataView(chunk.buffer, chunk.byteOffset, chunk.byteLength);
-      while (position + recordBytes <= chunk.length) {
-        decode(view, position);
-        position += recordBytes;
+      const wholeRecords = Math.floor((chunk.length - position) / recordBytes);
+      if (fixedRateHz !== undefined) {
+        decodeRun(view, position, wholeRecords);
+        position += wholeRecords * recordBytes;
+      } else {
+        for (let index = 0; index < wholeRecords; index++) {
+          decode(view, position);
+          position += recordBytes;
+        }
       }
       if (position < chunk.length) {
         carry.set(chunk.subarray(position), 0);

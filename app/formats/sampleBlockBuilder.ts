@@ -113,6 +113,32 @@ export class SampleBlockBuilder {
     if (this.count === this.blockSamples) this.emit(this.takeBlock(), out);
   }
 
+  /**
+   * Fixed-rate fast path for binary readers: write up to `roomInBlock` samples straight into `buffers()`
+   * from index `writeIndex`, then commit them here. `firstTimeS` is the time of the first committed sample
+   * (only the file's first sample sets the origin; NaN when it has none).
+   */
+  get roomInBlock(): number {
+    return this.blockSamples - this.count;
+  }
+
+  get writeIndex(): number {
+    return this.count;
+  }
+
+  buffers(): { sync: Float64Array; ramp: Float64Array; gate: Float64Array; control: Float64Array | null } {
+    return { sync: this.sync, ramp: this.ramp, gate: this.gate, control: this.control };
+  }
+
+  commitFixedRate(samples: number, firstTimeS: number, out: SampleBlock[]): void {
+    if (this.fixedRateHz === undefined || samples <= 0) return;
+    if (this.samplesSeen === 0 && Number.isFinite(firstTimeS)) this.originS = firstTimeS;
+    if (this.count === 0) this.blockStartS = this.originS + this.samplesSeen / this.fixedRateHz;
+    this.count += samples;
+    this.samplesSeen += samples;
+    if (this.count === this.blockSamples) out.push(this.takeBlock());
+  }
+
   /** Ends the stream: the partial block, if any. */
   flush(out: SampleBlock[]): void {
     if (this.count > 0) this.emit(this.takeBlock(), out);

@@ -50,14 +50,29 @@ function peakResidentMiB(): number {
 
 async function timeRead(label: string, path: string): Promise<void> {
   const started = performance.now();
+  const cpuStarted = process.cpuUsage();
   let samples = 0;
-  for await (const block of readCaptureFile(path)) samples += block.sync.length;
+  let blocks = 0;
+  let readingRssMiB = 0;
+  let readingHeapMiB = 0;
+  for await (const block of readCaptureFile(path)) {
+    samples += block.sync.length;
+    // Sampled every 64 blocks: the resident size while reading, which stays flat if the file is streamed.
+    if (blocks++ % 64 === 0) {
+      const usage = process.memoryUsage();
+      readingRssMiB = Math.max(readingRssMiB, usage.rss / 2 ** 20);
+      readingHeapMiB = Math.max(readingHeapMiB, (usage.heapUsed + usage.arrayBuffers) / 2 ** 20);
+    }
+  }
   const wallS = (performance.now() - started) / 1000;
+  const cpuS = process.cpuUsage(cpuStarted).user / 1e6;
   const megabytes = statSync(path).size / 1e6;
   console.log(
     `${label.padEnd(18)} ${samples} samples x 4 channels in ${wallS.toFixed(2)} s: ` +
       `${(samples / wallS / 1e6).toFixed(2)} MS/s per channel set, ${(durationS / wallS).toFixed(0)}x real time, ` +
-      `${megabytes.toFixed(0)} MB file, peak RSS so far ${peakResidentMiB().toFixed(0)} MiB`,
+      `${megabytes.toFixed(0)} MB file; CPU ${cpuS.toFixed(2)} s (${(durationS / cpuS).toFixed(0)}x real time on one core); ` +
+      `while reading: heap + buffers at most ${readingHeapMiB.toFixed(0)} MiB, RSS at most ${readingRssMiB.toFixed(0)} MiB ` +
+      '(RSS keeps what the writing step took)',
   );
 }
 

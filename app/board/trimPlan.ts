@@ -76,8 +76,10 @@ export interface TrimPlan {
 const effortPct: Record<string, number> = { parallel: 0, replace: 0.3, series: 0.6, divider: 1.5, dividerWithEmitter: 2.5 };
 
 function effortOf(candidate: TrimCandidate): number {
-  if (candidate.part !== 'rEmitter') return candidate.alsoChange ? effortPct.dividerWithEmitter : effortPct.divider;
-  return effortPct[candidate.method];
+  if (candidate.part === 'rEmitter') return effortPct[candidate.method];
+  // A divider moved far from its design value changes the board's bias a lot: prefer the smaller move.
+  const movePct = 2 * Math.abs(Math.log(candidate.toOhm / candidate.fromOhm));
+  return (candidate.alsoChange ? effortPct.dividerWithEmitter : effortPct.divider) + movePct;
 }
 
 export function planTrim(design: BoardDesign, measured: RampReadings, options: TrimPlanOptions = {}): TrimPlan {

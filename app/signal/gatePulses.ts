@@ -3,6 +3,10 @@
  * state levels, found by linear interpolation between the bracketing samples; a pulse starts only when the signal
  * also passes 10 % of the span beyond the mesial level (hysteresis against noise), and ends likewise.
  * The control voltage is interpolated at each pulse's rising crossing: the firing instant.
+ * A pulse that only one sample sees (as wide as the sample interval or less) has unresolved edges: that sample may
+ * sit on the rising or the falling edge, so interpolating with it could misplace the edge by most of a sample.
+ * Its edges are put mid-way between the sample and its neighbours, the position that is never more than half a
+ * sample from a step edge (REFERENCES.md: a step-like edge allows +-half a sample).
  */
 export interface GatePulse {
   /** Rising 50 % crossing (sub-sample position in the stream's numbering). */
@@ -39,6 +43,9 @@ export class GatePulseTracker {
   private open: GatePulse | null = null;
   private openSumV = 0;
   private openCount = 0;
+  private openHighIndex = Number.NaN;
+  private openControlBefore = Number.NaN;
+  private openControlAtHigh = Number.NaN;
   // Running extremes, used only when the first record showed no pulses to learn levels from.
   private seenMinV = Number.POSITIVE_INFINITY;
   private seenMaxV = Number.NEGATIVE_INFINITY;
@@ -93,11 +100,17 @@ export class GatePulseTracker {
           this.open = { riseIndex, fallIndex: null, amplitudeV: 0, controlV };
           this.openSumV = 0;
           this.openCount = 0;
+          this.openControlBefore = this.previousControl;
           started.push(this.open);
         } else if (this.high && value < mesialV - hysteresisV) {
           this.high = false;
           if (this.open) {
             this.open.fallIndex = Number.isFinite(this.candidateIndex) ? this.candidateIndex : index;
+            if (this.openCount === 1) {
+              this.open.riseIndex = this.openHighIndex - 0.5;
+              this.open.fallIndex = this.openHighIndex + 0.5;
+              if (this.open.controlV !== null) this.open.controlV = (this.openControlBefore + this.openControlAtHigh) / 2;
+            }
             this.open.amplitudeV = this.openCount > 0 ? this.openSumV / this.openCount - levels.lowV : spanV;
             completed.push(this.open);
             this.open = null;
@@ -106,6 +119,10 @@ export class GatePulseTracker {
         if (this.high && this.open && value > mesialV) {
           this.openSumV += value;
           this.openCount += 1;
+          if (this.openCount === 1) {
+            this.openHighIndex = index;
+            this.openControlAtHigh = controlValue;
+          }
         }
       }
       this.previousValue = value;

@@ -48,3 +48,15 @@ describe('GatePulseTracker', () => {
     expect(started[started.length - 1].riseIndex).toBeCloseTo(6.5, 12);
   });
 });
+
+describe('GatePulseTracker, pulses no wider than a sample', () => {
+  it('a pulse seen by one sample gets its edges mid-way to the neighbours (never beyond half a sample)', () => {
+    // The single high sample (index 5) sits on the falling edge at 3.7 V: interpolating with it would put the rise
+    // at 4.68; the true rise may be anywhere in (4, 5], so the minimax estimate is 4.5.
+    const { started, completed } = new GatePulseTracker({ lowV: 0, highV: 5 }).push([0, 0, 0, 0, 0, 3.7, 0, 0], [0, 1, 2, 3, 4, 5, 6, 7], 0);
+    expect(completed).toHaveLength(1);
+    expect(started[0].riseIndex).toBeCloseTo(4.5, 12);
+    expect(started[0].fallIndex).toBeCloseTo(5.5, 12);
+    expect(started[0].controlV).toBeCloseTo(4.5, 12);
+  });
+});

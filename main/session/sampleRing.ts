@@ -43,3 +43,27 @@ export function createSampleRing(options: { keepS: number }): SampleRing {
     },
   };
 }
+
+/** Joins consecutive blocks of one stretch into one block (for keeping a capture). */
+export function mergeBlocks(blocks: readonly SampleBlock[]): SampleBlock {
+  const total = blocks.reduce((sum, block) => sum + block.sync.length, 0);
+  const hasControl = blocks.every((block) => block.control !== null);
+  const merged: SampleBlock = {
+    startS: blocks[0].startS,
+    sampleRateHz: blocks[0].sampleRateHz,
+    sync: new Float64Array(total),
+    ramp: new Float64Array(total),
+    gate: new Float64Array(total),
+    control: hasControl ? new Float64Array(total) : null,
+    afterGap: blocks[0].afterGap,
+  };
+  let offset = 0;
+  for (const block of blocks) {
+    merged.sync.set(block.sync, offset);
+    merged.ramp.set(block.ramp, offset);
+    merged.gate.set(block.gate, offset);
+    if (merged.control && block.control) merged.control.set(block.control, offset);
+    offset += block.sync.length;
+  }
+  return merged;
+}

@@ -1,14 +1,18 @@
 /** Every command of the command line, in the order `rampwright --help` lists them. One line per command. */
 import type { Command } from 'commander';
+import { registerDemoCommand } from './demo';
 import { registerAnalyzeCommand } from './analyze';
 import { registerSimCommand } from './sim';
 import { registerSizeCommand } from './size';
 import { registerTrimCommand } from './trim';
+import { registerServeCommand } from './serve';
 
 export function registerCommands(program: Command): void {
   void program;
+  registerDemoCommand(program);
   registerAnalyzeCommand(program);
   registerSimCommand(program);
   registerSizeCommand(program);
   registerTrimCommand(program);
+  registerServeCommand(program);
 }

@@ -1,0 +1,63 @@
+/**
+ * `rampwright serve [--port N] [--host ADDR --token-required] [--demo] [--db file]`: the screens in a browser.
+ * Binds 127.0.0.1 unless told otherwise; another interface needs --token-required and prints the token.
+ * Runs until Ctrl-C; an open session is then marked interrupted (nothing recorded is lost).
+ */
+import { resolve } from 'node:path';
+import type { Command } from 'commander';
+import { InputError } from '../../../app/errors';
+import { startBenchServe } from '../../session/benchServe';
+import { defaultLogbookPath } from './demo';
+import { serialAccess } from '../../session/serialAccess';
+
+interface ServeOptions {
+  port: string;
+  host: string;
+  tokenRequired?: boolean;
+  demo?: boolean;
+  speed: string;
+  db?: string;
+}
+
+export function parsePort(text: string): number {
+  const port = Number(text);
+  if (!/^\d+$/.test(text.trim()) || !Number.isInteger(port) || port < 0 || port > 65535) throw new InputError(`"${text}" is not a port number (0-65535; 0 picks a free one)`, '--port');
+  return port;
+}
+
+export function registerServeCommand(program: Command): void {
+  program
+    .command('serve')
+    .description('serve the bench screens to a browser on this computer (or, with a token, to others)')
+    .option('--port <number>', 'port to listen on (0 picks a free one)', '4870')
+    .option('--host <address>', 'interface to listen on', '127.0.0.1')
+    .option('--token-required', 'require an access token on every request (needed for any --host but this computer)')
+    .option('--demo', 'connect the virtual board with the demo design')
+    .option('--speed <factor>', 'how much faster than real time the demo board runs', '1')
+    .option('--db <file>', 'logbook file (default: logbook.sqlite in your data folder)')
+    .action(async (options: ServeOptions) => {
+      const speed = Number(options.speed);
+      if (!Number.isFinite(speed) || speed <= 0 || speed > 1000) throw new InputError(`"${options.speed}" is not a speed factor between 0 and 1000`, '--speed');
+      const running = await startBenchServe({
+        logbookPath: resolve(options.db ?? defaultLogbookPath()),
+        host: options.host,
+        port: parsePort(options.port),
+        tokenRequired: options.tokenRequired ?? false,
+        demo: options.demo ?? false,
+        speed,
+        serial: await serialAccess(),
+      });
+      process.stdout.write(`${running.banner.join('\n')}\nPress Ctrl-C to stop.\n`);
+      await new Promise<void>((resolveStop) => {
+        const stop = () => {
+          process.off('SIGINT', stop);
+          process.off('SIGTERM', stop);
+          resolveStop();
+        };
+        process.on('SIGINT', stop);
+        process.on('SIGTERM', stop);
+      });
+      await running.close();
+      process.stdout.write('Bench server stopped.\n');
+    });
+}

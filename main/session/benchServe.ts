@@ -1,0 +1,78 @@
+/**
+ * Browser mode as one function: open the bench (logbook, designs, session service), optionally connect the
+ * virtual board, and serve the contract plus the built screens on loopback (or, with a token, another interface).
+ * Used by `rampwright serve` and by `npm start` when the desktop shell cannot run.
+ */
+import { existsSync } from 'node:fs';
+import { controlForAlpha } from '../../app/board/firingAngle';
+import { InputError } from '../../app/errors';
+import { createAccessToken, isLoopbackAddress } from '../server/access';
+import { startBenchServer, type BenchServer } from '../server/benchServer';
+import { openBenchContext, type BenchContext } from './benchContext';
+import { demoDefaults } from './commissioningDemo';
+import { rendererFolder } from './packagePaths';
+import type { SerialAccess } from './sessionService';
+
+export interface BenchServeOptions {
+  logbookPath: string;
+  host?: string;
+  port?: number;
+  /** Serve on a non-loopback interface with an access token. */
+  tokenRequired?: boolean;
+  /** Connect the virtual board with the demo design and fault. */
+  demo?: boolean;
+  /** Times real time for the demo board (default 1). */
+  speed?: number;
+  serial?: SerialAccess | null;
+  staticRoot?: string | null;
+}
+
+export interface RunningBench {
+  context: BenchContext;
+  server: BenchServer;
+  /** Lines to print: the address, the token, the logbook. */
+  banner: string[];
+  close(): Promise<void>;
+}
+
+export async function startBenchServe(options: BenchServeOptions): Promise<RunningBench> {
+  const host = options.host ?? '127.0.0.1';
+  const loopback = isLoopbackAddress(host) || host === 'localhost';
+  if (!loopback && !options.tokenRequired) {
+    throw new InputError(`serving on ${host} lets other computers reach the bench: add --token-required (an access token is printed) or leave --host out for this computer only`, '--host');
+  }
+  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null });
+  try {
+    if (options.demo) {
+      const { design } = await context.designs.get(demoDefaults.designName);
+      const controlV = controlForAlpha(design, 90) ?? design.rampTargetV / 2;
+      const outcome = await context.dispatch('connect', { kind: 'virtual', designName: demoDefaults.designName, faults: demoDefaults.faults, control: { mode: 'fixed', controlV }, speed: options.speed ?? 1 });
+      if (!outcome.ok) throw new Error(`the demo board did not connect: ${outcome.error.message}`);
+    }
+    const staticRoot = options.staticRoot === undefined ? rendererFolder() : options.staticRoot;
+    const server = await startBenchServer({
+      dispatch: context.dispatch,
+      events: context.service.events,
+      host,
+      port: options.port ?? 0,
+      token: options.tokenRequired ? createAccessToken() : null,
+      staticRoot: staticRoot && existsSync(staticRoot) ? staticRoot : null,
+    });
+    const banner = [`Rampwright bench at ${server.url}`, `Logbook: ${options.logbookPath}`];
+    if (server.token) banner.push(`Access token: ${server.token} (every request needs it; the address above carries it)`);
+    if (!staticRoot || !existsSync(staticRoot)) banner.push('The screens are not built (npm run build); the API is served alone.');
+    if (options.demo) banner.push(`Virtual board connected: ${demoDefaults.designName}, fault ${demoDefaults.faults.join(', ')}`);
+    return {
+      context,
+      server,
+      banner,
+      async close() {
+        await server.close();
+        await context.close();
+      },
+    };
+  } catch (error) {
+    await context.close();
+    throw error;
+  }
+}

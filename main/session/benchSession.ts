@@ -1,0 +1,75 @@
+/**
+ * The open session at the bench: the unit, the design version it is judged against, the logbook writer, the steps
+ * recorded so far and the changes fitted. Everything the pipeline measures goes into the writer (batched by the
+ * store); `checkStep` records a step's readings; `applyTrim` records a change and asks for a re-check.
+ */
+import type { BoardDesign } from '../../app/board/design';
+import type { CycleReading } from '../../app/bench/readings';
+import type { CommissioningStep, OpenSession, StepReport } from '../../app/contract';
+import type { LinkProblem } from '../../app/logger';
+import type { LinkEventKind, LogbookWriter } from '../store/logbookTypes';
+import type { BenchPipeline } from './benchPipeline';
+import { currentStepOf, recordStep, stepReports, type StepInputs } from './steps';
+
+export interface BenchSession {
+  readonly open: OpenSession;
+  readonly design: BoardDesign;
+  readonly writer: LogbookWriter;
+  recorded: Partial<Record<CommissioningStep, StepReport>>;
+  recheckNeeded: boolean;
+  trimsApplied: number;
+  signedOff: boolean;
+}
+
+const problemKinds: Partial<Record<LinkProblem['code'], LinkEventKind>> = {
+  crc: 'crc-failures',
+  'sequence-gap': 'sequence-gap',
+  garbage: 'garbage',
+  'logger-overrun': 'logger-overrun',
+  oversize: 'line-too-long',
+};
+
+/** Records what one push of lines produced; cheap, the writer only queues. */
+export function recordMeasurements(session: BenchSession, cycles: readonly CycleReading[], problems: readonly LinkProblem[]): void {
+  for (const cycle of cycles) {
+    session.writer.addCycle(cycle);
+    if (cycle.controlV !== null && cycle.alphaDeg !== null) session.writer.addTransferPoint({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
+  }
+  for (const problem of problems) session.writer.addLinkEvent(problemKinds[problem.code] ?? 'decoder-problem', problem.message);
+}
+
+export function stepInputsOf(session: BenchSession | null, design: BoardDesign, pipeline: BenchPipeline | null): StepInputs {
+  return {
+    design: session?.design ?? design,
+    window: pipeline?.lastWindow() ?? null,
+    transferFit: pipeline?.transferFit() ?? null,
+    extremes: pipeline?.alphaExtremes() ?? { alphaMinDeg: null, alphaMaxDeg: null, cycles: 0 },
+    recorded: session?.recorded ?? {},
+    recheckNeeded: session?.recheckNeeded ?? false,
+    trimsApplied: session?.trimsApplied ?? 0,
+    signedOff: session?.signedOff ?? false,
+  };
+}
+
+/** Records the live report of a step; null when it has nothing measured yet. */
+export function checkSessionStep(session: BenchSession, pipeline: BenchPipeline, step: CommissioningStep): StepReport | null {
+  const inputs = stepInputsOf(session, session.design, pipeline);
+  const live = stepReports({ ...inputs, recorded: {}, recheckNeeded: false }).find((report) => report.step === step);
+  const recorded = live ? recordStep(live) : null;
+  if (!recorded) return null;
+  session.recorded[step] = recorded;
+  if (step === 'ramp' && session.recheckNeeded) {
+    session.recheckNeeded = false;
+    // The re-checked ramp answers the trim step too: it now shows the result of the change.
+    const trim = stepReports({ ...stepInputsOf(session, session.design, pipeline), recorded: {} }).find((report) => report.step === 'trim');
+    if (trim && trim.status !== 'waiting') session.recorded.trim = { ...trim, status: 'done' };
+  }
+  const window = pipeline.lastWindow();
+  const fit = pipeline.transferFit();
+  if (window) session.writer.setReadings({ ...window, transfer: fit ?? window.transfer });
+  return recorded;
+}
+
+export function currentStep(session: BenchSession | null): CommissioningStep {
+  return session ? currentStepOf(session) : 'sync';
+}

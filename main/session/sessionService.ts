@@ -1,0 +1,333 @@
+/**
+ * The session service: the bench API contract implemented once over the core. It owns the link (virtual board or
+ * serial logger), measures what arrives (benchPipeline), records the open session in the logbook (batched by the
+ * store's writer, so the link never waits on the disk), and sends throttled live frames to the screens.
+ */
+import type { BoardDesign } from '../../app/board/design';
+import type { ResistorRole } from '../../app/board/trimCandidates';
+import { BenchFault, type BenchState, type EventData, type LinkHealth, type PortInfo } from '../../app/contract';
+import type { Logbook } from '../store/logbookTypes';
+import { checkSessionStep, currentStep, recordMeasurements, stepInputsOf, type BenchSession } from './benchSession';
+import type { BenchPipelineOptions } from './benchPipeline';
+import type { DesignCatalog } from './designCatalog';
+import { createBenchEventHub, type BenchEventSource, type BenchHandlers } from './handlers';
+import { createLiveLink, disconnectedHealth, type LineSource, type LiveLink } from './liveLink';
+import { compareView, driftView, sessionDetailView, sessionRowView } from './logbookViews';
+import { exportSessionWith, type SessionExporter } from './exporters';
+import { idealTransfer, stepReports } from './steps';
+import { createThrottle, systemClock, type ClockLike } from './throttle';
+import { planFromWindow, trimPlanView } from './trimView';
+import { createVirtualSource, type VirtualSource } from './virtualSource';
+import { mergeBlocks } from './sampleRing';
+
+/** Serial loggers, as main/serial offers them. */
+export interface SerialAccess {
+  listPorts(): Promise<PortInfo[]>;
+  open(path: string, options: { baudRate?: number }): Promise<LineSource>;
+}
+
+export interface SessionServiceOptions {
+  logbook: Logbook;
+  designs: DesignCatalog;
+  serial?: SerialAccess | null;
+  exporters?: readonly SessionExporter[];
+  /** Live frames at most this often (ms, default 50: 20 a second). */
+  liveIntervalMs?: number;
+  pipeline?: BenchPipelineOptions;
+  /** Pace the virtual board by a timer (default true); false leaves it to `virtual().pump` (demo, tests). */
+  virtualPaced?: boolean;
+  clock?: ClockLike;
+}
+
+export interface SessionService {
+  handlers: BenchHandlers;
+  events: BenchEventSource;
+  /** The virtual board of the current link, when it is one. */
+  virtual(): VirtualSource | null;
+  close(): Promise<void>;
+}
+
+interface Current {
+  link: LiveLink;
+  design: BoardDesign;
+  virtual: VirtualSource | null;
+}
+
+export function createSessionService(options: SessionServiceOptions): SessionService {
+  const { logbook, designs } = options;
+  const hub = createBenchEventHub();
+  const clock = options.clock ?? systemClock;
+  let current: Current | null = null;
+  let session: BenchSession | null = null;
+  let held = false;
+
+  const health = (): LinkHealth => current?.link.health() ?? disconnectedHealth();
+  const stateOf = (): BenchState => {
+    const inputs = stepInputsOf(session, session?.design ?? current?.design ?? ({} as BoardDesign), current?.link.pipeline ?? null);
+    return {
+      session: session?.open ?? null,
+      link: health(),
+      held,
+      steps: current || session ? stepReports(inputs) : [],
+      currentStep: currentStep(session),
+      recheckNeeded: session?.recheckNeeded ?? false,
+    };
+  };
+  const emitState = () => hub.emit('state', stateOf());
+
+  const live = createThrottle<null>(
+    () => {
+      if (!current || held) return;
+      const inputs = stepInputsOf(session, session?.design ?? current.design, current.link.pipeline);
+      const frame: EventData<'live'> = { sessionId: session?.open.id ?? null, t: current.link.pipeline.newestS(), fold: current.link.pipeline.fold(), steps: stepReports(inputs), link: current.link.health() };
+      hub.emit('live', frame);
+    },
+    options.liveIntervalMs ?? 50,
+    clock,
+  );
+  let lastHealthMs = Number.NEGATIVE_INFINITY;
+
+  const attach = (source: LineSource, design: BoardDesign, virtual: VirtualSource | null): void => {
+    const link = createLiveLink(source, design, { pipeline: options.pipeline, now: () => clock.now() });
+    const attached: Current = { link, design, virtual };
+    current = attached;
+    source.start({
+      lines: (lines) => {
+        if (current !== attached) return;
+        const step = attached.link.receive(lines);
+        if (session) recordMeasurements(session, step.cycles, step.problems);
+        if (step.cycles.length > 0 || step.window) live.offer(null);
+        if (clock.now() - lastHealthMs >= 1000) {
+          lastHealthMs = clock.now();
+          hub.emit('health', attached.link.health());
+        }
+        const points = step.cycles.filter((cycle) => cycle.controlV !== null && cycle.alphaDeg !== null);
+        if (points.length > 0) hub.emit('transfer', { sessionId: session?.open.id ?? null, points: points.map((cycle) => ({ t: cycle.t, controlV: cycle.controlV as number, alphaDeg: cycle.alphaDeg as number })) });
+      },
+      event: (kind, detail, state) => {
+        if (current !== attached) return;
+        if (state) attached.link.setState(state, detail);
+        session?.writer.addLinkEvent(kind, detail);
+        hub.emit('health', attached.link.health());
+        if (kind === 'unplugged' || kind === 'reopened' || kind === 'watchdog-timeout') hub.emit('notice', { level: kind === 'reopened' ? 'info' : 'warning', message: `link ${kind.replace('-', ' ')}: ${detail}` });
+      },
+      ended: (reason) => {
+        if (current !== attached) return;
+        attached.link.setState('lost', reason);
+        session?.writer.addLinkEvent('unplugged', reason);
+        hub.emit('health', attached.link.health());
+        hub.emit('notice', { level: 'warning', message: `link lost: ${reason}` });
+      },
+    });
+  };
+
+  const detach = async (): Promise<void> => {
+    if (!current) return;
+    const leaving = current;
+    current = null;
+    live.stop();
+    await leaving.link.source.stop();
+    session?.writer.addLinkEvent('closed', `link to ${leaving.link.source.description.kind === 'serial' ? leaving.link.source.description.path : 'the virtual board'} closed`);
+  };
+
+  /** Analysis follows the session's design; a link opened for another design is re-measured against it. */
+  const followDesign = (design: BoardDesign): void => {
+    if (!current || current.design === design) return;
+    const { link, virtual } = current;
+    current = null;
+    void link.source.stop();
+    if (virtual) {
+      attach(virtual, design, virtual);
+    } else {
+      attach(link.source, design, null);
+    }
+  };
+
+  const requireSession = (): BenchSession => {
+    if (!session) throw new BenchFault('not-ready', 'no session is open: start one with the unit serial, the design and your name');
+    return session;
+  };
+  const requireLink = (): Current => {
+    if (!current) throw new BenchFault('not-ready', 'no link is open: connect the logger or start the virtual board');
+    return current;
+  };
+
+  const handlers: BenchHandlers = {
+    async listPorts() {
+      return { ports: options.serial ? await options.serial.listPorts() : [] };
+    },
+    async connect(payload) {
+      await detach();
+      if (payload.kind === 'virtual') {
+        const design = payload.design ?? (await designs.get(payload.designName as string)).design;
+        const virtual = createVirtualSource({ design, faults: payload.faults, control: payload.control, speed: payload.speed, seed: payload.seed, paced: options.virtualPaced ?? true });
+        attach(virtual, session?.design ?? design, virtual);
+      } else {
+        if (!options.serial) throw new BenchFault('not-available', 'serial loggers are not available in this build');
+        const design = session?.design ?? null;
+        if (!design) throw new BenchFault('not-ready', 'start the session first (unit, design, operator), so the analysis knows the board it measures');
+        const source = await options.serial.open(payload.path, { baudRate: payload.baudRate });
+        attach(source, design, null);
+      }
+      session?.writer.addLinkEvent('opened', current ? JSON.stringify(current.link.source.description) : '');
+      emitState();
+      return health();
+    },
+    async disconnect() {
+      await detach();
+      emitState();
+      return health();
+    },
+    async setVirtualControl(control) {
+      const link = requireLink();
+      if (!link.virtual) throw new BenchFault('not-ready', 'the control voltage can be set on the virtual board only; turn the pot on a real board');
+      link.virtual.setControl(control);
+      return { control };
+    },
+    listDesigns: async () => ({ designs: await designs.list() }),
+    getDesign: async ({ name, version }) => designs.get(name, version),
+    saveDesign: async ({ design }) => designs.save(design),
+    validateDesign: async ({ design }) => designs.validate(design),
+    async listUnits({ designName }) {
+      const units = await logbook.listUnits();
+      return { units: units.filter((unit) => designName === undefined || unit.designName === designName) };
+    },
+    async startSession({ unitSerial, designName, operator, notes }) {
+      if (session) throw new BenchFault('not-ready', `session ${session.open.id} for unit ${session.open.unitSerial} is still open: sign it off or stop it first`);
+      const stored = await designs.get(designName);
+      const writer = await logbook.startSession({ unitSerial, design: stored.design, operator, notes });
+      const startedAt = new Date().toISOString();
+      session = {
+        open: { id: writer.sessionId, unitSerial, designName: stored.summary.name, designVersion: stored.summary.version, operator, startedAt },
+        design: stored.design,
+        writer,
+        recorded: {},
+        recheckNeeded: false,
+        trimsApplied: 0,
+        signedOff: false,
+      };
+      followDesign(stored.design);
+      if (current) writer.addLinkEvent('opened', JSON.stringify(current.link.source.description));
+      emitState();
+      return session.open;
+    },
+    async stopSession({ notes }) {
+      const open = requireSession();
+      if (notes) open.writer.setNotes(notes);
+      session = null;
+      const row = await open.writer.close('closed');
+      emitState();
+      return sessionRowView(row);
+    },
+    benchState: async () => stateOf(),
+    async setHold({ held: next }) {
+      held = next;
+      emitState();
+      return { held };
+    },
+    async keepCapture({ seconds, label }) {
+      const open = requireSession();
+      const link = requireLink();
+      const blocks = link.link.pipeline.lastSeconds(seconds);
+      if (blocks.length === 0) throw new BenchFault('not-ready', 'no samples have arrived yet to keep');
+      const merged = mergeBlocks(blocks);
+      open.writer.addCapture(merged, label);
+      await open.writer.flush();
+      const detail = await logbook.session(open.open.id);
+      const kept = detail?.captures[detail.captures.length - 1];
+      if (!kept) throw new Error('the kept capture did not reach the logbook');
+      return { captureId: kept.id, seconds: kept.seconds };
+    },
+    async checkStep({ step }) {
+      const open = requireSession();
+      if (step === 'sign-off') throw new BenchFault('input', 'sign off with the sign-off action, which also closes the session', 'step');
+      const link = requireLink();
+      const recorded = checkSessionStep(open, link.link.pipeline, step);
+      if (!recorded) throw new BenchFault('not-ready', `nothing measured for the ${step} step yet: wait for readings`, 'step');
+      await open.writer.flush();
+      emitState();
+      return recorded;
+    },
+    async signOff({ notes }) {
+      const open = requireSession();
+      open.signedOff = true;
+      const inputs = stepInputsOf(open, open.design, current?.link.pipeline ?? null);
+      const report = stepReports(inputs).find((step) => step.step === 'sign-off');
+      if (report) open.recorded['sign-off'] = { ...report, status: 'done' };
+      const missing = (['sync', 'ramp', 'trim', 'transfer', 'limits'] as const).filter((step) => !open.recorded[step]);
+      const summary = missing.length === 0 ? 'signed off with every step recorded' : `signed off without ${missing.join(', ')}`;
+      open.writer.setNotes([notes, summary].filter(Boolean).join('\n'));
+      session = null;
+      const row = await open.writer.close('closed');
+      emitState();
+      return sessionRowView(row);
+    },
+    async trimPlan({ series }) {
+      const link = requireLink();
+      const design = session?.design ?? link.design;
+      const window = link.link.pipeline.lastWindow();
+      const plan = planFromWindow(design, window, series);
+      const fold = link.link.pipeline.fold();
+      return trimPlanView(design, plan, window, fold.length > 0 ? fold[fold.length - 1].ramp : null);
+    },
+    async applyTrim({ part, fromOhm, toOhm, method, addOhm, reason }) {
+      const open = requireSession();
+      const design = open.design;
+      if (!(part in design.parts) || part === 'cRamp') throw new BenchFault('input', `"${part}" is not a resistor position of the design ${design.name}`, 'part');
+      const methodWords = method === 'replace' ? 'replaced' : `${addOhm ?? '?'} ohm added in ${method}`;
+      open.writer.addTrim({ part, fromOhm, toOhm, method: `trim plan: ${methodWords}`, reason });
+      open.trimsApplied += 1;
+      open.recheckNeeded = true;
+      delete open.recorded.ramp;
+      delete open.recorded.trim;
+      // The virtual board gets the part; a real board got it from the technician's soldering iron.
+      current?.virtual?.fitResistor(part as ResistorRole, { method, toOhm, addOhm });
+      current?.link.pipeline.restartReadings();
+      await open.writer.flush();
+      const detail = await logbook.session(open.open.id);
+      const trim = detail?.trims[detail.trims.length - 1];
+      if (!trim) throw new Error('the fitted change did not reach the logbook');
+      emitState();
+      return { trim: { id: trim.id, part: trim.part, fromOhm: trim.fromOhm, toOhm: trim.toOhm, reason: trim.reason, at: trim.at }, recheckNeeded: true };
+    },
+    async transferPoints({ sessionId }) {
+      const link = current;
+      const design = session?.design ?? link?.design ?? null;
+      if (sessionId !== undefined && sessionId !== session?.open.id) {
+        const detail = await logbook.session(sessionId);
+        if (!detail) throw new BenchFault('not-found', `there is no session ${sessionId} in the logbook`, 'sessionId');
+        const stored = await designs.get(detail.row.designName, detail.row.designVersion).catch(() => null);
+        return { points: detail.transfer.points, fit: detail.transfer.fit, ideal: stored ? idealTransfer(stored.design) : [] };
+      }
+      const pipeline = requireLink().link.pipeline;
+      return { points: pipeline.transferPoints(), fit: pipeline.transferFit(), ideal: design ? idealTransfer(design) : [] };
+    },
+    async clearTransfer() {
+      const pipeline = requireLink().link.pipeline;
+      const cleared = pipeline.transferPoints().length;
+      pipeline.restartReadings();
+      emitState();
+      return { cleared };
+    },
+    listSessions: async ({ unitSerial, designName, from, to, limit }) => ({ sessions: (await logbook.listSessions({ unitSerial, designName, from, to })).slice(0, limit).map(sessionRowView) }),
+    sessionDetail: async ({ sessionId }) => sessionDetailView(logbook, designs, sessionId),
+    compareSessions: async ({ sessionIdA, sessionIdB }) => compareView(logbook, sessionIdA, sessionIdB),
+    drift: async ({ unitSerial }) => driftView(logbook, unitSerial),
+    exportFormats: async () => ({ formats: (options.exporters ?? []).map((exporter) => exporter.format) }),
+    exportSession: async ({ sessionId, format }) => exportSessionWith(options.exporters ?? [], { logbook, designs }, sessionId, format),
+  };
+
+  return {
+    handlers,
+    events: hub,
+    virtual: () => current?.virtual ?? null,
+    async close() {
+      await detach();
+      if (session) {
+        const open = session;
+        session = null;
+        await open.writer.close('interrupted');
+      }
+    },
+  };
+}

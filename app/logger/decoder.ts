@@ -54,6 +54,7 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
   let lastRawSequence = -1;
   let nextStartS = options.timeOriginS ?? 0;
   let checkContinuation = false;
+  let waitingReported = false;
   let lastOverruns = 0;
   let bytes = new Uint8Array(0);
   let partial = '';
@@ -84,6 +85,7 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
       return;
     }
     const greeting = parsed.greeting;
+    waitingReported = false;
     if (current && stretch && sameGreeting(current, greeting)) {
       // An `identify` answer mid-stream, or a restart after `start`: the next block tells which.
       checkContinuation = true;
@@ -97,7 +99,11 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
   function onData(line: string, bodyEnd: number, events: DecodedEvent[]): void {
     if (!current) {
       health.dataBeforeGreeting++;
-      problem(events, 'data-before-greeting', 'data arrived before the logger said which channels and scales it sends; it is skipped until a greeting (send identify)');
+      // Reported once per wait, not 250 times a second; the count keeps growing in health().
+      if (!waitingReported) {
+        waitingReported = true;
+        problem(events, 'data-before-greeting', 'data arrived before the logger said which channels and scales it sends (or in a protocol version Rampwright cannot read); it is skipped until a valid greeting (send identify)');
+      }
       return;
     }
     const greeting = current;

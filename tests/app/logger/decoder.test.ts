@@ -120,6 +120,14 @@ describe('logger decoder', () => {
     expect(message?.kind === 'problem' && message.problem.message).toMatch(/version 2.*version 1/);
   });
 
+  it('reports waiting for a greeting once, however many data lines arrive meanwhile', () => {
+    const lines = streamLines(benchGreeting(), 6);
+    const { decoder, events } = decodeAll([...lines.slice(1), lines[0], lines[1]]);
+    expect(decoder.health().dataBeforeGreeting).toBe(6);
+    expect(events.filter((event) => event.kind === 'problem')).toHaveLength(1);
+    expect(events.filter((event) => event.kind === 'block')).toHaveLength(1);
+  });
+
   it('counts malformed greetings and names the field', () => {
     const { decoder, events } = decodeAll([frameLine('H RWLOG/1 id=X rate=20000 bits=12 block=6 ch=sync,ramp gain=1,1 offset=0,0')]);
     expect(decoder.health().badGreetings).toBe(1);

@@ -1,4 +1,6 @@
-import { createWriteStream, type WriteStream } from 'node:fs';
+import { createWriteStream } from 'node:fs';
+import { once } from 'node:events';
+import { finished } from 'node:stream/promises';
 import { rename, rm, writeFile } from 'node:fs/promises';
 import { basename, dirname, extname, join } from 'node:path';
 import { InputError } from '../../app/errors';
@@ -45,22 +47,39 @@ function formatFor(path: string, format: CaptureWriteFormat | undefined): Captur
   throw new InputError(`cannot tell the capture format from "${extension || '(no extension)'}": use .csv, .cfg or .dat, or give the format`, path);
 }
 
-async function writeChunk(stream: WriteStream, chunk: string | Uint8Array): Promise<void> {
-  if (!stream.write(chunk)) await new Promise<void>((resolve, reject) => {
-    const onError = (error: Error) => reject(error);
-    stream.once('error', onError);
-    stream.once('drain', () => {
-      stream.off('error', onError);
-      resolve();
-    });
+/**
+ * Writes chunks to a file with back-pressure; any stream error (no such folder, disk full) rejects instead
+ * of being lost, and the stream is always closed.
+ */
+async function writeStreamed(path: string, produce: (write: (chunk: string | Uint8Array) => Promise<void>) => Promise<void>): Promise<void> {
+  const stream = createWriteStream(path);
+  let failure: Error | undefined;
+  stream.on('error', (error) => {
+    failure ??= error;
   });
+  const write = async (chunk: string | Uint8Array): Promise<void> => {
+    if (failure !== undefined) throw failure;
+    // events.once rejects if the stream errors while waiting for drain.
+    if (!stream.write(chunk)) await once(stream, 'drain');
+  };
+  try {
+    await produce(write);
+    stream.end();
+    await finished(stream);
+  } catch (error) {
+    stream.destroy();
+    await finished(stream).catch(() => undefined);
+    throw error;
+  }
+  if (failure !== undefined) throw failure;
 }
 
-async function closeStream(stream: WriteStream): Promise<void> {
-  await new Promise<void>((resolve, reject) => {
-    stream.once('error', reject);
-    stream.end(() => resolve());
-  });
+/** File-system failures become InputErrors naming the file: a bad output path is the user's to fix. */
+function asInputError(error: unknown, path: string): unknown {
+  const code = (error as NodeJS.ErrnoException | undefined)?.code;
+  if (error instanceof InputError || typeof code !== 'string') return error;
+  const reasons: Record<string, string> = { ENOENT: 'the folder does not exist', EACCES: 'permission denied', ENOSPC: 'the disk is full', EROFS: 'the disk is read-only', EISDIR: 'it is a folder' };
+  return new InputError(`cannot write the capture: ${reasons[code] ?? code}`, path);
 }
 
 /** Writes to `path.partial`, then renames: a failed write never leaves half a capture under the real name. */
@@ -88,28 +107,34 @@ export async function writeCaptureFile(
 ): Promise<WrittenCapture> {
   const format = formatFor(path, options.format);
   if (format === 'csv') {
-    return withPartialFile(path, async (partialPath) => {
-      const stream = createWriteStream(partialPath);
-      const writer = createCsvWriter(options.csv);
-      let samples = 0;
-      try {
-        for await (const block of blocks) {
-          await writeChunk(stream, writer.write(block));
-          samples += block.sync.length;
-        }
-      } finally {
-        await closeStream(stream);
-      }
-      if (samples === 0) throw new InputError('there are no samples to write', path);
-      return { paths: [path], samples };
-    });
+    try {
+      return await withPartialFile(path, async (partialPath) => {
+        const writer = createCsvWriter(options.csv);
+        let samples = 0;
+        await writeStreamed(partialPath, async (write) => {
+          for await (const block of blocks) {
+            await write(writer.write(block));
+            samples += block.sync.length;
+          }
+        });
+        if (samples === 0) throw new InputError('there are no samples to write', path);
+        return { paths: [path], samples };
+      });
+    } catch (error) {
+      throw asInputError(error, path);
+    }
   }
   const folder = dirname(path);
   const base = basename(path, extname(path));
   const configPath = join(folder, `${base}.cfg`);
   const dataPath = join(folder, `${base}.dat`);
   const spoolPath = join(folder, `.${base}.${process.pid}.spool`);
-  const spool = await BlockSpool.create(spoolPath);
+  let spool: BlockSpool;
+  try {
+    spool = await BlockSpool.create(spoolPath);
+  } catch (error) {
+    throw asInputError(error, path);
+  }
   try {
     const collector = new ComtradeStatsCollector();
     for await (const block of blocks) {
@@ -125,16 +150,15 @@ export async function writeCaptureFile(
       recordedAt: options.recordedAt,
     });
     const encoder = createComtradeDataEncoder(config, { timeOriginS: comtradeTimeOriginS(stats) });
-    await withPartialFile(dataPath, async (partialPath) => {
-      const stream = createWriteStream(partialPath);
-      try {
-        for await (const block of spool.blocks()) await writeChunk(stream, encoder.encode(block));
-      } finally {
-        await closeStream(stream);
-      }
-    });
+    await withPartialFile(dataPath, (partialPath) =>
+      writeStreamed(partialPath, async (write) => {
+        for await (const block of spool.blocks()) await write(encoder.encode(block));
+      }),
+    );
     await withPartialFile(configPath, (partialPath) => writeFile(partialPath, formatComtradeConfig(config)));
     return { paths: [configPath, dataPath], samples: stats.samples };
+  } catch (error) {
+    throw asInputError(error, path);
   } finally {
     await spool.close();
     await rm(spoolPath, { force: true });

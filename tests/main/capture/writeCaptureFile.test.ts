@@ -121,6 +121,15 @@ describe('writeCaptureFile', () => {
     await expect(writeCaptureFile(join(folder, 'board.xlsx'), boardBlocks())).rejects.toThrow('cannot tell the capture format');
     expect(existsSync(join(folder, 'mixed.csv'))).toBe(false);
   });
+
+  it('names the path when the folder does not exist or the target is a folder', async () => {
+    for (const name of ['missing-folder/board.csv', 'missing-folder/board.cfg']) {
+      const path = join(folder, name);
+      await expect(writeCaptureFile(path, boardBlocks())).rejects.toThrow(`${path}: cannot write the capture: the folder does not exist`);
+    }
+    await expect(writeCaptureFile(folder, boardBlocks(), { format: 'csv' })).rejects.toThrow(InputError);
+    expect(existsSync(`${folder}.partial`)).toBe(false);
+  });
 });
 
 // Outside check: numpy decodes the same .dat bytes with a structured dtype built from the record layout of

@@ -55,14 +55,17 @@ function interpolate(timeS: Float64Array, values: Float64Array, atS: number): nu
 }
 
 /**
- * Windows between crossings strictly inside the run (the crossings at its very start and end cannot be seen by a
- * detector that needs samples on both sides).
+ * Windows between the crossings at least a quarter period inside the run: a crossing closer to the start or end
+ * cannot be told from noise by any detector with hysteresis, which must see the signal swing beyond a band on both
+ * sides (common practice), so neither the truth nor the engine counts it.
  */
 export function deckTruth(traces: FiringBoardTraces, options: { rectifier: 'half-wave' | 'full-wave'; gateHighV: number; vecSatV: number; syncPhaseDeg: number }): DeckTruth {
   const { timeS } = traces;
   const firstS = timeS[0];
   const lastS = timeS[timeS.length - 1];
-  const sync = crossings(timeS, traces.sync, 0).filter((crossing) => crossing.timeS > firstS + 1e-4 && crossing.timeS < lastS - 1e-4);
+  const all = crossings(timeS, traces.sync, 0);
+  const quarterS = (all[all.length - 1].timeS - all[0].timeS) / (all.length - 1) / 2;
+  const sync = all.filter((crossing) => crossing.timeS > firstS + quarterS && crossing.timeS < lastS - quarterS);
   const risingS = sync.filter((crossing) => crossing.rising).map((crossing) => crossing.timeS);
   const frequencyHz = (risingS.length - 1) / (risingS[risingS.length - 1] - risingS[0]);
   const boundaries = options.rectifier === 'full-wave' ? sync : sync.filter((crossing) => crossing.rising);
@@ -92,9 +95,16 @@ export function deckTruth(traces: FiringBoardTraces, options: { rectifier: 'half
   return { frequencyHz, risingS, windows };
 }
 
-/** Alpha of a window's first pulse from the sync crossing, corrected to the mains crossing, or null. */
-export function truthAlphaDeg(window: DeckWindow, syncPhaseDeg: number): number | null {
-  return window.firingS.length > 0 ? ((window.firingS[0] - window.startS) / window.periodS) * 360 + syncPhaseDeg : null;
+/**
+ * Alpha of a window's first pulse from the mains zero crossing that starts its half-cycle, or null. The deck puts a
+ * rising mains crossing at t = 0 (firingBoardDeck.ts), so mains crossings are at whole half-periods (full-wave) or
+ * periods (half-wave) of the design's mains frequency: independent of the sync trace and of any phase correction.
+ */
+export function truthAlphaDeg(window: DeckWindow, design: { mainsHz: number; rectifier: 'half-wave' | 'full-wave' }): number | null {
+  if (window.firingS.length === 0) return null;
+  const strideS = design.rectifier === 'full-wave' ? 1 / (2 * design.mainsHz) : 1 / design.mainsHz;
+  const mainsCrossingS = Math.floor(window.firingS[0] / strideS) * strideS;
+  return (window.firingS[0] - mainsCrossingS) * 360 * design.mainsHz;
 }
 
 export interface Resampling {

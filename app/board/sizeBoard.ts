@@ -6,14 +6,15 @@
  * 2. Emitter at V (1 - drop fraction); R_E = V_drop / I_E with I_E = I_C (beta+1)/beta (REFERENCES.md: Malvino).
  * 3. Base at V_E - V_EB; divider R1 = (V - V_B)/I_div, R2 = V_B/(I_div - I_B), I_div by default from the
  *    stiff-divider rule R_TH <= 0.01 beta R_E (Malvino, from memory).
- * 4. R1 and R2 rounded each way to the series, R_E re-solved exactly for each pair and rounded each way; the
- *    combination whose ramp peak lands nearest the target (with headroom to clipping) wins.
+ * 4. R1 and R2 tried over the series' values near the exact ones (wider for coarse series), R_E re-solved exactly for each pair
+ *    and rounded each way; the combination whose ramp peak lands nearest the target, with the emitter drop near
+ *    the asked share and headroom to clipping, wins.
  * 5. Control-limit resistor for alphaMaxDeg, rounded up so alpha stays short of it (controlDivider.ts).
  */
 import { InputError } from '../errors';
 import { controlLimitsOf } from './controlDivider';
 import { type BoardDesign, boardDesignSchema } from './design';
-import { type ESeriesName, eSeriesTolerancePct, standardValueNeighbours } from './eSeries';
+import { type ESeriesName, eSeriesTolerancePct, standardValueNeighbours, standardValuesBetween } from './eSeries';
 import { predictRamp, type RampPrediction } from './rampModel';
 import type { SizingTargets } from './sizingTargets';
 import { analyseTolerances, type ToleranceReport } from './toleranceAnalysis';
@@ -21,6 +22,8 @@ import { exactOhmFor } from './trimCandidates';
 
 /** Least headroom between the sized ramp's peak and clipping (V), common practice. */
 export const sizingHeadroomV = 0.5;
+const weightPerDrop = 5;
+const dividerSearchSpread: Record<ESeriesName, number> = { E6: 1.8, E12: 1.5, E24: 1.25, E48: 1.08, E96: 1.05, E192: 1.025 };
 
 export interface SizingResult {
   design: BoardDesign;
@@ -91,8 +94,16 @@ export function sizeBoard(targets: SizingTargets): SizingResult {
   const exactBottom = baseV / (dividerA - baseA);
 
   let best: { design: BoardDesign; prediction: RampPrediction; score: number; exactEmitter: number } | null = null;
-  for (const rBiasTop of neighbours(exactTop, series)) {
-    for (const rBiasBottom of neighbours(exactBottom, series)) {
+  // Divider values around the exact ones: with a coarse series the pair's ratio is the fine adjustment that the
+  // emitter resistor's steps lack, so coarse series search wider; the emitter drop is kept near the asked share
+  // by the score below. About three to five values each way keeps the search to a few hundred model runs.
+  const spread = dividerSearchSpread[series];
+  const dividerValues = (exact: number): number[] => {
+    const values = standardValuesBetween(exact / spread, exact * spread, series);
+    return values.length > 0 ? values : neighbours(exact, series);
+  };
+  for (const rBiasTop of dividerValues(exactTop)) {
+    for (const rBiasBottom of dividerValues(exactBottom)) {
       const provisional = designFrom(targets, { rEmitter: rEmitterFirst, rBiasTop, rBiasBottom });
       if ((supplyV * rBiasBottom) / (rBiasTop + rBiasBottom) + vebV >= supplyV) continue;
       const exactEmitter = exactOhmFor({ design: provisional, series, vebShiftV: 0, fitted: {} }, 'rEmitter', targets.rampTargetV);
@@ -101,7 +112,10 @@ export function sizeBoard(targets: SizingTargets): SizingResult {
         const design = designFrom(targets, { rEmitter, rBiasTop, rBiasBottom });
         const prediction = predictRamp(design);
         const errorPct = (Math.abs(prediction.peakV - targets.rampTargetV) / targets.rampTargetV) * 100;
-        const score = errorPct + (prediction.clipped || prediction.headroomV < sizingHeadroomV ? 100 : 0);
+        // One percent of ramp error weighs as much as a fifth of the supply off the asked emitter drop: the drop
+        // is a soft wish (it trades V_EB sensitivity against headroom), the ramp height is the target.
+        const dropError = Math.abs((supplyV - prediction.emitterV) / supplyV - targets.emitterDropFraction);
+        const score = errorPct + weightPerDrop * dropError + (prediction.clipped || prediction.headroomV < sizingHeadroomV ? 100 : 0);
         if (best === null || score < best.score) best = { design, prediction, score, exactEmitter };
       }
     }
@@ -121,6 +135,9 @@ export function sizeBoard(targets: SizingTargets): SizingResult {
   }
   const prediction = predictRamp(design);
   const peakErrorPct = ((prediction.peakV - targets.rampTargetV) / targets.rampTargetV) * 100;
+  if (Math.abs(peakErrorPct) > design.tolerances.rampPeakPct) {
+    notes.push(`the nearest ${series} values land the ramp ${peakErrorPct.toFixed(1)} % from the target: a finer series (E24 or E96) lands closer`);
+  }
   if (prediction.clipped || prediction.headroomV < sizingHeadroomV) {
     notes.push(`only ${prediction.headroomV.toFixed(2)} V headroom to clipping: lower the emitter drop fraction`);
   }

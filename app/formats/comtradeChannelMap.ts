@@ -4,7 +4,12 @@ import type { ComtradeAnalogChannel, ComtradeConfig } from './comtradeConfig';
 
 /** Where a role's samples come from in a record, and how to turn the stored number into volts. */
 export type ComtradeChannelSource =
-  | { kind: 'analog'; index: number; id: string; voltsPerCount: number; offsetV: number }
+  /**
+   * `skewUs` is the channel's sampling skew from the .cfg. It is passed on, not applied: the blocks keep one
+   * time base for all roles, and a caller that cares (a few microseconds is a fraction of a degree at 50 Hz)
+   * can shift its own readings.
+   */
+  | { kind: 'analog'; index: number; id: string; voltsPerCount: number; offsetV: number; skewUs: number }
   | { kind: 'digital'; index: number; id: string };
 
 export type ComtradeChannelSources = Record<SignalRole, ComtradeChannelSource | null>;
@@ -49,7 +54,7 @@ export function mapComtradeChannels(
     const digitalIndex = config.digitalChannels.findIndex((channel) => normalise(channel.id) === wanted);
     if (analogIndex >= 0) {
       const channel = config.analogChannels[analogIndex];
-      sources[role] = { kind: 'analog', index: analogIndex, id: channel.id, ...analogScaling(channel) };
+      sources[role] = { kind: 'analog', index: analogIndex, id: channel.id, ...analogScaling(channel), skewUs: channel.skewUs };
     } else if (digitalIndex >= 0) {
       sources[role] = { kind: 'digital', index: digitalIndex, id: config.digitalChannels[digitalIndex].id };
     } else {

@@ -7,7 +7,7 @@
  * same device every `reopenIntervalMs`: by its USB ids (vendor, product, serial number) when it had them, since a
  * replugged logger may come back under another name, else by its path.
  */
-import { realpathSync } from 'node:fs';
+import { realpathSync, statSync } from 'node:fs';
 import { SerialPort } from 'serialport';
 import { createBoundedLineSplitter } from './boundedLineSplitter';
 import { createLinkQueue } from './linkQueue';
@@ -78,6 +78,14 @@ function openPort(path: string, baudRate: number): Promise<SerialPort> {
     const port = new SerialPort({ path, baudRate, autoOpen: false });
     port.open((error) => (error ? reject(linkErrorFromMessage(path, error.message)) : resolve(port)));
   });
+}
+
+function deviceExists(path: string): boolean {
+  try {
+    return statSync(path).isCharacterDevice();
+  } catch {
+    return false;
+  }
 }
 
 async function identify(path: string): Promise<PortInfo | null> {
@@ -201,18 +209,22 @@ export async function openLoggerLink(options: LoggerLinkOptions): Promise<Logger
     }, reopenIntervalMs);
   }
 
-  const watchdog =
-    noDataTimeoutMs > 0
-      ? setInterval(() => {
-          if (port && Date.now() - lastDataMs > noDataTimeoutMs) lost('watchdog-timeout', 'no data');
-        }, Math.max(20, Math.min(250, noDataTimeoutMs / 4)))
-      : null;
+  // The monitor: a device that has vanished from the file system is unplugged, whatever the binding says (serialport
+  // 13 on Linux misses the hang-up of a port opened after another port in the same process was closed: seen on
+  // pseudo-terminals here), and a port silent for noDataTimeoutMs is given up.
+  const monitorMs = noDataTimeoutMs > 0 ? Math.max(20, Math.min(250, noDataTimeoutMs / 4)) : 250;
+  const monitor = setInterval(() => {
+    const current = port;
+    if (!current) return;
+    if (process.platform !== 'win32' && !deviceExists(current.path)) lost('unplugged', 'the device disappeared');
+    else if (noDataTimeoutMs > 0 && Date.now() - lastDataMs > noDataTimeoutMs) lost('watchdog-timeout', 'no data');
+  }, monitorMs);
 
   let finished = false;
   function finish(): void {
     if (finished) return;
     finished = true;
-    if (watchdog) clearInterval(watchdog);
+    clearInterval(monitor);
     if (reopenTimer) clearTimeout(reopenTimer);
     queue.end();
   }

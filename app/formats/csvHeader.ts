@@ -38,6 +38,9 @@ export function parseCsvHeader(text: string, where: string): CsvLayout {
   });
   const missing = requiredRoles.filter((role) => !seen.has(role));
   if (missing.length > 0) {
+    if (names.length === 1 && /[;\t]/.test(text)) {
+      throw new InputError('the header has no commas: fields must be separated by commas (t,sync,ramp,gate[,control]), not semicolons or tabs', where);
+    }
     const shown = names.slice(0, 8).join(', ') + (names.length > 8 ? ', ...' : '');
     throw new InputError(
       `the header lacks the required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} ` +

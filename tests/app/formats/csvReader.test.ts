@@ -127,6 +127,11 @@ describe('createCsvReader: clear errors with line numbers', () => {
     expect(error.message).toContain('line 1');
   });
 
+  it('says fields must be separated by commas when the header uses semicolons or tabs', () => {
+    expect(errorOf(() => readText('t;sync;ramp;gate\n0;1;2;3\n')).message).toContain('separated by commas');
+    expect(errorOf(() => readText('t\tsync\tramp\tgate\n')).message).toContain('separated by commas');
+  });
+
   it('names a column given twice', () => {
     expect(errorOf(() => readText('t,sync,ramp,gate,SYNC\n')).message).toContain('"SYNC" appears twice');
   });

@@ -3,15 +3,13 @@
  * writes a capture file (`--out`). Options are checked here, at the edge, with messages naming the option.
  */
 import { closeSync, constants, existsSync, openSync, writeSync } from 'node:fs';
-import { readFile } from 'node:fs/promises';
 import { isatty, ReadStream, WriteStream } from 'node:tty';
 import type { Command } from 'commander';
-import { parseBoardDesign } from '../../../app/board/parseBoardDesign';
-import type { BoardDesign } from '../../../app/board/design';
 import { InputError } from '../../../app/errors';
 import { faultDescriptions, faultNames, parseFaults } from '../../../app/sim/faults';
 import { synthesiseCapture, type ControlSweep } from '../../../app/sim/virtualBoard';
 import { createVirtualLogger, type VirtualLogger, type VirtualLoggerOptions } from '../../../app/sim/virtualLogger';
+import { loadBoardDesign } from '../../board/loadBoardDesign';
 import { writeCaptureFile } from '../../capture/writeCaptureFile';
 
 interface SimCommandOptions {
@@ -37,23 +35,6 @@ function numberOption(text: string | undefined, option: string, what: string, ra
   const fits = text.trim() !== '' && Number.isFinite(value) && value >= range.min && value <= range.max && (!range.integer || Number.isInteger(value));
   if (!fits) throw new InputError(`must be ${what} from ${range.min} to ${range.max}${range.integer ? ', a whole number' : ''} (got "${text}")`, option);
   return value;
-}
-
-async function loadDesign(path: string): Promise<BoardDesign> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code;
-    throw new InputError(code === 'ENOENT' ? 'board design file not found' : `cannot read the board design file (${code ?? String(error)})`, path);
-  }
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (error) {
-    throw new InputError(`not valid JSON: ${(error as Error).message}`, path);
-  }
-  return parseBoardDesign(json, path);
 }
 
 function parseSweep(text: string | undefined, periodText: string | undefined, seconds: number | undefined): ControlSweep | undefined {
@@ -222,7 +203,7 @@ async function runSim(options: SimCommandOptions): Promise<void> {
   if (!options.link && !options.out) throw new InputError('give --link <device path> to stream the logger protocol, or --out <capture file> to write a capture', 'rampwright sim');
   if (options.link && options.out) throw new InputError('give --link or --out, not both', 'rampwright sim');
   const { logger: loggerOptions, seconds } = simOptionsFrom(options);
-  const design = await loadDesign(options.design);
+  const design = await loadBoardDesign(options.design);
   if (options.out) {
     const durationS = seconds ?? 2;
     const written = await writeCaptureFile(options.out, synthesiseCapture(design, { ...loggerOptions, durationS, blockSamples: 2500 }), { lineFrequencyHz: design.mainsHz, stationName: 'virtual board' });

@@ -77,7 +77,7 @@ describe('rampwright sim, checked options', () => {
   it('names the design file when it is missing or not JSON', async () => {
     const missing = await run(['sim', '--design', join(folder, 'none.board.json'), '--out', join(folder, 'x.csv')]);
     expect(missing.code).toBe(2);
-    expect(missing.stderr).toMatch(/none\.board\.json: board design file not found/);
+    expect(missing.stderr).toMatch(/none\.board\.json: no such board design file/);
     const broken = join(folder, 'broken.board.json');
     writeFileSync(broken, '{ "name": "half a file", ');
     const bad = await run(['sim', '--design', broken, '--out', join(folder, 'x.csv')]);

@@ -27,8 +27,10 @@ export interface RampSegment {
   clipped: boolean;
   /** Tail slope / linear-part slope, the clipping measure. */
   tailSlopeRatio: number;
-  /** Samples in the linear-part fit. */
+  /** Samples in the linear-part fit: positions linearFrom .. linearTo - 1 of the given values. */
   fitSamples: number;
+  linearFrom: number;
+  linearTo: number;
 }
 
 export interface RampSegmentOptions {
@@ -90,6 +92,7 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
   let floorV = lowV;
   let fit: ReturnType<typeof fitLine> = null;
   let linearFrom = riseIndex;
+  let linearTo = riseIndex;
   let startIndex = riseIndex;
   for (let pass = 0; pass < 2; pass++) {
     const spanV = peakV - floorV;
@@ -99,7 +102,7 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
     const distalV = floorV + 0.9 * spanV;
     linearFrom = lastUpCrossing(values, proximalV, footStart, lastHighIndex);
     if (linearFrom < 0) linearFrom = riseIndex;
-    let linearTo = linearFrom;
+    linearTo = linearFrom;
     while (linearTo <= lastHighIndex && values[linearTo] < distalV) linearTo += 1;
     fit = fitLine(indices, values, { from: linearFrom, to: linearTo }) ?? fitLine(indices, values, { from: linearFrom - 1, to: linearTo + 1 });
     if (!fit || !(fit.slope > 0)) return null;
@@ -131,6 +134,8 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
     clipped: tailSlopeRatio < 0.4,
     tailSlopeRatio,
     fitSamples: fit.count,
+    linearFrom: fit.count === linearTo - linearFrom ? linearFrom : linearFrom - 1,
+    linearTo: fit.count === linearTo - linearFrom ? linearTo : linearTo + 1,
   };
 }
 

@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import { foldCycleSchema, linkHealthSchema, stepReportSchema, transferPointSchema } from './readings';
 import { benchStateSchema } from './records';
+import { benchEventNames, isBenchEventName, type BenchEventName } from './names';
 
 export const liveFrameSchema = z.object({
   /** Open session, null when the link streams without a session. */
@@ -51,8 +52,12 @@ export type BenchEvents = typeof benchEvents;
 export type EventName = keyof BenchEvents;
 export type EventData<Name extends EventName> = z.output<BenchEvents[Name]>;
 
-export const eventNames = Object.keys(benchEvents) as EventName[];
+export const eventNames: readonly EventName[] = benchEventNames;
 
 export function isEventName(name: unknown): name is EventName {
-  return typeof name === 'string' && Object.prototype.hasOwnProperty.call(benchEvents, name);
+  return isBenchEventName(name);
 }
+
+type Same<A, B> = [A] extends [B] ? ([B] extends [A] ? true : false) : false;
+const eventNamesMatch: Same<EventName, BenchEventName> = true;
+void eventNamesMatch;

@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 import { boardDesignSchema } from '../board/design';
+import { benchCallNames, isBenchCallName, type BenchCallName } from './names';
 import { commissioningStepSchema, linkHealthSchema, stepReportSchema, transferFitSchema, transferPointSchema } from './readings';
 import {
   appliedTrimSchema,
@@ -133,8 +134,13 @@ export type CallPayload<Name extends CallName> = z.input<BenchCalls[Name]['paylo
 export type ParsedPayload<Name extends CallName> = z.output<BenchCalls[Name]['payload']>;
 export type CallResult<Name extends CallName> = z.output<BenchCalls[Name]['result']>;
 
-export const callNames = Object.keys(benchCalls) as CallName[];
+export const callNames: readonly CallName[] = benchCallNames;
 
 export function isCallName(name: unknown): name is CallName {
-  return typeof name === 'string' && Object.prototype.hasOwnProperty.call(benchCalls, name);
+  return isBenchCallName(name);
 }
+
+// The name list and the call list must hold the same names: each line fails to compile if one has a name the other lacks.
+type Same<A, B> = [A] extends [B] ? ([B] extends [A] ? true : false) : false;
+const callNamesMatch: Same<CallName, BenchCallName> = true;
+void callNamesMatch;

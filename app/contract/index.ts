@@ -11,3 +11,4 @@ export * from './bench-events';
 export * from './client';
 export * from './http-transport';
 export * from './validate';
+export * from './names';

@@ -2,7 +2,7 @@
  * IPC channel names, in one place: one invoke channel per contract call, one channel for events.
  * The preload and the main side both derive them from the contract's call list, so they cannot drift apart.
  */
-import { callNames, isCallName, type CallName } from '../../app/contract/calls';
+import { benchCallNames as callNames, isBenchCallName as isCallName, type BenchCallName as CallName } from '../../app/contract/names';
 
 export const callChannelPrefix = 'rampwright:call:';
 export const eventChannel = 'rampwright:event';

@@ -3,8 +3,8 @@
  * `subscribe` for events, nothing else. No Node, no ipcRenderer, no raw channels reach the page.
  */
 import { contextBridge, ipcRenderer, type IpcRendererEvent } from 'electron';
-import { callNames } from '../../app/contract/calls';
-import { isEventName } from '../../app/contract/bench-events';
+// Names only (no schemas): the sandboxed preload stays small; main validates every payload anyway.
+import { benchCallNames as callNames, isBenchEventName as isEventName } from '../../app/contract/names';
 import type { CallOutcome } from '../../app/contract/errors';
 import { bridgeName, callChannel, eventChannel } from './channels';
 

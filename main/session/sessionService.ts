@@ -10,7 +10,7 @@ import type { Logbook } from '../store/logbookTypes';
 import { checkSessionStep, currentStep, recordMeasurements, stepInputsOf, type BenchSession } from './benchSession';
 import type { BenchPipelineOptions } from './benchPipeline';
 import type { DesignCatalog } from './designCatalog';
-import { createBenchEventHub, type BenchEventSource, type BenchHandlers } from './handlers';
+import { createBenchEventHub, type BenchEventListener, type BenchEventSource, type BenchHandlers } from './handlers';
 import { createLiveLink, disconnectedHealth, type LineSource, type LiveLink } from './liveLink';
 import { compareView, driftView, sessionDetailView, sessionRowView } from './logbookViews';
 import { exportSessionWith, type SessionExporter } from './exporters';
@@ -44,6 +44,8 @@ export interface SessionService {
   events: BenchEventSource;
   /** The virtual board of the current link, when it is one. */
   virtual(): VirtualSource | null;
+  /** Sends an event from outside the service (the desktop menu's commands). */
+  emit: BenchEventListener;
   close(): Promise<void>;
 }
 
@@ -321,6 +323,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
     handlers,
     events: hub,
     virtual: () => current?.virtual ?? null,
+    emit: hub.emit,
     async close() {
       await detach();
       if (session) {

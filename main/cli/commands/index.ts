@@ -6,6 +6,7 @@ import { registerSimCommand } from './sim';
 import { registerSizeCommand } from './size';
 import { registerTrimCommand } from './trim';
 import { registerServeCommand } from './serve';
+import { registerLogCommand } from './log';
 
 export function registerCommands(program: Command): void {
   void program;
@@ -15,4 +16,5 @@ export function registerCommands(program: Command): void {
   registerSizeCommand(program);
   registerTrimCommand(program);
   registerServeCommand(program);
+  registerLogCommand(program);
 }

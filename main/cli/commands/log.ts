@@ -1,0 +1,68 @@
+/**
+ * `rampwright log [--db <file>] [--unit <serial>] [--json]`: the sessions in a logbook, oldest first. Opening the
+ * logbook marks sessions whose recorder is gone as interrupted. Without --db, the logbook in the user's data folder.
+ */
+import type { Command } from 'commander';
+import { existsSync } from 'node:fs';
+import { homedir } from 'node:os';
+import { join } from 'node:path';
+import { InputError } from '../../../app/errors';
+import { defaultLogbookFileName, userDataFolder } from '../../session/dataFolder';
+import type { SessionRow } from '../../store/logbookTypes';
+import { openSqliteLogbook } from '../../store/sqliteLogbook';
+
+interface LogCommandOptions {
+  db?: string;
+  unit?: string;
+  design?: string;
+  from?: string;
+  to?: string;
+  json?: boolean;
+}
+
+export function defaultLogbookPath(): string {
+  return join(userDataFolder({ platform: process.platform, env: process.env, home: homedir() }), defaultLogbookFileName);
+}
+
+/** The work of the command without printing. */
+export async function listLogbook(path: string, filter: { unit?: string; design?: string; from?: string; to?: string } = {}): Promise<{ sessions: SessionRow[] }> {
+  if (!existsSync(path)) throw new InputError('there is no logbook here (give --db the file a session was recorded to)', path);
+  const logbook = await openSqliteLogbook(path);
+  try {
+    const sessions = await logbook.listSessions({ unitSerial: filter.unit, designName: filter.design, from: filter.from, to: filter.to });
+    return { sessions };
+  } finally {
+    await logbook.close();
+  }
+}
+
+const number = (value: number | null, digits: number): string => (value === null ? '-' : value.toFixed(digits));
+const shortTime = (iso: string | null): string => (iso === null ? '-' : iso.replace('T', ' ').replace(/\.\d+Z$/, 'Z'));
+
+export function formatLogbookTable(sessions: SessionRow[]): string {
+  if (sessions.length === 0) return 'No sessions.\n';
+  const header = ['session', 'unit', 'status', 'started (UTC)', 'ended (UTC)', 'cycles', 'alpha deg', 'ramp peak V', 'link errors'];
+  const rows = sessions.map((row) => [
+    String(row.id), row.unit, row.status, shortTime(row.startedAt), shortTime(row.endedAt), String(row.cycles), number(row.alphaDeg, 1), number(row.rampPeakV, 3), String(row.linkErrors),
+  ]);
+  const widths = header.map((title, column) => Math.max(title.length, ...rows.map((row) => row[column].length)));
+  const line = (cells: string[]): string => cells.map((cell, column) => (column >= 5 ? cell.padStart(widths[column]) : cell.padEnd(widths[column]))).join('  ').trimEnd();
+  return `${[line(header), ...rows.map(line)].join('\n')}\n`;
+}
+
+export function registerLogCommand(program: Command): void {
+  program
+    .command('log')
+    .description('List the sessions in a logbook')
+    .option('--db <file>', 'logbook file (default: the logbook in your data folder)')
+    .option('--unit <serial>', 'only this unit')
+    .option('--design <name>', 'only sessions of this board design')
+    .option('--from <date>', 'only sessions started on or after this date (ISO 8601)')
+    .option('--to <date>', 'only sessions started before this date (ISO 8601)')
+    .option('--json', 'print JSON: { "sessions": [ ... ] }')
+    .action(async (options: LogCommandOptions) => {
+      const path = options.db ?? defaultLogbookPath();
+      const listing = await listLogbook(path, options);
+      process.stdout.write(options.json ? `${JSON.stringify(listing, null, 2)}\n` : formatLogbookTable(listing.sessions));
+    });
+}

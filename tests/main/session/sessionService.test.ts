@@ -1,0 +1,169 @@
+// The session service over the virtual board and a real SQLite logbook: readings, verdicts, a stored session,
+// trim and re-check, and refusals a technician understands. The virtual board is pumped (faster than real time).
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { predictRamp } from '../../../app/board/rampModel';
+import { lowCapacitorFactor } from '../../../app/sim/fittedBoard';
+import { BenchCallError, createBenchClient, type BenchClient, type LiveFrame } from '../../../app/contract';
+import { openBenchContext, type BenchContext } from '../../../main/session/benchContext';
+import { createBenchDispatch } from '../../../main/session/dispatch';
+import { demoDefaults } from '../../../main/session/commissioningDemo';
+
+let folder = '';
+let context: BenchContext;
+let client: BenchClient;
+const liveFrames: LiveFrame[] = [];
+
+beforeEach(async () => {
+  folder = mkdtempSync(join(tmpdir(), 'rampwright-session-'));
+  context = await openBenchContext({ logbookPath: join(folder, 'logbook.sqlite'), virtualPaced: false });
+  // Every result is checked against the contract's schemas too: a mismatch comes back as a bug.
+  const dispatch = createBenchDispatch(context.service.handlers, { checkResults: true });
+  client = createBenchClient({ invoke: dispatch, subscribe: (event, handler) => context.service.events.onEvent((name, data) => name === event && handler(data)) });
+  liveFrames.length = 0;
+  client.subscribe('live', (frame) => liveFrames.push(frame));
+});
+
+afterEach(async () => {
+  await context.close();
+  rmSync(folder, { recursive: true, force: true });
+});
+
+const pump = (seconds: number) => context.service.virtual()!.pump(seconds);
+
+async function refusal(promise: Promise<unknown>): Promise<BenchCallError> {
+  const error = await promise.then(() => null, (caught: unknown) => caught);
+  expect(error).toBeInstanceOf(BenchCallError);
+  return error as BenchCallError;
+}
+
+describe('session service on the virtual board', () => {
+  it('measures the demo board with a low ramp capacitor, judges it, and records a closed session', async () => {
+    const { design } = await client.getDesign({ name: demoDefaults.designName });
+    const opened = await client.startSession({ unitSerial: 'TEST-0001', designName: design.name, operator: 'Tess' });
+    await client.connect({ kind: 'virtual', designName: design.name, faults: ['capacitor-low'], seed: 7 });
+    pump(1.5);
+
+    const state = await client.benchState();
+    expect(state.session?.id).toBe(opened.id);
+    expect(state.link.state).toBe('streaming');
+    expect(state.link.sampleRateHz).toBe(25_000);
+    const sync = state.steps.find((step) => step.step === 'sync')!;
+    const frequency = sync.readings.find((reading) => reading.key === 'frequencyHz')!;
+    // The virtual board runs at the design's 50 Hz; issue 2's accuracy bound for frequency is 0.05 Hz.
+    expect(frequency.value).toBeCloseTo(50, 1);
+    expect(Math.abs(frequency.value! - 50)).toBeLessThan(0.05);
+    expect(sync.verdict).toBe('in-tolerance');
+
+    const ramp = state.steps.find((step) => step.step === 'ramp')!;
+    const peak = ramp.readings.find((reading) => reading.key === 'rampPeakV')!;
+    // The board model with the capacitor 30 % low (the fault's own factor) is the outside value here;
+    // 1.5 % is the analysis accuracy bound for ramp peak (issue 2, checked against ngspice there).
+    const expectedPeakV = predictRamp(design, { partOverrides: { cRamp: design.parts.cRamp.farad * lowCapacitorFactor } }).peakV;
+    expect(Math.abs(peak.value! - expectedPeakV) / expectedPeakV).toBeLessThan(0.015);
+    expect(peak.expected).toBe(design.rampTargetV);
+    expect(peak.verdict).toBe('out-of-tolerance');
+    expect(ramp.verdict).toBe('out-of-tolerance');
+
+    const recorded = await client.checkStep({ step: 'ramp' });
+    expect(recorded.status).toBe('done');
+    const row = await client.stopSession({ notes: 'bench test' });
+    expect(row).toMatchObject({ id: opened.id, unit: 'TEST-0001', status: 'closed' });
+    expect(row.cycles).toBeGreaterThan(50);
+
+    const listed = await client.listSessions({ unitSerial: 'TEST-0001' });
+    expect(listed.sessions.map((session) => session.id)).toEqual([opened.id]);
+    const detail = await client.sessionDetail({ sessionId: opened.id });
+    expect(detail.row.status).toBe('closed');
+    expect(detail.notes).toContain('bench test');
+    expect(detail.steps.find((step) => step.step === 'ramp')?.verdict).toBe('out-of-tolerance');
+  });
+
+  it('sends throttled live frames with at most 20 folded cycles, degree-indexed, gate pulses kept', async () => {
+    const { design } = await client.getDesign({ name: demoDefaults.designName });
+    await client.connect({ kind: 'virtual', designName: design.name, faults: [], seed: 3 });
+    pump(1.5);
+    expect(liveFrames.length).toBeGreaterThan(0);
+    const frame = liveFrames[liveFrames.length - 1];
+    expect(frame.fold.length).toBeGreaterThan(0);
+    expect(frame.fold.length).toBeLessThanOrEqual(20);
+    for (const cycle of frame.fold) {
+      expect(Math.min(...cycle.ramp.deg)).toBeGreaterThanOrEqual(0);
+      expect(Math.max(...cycle.ramp.deg)).toBeLessThanOrEqual(360);
+      // Min-max decimation keeps the gate pulse (300 us, 5.4 degrees) at its full height: the board's supply is
+      // the pulse level (virtual board default), within its 5 mV noise and 12-bit quantisation.
+      expect(Math.max(...cycle.gate.v)).toBeGreaterThan(design.supplyV - 0.1);
+      expect(cycle.firingDeg).toHaveLength(1);
+      expect(cycle.zeroCrossingsDeg[0]).toBeCloseTo(0, 6);
+    }
+    // Fold points per cycle are bounded by the buckets (2 per bucket), whatever the sample rate.
+    expect(frame.fold[0].sync.deg.length).toBeLessThanOrEqual(480);
+  });
+
+  it('fits the first trim suggestion to the virtual board and the re-checked ramp lands on target', async () => {
+    const { design } = await client.getDesign({ name: demoDefaults.designName });
+    await client.startSession({ unitSerial: 'TEST-0002', designName: design.name, operator: 'Tess' });
+    await client.connect({ kind: 'virtual', designName: design.name, faults: ['capacitor-low'], seed: 11 });
+    pump(1.5);
+    const plan = await client.trimPlan({});
+    expect(plan.inTolerance).toBe(false);
+    expect(plan.suggestions.length).toBeGreaterThan(0);
+    const first = plan.suggestions[0];
+    expect(first.part).toBe('rEmitter');
+    expect(first.predictedRamp?.deg.length).toBeGreaterThan(10);
+
+    const applied = await client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason });
+    expect(applied.recheckNeeded).toBe(true);
+    expect((await client.benchState()).currentStep).toBe('ramp');
+    pump(1.5);
+    const recheck = await client.checkStep({ step: 'ramp' });
+    const peak = recheck.readings.find((reading) => reading.key === 'rampPeakV')!;
+    // Issue 3's check of advice that works: the trimmed ramp lands within 5 % of the target.
+    expect(Math.abs(peak.value! - design.rampTargetV) / design.rampTargetV).toBeLessThan(0.05);
+    const state = await client.benchState();
+    expect(state.recheckNeeded).toBe(false);
+    expect(state.steps.find((step) => step.step === 'trim')?.status).toBe('done');
+
+    const kept = await client.keepCapture({ seconds: 1 });
+    // One second of samples at 25 kS/s, cut at the logger's 120-sample lines: within one line of 1 s.
+    expect(Math.abs(kept.seconds - 1)).toBeLessThanOrEqual(120 / 25_000 + 1e-9);
+    const row = await client.signOff({});
+    const detail = await client.sessionDetail({ sessionId: row.id });
+    expect(detail.trims).toHaveLength(1);
+    expect(detail.trims[0]).toMatchObject({ part: 'rEmitter', toOhm: first.toOhm });
+    expect(detail.captures).toHaveLength(1);
+    expect(detail.notes).toContain('signed off without sync, transfer, limits');
+  });
+
+  it('refuses what cannot be done now, with words a technician reads', async () => {
+    expect((await refusal(client.checkStep({ step: 'sync' }))).code).toBe('not-ready');
+    expect((await refusal(client.trimPlan({}))).message).toMatch(/no link is open/);
+    const unknownFault = await refusal(client.connect({ kind: 'virtual', designName: demoDefaults.designName, faults: ['gremlins'] }));
+    expect(unknownFault).toMatchObject({ kind: 'expected', code: 'input' });
+    expect(unknownFault.message).toContain('gremlins');
+    expect((await refusal(client.getDesign({ name: 'No Such Board' }))).code).toBe('not-found');
+    expect((await refusal(client.sessionDetail({ sessionId: 999 }))).code).toBe('not-found');
+    await client.startSession({ unitSerial: 'TEST-0003', designName: demoDefaults.designName, operator: 'Tess' });
+    expect((await refusal(client.startSession({ unitSerial: 'TEST-0004', designName: demoDefaults.designName, operator: 'Tess' }))).message).toMatch(/still open/);
+    expect((await refusal(client.exportSession({ sessionId: 1, format: 'pdf' }))).code).toBe('not-available');
+    const malformed = await refusal(client.setHold({ held: 'yes' as unknown as boolean }));
+    expect(malformed.code).toBe('invalid-payload');
+  });
+
+  it('saves and validates designs, listing the examples and the new version', async () => {
+    const { design } = await client.getDesign({ name: demoDefaults.designName });
+    const examples = await client.listDesigns();
+    expect(examples.designs.map((summary) => summary.name)).toContain(demoDefaults.designName);
+    const bad = await client.validateDesign({ design: { ...design, rampTargetV: -1 } });
+    expect(bad.ok).toBe(false);
+    expect(bad.problems.map((problem) => problem.field)).toContain('rampTargetV');
+    const changed = { ...design, name: 'Bench copy CH-50H', rampTargetV: 7.0 };
+    const saved = await client.saveDesign({ design: changed });
+    expect(saved.summary).toMatchObject({ name: 'Bench copy CH-50H', version: 1, rampTargetV: 7 });
+    const again = await client.saveDesign({ design: { ...changed, rampTargetV: 7.2 } });
+    expect(again.summary.version).toBe(2);
+    expect((await client.getDesign({ name: 'Bench copy CH-50H', version: 1 })).design.rampTargetV).toBe(7);
+  });
+});

@@ -197,9 +197,9 @@ function describe(design: BoardDesign, candidate: TrimCandidate, measured: RampR
   const result = `peak ${formatVolt(prediction.peakV)} (${formatPercent(errorPct)}), ${formatVolt(prediction.headroomV)} below clipping`;
   let action: string;
   if (candidate.method === 'parallel') {
-    action = `Solder ${formatOhm(candidate.partOhm)} across ${label} (${formatOhm(candidate.fromOhm)}), making ${formatOhm(candidate.toOhm)}`;
+    action = `Solder ${formatOhm(candidate.partOhm)} across ${label}, now ${formatOhm(candidate.fromOhm)}, making ${formatOhm(candidate.toOhm)}`;
   } else if (candidate.method === 'series') {
-    action = `Add ${formatOhm(candidate.partOhm)} in series with ${label} (${formatOhm(candidate.fromOhm)}), making ${formatOhm(candidate.toOhm)}`;
+    action = `Add ${formatOhm(candidate.partOhm)} in series with ${label}, now ${formatOhm(candidate.fromOhm)}, making ${formatOhm(candidate.toOhm)}`;
   } else {
     action = `Replace ${label} ${formatOhm(candidate.fromOhm)} with ${formatOhm(candidate.toOhm)}`;
   }

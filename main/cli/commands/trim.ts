@@ -35,7 +35,7 @@ export function rampReadingsOf(readings: CaptureReadings, capturePath: string): 
 
 function printHuman(plan: TrimPlan, ramp: RampReadings): void {
   const lines = [
-    `Measured ramp: floor ${formatVolt(ramp.floorV)}, peak ${formatVolt(ramp.peakV)}, slope ${ramp.slopeVPerMs.toFixed(3)} V/ms${ramp.clipped ? ', clipped' : ''}`,
+    `Measured ramp: floor ${(ramp.floorV * 1000).toFixed(1)} mV, peak ${formatVolt(ramp.peakV)}, slope ${ramp.slopeVPerMs.toFixed(3)} V/ms${ramp.clipped ? ', clipped' : ''}`,
     `Estimate: charging current ${(plan.estimate.chargingCurrentA * 1e3).toFixed(3)} mA (design ${(plan.estimate.designCurrentA * 1e3).toFixed(3)} mA), effective V_EB ${plan.estimate.vebV.toFixed(3)} V`,
     plan.summary,
   ];
@@ -63,6 +63,10 @@ export function registerTrimCommand(program: Command): void {
       const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false });
       for await (const block of readCaptureFile(options.capture, { sampleRateHz })) analyzer.push(block);
       const readings = analyzer.finish();
+      // A capture of another board type would give a confident but wrong plan: the mains frequency tells them apart.
+      if (readings.frequencyHz !== null && Math.abs(readings.frequencyHz - design.mainsHz) > 3) {
+        throw new InputError(`the capture's mains is ${readings.frequencyHz.toFixed(1)} Hz but ${options.design} is a ${design.mainsHz} Hz design: wrong design file?`, options.capture);
+      }
       const ramp = rampReadingsOf(readings, options.capture);
       const plan = planTrim(design, ramp, { series: series as ESeriesName });
       if (options.json) {

@@ -54,7 +54,7 @@ describe('firing angle (ramp-and-comparator, common practice)', () => {
         expect(back).not.toBeNull();
         expect(Math.abs((back ?? 0) - alphaDeg)).toBeLessThan(1e-6);
         const higher = alphaForControl(design, (controlV ?? 0) * 0.99 + prediction.floorV * 0.01, { prediction });
-        if (higher !== null) expect(higher).toBeLessThanOrEqual(back + 1e-9);
+        if (higher !== null) expect(higher).toBeLessThanOrEqual((back ?? 0) + 1e-9);
       }),
       { numRuns: 150 },
     );

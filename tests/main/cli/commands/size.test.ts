@@ -1,0 +1,54 @@
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { parseBoardDesign } from '../../../../app/board/parseBoardDesign';
+import { predictRamp } from '../../../../app/board/rampModel';
+import { runCli } from './cliRun';
+
+let folder = '';
+beforeAll(() => {
+  folder = mkdtempSync(join(tmpdir(), 'rampwright-size-'));
+});
+afterAll(() => rmSync(folder, { recursive: true, force: true }));
+
+const base = ['size', '--supply', '15', '--mains', '50', '--rectifier', 'full-wave', '--ramp-height', '6', '--capacitor', '470n'];
+
+describe('rampwright size', () => {
+  it('writes a board design that loads and lands on the target, and prints the part set', async () => {
+    const out = join(folder, 'sized.board.json');
+    const result = await runCli([...base, '--name', 'Sized bench board', '--out', out]);
+    expect(result.stderr).toBe('');
+    expect(result.code).toBe(0);
+    expect(result.stdout).toContain('rEmitter');
+    expect(result.stdout).toContain('kohm');
+    expect(result.stdout).toContain(`Written to ${out}`);
+    const design = parseBoardDesign(JSON.parse(readFileSync(out, 'utf8')), out);
+    expect(design.name).toBe('Sized bench board');
+    expect(Math.abs(predictRamp(design).peakV / 6 - 1)).toBeLessThan(0.03);
+  });
+
+  it('--json gives the design, prediction and tolerance spread', async () => {
+    const result = await runCli([...base, '--series', 'e96', '--json']);
+    expect(result.code).toBe(0);
+    const parsed = JSON.parse(result.stdout) as { design: { parts: { rEmitter: { ohm: number; tolerancePct: number } } }; prediction: { peakV: number }; tolerance: { runs: number } };
+    expect(parsed.design.parts.rEmitter.tolerancePct).toBe(1); // E96 parts are 1 % (REFERENCES.md)
+    expect(Math.abs(parsed.prediction.peakV / 6 - 1)).toBeLessThan(0.01);
+    expect(parsed.tolerance.runs).toBeGreaterThan(0);
+  });
+
+  it('bad options exit 2 with a message naming the option', async () => {
+    const badCapacitor = await runCli(['size', '--supply', '15', '--mains', '50', '--rectifier', 'full-wave', '--ramp-height', '6', '--capacitor', '47x']);
+    expect(badCapacitor.code).toBe(2);
+    expect(badCapacitor.stderr).toContain('--capacitor');
+    const badRectifier = await runCli(['size', '--supply', '15', '--mains', '50', '--rectifier', 'three-phase', '--ramp-height', '6', '--capacitor', '470n']);
+    expect(badRectifier.code).toBe(2);
+    expect(badRectifier.stderr).toContain('--rectifier');
+    const tooTall = await runCli([...base.slice(0, 7), '--ramp-height', '14', '--capacitor', '470n']);
+    expect(tooTall.code).toBe(2);
+    expect(tooTall.stderr).toContain('--emitter-drop');
+    const badSeries = await runCli([...base, '--series', 'E7']);
+    expect(badSeries.code).toBe(2);
+    expect(badSeries.stderr).toContain('--series');
+  });
+});

@@ -1,0 +1,80 @@
+/**
+ * `rampwright trim` end to end: a board of our own with a wrong capacitor fitted is simulated by ngspice (outside
+ * reference), written as a CSV capture, measured by the analysis engine through the command, and the first
+ * suggestion applied in a second ngspice run must bring the ramp within 5 % of the target (issue 3).
+ */
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { TrimPlan } from '../../../../app/board/trimPlan';
+import { readDeckRamp, referenceBoards } from '../../../reference/boardCases';
+import { type FiringBoardTraces, simulateFiringBoard } from '../../../reference/firingBoardDeck';
+import { ngspiceAvailable } from '../../../reference/ngspice';
+import { runCli } from './cliRun';
+
+const board = referenceBoards.fullWave50;
+let folder = '';
+
+function writeCsv(path: string, traces: FiringBoardTraces): void {
+  const rows = ['t,sync,ramp,gate,control'];
+  for (let index = 0; index < traces.timeS.length; index += 1) {
+    rows.push(`${traces.timeS[index].toFixed(7)},${traces.sync[index].toFixed(5)},${traces.ramp[index].toFixed(5)},${traces.gate[index].toFixed(4)},${traces.control[index].toFixed(4)}`);
+  }
+  writeFileSync(path, `${rows.join('\n')}\n`);
+}
+
+beforeAll(() => {
+  folder = mkdtempSync(join(tmpdir(), 'rampwright-trim-'));
+  writeFileSync(join(folder, 'board-a.board.json'), JSON.stringify(board));
+});
+afterAll(() => rmSync(folder, { recursive: true, force: true }));
+
+describe('rampwright trim', () => {
+  it('bad options and files exit 2 naming what is wrong', async () => {
+    const badSeries = await runCli(['trim', '--design', join(folder, 'board-a.board.json'), '--capture', join(folder, 'x.csv'), '--series', 'E48']);
+    expect(badSeries.code).toBe(2);
+    expect(badSeries.stderr).toContain('--series');
+    const noDesign = await runCli(['trim', '--design', join(folder, 'none.board.json'), '--capture', join(folder, 'x.csv')]);
+    expect(noDesign.code).toBe(2);
+    expect(noDesign.stderr).toContain('none.board.json');
+    writeFileSync(join(folder, 'flat.csv'), `t,sync,ramp,gate\n${Array.from({ length: 2000 }, (_, index) => `${index * 1e-4},0,0,0`).join('\n')}\n`);
+    const flat = await runCli(['trim', '--design', join(folder, 'board-a.board.json'), '--capture', join(folder, 'flat.csv')]);
+    expect(flat.code).toBe(2);
+    expect(flat.stderr).toContain('flat.csv');
+  });
+
+  it.skipIf(!ngspiceAvailable())('plans from an ngspice capture, and the first suggestion works in ngspice', async () => {
+    const fitted = { cRamp: 5.6e-7 };
+    // 16 cycles: the analysis learns its levels over the first 0.2 s. 10 us steps: 100 kS/s.
+    const traces = simulateFiringBoard(board, { controlV: 3, cycles: 16, partOverrides: fitted, stepS: 1e-5 });
+    writeCsv(join(folder, 'board-a.csv'), traces);
+    const result = await runCli(['trim', '--design', join(folder, 'board-a.board.json'), '--capture', join(folder, 'board-a.csv'), '--series', 'E24', '--json']);
+    expect(result.stderr).toBe('');
+    expect(result.code).toBe(0);
+    const plan = JSON.parse(result.stdout) as TrimPlan;
+    expect(plan.status).toBe('trim');
+    const best = plan.suggestions[0];
+    expect(best).toMatchObject({ part: 'rEmitter', series: 'E24' });
+    expect(['replace', 'parallel', 'series']).toContain(best.method);
+    expect(typeof best.predictedPeakV).toBe('number');
+    expect(plan.estimate.chargingCurrentA).toBeGreaterThan(0);
+    expect(plan.estimate.vebV).toBeGreaterThan(0);
+
+    const added = best.addOhm ?? NaN;
+    const newOhm = best.method === 'replace' ? best.toOhm : best.method === 'parallel' ? (7500 * added) / (7500 + added) : 7500 + added;
+    const after = simulateFiringBoard(board, { controlV: 100, cycles: 3, partOverrides: { ...fitted, rEmitter: newOhm } });
+    const reading = readDeckRamp(after, board, 4);
+    expect(Math.abs(reading.peakV / board.rampTargetV - 1)).toBeLessThan(0.05);
+
+    const human = await runCli(['trim', '--design', join(folder, 'board-a.board.json'), '--capture', join(folder, 'board-a.csv')]);
+    expect(human.code).toBe(0);
+    expect(human.stdout).toContain('Measured ramp');
+    expect(human.stdout).toContain('R7');
+
+    // The 60 Hz heater design against this 50 Hz capture: refused, not planned.
+    const wrongDesign = await runCli(['trim', '--design', join(__dirname, '../../../../fixtures/boards/heater-ht60f.board.json'), '--capture', join(folder, 'board-a.csv')]);
+    expect(wrongDesign.code).toBe(2);
+    expect(wrongDesign.stderr).toContain('wrong design file');
+  });
+});

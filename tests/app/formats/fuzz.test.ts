@@ -83,7 +83,7 @@ describe('fuzz: readers fail only with an InputError that names the problem', ()
       fc.property(fc.uint8Array({ maxLength: 300 }), fc.array(fc.nat(), { maxLength: 4 }), fc.option(fc.constantFrom(1000, 50000)), (bytes, cuts, rate) => {
         onlyInputErrors('fuzz.csv', () => feed(createCsvReader({ source: 'fuzz.csv', blockSamples: 3, sampleRateHz: rate ?? undefined }), bytes, cuts));
       }),
-      { numRuns: 1500 },
+      { numRuns: 600 },
     );
   });
 
@@ -93,7 +93,7 @@ describe('fuzz: readers fail only with an InputError that names the problem', ()
       fc.property(fc.constantFrom(...originals), fc.array(mutation, { minLength: 1, maxLength: 4 }), fc.array(fc.nat(), { maxLength: 3 }), (original, mutations, cuts) => {
         onlyInputErrors('fuzz.csv', () => feed(createCsvReader({ source: 'fuzz.csv', blockSamples: 2 }), mutate(original, mutations), cuts));
       }),
-      { numRuns: 1500 },
+      { numRuns: 600 },
     );
   });
 
@@ -102,14 +102,14 @@ describe('fuzz: readers fail only with an InputError that names the problem', ()
       fc.property(fc.string({ maxLength: 300 }), (text) => {
         onlyInputErrors('fuzz.cfg', () => parseComtradeConfig(text, 'fuzz.cfg'));
       }),
-      { numRuns: 1000 },
+      { numRuns: 400 },
     );
     fc.assert(
       fc.property(fc.constantFrom(...comtradeFixtures), fc.array(mutation, { minLength: 1, maxLength: 4 }), (fixture, mutations) => {
         const text = new TextDecoder().decode(mutate(fixtureBytes(`${fixture.base}.cfg`), mutations));
         onlyInputErrors('fuzz.cfg', () => parseComtradeConfig(text, 'fuzz.cfg'));
       }),
-      { numRuns: 1500 },
+      { numRuns: 600 },
     );
   });
 
@@ -128,7 +128,7 @@ describe('fuzz: readers fail only with an InputError that names the problem', ()
           onlyInputErrors('fuzz.dat', () => feed(createComtradeDataReader(config, { source: 'fuzz.dat', channelMap: fixture.channelMap, blockSamples: 2 }), bytes, cuts));
         },
       ),
-      { numRuns: 1500 },
+      { numRuns: 600 },
     );
   });
 
@@ -141,7 +141,7 @@ describe('fuzz: readers fail only with an InputError that names the problem', ()
           feed(createComtradeDataReader(config, { source: 'fuzz.dat', channelMap: fixture.channelMap }), mutate(fixtureBytes(`${fixture.base}.dat`), dataMutations), []);
         });
       }),
-      { numRuns: 1500 },
+      { numRuns: 600 },
     );
   });
 
@@ -151,7 +151,7 @@ describe('fuzz: readers fail only with an InputError that names the problem', ()
       fc.property(fc.constantFrom(...originals), fc.array(mutation, { minLength: 1, maxLength: 4 }), fc.array(fc.nat(), { maxLength: 3 }), (original, mutations, cuts) => {
         onlyInputErrors('fuzz.cff', () => feed(createComtradeCffReader({ source: 'fuzz.cff', blockSamples: 2 }), mutate(original, mutations), cuts));
       }),
-      { numRuns: 1000 },
+      { numRuns: 400 },
     );
   });
 });

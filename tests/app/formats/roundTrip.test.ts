@@ -40,7 +40,7 @@ describe('CSV write then read', () => {
         read.timeS.forEach((timeS, index) => expect(Math.abs(timeS - written.timeS[index])).toBeLessThan(1e-9));
         expect(gapStarts(read.blocks)).toEqual(gapStarts(blocks));
       }),
-      { numRuns: 200 },
+      { numRuns: 120 },
     );
   });
 });
@@ -94,7 +94,7 @@ describe('COMTRADE write then read, every file type and both revisions', () => {
             expect(gapStarts(read.blocks)).toEqual(gapStarts(blocks));
             expect(config.sampleRates.length > 0).toBe(gapStarts(blocks).length === 0);
           }),
-          { numRuns: 60 },
+          { numRuns: 30 },
         );
       });
     }

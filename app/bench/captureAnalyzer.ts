@@ -179,13 +179,15 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
     if (length === 0) return [];
     const readings: CycleReading[] = [];
     const expectedStartS = segmentStartS + nextIndex / sampleRateHz;
-    const contiguous = segments > 0 && !block.afterGap && block.sampleRateHz === sampleRateHz && Math.abs(block.startS - expectedStartS) <= 0.5 / sampleRateHz;
+    // A reader that derives the rate from a file's time column may differ in the last digits from block to block:
+    // a part per million is the same rate; the start time must follow on within half a sample.
+    const sameRate = Math.abs(block.sampleRateHz - sampleRateHz) <= 1e-6 * sampleRateHz;
+    const contiguous = segments > 0 && !block.afterGap && sameRate && Math.abs(block.startS - expectedStartS) <= 0.5 / sampleRateHz;
     if (!contiguous) {
       readings.push(...flushSegment());
       startSegment(block);
     }
     if (!Number.isFinite(firstStartS)) firstStartS = block.startS;
-    lastEndS = block.startS + length / sampleRateHz;
     const firstIndex = nextIndex;
     history.append(block.ramp);
     if (crossingTracker) for (const crossing of crossingTracker.push(block.sync, firstIndex)) onCrossing(crossing);
@@ -197,6 +199,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
       }
     }
     nextIndex += length;
+    lastEndS = timeOf(nextIndex);
     const lastIndex = nextIndex - 1;
     while (pending.length > 0) {
       const window = pending[0];

@@ -76,33 +76,45 @@ export class GatePulseTracker {
   push(gate: ArrayLike<number>, control: ArrayLike<number> | null, firstIndex: number): { started: GatePulse[]; completed: GatePulse[] } {
     const started: GatePulse[] = [];
     const completed: GatePulse[] = [];
+    let levels = this.levels;
+    let lowV = levels ? levels.lowV : 0;
+    let spanV = levels ? levels.highV - levels.lowV : 0;
+    let mesialV = lowV + spanV / 2;
+    let hysteresisV = this.hysteresisFraction * spanV;
     for (let i = 0; i < gate.length; i++) {
       const value = gate[i];
       const controlValue = control ? control[i] : Number.NaN;
       const index = firstIndex + i;
-      if (!this.levels) this.learnLevels(value);
-      const levels = this.levels;
+      if (!levels) {
+        this.learnLevels(value);
+        levels = this.levels;
+        if (levels) {
+          lowV = levels.lowV;
+          spanV = levels.highV - levels.lowV;
+          mesialV = lowV + spanV / 2;
+          hysteresisV = this.hysteresisFraction * spanV;
+        }
+      }
       if (levels) {
-        const spanV = levels.highV - levels.lowV;
-        const mesialV = levels.lowV + spanV / 2;
-        const hysteresisV = this.hysteresisFraction * spanV;
         const previous = this.previousValue;
         // Remember the latest mesial crossing in each direction: the edge instant once hysteresis confirms it.
-        if (Number.isFinite(previous) && (previous <= mesialV) !== (value <= mesialV)) {
+        if ((previous <= mesialV) !== (value <= mesialV) && Number.isFinite(previous)) {
           const fraction = (mesialV - previous) / (value - previous);
           this.candidateIndex = index - 1 + fraction;
           this.candidateControl = control ? this.previousControl + fraction * (controlValue - this.previousControl) : Number.NaN;
         }
-        if (!this.high && value > mesialV + hysteresisV) {
-          this.high = true;
-          const riseIndex = Number.isFinite(this.candidateIndex) ? this.candidateIndex : index;
-          const controlV = control ? (Number.isFinite(this.candidateControl) ? this.candidateControl : controlValue) : null;
-          this.open = { riseIndex, fallIndex: null, amplitudeV: 0, controlV };
-          this.openSumV = 0;
-          this.openCount = 0;
-          this.openControlBefore = this.previousControl;
-          started.push(this.open);
-        } else if (this.high && value < mesialV - hysteresisV) {
+        if (!this.high) {
+          if (value > mesialV + hysteresisV) {
+            this.high = true;
+            const riseIndex = Number.isFinite(this.candidateIndex) ? this.candidateIndex : index;
+            const controlV = control ? (Number.isFinite(this.candidateControl) ? this.candidateControl : controlValue) : null;
+            this.open = { riseIndex, fallIndex: null, amplitudeV: 0, controlV };
+            this.openSumV = 0;
+            this.openCount = 0;
+            this.openControlBefore = this.previousControl;
+            started.push(this.open);
+          }
+        } else if (value < mesialV - hysteresisV) {
           this.high = false;
           if (this.open) {
             this.open.fallIndex = Number.isFinite(this.candidateIndex) ? this.candidateIndex : index;
@@ -111,7 +123,7 @@ export class GatePulseTracker {
               this.open.fallIndex = this.openHighIndex + 0.5;
               if (this.open.controlV !== null) this.open.controlV = (this.openControlBefore + this.openControlAtHigh) / 2;
             }
-            this.open.amplitudeV = this.openCount > 0 ? this.openSumV / this.openCount - levels.lowV : spanV;
+            this.open.amplitudeV = this.openCount > 0 ? this.openSumV / this.openCount - lowV : spanV;
             completed.push(this.open);
             this.open = null;
           }

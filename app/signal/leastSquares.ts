@@ -96,3 +96,35 @@ export class LineAccumulator {
     return Math.max(0, this.comomentYY - (this.comomentXY * this.comomentXY) / this.comomentXX);
   }
 }
+
+/**
+ * The same fit with x = the sample position (from .. to - 1): the sums over x are closed-form (sum of (i - mean)^2 =
+ * n (n^2 - 1) / 12), so one pass gives slope and intercept and a second, only when asked, the residuals.
+ */
+export function fitIndexLine(values: ArrayLike<number>, from: number, to: number, options: { residuals?: boolean } = {}): LineFit | null {
+  const start = Math.max(0, from);
+  const end = Math.min(values.length, to);
+  const count = end - start;
+  if (count < 2) return null;
+  const centre = (start + end - 1) / 2;
+  let sumY = 0;
+  let sumXY = 0;
+  for (let i = start; i < end; i++) {
+    const y = values[i];
+    sumY += y;
+    sumXY += (i - centre) * y;
+  }
+  const sumXX = (count * (count * count - 1)) / 12;
+  const slope = sumXY / sumXX;
+  const intercept = sumY / count - slope * centre;
+  let maxAbsResidual = 0;
+  let sumSquares = 0;
+  if (options.residuals) {
+    for (let i = start; i < end; i++) {
+      const residual = values[i] - (slope * i + intercept);
+      sumSquares += residual * residual;
+      if (Math.abs(residual) > maxAbsResidual) maxAbsResidual = Math.abs(residual);
+    }
+  }
+  return { slope, intercept, count, maxAbsResidual, rmsResidual: Math.sqrt(sumSquares / count) };
+}

@@ -12,7 +12,7 @@
  *   over the last 10 % of the interval is below 40 % of the linear-part slope. An Early-effect ramp keeps most of its
  *   slope to the end (about 75 % for a strong Early effect), a saturated source none (our rule).
  */
-import { fitLine } from './leastSquares';
+import { fitIndexLine } from './leastSquares';
 
 export interface RampSegment {
   floorV: number;
@@ -81,16 +81,15 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
 
   const chargingSamples = lastHighIndex - riseIndex;
   let endIndex = Math.min(fallCrossing, lastHighIndex + 1);
-  const indices = indexRamp(length);
   const tailWidth = Math.max(3, Math.round(0.03 * chargingSamples));
-  const tailFit = fitLine(indices, values, { from: Math.max(riseIndex, lastHighIndex - tailWidth + 1), to: lastHighIndex + 1 });
+  const tailFit = fitIndexLine(values, Math.max(riseIndex, lastHighIndex - tailWidth + 1), lastHighIndex + 1);
   const levelAt = (index: number): number => (tailFit ? tailFit.slope * index + tailFit.intercept : values[lastHighIndex]);
   let peakV = levelAt(endIndex);
 
   // Two passes: the floor is the median of the foot samples up to the start the line gives, and the line's
   // 10 % level depends on the floor; starting from the lowest sample, the second pass is settled.
   let floorV = lowV;
-  let fit: ReturnType<typeof fitLine> = null;
+  let fit: ReturnType<typeof fitIndexLine> = null;
   let linearFrom = riseIndex;
   let linearTo = riseIndex;
   let startIndex = riseIndex;
@@ -104,7 +103,9 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
     if (linearFrom < 0) linearFrom = riseIndex;
     linearTo = linearFrom;
     while (linearTo <= lastHighIndex && values[linearTo] < distalV) linearTo += 1;
-    fit = fitLine(indices, values, { from: linearFrom, to: linearTo }) ?? fitLine(indices, values, { from: linearFrom - 1, to: linearTo + 1 });
+    // Residuals only on the last pass: they give the nonlinearity.
+    const residuals = { residuals: pass === 1 };
+    fit = fitIndexLine(values, linearFrom, linearTo, residuals) ?? fitIndexLine(values, linearFrom - 1, linearTo + 1, residuals);
     if (!fit || !(fit.slope > 0)) return null;
     startIndex = (floorV - fit.intercept) / fit.slope;
     floorV = median(values, footStart, Math.max(footStart + 1, Math.min(riseIndex, Math.floor(startIndex) + 1)));
@@ -122,7 +123,7 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
 
   // Clipping: slope over the last 10 % of the interval against the linear-part slope.
   const tailFrom = Math.max(linearFrom, Math.floor(endIndex - 0.1 * (endIndex - startIndex)));
-  const clipFit = fitLine(indices, values, { from: tailFrom, to: lastHighIndex + 1 });
+  const clipFit = fitIndexLine(values, tailFrom, lastHighIndex + 1);
   const tailSlopeRatio = clipFit ? clipFit.slope / fit.slope : 1;
   return {
     floorV,
@@ -153,16 +154,4 @@ function median(values: ArrayLike<number>, from: number, to: number): number {
   part.sort();
   const middle = part.length >> 1;
   return part.length % 2 === 1 ? part[middle] : (part[middle - 1] + part[middle]) / 2;
-}
-
-const indexRampCache: { values: Float64Array } = { values: new Float64Array(0) };
-
-/** 0, 1, 2, ... as x values for fits over sample positions (shared, grown on demand). */
-function indexRamp(length: number): Float64Array {
-  if (indexRampCache.values.length < length) {
-    const grown = new Float64Array(Math.max(length, indexRampCache.values.length * 2));
-    for (let i = 0; i < grown.length; i++) grown[i] = i;
-    indexRampCache.values = grown;
-  }
-  return indexRampCache.values;
 }

@@ -76,30 +76,49 @@ export class ZeroCrossingTracker {
   /** Feeds samples numbered `firstIndex`, `firstIndex + 1`, ... and returns the crossings they complete. */
   push(values: ArrayLike<number>, firstIndex: number): ZeroCrossing[] {
     const crossings: ZeroCrossing[] = [];
+    // Offset and band change only at a rising crossing; keep them in locals between crossings (the hot loop).
+    let offsetV = this.offsetV;
+    let bandV = this.bandFraction * this.amplitudeV;
+    let cycleSumV = this.cycleSumV;
+    let cycleMinV = this.cycleMinV;
+    let cycleMaxV = this.cycleMaxV;
     for (let i = 0; i < values.length; i++) {
       const value = values[i];
-      const index = firstIndex + i;
-      this.cycleSumV += value;
-      if (value < this.cycleMinV) this.cycleMinV = value;
-      if (value > this.cycleMaxV) this.cycleMaxV = value;
-      const bandV = this.bandFraction * this.amplitudeV;
-      const deviation = value - this.offsetV;
+      cycleSumV += value;
+      if (value < cycleMinV) cycleMinV = value;
+      if (value > cycleMaxV) cycleMaxV = value;
+      const deviation = value - offsetV;
       if (deviation > bandV) {
         if (this.state === 'low') {
+          const index = firstIndex + i;
           const crossing = this.crossingIndex(index, deviation);
           crossings.push({ index: crossing, direction: 'rising' });
+          this.cycleSumV = cycleSumV;
+          this.cycleMinV = cycleMinV;
+          this.cycleMaxV = cycleMaxV;
           this.closeCycle(crossing, deviation);
+          offsetV = this.offsetV;
+          bandV = this.bandFraction * this.amplitudeV;
+          cycleSumV = this.cycleSumV;
+          cycleMinV = this.cycleMinV;
+          cycleMaxV = this.cycleMaxV;
+          this.state = 'high';
+          this.leaveBand(index, value - offsetV);
+        } else {
+          this.state = 'high';
+          this.leaveBand(firstIndex + i, deviation);
         }
-        this.state = 'high';
-        this.leaveBand(index, deviation);
       } else if (deviation < -bandV) {
-        if (this.state === 'high') crossings.push({ index: this.crossingIndex(index, deviation), direction: 'falling' });
+        if (this.state === 'high') crossings.push({ index: this.crossingIndex(firstIndex + i, deviation), direction: 'falling' });
         this.state = 'low';
-        this.leaveBand(index, deviation);
+        this.leaveBand(firstIndex + i, deviation);
       } else {
-        this.enterBand(index, deviation);
+        this.enterBand(firstIndex + i, deviation);
       }
     }
+    this.cycleSumV = cycleSumV;
+    this.cycleMinV = cycleMinV;
+    this.cycleMaxV = cycleMaxV;
     return crossings;
   }
 

@@ -139,7 +139,7 @@ describe('createComtradeDataReader: clear errors', () => {
     };
     expect(errorOf(() => read('1,0,1,2,3,0\n2,100,1,2,3\n')).message).toContain('a.dat, line 2: the row has 5 fields; n, timestamp, 3 analog and 1 digital make 6');
     expect(errorOf(() => read('1,0,1,2x,3,0\n')).message).toContain('line 1: channel RAMP (ramp) holds "2x", which is not a number');
-    expect(errorOf(() => read('1,0,1,2,3,7\n')).message).toContain('digital channel gate holds "7", expected 0 or 1');
+    expect(errorOf(() => read('1,0,1,2,3,7\n')).message).toContain('digital channel gate (gate) holds "7", expected 0 or 1');
     expect(errorOf(() => read('\n\n')).message).toContain('holds no samples');
   });
 

@@ -7,6 +7,7 @@ import { registerSizeCommand } from './size';
 import { registerTrimCommand } from './trim';
 import { registerServeCommand } from './serve';
 import { registerLogCommand } from './log';
+import { registerRecordCommand } from './record';
 
 export function registerCommands(program: Command): void {
   void program;
@@ -17,4 +18,5 @@ export function registerCommands(program: Command): void {
   registerTrimCommand(program);
   registerServeCommand(program);
   registerLogCommand(program);
+  registerRecordCommand(program);
 }

@@ -74,10 +74,11 @@ async function writeStreamed(path: string, produce: (write: (chunk: string | Uin
   if (failure !== undefined) throw failure;
 }
 
-/** File-system failures become InputErrors naming the file: a bad output path is the user's to fix. */
+/** File-system failures become InputErrors naming the file (a bad output path is the user's to fix); other InputErrors get the path too. */
 function asInputError(error: unknown, path: string): unknown {
+  if (error instanceof InputError) return error.where === undefined ? new InputError(error.message, path) : error;
   const code = (error as NodeJS.ErrnoException | undefined)?.code;
-  if (error instanceof InputError || typeof code !== 'string') return error;
+  if (typeof code !== 'string') return error;
   const reasons: Record<string, string> = { ENOENT: 'the folder does not exist', EACCES: 'permission denied', ENOSPC: 'the disk is full', EROFS: 'the disk is read-only', EISDIR: 'it is a folder' };
   return new InputError(`cannot write the capture: ${reasons[code] ?? code}`, path);
 }
@@ -117,7 +118,7 @@ export async function writeCaptureFile(
             samples += block.sync.length;
           }
         });
-        if (samples === 0) throw new InputError('there are no samples to write', path);
+        if (samples === 0) throw new InputError('there are no samples to write');
         return { paths: [path], samples };
       });
     } catch (error) {

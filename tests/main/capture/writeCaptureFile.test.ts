@@ -113,7 +113,8 @@ describe('writeCaptureFile', () => {
   });
 
   it('refuses an empty capture, a control signal that comes and goes, and an unknown extension', async () => {
-    await expect(writeCaptureFile(join(folder, 'empty.csv'), [])).rejects.toThrow('no samples');
+    await expect(writeCaptureFile(join(folder, 'empty.csv'), [])).rejects.toThrow(`${join(folder, 'empty.csv')}: there are no samples to write`);
+    await expect(writeCaptureFile(join(folder, 'empty.cfg'), [])).rejects.toThrow(`${join(folder, 'empty.cfg')}: there are no samples to write`);
     const blocks = boardBlocks();
     blocks[1] = { ...blocks[1], control: null };
     await expect(writeCaptureFile(join(folder, 'mixed.cfg'), blocks)).rejects.toThrow('lacks the control signal');

@@ -71,7 +71,7 @@ function axis(title: string, min: number | undefined, max: number | undefined, t
     max,
     title: { display: true, text: title, color: cssColour('muted') },
     grid: { color: cssColour('grid') },
-    ticks: { color: cssColour('muted'), stepSize: step, callback: tick ? (value: string | number) => tick(Number(value)) : undefined },
+    ticks: { color: cssColour('muted'), stepSize: step, maxRotation: 0, autoSkip: true, callback: tick ? (value: string | number) => tick(Number(value)) : undefined },
   };
 }
 

@@ -40,6 +40,7 @@ export class BenchScreen implements Screen {
   private lastFrame: LiveFrame | null = null;
   /** Readings text is redrawn a few times a second, the fold every frame: numbers that flicker cannot be read. */
   private lastTextRenderMs = 0;
+  private hadSession = false;
 
   constructor(private readonly context: ScreenContext) {
     this.setup = new BenchSetup(context);
@@ -166,6 +167,8 @@ export class BenchScreen implements Screen {
     const state = this.context.store.state;
     const session = state?.session ?? null;
     this.setup.element.hidden = session !== null;
+    if (this.hadSession && !session) void this.setup.load().catch((error) => this.context.notices.fromError(error));
+    this.hadSession = session !== null;
     this.sessionArea.hidden = false;
     fill(
       this.sessionLine,
@@ -216,11 +219,11 @@ export class BenchScreen implements Screen {
   private renderLink(link: LinkHealth): void {
     const stateWords: Record<string, string> = { disconnected: 'Not connected', connecting: 'Connecting', streaming: 'Streaming', stalled: 'No data arriving', lost: 'Link lost' };
     const source = link.source ? (link.source.kind === 'serial' ? `Logger on ${link.source.path}` : `Virtual board (${link.source.designName}${link.source.faults.length ? `, fault: ${link.source.faults.join(', ')}` : ''})`) : 'None';
-    const cell = (label: string, value: string, testId?: string) => h('div', { 'data-testid': testId ?? null }, h('span', {}, label), h('strong', {}, value));
+    const cell = (label: string, value: string, testId?: string, wide = false) => h('div', { 'data-testid': testId ?? null, class: wide ? 'wide' : null }, h('span', {}, label), h('strong', {}, value));
     fill(
       this.linkPanel,
       cell('State', stateWords[link.state] ?? link.state, 'link-state'),
-      cell('Source', source),
+      cell('Source', source, 'link-source', true),
       cell('Sample rate', formatSi(link.sampleRateHz, 'S/s')),
       cell('Arriving', formatSi(link.arrivingSamplesPerS, 'S/s'), 'link-rate'),
       cell('Blocks', String(link.blocks)),
@@ -228,7 +231,7 @@ export class BenchScreen implements Screen {
       cell('CRC errors', String(link.crcErrors), 'link-crc'),
       cell('Bad lines', String(link.badLines)),
       cell('Last data', link.lastDataAgoMs === null ? '–' : formatSi(link.lastDataAgoMs / 1000, 's') + ' ago'),
-      link.message ? h('div', {}, h('span', {}, 'Message'), h('strong', {}, link.message)) : null,
+      link.message ? h('div', { class: 'wide' }, h('span', {}, 'Message'), h('strong', {}, link.message)) : null,
     );
   }
 }

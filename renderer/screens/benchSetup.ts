@@ -41,7 +41,7 @@ export class BenchSetup {
     const form = h(
       'form',
       { class: 'stack', 'aria-label': 'Start a session', onsubmit: (event: Event) => { event.preventDefault(); void this.start(); } },
-      h('div', { class: 'form-grid' }, field('Board design', this.designSelect), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect)),
+      h('div', { class: 'form-grid wide-fields' }, field('Board design', this.designSelect), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect)),
       this.faultField,
       this.problem,
       h('div', { class: 'row' }, this.startButton, h('button', { class: 'secondary', type: 'button', onclick: () => context.go('board') }, 'Edit board designs')),
@@ -55,8 +55,11 @@ export class BenchSetup {
     fill(this.designSelect, designs.designs.length === 0 ? h('option', { value: '' }, 'No designs yet: add one on the Board screen') : designs.designs.map((design) => h('option', { value: design.name }, `${design.name} (v${design.version}, ${design.mainsHz} Hz ${design.rectifier})`)));
     if (previous) this.designSelect.value = previous;
     const previousSource = this.sourceSelect.value;
-    fill(this.sourceSelect, h('option', { value: 'virtual' }, 'Virtual board (no hardware)'), ports.ports.map((port) => h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.manufacturer ? ` (${port.manufacturer})` : ''}`)));
-    if (previousSource) this.sourceSelect.value = previousSource;
+    const link = this.context.store.health;
+    const linkUp = link !== null && link.source !== null && (link.state === 'streaming' || link.state === 'connecting' || link.state === 'stalled');
+    const current = linkUp && link.source ? (link.source.kind === 'serial' ? `logger on ${link.source.path}` : `virtual board${link.source.faults.length ? ` with fault ${link.source.faults.join(', ')}` : ''}`) : '';
+    fill(this.sourceSelect, linkUp ? h('option', { value: 'keep' }, `The link as it is (${current})`) : null, h('option', { value: 'virtual' }, 'Virtual board (no hardware)'), ports.ports.map((port) => h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.manufacturer ? ` (${port.manufacturer})` : ''}`)));
+    if (previousSource && [...this.sourceSelect.options].some((option) => option.value === previousSource)) this.sourceSelect.value = previousSource;
     this.updateSource();
   }
 
@@ -75,12 +78,15 @@ export class BenchSetup {
     }
     this.problem.textContent = '';
     const source = this.sourceSelect.value;
-    const payload: ConnectPayload = source.startsWith('serial:')
+    const payload: ConnectPayload | null = source === 'keep' ? null : source.startsWith('serial:')
       ? { kind: 'serial', path: source.slice('serial:'.length) }
       : { kind: 'virtual', designName, faults: this.faultSelect.value ? [this.faultSelect.value] : [] };
     await runAction(this.context, this.startButton, async () => {
-      const link = this.context.store.health;
-      if (!link || link.state === 'disconnected' || link.state === 'lost') await this.context.client.connect(payload);
+      if (payload) {
+        const link = this.context.store.health;
+        if (link && link.state !== 'disconnected') await this.context.client.disconnect();
+        await this.context.client.connect(payload);
+      }
       await this.context.client.startSession({ unitSerial, designName, operator });
       await this.context.store.refresh();
     });

@@ -19,7 +19,7 @@ export class BoardScreen implements Screen {
   readonly name = 'board' as const;
   readonly title = 'Board';
   readonly element: HTMLElement;
-  private readonly list = h('ul', { class: 'stack', 'aria-label': 'Stored designs', 'data-testid': 'design-list' });
+  private readonly list = h('ul', { class: 'stack design-list', 'aria-label': 'Stored designs', 'data-testid': 'design-list' });
   private readonly form = h('form', { 'aria-label': 'Board design', novalidate: true, 'data-testid': 'design-form' });
   private readonly formStatus = h('p', { role: 'status', 'data-testid': 'design-status' });
   private readonly saveButton = h('button', { class: 'primary', type: 'button', 'data-testid': 'save-design' }, 'Save as a new version');
@@ -33,6 +33,7 @@ export class BoardScreen implements Screen {
   private draft: Record<string, unknown> = {};
   private checked: BoardDesign | null = null;
   private timer: number | null = null;
+  private openName: string | null = null;
 
   constructor(private readonly context: ScreenContext) {
     this.chart = createXyChart(this.canvas, { xTitle: 'Electrical degrees', yTitle: 'Ramp volts', xMin: 0, xMax: 360, xStep: 30, xTick: (value) => `${value}°`, yTick: (value) => `${value} V`, tooltip: true });
@@ -108,7 +109,7 @@ export class BoardScreen implements Screen {
       this.list,
       result.designs.length === 0 ? h('li', { class: 'empty' }, 'No designs stored yet.') : null,
       result.designs.map((summary) => {
-        const open = h('button', { class: 'secondary', type: 'button', 'data-design': summary.name }, summary.name);
+        const open = h('button', { class: 'secondary', type: 'button', 'data-design': summary.name, 'aria-current': String(summary.name === this.openName) }, summary.name);
         open.addEventListener('click', () => void this.open(summary.name));
         return h('li', {}, open, h('div', { class: 'muted' }, `v${summary.version} · ${summary.mainsHz} Hz ${summary.rectifier} · ramp ${formatSi(summary.rampTargetV, 'V')}`));
       }),
@@ -120,6 +121,8 @@ export class BoardScreen implements Screen {
     const stored = await runAction(this.context, null, () => this.context.client.getDesign({ name }));
     if (!stored) return;
     this.draft = structuredClone(stored.design) as unknown as Record<string, unknown>;
+    this.openName = stored.summary.name;
+    for (const button of this.list.querySelectorAll<HTMLButtonElement>('button[data-design]')) button.setAttribute('aria-current', String(button.dataset.design === name));
     for (const { input, field } of this.inputs.values()) input.value = fieldValueText(this.draft, field);
     this.formStatus.textContent = `Editing ${stored.summary.name}, version ${stored.summary.version}.`;
     this.validate();

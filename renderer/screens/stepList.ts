@@ -16,45 +16,79 @@ export interface StepActions {
 
 const statusWords = { waiting: 'Waiting for signal', measuring: 'Measuring', done: 'Recorded' } as const;
 
+interface StepElements {
+  item: HTMLLIElement;
+  verdict: HTMLElement;
+  status: HTMLElement;
+  recheck: HTMLElement;
+  readings: HTMLElement;
+  note: HTMLElement;
+  actions: HTMLElement;
+  /** What the actions were built for; rebuilt only when it changes, so a button never moves under a pointer. */
+  actionsKey: string;
+}
+
 export class StepList {
   readonly element = h('ol', { class: 'steps', 'aria-label': 'Commissioning steps' });
+  private readonly items = new Map<CommissioningStep, StepElements>();
 
   constructor(private readonly actions: StepActions) {}
 
+  /** Updates the list in place: text and readings change, the elements (and the focused button) stay. */
   render(rows: readonly StepRow[], selected: CommissioningStep, sessionOpen: boolean, recheckNeeded: boolean): void {
-    // Redrawing must not steal keyboard focus from the step's button.
-    const focusedId = (document.activeElement as HTMLElement | null)?.dataset?.testid;
-    const focusInside = this.element.contains(document.activeElement);
-    fill(
-      this.element,
-      rows.map((row, index) => {
-        const report = row.report;
-        const isSelected = row.step === selected;
-        const readings = report.readings.flatMap((reading) => readingRow(reading));
-        const needsRecheck = recheckNeeded && row.step === 'ramp';
-        return h(
-          'li',
-          { class: 'step', 'data-step': row.step, 'data-status': report.status, 'aria-current': isSelected ? 'step' : null },
-          h(
-            'header',
-            { onclick: () => this.actions.select(row.step) },
-            h('span', { class: 'number', 'aria-hidden': 'true' }, index + 1),
-            h('span', { class: 'name' }, stepTitles[row.step], h('span', { class: 'visually-hidden' }, `, step ${index + 1}`)),
-            verdictBadge(report.verdict, report.status === 'waiting' ? 'Waiting' : 'No verdict'),
-          ),
-          h('p', { class: 'note' }, `${statusWords[report.status]}${report.cycles > 0 ? ` · ${report.cycles} cycles` : ''}${row.recorded ? ' · in the session' : ''}`),
-          needsRecheck ? h('p', { class: 'note', role: 'alert' }, h('strong', {}, 'A part was changed: check the ramp again.')) : null,
-          readings.length > 0 ? h('dl', { class: 'readings' }, readings) : null,
-          report.note ? h('p', { class: 'note' }, report.note) : null,
-          isSelected ? this.stepActions(row.step, sessionOpen) : null,
-        );
-      }),
+    rows.forEach((row, index) => {
+      const elements = this.items.get(row.step) ?? this.create(row.step, index);
+      const report = row.report;
+      const isSelected = row.step === selected;
+      elements.item.dataset.status = report.status;
+      if (isSelected) elements.item.setAttribute('aria-current', 'step');
+      else elements.item.removeAttribute('aria-current');
+      fill(elements.verdict, verdictBadge(report.verdict, report.status === 'waiting' ? 'Waiting' : 'No verdict'));
+      elements.status.textContent = `${statusWords[report.status]}${report.cycles > 0 ? ` · ${report.cycles} cycles` : ''}${row.recorded ? ' · in the session' : ''}`;
+      elements.recheck.hidden = !(recheckNeeded && row.step === 'ramp');
+      fill(elements.readings, report.readings.flatMap((reading) => readingRow(reading)));
+      elements.readings.hidden = report.readings.length === 0;
+      elements.note.textContent = report.note ?? '';
+      elements.note.hidden = !report.note;
+      const actionsKey = `${isSelected}/${sessionOpen}`;
+      if (actionsKey !== elements.actionsKey) {
+        elements.actionsKey = actionsKey;
+        fill(elements.actions, isSelected ? this.stepActions(row.step, sessionOpen) : null);
+      }
+    });
+  }
+
+  private create(step: CommissioningStep, index: number): StepElements {
+    const verdict = h('span', { class: 'verdict-slot' });
+    const status = h('p', { class: 'note' });
+    const recheck = h('p', { class: 'note', role: 'alert', hidden: true }, h('strong', {}, 'A part was changed: check the ramp again.'));
+    const readings = h('dl', { class: 'readings' });
+    const note = h('p', { class: 'note' });
+    const actions = h('div', {});
+    const item = h(
+      'li',
+      { class: 'step', 'data-step': step },
+      h(
+        'header',
+        { onclick: () => this.actions.select(step) },
+        h('span', { class: 'number', 'aria-hidden': 'true' }, index + 1),
+        h('span', { class: 'name' }, stepTitles[step], h('span', { class: 'visually-hidden' }, `, step ${index + 1}`)),
+        verdict,
+      ),
+      status,
+      recheck,
+      readings,
+      note,
+      actions,
     );
-    if (focusInside && focusedId) this.element.querySelector<HTMLElement>(`[data-testid="${focusedId}"]`)?.focus();
+    const elements: StepElements = { item, verdict, status, recheck, readings, note, actions, actionsKey: '' };
+    this.items.set(step, elements);
+    this.element.appendChild(item);
+    return elements;
   }
 
   private stepActions(step: CommissioningStep, sessionOpen: boolean): HTMLElement {
-    const check = h('button', { class: 'primary', type: 'button', disabled: !sessionOpen, 'data-testid': `check-${step}` }, step === 'sign-off' ? 'Sign off and close' : step === 'trim' ? 'Record: no trim needed' : `Record ${stepTitles[step].toLowerCase()}`);
+    const check = h('button', { class: 'primary', type: 'button', disabled: !sessionOpen, 'data-testid': `check-${step}` }, step === 'sign-off' ? 'Sign off and close' : step === 'trim' ? 'Record the trim step' : `Record ${stepTitles[step].toLowerCase()}`);
     check.addEventListener('click', () => this.actions.check(step, check));
     const open = step === 'trim' || step === 'transfer' ? h('button', { class: 'secondary', type: 'button', onclick: () => this.actions.open(step) }, step === 'trim' ? 'Open trim plan' : 'Open transfer curve') : null;
     return h('div', { class: 'step-actions' }, check, open, sessionOpen ? null : h('span', { class: 'muted' }, 'Start a session first'));

@@ -28,6 +28,8 @@ export class TransferScreen implements Screen {
   private points: TransferPoint[] = [];
   private fit: TransferFit | null = null;
   private ideal: TransferPoint[] = [];
+  private lastLoadMs = 0;
+  private sweepDefaultsSet = false;
 
   constructor(private readonly context: ScreenContext) {
     this.chart = createXyChart(this.canvas, { xTitle: 'Control voltage', yTitle: 'Firing angle α', yMin: 0, yMax: 180, xTick: (value) => formatSi(value, 'V'), yTick: (value) => `${value}°`, tooltip: true });
@@ -88,7 +90,10 @@ export class TransferScreen implements Screen {
     );
     context.store.on('transfer', (points) => {
       this.points.push(...(points as TransferPoint[]));
-      if (!this.element.hidden) this.draw();
+      if (this.element.hidden) return;
+      // The fit is the service's: fetch it again now and then while points arrive.
+      if (performance.now() - this.lastLoadMs > 1500) void this.load().catch((error) => this.context.notices.fromError(error));
+      else this.draw();
     });
   }
 
@@ -109,8 +114,15 @@ export class TransferScreen implements Screen {
       this.draw();
       return;
     }
+    this.lastLoadMs = performance.now();
     const result = await this.context.client.transferPoints({});
     this.points = result.points;
+    if (!this.sweepDefaultsSet && result.ideal.length > 1) {
+      // Sweep the design's own control range by default.
+      this.fromInput.value = String(Number(Math.min(...result.ideal.map((point) => point.controlV)).toFixed(2)));
+      this.toInput.value = String(Number(Math.max(...result.ideal.map((point) => point.controlV)).toFixed(2)));
+      this.sweepDefaultsSet = true;
+    }
     this.fit = result.fit;
     this.ideal = result.ideal;
     this.draw();

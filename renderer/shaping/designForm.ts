@@ -24,7 +24,7 @@ export interface DesignFieldGroup {
 
 const resistor = (role: string, label: string, optional = false): DesignField[] => [
   { path: `parts.${role}.ohm`, label: `${label} (Ω)`, unit: 'ohm', kind: 'number', optional },
-  { path: `parts.${role}.ref`, label: `${label}: board ref`, unit: '', kind: 'text', optional: true },
+  { path: `parts.${role}.ref`, label: `${label}, ref`, unit: '', kind: 'text', optional: true },
 ];
 
 export const designFieldGroups: readonly DesignFieldGroup[] = [
@@ -50,7 +50,7 @@ export const designFieldGroups: readonly DesignFieldGroup[] = [
       ...resistor('rBiasTop', 'Bias divider, top'),
       ...resistor('rBiasBottom', 'Bias divider, bottom'),
       { path: 'parts.cRamp.farad', label: 'Ramp capacitor (µF)', unit: 'uF', kind: 'number' },
-      { path: 'parts.cRamp.ref', label: 'Ramp capacitor: board ref', unit: '', kind: 'text', optional: true },
+      { path: 'parts.cRamp.ref', label: 'Ramp capacitor, ref', unit: '', kind: 'text', optional: true },
       ...resistor('rDischarge', 'Discharge resistor', true),
     ],
   },

@@ -77,6 +77,9 @@ export function formatReading(value: number | null | undefined, unit: string, di
       return formatSi(value == null ? value : value * 1e-3, 's', { digits });
     case 'ohm':
       return formatSi(value, 'Ω', { digits });
+    case 'Hz':
+      // Mains drift is read in hundredths of a hertz: 50.02 Hz, not 50 Hz.
+      return formatSi(value, 'Hz', { digits: Math.max(digits, 4) });
     case '':
       return value == null || !Number.isFinite(value) ? '–' : String(Math.round(value));
     default:

@@ -53,5 +53,7 @@ describe('formatFixed and formatReading', () => {
     expect(formatReading(7500, 'ohm')).toBe('7.5 kΩ');
     expect(formatReading(3, '')).toBe('3');
     expect(formatReading(1.234, 'V/ms')).toBe('1.23 V/ms');
+    // Mains drift matters in hundredths of a hertz (common practice): four significant digits for Hz.
+    expect(formatReading(50.023, 'Hz')).toBe('50.02 Hz');
   });
 });

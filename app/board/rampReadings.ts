@@ -14,6 +14,9 @@ export interface RampReadings {
   startDelayDeg?: number;
   /** The ramp flattened before the half-cycle ended (current source saturated). */
   clipped: boolean;
-  /** Largest alpha measured with the control pot at its end (degrees), when the technician took that reading. */
+  /**
+   * Largest alpha measured (degrees), e.g. with the control pot at its end. Only a value past the design's
+   * alphaMaxDeg is acted on: a lower one may just mean the pot was not turned to its end.
+   */
   alphaMaxDeg?: number | null;
 }

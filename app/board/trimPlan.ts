@@ -101,6 +101,16 @@ export function planTrim(design: BoardDesign, measured: RampReadings, options: T
     ambiguity: estimate.ambiguity,
   };
 
+  // A ramp that starts late has a shorter charging interval: its peak is low for a reason no resistor of the
+  // current source should fix (commissioning rule: the ramp starts within a few degrees, REFERENCES.md).
+  if (measured.startDelayDeg !== undefined) {
+    const designStartDeg = alphaRangeOf(design, estimate.prediction).startDeg - design.syncPhaseDeg;
+    if (Math.abs(measured.startDelayDeg - designStartDeg) > design.tolerances.startDelayDeg) {
+      notes.push(
+        `The ramp starts ${measured.startDelayDeg.toFixed(1)} deg after the zero crossing, the design ${designStartDeg.toFixed(1)} deg: check the sync and reset circuit first, the charging time (and so the peak) depends on it.`,
+      );
+    }
+  }
   const inTolerance = !measured.clipped && Math.abs(measuredPeakErrorPct) <= design.tolerances.rampPeakPct;
   if (inTolerance) {
     return {
@@ -141,7 +151,7 @@ export function planTrim(design: BoardDesign, measured: RampReadings, options: T
     const key = `${candidate.part}/${candidate.method}/${candidate.partOhm}/${candidate.alsoChange?.toOhm ?? ''}`;
     if (seen.has(key)) continue;
     seen.add(key);
-    suggestions.push(describe(design, candidate, measured, estimate.prediction, series));
+    suggestions.push(describe(design, candidate, measured, estimate.prediction, series, fitted));
     if (suggestions.length >= (options.maxSuggestions ?? 5)) break;
   }
   const usable = suggestions.filter((suggestion) => !suggestion.clipped && suggestion.headroomV >= minHeadroomV);
@@ -190,7 +200,7 @@ function dividerWithEmitter(context: CandidateContext, targetV: number, minHeadr
   return results;
 }
 
-function describe(design: BoardDesign, candidate: TrimCandidate, measured: RampReadings, before: RampPrediction, series: ESeriesName): TrimSuggestion {
+function describe(design: BoardDesign, candidate: TrimCandidate, measured: RampReadings, before: RampPrediction, series: ESeriesName, fitted: PartOverrides): TrimSuggestion {
   const prediction = candidate.prediction;
   const label = partLabel(design, candidate.part);
   const errorPct = ((prediction.peakV - design.rampTargetV) / design.rampTargetV) * 100;
@@ -214,7 +224,7 @@ function describe(design: BoardDesign, candidate: TrimCandidate, measured: RampR
         : 'the base voltage moves the emitter drop';
   const clipNote = measured.clipped && candidate.part === 'rEmitter' ? ' (less current, so the ramp stays below the clipping level)' : '';
   const range = alphaRangeOf(design, prediction);
-  const limits = controlLimitsOf(design, { prediction, partOverrides: {} });
+  const limits = controlLimitsOf(design, { prediction, partOverrides: fitted });
   return {
     part: candidate.part,
     ref: design.parts[candidate.part]?.ref ?? null,
@@ -238,7 +248,8 @@ function controlLimitSuggestion(design: BoardDesign, measured: RampReadings, pre
   if (!design.parts.potControl && !design.parts.rControlTop) return null;
   const limits = controlLimitsOf(design, { prediction, partOverrides: context.fitted });
   const toleranceDeg = design.tolerances.alphaDeg;
-  const measuredOff = measured.alphaMaxDeg != null && Math.abs(measured.alphaMaxDeg - design.alphaMaxDeg) > toleranceDeg;
+  // Only a measured alpha past the limit counts: a lower largest alpha may just mean the pot was not at its end.
+  const measuredOff = measured.alphaMaxDeg != null && measured.alphaMaxDeg > design.alphaMaxDeg + toleranceDeg;
   const predictedOff = limits.alphaMaxDeg === null || Math.abs(limits.alphaMaxDeg - design.alphaMaxDeg) > toleranceDeg;
   if (!(measuredOff || predictedOff) || limits.limitResistorOhm === null) return null;
   // Round up: a larger top resistor lowers the pot's end, so alpha stays short of alphaMaxDeg (REFERENCES.md rule).

@@ -90,6 +90,14 @@ describe('trim plan', () => {
     expect(plan.controlLimit?.reason).toContain('R9');
   });
 
+  it('a late ramp start points at the sync and reset circuit', () => {
+    // Design start: half the 300 us reset = 150 us = 2.7 deg at 50 Hz; 9 deg is past the 3 deg tolerance.
+    const late = planTrim(board, readingsOf(predictRamp(board), { startDelayDeg: 9 }));
+    expect(late.notes.join(' ')).toContain('check the sync and reset circuit');
+    const onTime = planTrim(board, readingsOf(predictRamp(board), { startDelayDeg: 3 }));
+    expect(onTime.notes.join(' ')).not.toContain('sync and reset');
+  });
+
   it('a ramp beyond every tolerance corner asks for the fitted parts to be checked first', () => {
     const plan = planTrim(board, readingsOf(predictRamp(board, { partOverrides: { rEmitter: 5100 } })));
     expect(plan.notes.join(' ')).toContain('check that rEmitter (R7)');

@@ -13,6 +13,7 @@ import { ZeroCrossingTracker, type ZeroCrossing } from '../signal/zeroCrossings'
 import { learnFirstLevels, type FirstLevels } from './firstLevels';
 import type { CaptureReadings, CycleReading, Rectifier } from './readings';
 import { ReadingsSummary } from './readingsSummary';
+import { splitValidRuns } from './validSamples';
 
 export interface CaptureAnalyzerOptions {
   rectifier: Rectifier;
@@ -65,6 +66,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
   const pending: FiringWindow[] = [];
   let pulses: GatePulse[] = [];
   let lastChargeEndIndex = Number.NaN;
+  let invalidSamples = 0;
 
   const timeOf = (index: number): number => segmentStartS + index / sampleRateHz;
 
@@ -229,12 +231,19 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
 
   return {
     push(block: SampleBlock): CycleReading[] {
-      if (warmupBlocks) {
-        warmupBlocks.push(block);
-        warmupSeconds += block.sync.length / block.sampleRateHz;
-        return warmupSeconds >= warmupS ? endWarmup() : [];
+      const { runs, invalid } = splitValidRuns(block);
+      invalidSamples += invalid;
+      const readings: CycleReading[] = [];
+      for (const run of runs) {
+        if (warmupBlocks) {
+          warmupBlocks.push(run);
+          warmupSeconds += run.sync.length / run.sampleRateHz;
+          if (warmupSeconds >= warmupS) readings.push(...endWarmup());
+        } else {
+          readings.push(...processBlock(run));
+        }
       }
-      return processBlock(block);
+      return readings;
     },
     finish(): CaptureReadings {
       if (warmupBlocks) endWarmup();
@@ -252,6 +261,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
         syncAmplitudeV: syncLevels ? syncLevels.amplitudeV : null,
         gateLowV: gateLevels ? gateLevels.lowV : null,
         gateHighV: gateLevels ? gateLevels.highV : null,
+        invalidSamples,
       });
     },
   };

@@ -101,4 +101,6 @@ export interface CaptureReadings {
   syncAmplitudeV: number | null;
   /** Gaps in the samples (lost logger blocks, breaks in a file); analysis restarted after each. */
   gaps: number;
+  /** Samples that were not finite numbers (or beyond +-1 MV): treated as lost, analysis restarted after them. */
+  invalidSamples: number;
 }

@@ -18,6 +18,7 @@ export interface SummaryContext {
   syncAmplitudeV: number | null;
   gateLowV: number | null;
   gateHighV: number | null;
+  invalidSamples: number;
 }
 
 export class ReadingsSummary {
@@ -126,6 +127,7 @@ export class ReadingsSummary {
       syncOffsetV: context.syncOffsetV,
       syncAmplitudeV: context.syncAmplitudeV,
       gaps: context.gaps,
+      invalidSamples: context.invalidSamples,
     };
   }
 }

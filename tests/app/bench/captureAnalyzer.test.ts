@@ -185,3 +185,37 @@ describe('createCaptureAnalyzer on synthetic boards (closed-form truth)', () => 
     expect(mean(kept.perCycle.map((cycle) => cycle.alphaDeg ?? 0))).toBeCloseTo(kept.pulse.alphaDeg ?? 0, 9);
   });
 });
+
+describe('createCaptureAnalyzer on hostile input (property)', () => {
+  it('never throws, whatever the values, block sizes, gaps and rates; readings stay finite or null', () => {
+    const value = fc.oneof(
+      fc.double({ min: -50, max: 50, noNaN: true }),
+      fc.constantFrom(Number.NaN, Number.POSITIVE_INFINITY, Number.NEGATIVE_INFINITY, 0, 1e300, -1e300),
+    );
+    const block = fc.record({
+      length: fc.integer({ min: 0, max: 400 }),
+      afterGap: fc.boolean(),
+      rate: fc.constantFrom(5000, 20000, 200000),
+      values: fc.array(value, { minLength: 1, maxLength: 16 }),
+      sine: fc.boolean(),
+    });
+    fc.assert(
+      fc.property(fc.array(block, { minLength: 1, maxLength: 12 }), fc.constantFrom('half-wave' as const, 'full-wave' as const), (specs, rectifier) => {
+        const analyzer = createCaptureAnalyzer({ rectifier, warmupS: 0.01 });
+        let startS = 0;
+        for (const spec of specs) {
+          const pick = (i: number, salt: number): number => spec.values[(i * 7 + salt) % spec.values.length];
+          const make = (salt: number): Float64Array =>
+            Float64Array.from({ length: spec.length }, (_, i) => (spec.sine && salt === 0 ? 5 * Math.sin((2 * Math.PI * 50 * (startS * spec.rate + i)) / spec.rate) : pick(i, salt)));
+          analyzer.push({ startS, sampleRateHz: spec.rate, sync: make(0), ramp: make(1), gate: make(2), control: spec.length % 2 === 0 ? make(3) : null, afterGap: spec.afterGap });
+          startS += spec.length / spec.rate;
+        }
+        const readings = analyzer.finish();
+        const numbers = [readings.frequencyHz, readings.ramp.peakV, readings.ramp.floorV, readings.ramp.slopeVPerMs, readings.pulse.alphaDeg, readings.pulse.widthUs, readings.periodJitterUs];
+        for (const number of numbers) expect(number === null || Number.isFinite(number)).toBe(true);
+        expect(JSON.parse(JSON.stringify(readings)).cycles).toBe(readings.cycles);
+      }),
+      { numRuns: 150 },
+    );
+  });
+});

@@ -26,7 +26,7 @@ function readings(overrides: { ramp?: Partial<CaptureReadings['ramp']>; pulse?: 
       multiplePulses: 0, gateLowV: 0, gateHighV: 5, controlV: null, ...overrides.pulse,
     },
     transfer: null, perCycle: [], rectifier: 'full-wave', syncPhaseDeg: 0, sampleRateHz: 20000, durationS: 1, firingIntervals: 100,
-    frequencyDriftHz: 0, frequencyDriftHzPerS: 0, periodJitterUs: 2, syncOffsetV: 0, syncAmplitudeV: 5, gaps: 0,
+    frequencyDriftHz: 0, frequencyDriftHzPerS: 0, periodJitterUs: 2, syncOffsetV: 0, syncAmplitudeV: 5, gaps: 0, invalidSamples: 0,
   };
 }
 

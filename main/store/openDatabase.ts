@@ -89,7 +89,10 @@ export function openLogbookDatabase(path: string, options: OpenLogbookDatabaseOp
     db.pragma('journal_mode = WAL');
     db.pragma(options.durability === 'power-cut' ? 'synchronous = FULL' : 'synchronous = NORMAL');
     db.pragma('foreign_keys = ON');
-    db.pragma('busy_timeout = 5000');
+    // Wait at most 250 ms for another process's write lock (another bench program writing its own batch): the
+    // session writer shares the thread with the serial reader, so it gives up and retries on its next tick with
+    // its queue intact rather than stall the reader (logbookWriter.ts).
+    db.pragma('busy_timeout = 250');
     for (let next = version; next < latestSchemaVersion; next += 1) {
       db.transaction(() => {
         db.exec(migrations[next]);

@@ -123,3 +123,40 @@ describe('interrupted sessions', () => {
     await again.close();
   });
 });
+
+describe('a logbook locked by another program', () => {
+  it('keeps the queue while the lock is held and writes it all once the lock is gone', async () => {
+    const path = folder.file('locked.sqlite');
+    const logbook = await openSqliteLogbook(path);
+    const writer = await logbook.startSession({ unitSerial: 'RW-0142', design: chargerDesign(), operator: 'bench 1' }, { flushIntervalMs: 50 });
+    const other = new Database(path);
+    other.exec('BEGIN IMMEDIATE'); // another process holds the write lock
+    for (let i = 0; i < 500; i += 1) writer.addCycle(cycleReading(i * 0.02));
+    await expect(writer.flush()).rejects.toThrow(/logbook write failed: database is locked/);
+    expect(writer.stats()).toMatchObject({ queued: 500, cyclesWritten: 0, cyclesDropped: 0 });
+    other.exec('COMMIT');
+    other.close();
+    await until(() => writer.stats().cyclesWritten === 500);
+    expect(writer.stats().lastError).toBeNull();
+    expect(countCycles(path)).toBe(500);
+    const row = await writer.close();
+    expect(row.cycles).toBe(500);
+    await logbook.close();
+  });
+});
+
+describe('a writer whose disk refuses writes for long', () => {
+  it('stops growing at maxQueuedItems, counting the cycles it had to drop, and never drops trims or link events', async () => {
+    const path = folder.file('capped.sqlite');
+    const logbook = await openSqliteLogbook(path);
+    const writer = await logbook.startSession({ unitSerial: 'RW-0142', design: chargerDesign(), operator: 'bench 1' }, { flushIntervalMs: 3_600_000, maxQueuedItems: 100 });
+    for (let i = 0; i < 500; i += 1) writer.addCycle(cycleReading(i * 0.02));
+    writer.addLinkEvent('unplugged', '/dev/ttyACM0');
+    expect(writer.stats()).toMatchObject({ queued: 101, cyclesDropped: 400 });
+    const row = await writer.close();
+    // The first 100 cycles (the oldest, contiguous) and the event are stored.
+    expect(row.cycles).toBe(100);
+    expect(row.linkErrors).toBe(1);
+    await logbook.close();
+  });
+});

@@ -72,8 +72,9 @@ function pointAt(bias: BiasNetwork, law: TransistorLaw, collectorV: number, beCu
 
 /**
  * Solves the operating point with the collector held at `collectorV` (active region assumed: the caller keeps
- * the ramp below the clipping level). Bisection on the junction current: the residual falls monotonically
- * with it, so 200 halvings reach double precision without any starting guess.
+ * the ramp below the clipping level). The residual falls monotonically with the junction current, so a Newton
+ * step kept inside a shrinking bracket (bisection when a step would leave it) converges from Malvino's estimate
+ * in a handful of iterations and can never diverge.
  */
 export function solveOperatingPoint(bias: BiasNetwork, law: TransistorLaw, collectorV: number): OperatingPoint {
   let low = 0;
@@ -82,12 +83,25 @@ export function solveOperatingPoint(bias: BiasNetwork, law: TransistorLaw, colle
     const off = pointAt(bias, law, collectorV, 0);
     return { ...stripResidual(off), collectorCurrentA: 0, emitterCurrentA: 0 };
   }
-  for (let iteration = 0; iteration < 200 && high - low > high * 1e-15; iteration += 1) {
-    const middle = 0.5 * (low + high);
-    if (pointAt(bias, law, collectorV, middle).residualV > 0) low = middle;
-    else high = middle;
+  const vebGuessV = law.thermalV * Math.log1p(Math.max(bias.supplyV / bias.rEmitterOhm / 100, 1e-12) / law.saturationCurrentA);
+  let current = Math.min(Math.max(malvinoEmitterCurrentA(bias, vebGuessV, law.beta) * (law.beta / (law.beta + 1)), high * 1e-9), high * 0.999);
+  for (let iteration = 0; iteration < 200; iteration += 1) {
+    const residual = pointAt(bias, law, collectorV, current).residualV;
+    // A femtovolt of KCL imbalance per volt of supply is double precision's floor here.
+    if (Math.abs(residual) <= bias.supplyV * 1e-15) break;
+    if (residual > 0) low = current;
+    else high = current;
+    const delta = current * 1e-7;
+    const slope = (pointAt(bias, law, collectorV, current + delta).residualV - residual) / delta;
+    let next = slope < 0 ? current - residual / slope : Number.NaN;
+    if (!(next > low && next < high)) next = 0.5 * (low + high);
+    if (Math.abs(next - current) <= current * 1e-13 || high - low <= high * 1e-15) {
+      current = next;
+      break;
+    }
+    current = next;
   }
-  return stripResidual(pointAt(bias, law, collectorV, 0.5 * (low + high)));
+  return stripResidual(pointAt(bias, law, collectorV, current));
 }
 
 function stripResidual(point: OperatingPoint & { residualV: number }): OperatingPoint {

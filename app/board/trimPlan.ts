@@ -8,6 +8,7 @@
  * change (which also moves the clipping level, and whose prediction depends on the current-versus-capacitance
  * ambiguity). Candidates that clip or leave under minHeadroomV to clipping fall to the bottom (common practice).
  */
+import { InputError } from '../errors';
 import type { BoardDesign } from './design';
 import { type ESeriesName, standardValueNeighbours, standardValuesBetween } from './eSeries';
 import { estimateFromReadings } from './estimateFromReadings';
@@ -83,6 +84,7 @@ function effortOf(candidate: TrimCandidate): number {
 }
 
 export function planTrim(design: BoardDesign, measured: RampReadings, options: TrimPlanOptions = {}): TrimPlan {
+  assertRampReadings(measured);
   const series = options.series ?? 'E24';
   const minHeadroomV = options.minHeadroomV ?? 0.5;
   const fitted = options.fitted ?? {};
@@ -270,4 +272,17 @@ function controlLimitSuggestion(design: BoardDesign, measured: RampReadings, pre
     predictedAlphaMaxDeg: after.alphaMaxDeg,
     reason: `${seen}, design ${design.alphaMaxDeg} deg: ${fromOhm === null ? `fit ${label} ${formatOhm(toOhm)}` : `replace ${label} ${formatOhm(fromOhm)} with ${formatOhm(toOhm)}`} so the pot's end fires at ${after.alphaMaxDeg === null ? '(past the ramp end)' : `${after.alphaMaxDeg.toFixed(1)} deg`}.`,
   };
+}
+
+/** Readings that describe no charging ramp cannot be planned from: say which reading is wrong. */
+function assertRampReadings(measured: RampReadings): void {
+  for (const key of ['floorV', 'peakV', 'slopeVPerMs'] as const) {
+    if (!Number.isFinite(measured[key])) throw new InputError(`the ${key} reading is not a number (${measured[key]})`, 'ramp readings');
+  }
+  if (!(measured.peakV > measured.floorV) || !(measured.slopeVPerMs > 0)) {
+    throw new InputError(
+      `no charging ramp: peak ${measured.peakV} V, floor ${measured.floorV} V, slope ${measured.slopeVPerMs} V/ms (is the ramp test point connected, the current source working?)`,
+      'ramp readings',
+    );
+  }
 }

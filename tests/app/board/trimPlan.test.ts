@@ -1,9 +1,11 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { boardDesignSchema } from '../../../app/board/design';
 import { isStandardValue } from '../../../app/board/eSeries';
 import { predictRamp, type RampPrediction } from '../../../app/board/rampModel';
 import type { RampReadings } from '../../../app/board/rampReadings';
 import { planTrim } from '../../../app/board/trimPlan';
+import { InputError } from '../../../app/errors';
 import { referenceBoards } from '../../reference/boardCases';
 
 const board = referenceBoards.fullWave50;
@@ -101,5 +103,24 @@ describe('trim plan', () => {
   it('a ramp beyond every tolerance corner asks for the fitted parts to be checked first', () => {
     const plan = planTrim(board, readingsOf(predictRamp(board, { partOverrides: { rEmitter: 5100 } })));
     expect(plan.notes.join(' ')).toContain('check that rEmitter (R7)');
+  });
+
+  it('property: any readings give a plan with finite numbers or an InputError, never a crash', () => {
+    const reading = fc.oneof(fc.double({ min: -5, max: 20, noNaN: true }), fc.constant(Number.NaN), fc.constant(0));
+    fc.assert(
+      fc.property(reading, reading, fc.oneof(fc.double({ min: -1, max: 20, noNaN: true }), fc.constant(0)), fc.boolean(), (floorV, peakV, slopeVPerMs, clipped) => {
+        try {
+          const plan = planTrim(board, { floorV, peakV, slopeVPerMs, clipped });
+          for (const suggestion of plan.suggestions) {
+            expect(Number.isFinite(suggestion.toOhm) && Number.isFinite(suggestion.predictedPeakV)).toBe(true);
+          }
+          expect(Number.isFinite(plan.estimate.chargingCurrentA)).toBe(true);
+        } catch (error) {
+          expect(error).toBeInstanceOf(InputError);
+        }
+      }),
+      { numRuns: 25 },
+    );
+    expect(() => planTrim(board, { floorV: 0.1, peakV: 0.05, slopeVPerMs: 0, clipped: false })).toThrow(/no charging ramp/);
   });
 });

@@ -1,0 +1,81 @@
+/**
+ * The commissioning record of one session: what the HTML page and the PDF both show, in one plain object, so the
+ * two can never disagree. Built in main/record/buildRecord.ts from the logbook.
+ *
+ * Capture digest (how the record is checked against the logbook): each stored capture already carries the sha-256
+ * of its raw samples (main/store/captureCodec.ts: little-endian float64, channel after channel in `roles` order,
+ * before compression). The record's digest is the sha-256 of the UTF-8 text `captureDigestText` builds: the line
+ * "rampwright-captures-v1", then one line per capture with its sha-256 in lower-case hex, captures ordered by their
+ * start time in the logbook, then their start second in the sample clock, then the hash itself; every line ends
+ * with "\n". `rampwright report --verify` recomputes it from the samples themselves.
+ */
+import type { ReadingCheck } from '../bench/judge';
+import type { FoldCycle, Verdict } from '../contract/readings';
+import type { TransferSet } from './plots';
+
+export interface RecordCapture {
+  label: string | null;
+  startedAt: string;
+  startS: number;
+  seconds: number;
+  sampleRateHz: number;
+  roles: string[];
+  sha256: string;
+}
+
+export interface CommissioningRecord {
+  generatedAt: string;
+  unit: { serial: string };
+  design: { name: string; version: number; contentHash: string };
+  session: { id: number; operator: string; status: string; startedAt: string; endedAt: string | null; notes: string | null; cycles: number };
+  /** Readings judged against the design version the session used (app/bench/judge.ts); empty without readings. */
+  checks: ReadingCheck[];
+  fold: FoldCycle[];
+  transfer: TransferSet & { maxDeviationDeg: number | null };
+  trims: Array<{ part: string; fromOhm: number; toOhm: number; method: string; reason: string; at: string }>;
+  link: { errors: number; events: Array<{ kind: string; detail: string; count: number; at: string }> };
+  captures: RecordCapture[];
+  /** sha-256 of captureDigestText(captures); null when the session kept no capture. */
+  capturesSha256: string | null;
+}
+
+export const captureDigestVersion = 'rampwright-captures-v1';
+
+export function orderCapturesForDigest<Capture extends { startedAt: string; startS: number; sha256: string }>(captures: readonly Capture[]): Capture[] {
+  return [...captures].sort((a, b) => (a.startedAt < b.startedAt ? -1 : a.startedAt > b.startedAt ? 1 : a.startS - b.startS || (a.sha256 < b.sha256 ? -1 : a.sha256 > b.sha256 ? 1 : 0)));
+}
+
+/** The exact text whose sha-256 is the record's capture digest (see the file comment). */
+export function captureDigestText(captures: ReadonlyArray<{ startedAt: string; startS: number; sha256: string }>): string {
+  return [captureDigestVersion, ...orderCapturesForDigest(captures).map((capture) => capture.sha256.toLowerCase())].map((line) => `${line}\n`).join('');
+}
+
+/** Verdicts in words and a symbol, never colour alone (NAMING.md). */
+export const verdictWords: Record<Verdict, { text: string; symbol: string; plain: string }> = {
+  'in-tolerance': { text: 'in tolerance', symbol: '\u2713', plain: 'OK' },
+  marginal: { text: 'marginal', symbol: '\u26a0', plain: '!' },
+  'out-of-tolerance': { text: 'out of tolerance', symbol: '\u2717', plain: 'X' },
+};
+
+export const notMeasuredWords = { text: 'not measured', symbol: '\u2013', plain: '-' };
+
+export function formatReading(value: number | boolean | null, unit: string): string {
+  if (value === null) return '-';
+  if (typeof value === 'boolean') return value ? 'yes' : 'no';
+  const size = Math.abs(value);
+  const digits = size === 0 || Number.isInteger(value) ? 0 : size >= 100 ? 1 : size >= 10 ? 2 : 3;
+  return `${value.toFixed(digits)}${unit ? ` ${unit}` : ''}`;
+}
+
+export function formatTolerance(check: ReadingCheck): string {
+  if (check.toleranceAbs === null) return '';
+  if (check.note?.startsWith('limit')) return `${check.note} ${formatReading(check.expected, check.unit)}`;
+  return `\u00b1${formatReading(check.toleranceAbs, check.unit)}`;
+}
+
+/** What the record is and is not: it states measurements, it does not certify an installation (our wording). */
+export const recordLimitsNote = [
+  'This record states what was measured on the unit at the bench, against its stored board design, with the instruments and captures named here.',
+  'It does not certify the installation the unit goes into, its wiring, protection or isolation: those follow the local electrical codes and the installer\'s own checks.',
+  'Mains-derived signals were taken through an isolated sync source; anyone repeating the measurements must do the same.',
+];

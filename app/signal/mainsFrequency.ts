@@ -99,7 +99,8 @@ export class MainsFrequencyTracker {
     const driftFit = this.drift.fit();
     const durationS = this.lastPeriodMidS - this.firstPeriodMidS;
     return {
-      frequencyHz: fittedSeconds > 0 ? halfPeriods / (2 * fittedSeconds) : null,
+      // At least one complete cycle: two crossings of a few samples give a number, not a mains frequency.
+      frequencyHz: fittedSeconds > 0 && this.cycles > 0 ? halfPeriods / (2 * fittedSeconds) : null,
       cycles: this.cycles,
       frequencyDriftHzPerS: driftFit ? driftFit.slope : null,
       frequencyDriftHz: driftFit ? driftFit.slope * durationS : null,

@@ -117,6 +117,8 @@ export function formatAnalysis(path: string, result: AnalyzeResult): string {
     '',
     ...rows.map(([group, label, value]) => `  ${group.padEnd(groupWidth)}  ${label.padEnd(labelWidth)}  ${value}`),
   ];
+  if (r.cycles < 2) lines.push('', 'Note: fewer than 2 complete mains cycles in the capture; record at least a second for readings to rely on.');
+  if (r.invalidSamples > 0) lines.push('', `Note: ${r.invalidSamples === 1 ? '1 sample was' : `${r.invalidSamples} samples were`} not a number and treated as lost.`);
   if (result.checks && result.design) {
     lines.push('', `Checks against ${result.design.name}`);
     const labelColumn = Math.max(...result.checks.map((check) => check.label.length));

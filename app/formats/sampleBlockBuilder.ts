@@ -82,7 +82,8 @@ export class SampleBlockBuilder {
       } else {
         const intervalS = timeS - this.stretchLastS;
         if (!(intervalS > 0)) {
-          throw new InputError(`time does not increase (${timeS} s after ${this.stretchLastS} s)`, this.where());
+          const hint = intervalS === 0 ? ': the same time twice; are the times printed with too few decimals for the sample rate?' : '';
+          throw new InputError(`time does not increase (${timeS} s after ${this.stretchLastS} s)${hint}`, this.where());
         }
         const periodS = this.stretchSamples > 1 ? (this.stretchLastS - this.stretchFirstS) / (this.stretchSamples - 1) : this.previousPeriodS;
         if (periodS !== undefined && intervalS > gapPeriods * periodS) {

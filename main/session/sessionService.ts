@@ -4,19 +4,19 @@
  * store's writer, so the link never waits on the disk), and sends throttled live frames to the screens.
  */
 import type { BoardDesign } from '../../app/board/design';
-import type { ResistorRole } from '../../app/board/trimCandidates';
 import { BenchFault, type BenchState, type EventData, type LinkHealth, type PortInfo } from '../../app/contract';
 import type { Logbook } from '../store/logbookTypes';
 import { checkSessionStep, currentStep, recordMeasurements, stepInputsOf, type BenchSession } from './benchSession';
 import type { BenchPipelineOptions } from './benchPipeline';
 import type { DesignCatalog } from './designCatalog';
 import { createBenchEventHub, type BenchEventListener, type BenchEventSource, type BenchHandlers } from './handlers';
-import { createLiveLink, disconnectedHealth, type LineSource, type LiveLink } from './liveLink';
-import { compareView, driftView, sessionDetailView, sessionRowView } from './logbookViews';
-import { exportSessionWith, type SessionExporter } from './exporters';
-import { idealTransfer, stepReports } from './steps';
+import { createLiveLink, disconnectedHealth, type LineSource } from './liveLink';
+import { sessionRowView } from './logbookViews';
+import type { SessionExporter } from './exporters';
+import { createRecallHandlers } from './recallHandlers';
+import { createTrimHandlers, type CurrentLink } from './trimHandlers';
+import { stepReports } from './steps';
 import { createThrottle, systemClock, type ClockLike } from './throttle';
-import { planFromWindow, trimPlanView } from './trimView';
 import { createVirtualSource, type VirtualSource } from './virtualSource';
 import { mergeBlocks } from './sampleRing';
 
@@ -49,11 +49,7 @@ export interface SessionService {
   close(): Promise<void>;
 }
 
-interface Current {
-  link: LiveLink;
-  design: BoardDesign;
-  virtual: VirtualSource | null;
-}
+type Current = CurrentLink;
 
 export function createSessionService(options: SessionServiceOptions): SessionService {
   const { logbook, designs } = options;
@@ -89,10 +85,24 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
   );
   let lastHealthMs = Number.NEGATIVE_INFINITY;
 
+  // Once a second while a link is open: health for the screens even when nothing arrives, and a link that has
+  // gone quiet for over 2 s shown as stalled (the serial watchdog gives it up later; some platforms never say).
+  let heartbeat: ReturnType<typeof setInterval> | null = null;
+  const beat = (): void => {
+    if (!current) return;
+    const now = current.link.health();
+    if (now.state === 'streaming' && now.lastDataAgoMs !== null && now.lastDataAgoMs > 2000) current.link.setState('stalled', `no data for ${(now.lastDataAgoMs / 1000).toFixed(1)} s`);
+    hub.emit('health', current.link.health());
+  };
+
   const attach = (source: LineSource, design: BoardDesign, virtual: VirtualSource | null): void => {
     const link = createLiveLink(source, design, { pipeline: options.pipeline, now: () => clock.now() });
     const attached: Current = { link, design, virtual };
     current = attached;
+    if (heartbeat === null && (options.virtualPaced ?? true)) {
+      heartbeat = setInterval(beat, 1000);
+      heartbeat.unref();
+    }
     source.start({
       lines: (lines) => {
         if (current !== attached) return;
@@ -128,6 +138,8 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
     const leaving = current;
     current = null;
     live.stop();
+    if (heartbeat !== null) clearInterval(heartbeat);
+    heartbeat = null;
     await leaving.link.source.stop();
     session?.writer.addLinkEvent('closed', `link to ${leaving.link.source.description.kind === 'serial' ? leaving.link.source.description.path : 'the virtual board'} closed`);
   };
@@ -155,6 +167,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
   };
 
   const handlers: BenchHandlers = {
+    ...createRecallHandlers({ logbook, designs, exporters: options.exporters ?? [] }),
     async listPorts() {
       return { ports: options.serial ? await options.serial.listPorts() : [] };
     },
@@ -185,14 +198,6 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       if (!link.virtual) throw new BenchFault('not-ready', 'the control voltage can be set on the virtual board only; turn the pot on a real board');
       link.virtual.setControl(control);
       return { control };
-    },
-    listDesigns: async () => ({ designs: await designs.list() }),
-    getDesign: async ({ name, version }) => designs.get(name, version),
-    saveDesign: async ({ design }) => designs.save(design),
-    validateDesign: async ({ design }) => designs.validate(design),
-    async listUnits({ designName }) {
-      const units = await logbook.listUnits();
-      return { units: units.filter((unit) => designName === undefined || unit.designName === designName) };
     },
     async startSession({ unitSerial, designName, operator, notes }) {
       if (session) throw new BenchFault('not-ready', `session ${session.open.id} for unit ${session.open.unitSerial} is still open: sign it off or stop it first`);
@@ -264,59 +269,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       emitState();
       return sessionRowView(row);
     },
-    async trimPlan({ series }) {
-      const link = requireLink();
-      const design = session?.design ?? link.design;
-      const window = link.link.pipeline.lastWindow();
-      const plan = planFromWindow(design, window, series);
-      const fold = link.link.pipeline.fold();
-      return trimPlanView(design, plan, window, fold.length > 0 ? fold[fold.length - 1].ramp : null);
-    },
-    async applyTrim({ part, fromOhm, toOhm, method, addOhm, reason }) {
-      const open = requireSession();
-      const design = open.design;
-      if (!(part in design.parts) || part === 'cRamp') throw new BenchFault('input', `"${part}" is not a resistor position of the design ${design.name}`, 'part');
-      const methodWords = method === 'replace' ? 'replaced' : `${addOhm ?? '?'} ohm added in ${method}`;
-      open.writer.addTrim({ part, fromOhm, toOhm, method: `trim plan: ${methodWords}`, reason });
-      open.trimsApplied += 1;
-      open.recheckNeeded = true;
-      delete open.recorded.ramp;
-      delete open.recorded.trim;
-      // The virtual board gets the part; a real board got it from the technician's soldering iron.
-      current?.virtual?.fitResistor(part as ResistorRole, { method, toOhm, addOhm });
-      current?.link.pipeline.restartReadings();
-      await open.writer.flush();
-      const detail = await logbook.session(open.open.id);
-      const trim = detail?.trims[detail.trims.length - 1];
-      if (!trim) throw new Error('the fitted change did not reach the logbook');
-      emitState();
-      return { trim: { id: trim.id, part: trim.part, fromOhm: trim.fromOhm, toOhm: trim.toOhm, reason: trim.reason, at: trim.at }, recheckNeeded: true };
-    },
-    async transferPoints({ sessionId }) {
-      const link = current;
-      const design = session?.design ?? link?.design ?? null;
-      if (sessionId !== undefined && sessionId !== session?.open.id) {
-        const detail = await logbook.session(sessionId);
-        if (!detail) throw new BenchFault('not-found', `there is no session ${sessionId} in the logbook`, 'sessionId');
-        const stored = await designs.get(detail.row.designName, detail.row.designVersion).catch(() => null);
-        return { points: detail.transfer.points, fit: detail.transfer.fit, ideal: stored ? idealTransfer(stored.design) : [] };
-      }
-      const pipeline = requireLink().link.pipeline;
-      return { points: pipeline.transferPoints(), fit: pipeline.transferFit(), ideal: design ? idealTransfer(design) : [] };
-    },
-    async clearTransfer() {
-      const pipeline = requireLink().link.pipeline;
-      const cleared = pipeline.transferPoints().length;
-      pipeline.restartReadings();
-      emitState();
-      return { cleared };
-    },
-    listSessions: async ({ unitSerial, designName, from, to, limit }) => ({ sessions: (await logbook.listSessions({ unitSerial, designName, from, to })).slice(0, limit).map(sessionRowView) }),
-    sessionDetail: async ({ sessionId }) => sessionDetailView(logbook, designs, sessionId),
-    compareSessions: async ({ sessionIdA, sessionIdB }) => compareView(logbook, sessionIdA, sessionIdB),
-    drift: async ({ unitSerial }) => driftView(logbook, unitSerial),
-    exportFormats: async () => ({ formats: (options.exporters ?? []).map((exporter) => exporter.format) }),
-    exportSession: async ({ sessionId, format }) => exportSessionWith(options.exporters ?? [], { logbook, designs }, sessionId, format),
+    ...createTrimHandlers({ logbook, designs, session: () => session, link: () => current, requireSession, requireLink, emitState }),
   };
 
   return {

@@ -39,6 +39,7 @@ function readings(overrides: { peakV?: number; alphaDeg?: number; controlV?: num
     syncOffsetV: 0,
     syncAmplitudeV: 10,
     gaps: 0,
+    invalidSamples: 0,
   };
 }
 

@@ -204,6 +204,11 @@ export class BenchScreen implements Screen {
       this.bigReadings,
       bigReadingKeys.map(({ title, keys }) => {
         const reading = pickReading(steps, keys);
+        const newestFiring = this.lastFrame?.fold[this.lastFrame.fold.length - 1]?.firingDeg[0];
+        if (!reading && keys[0] === 'alphaDeg' && newestFiring !== undefined) {
+          // No judged reading while the control moves: show the newest cycle's firing point, without a verdict.
+          return h('div', { class: 'big-reading', 'data-testid': 'big-alphaDeg' }, h('div', { class: 'label' }, title), h('div', { class: 'value' }, formatFixed(newestFiring, '°')), h('div', { class: 'design' }, 'newest cycle; no verdict while the control moves'));
+        }
         const format = (value: number | null) => formatReading(value, reading?.unit ?? '');
         return h(
           'div',

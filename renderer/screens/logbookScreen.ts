@@ -23,7 +23,7 @@ export class LogbookScreen implements Screen {
   private readonly designSelect = h('select', { 'data-testid': 'filter-design' });
   private readonly fromInput = h('input', { type: 'date', 'data-testid': 'filter-from' });
   private readonly toInput = h('input', { type: 'date', 'data-testid': 'filter-to' });
-  private readonly unitsList = h('ul', { class: 'stack', 'data-testid': 'units-list' });
+  private readonly unitsList = h('ul', { class: 'stack plain-list', 'data-testid': 'units-list' });
   private readonly sessionsTable = h('div', { 'data-testid': 'sessions' });
   private readonly compareButton = h('button', { class: 'primary', type: 'button', disabled: true, 'data-testid': 'compare' }, 'Compare the two ticked sessions');
   private readonly detail = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Session', 'data-testid': 'session-detail' });
@@ -55,7 +55,7 @@ export class LogbookScreen implements Screen {
           h('section', { class: 'panel stack', 'aria-labelledby': 'filters-title' }, h('h2', { id: 'filters-title' }, 'Filters'), field('Unit', this.unitSelect), field('Board design', this.designSelect), field('From', this.fromInput), field('To', this.toInput)),
           h('section', { class: 'panel stack', 'aria-labelledby': 'units-title' }, h('h2', { id: 'units-title' }, 'Units'), this.unitsList),
         ),
-        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sessionsTable, h('div', { class: 'row' }, this.compareButton)), this.detail, this.comparison, this.drift),
+        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sessionsTable, h('div', { class: 'row' }, this.compareButton, h('span', { class: 'muted' }, 'Tick two sessions to compare them.'))), this.detail, this.comparison, this.drift),
       ),
     );
   }
@@ -163,7 +163,11 @@ export class LogbookScreen implements Screen {
   private renderDetail(detail: SessionDetail): void {
     const row = detail.row;
     const transferCanvas = h('canvas', { role: 'img', 'aria-label': `Transfer curve of session ${row.id}: ${detail.transfer.points.length} points`, 'data-testid': 'detail-transfer-canvas', 'data-points': String(detail.transfer.points.length) });
-    const cycleCanvas = h('canvas', { role: 'img', 'aria-label': `Ramp peak per cycle over session ${row.id}`, 'data-testid': 'detail-cycles-canvas', 'data-points': String(detail.perCycle.length) });
+    const peaks = detail.perCycle.filter((cycle) => cycle.rampPeakV !== null).map((cycle) => ({ x: cycle.t, y: cycle.rampPeakV as number }));
+    const alphas = detail.perCycle.filter((cycle) => cycle.alphaDeg !== null).map((cycle) => ({ x: cycle.t, y: cycle.alphaDeg as number }));
+    // Ramp peak when the session kept it per cycle, otherwise the firing angle.
+    const perCycleTitle = peaks.length > 0 ? 'Ramp peak per cycle' : 'Firing angle per cycle';
+    const cycleCanvas = h('canvas', { role: 'img', 'aria-label': `${perCycleTitle} over session ${row.id}`, 'data-testid': 'detail-cycles-canvas', 'data-points': String(peaks.length > 0 ? peaks.length : alphas.length) });
     const exportArea = h('div', { class: 'row' });
     const csv = h('button', { class: 'secondary', type: 'button', 'data-testid': 'export-readings' }, 'Export readings (CSV)');
     csv.addEventListener('click', () => downloadBytes(`${row.unit}-session-${row.id}-readings.csv`, 'text/csv', readingsCsv(detail.steps)));
@@ -183,7 +187,7 @@ export class LogbookScreen implements Screen {
     );
     const readingRows = detail.steps.flatMap((step) =>
       step.readings.map((reading) =>
-        h('tr', {}, h('td', {}, stepTitles[step.step]), h('td', {}, reading.label), h('td', { class: 'number', 'data-reading': reading.key }, formatReading(reading.value, reading.unit)), h('td', { class: 'number' }, formatReading(reading.expected, reading.unit)), h('td', {}, verdictBadge(reading.verdict, 'No verdict'))),
+        h('tr', {}, h('td', {}, stepTitles[step.step]), h('td', {}, reading.label), h('td', { class: 'number', 'data-reading': reading.key }, formatReading(reading.value, reading.unit)), h('td', { class: 'number' }, formatReading(reading.expected, reading.unit)), h('td', {}, reading.verdict ? verdictBadge(reading.verdict) : h('span', { class: 'muted' }, 'for information'))),
       ),
     );
     fill(
@@ -193,7 +197,7 @@ export class LogbookScreen implements Screen {
       detail.notes ? h('p', {}, detail.notes) : null,
       h('h3', {}, 'Readings'),
       readingRows.length > 0 ? h('table', { class: 'data', 'data-testid': 'detail-readings' }, h('thead', {}, h('tr', {}, ['Step', 'Reading', 'Value', 'Design', 'Verdict'].map((title) => h('th', { scope: 'col' }, title)))), h('tbody', {}, readingRows)) : h('p', { class: 'empty' }, 'No step was recorded in this session.'),
-      h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), h('div', { class: 'plot small' }, transferCanvas)), h('div', {}, h('h3', {}, 'Ramp peak per cycle'), h('div', { class: 'plot small' }, cycleCanvas))),
+      h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), h('div', { class: 'plot small' }, transferCanvas)), h('div', {}, h('h3', {}, perCycleTitle), peaks.length + alphas.length > 0 ? h('div', { class: 'plot small' }, cycleCanvas) : h('p', { class: 'empty' }, 'No per-cycle readings were kept.'))),
       h('h3', {}, 'Trims applied'),
       detail.trims.length > 0 ? h('ul', {}, detail.trims.map((trim) => h('li', {}, `${trim.part}: ${formatSi(trim.fromOhm, 'Ω')} → ${formatSi(trim.toOhm, 'Ω')} (${trim.reason || 'no reason given'}), ${new Date(trim.at).toLocaleTimeString()}`))) : h('p', { class: 'empty' }, 'None.'),
       h('h3', {}, 'Link events'),
@@ -208,9 +212,13 @@ export class LogbookScreen implements Screen {
       lineDataset('Fit', cssColour('control'), fit ? fitLinePoints(fit, fit.controlMinV, fit.controlMaxV) : [], { borderWidth: 2 }),
     ];
     transfer.update('none');
-    const cycles = this.chart(cycleCanvas, 'Seconds into the session', 'Ramp peak', (value) => `${value} s`, (value) => `${value} V`);
-    cycles.data.datasets = [lineDataset('Ramp peak', cssColour('ramp'), detail.perCycle.filter((cycle) => cycle.rampPeakV !== null).map((cycle) => ({ x: cycle.t, y: cycle.rampPeakV as number })), { borderWidth: 1.5 })];
-    cycles.update('none');
+    if (peaks.length + alphas.length > 0) {
+      const cycles = peaks.length > 0
+        ? this.chart(cycleCanvas, 'Seconds into the session', 'Ramp peak', (value) => `${Number(value.toFixed(1))} s`, (value) => `${Number(value.toFixed(3))} V`)
+        : this.chart(cycleCanvas, 'Seconds into the session', 'Firing angle α', (value) => `${Number(value.toFixed(1))} s`, (value) => `${value}°`);
+      cycles.data.datasets = [peaks.length > 0 ? lineDataset('Ramp peak', cssColour('ramp'), peaks, { borderWidth: 1.5 }) : lineDataset('Firing angle', cssColour('gate'), alphas, { borderWidth: 1.5 })];
+      cycles.update('none');
+    }
   }
 
   private async compare(): Promise<void> {
@@ -241,6 +249,7 @@ export class LogbookScreen implements Screen {
       h('div', { class: 'plot-caption' }, h('span', {}, h('span', { class: 'swatch gate', 'aria-hidden': 'true' }), `session ${comparison.a.id}`), h('span', {}, h('span', { class: 'swatch control', 'aria-hidden': 'true' }), `session ${comparison.b.id}`)),
     );
     this.comparison.hidden = false;
+    this.comparison.scrollIntoView({ block: 'start' });
     const chart = this.chart(canvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${value}°`);
     chart.data.datasets = [pointsDataset(`Session ${comparison.a.id}`, cssColour('gate'), toPoints(comparison.transferA), { pointRadius: 2 }), pointsDataset(`Session ${comparison.b.id}`, cssColour('control'), toPoints(comparison.transferB), { pointRadius: 2, pointStyle: 'triangle' })];
     chart.update('none');
@@ -262,7 +271,16 @@ export class LogbookScreen implements Screen {
       h('div', { class: 'plot small' }, canvas),
     );
     this.drift.hidden = false;
-    const chart = this.chart(canvas, 'Session number', 'Ramp peak', (value) => `#${value}`, (value) => `${value} V`);
+    const chart = this.chart(canvas, 'Session number', 'Ramp peak', (value) => `#${value}`, (value) => `${Number(value.toFixed(3))} V`);
+    const peaks = result.points.map((point) => point.rampPeakV).filter((value): value is number => value !== null);
+    if (peaks.length > 0 && chart.options.scales?.x && chart.options.scales.y) {
+      // Whole session numbers on x; on y at least ±5 % around the mean so millivolts of noise do not look like drift.
+      chart.options.scales.x.ticks = { ...chart.options.scales.x.ticks, stepSize: 1 };
+      const mean = peaks.reduce((sum, value) => sum + value, 0) / peaks.length;
+      const half = Math.max((Math.max(...peaks) - Math.min(...peaks)) * 0.6, Math.abs(mean) * 0.05);
+      chart.options.scales.y.min = mean - half;
+      chart.options.scales.y.max = mean + half;
+    }
     chart.data.datasets = [lineDataset('Ramp peak', cssColour('ramp'), result.points.filter((point) => point.rampPeakV !== null).map((point) => ({ x: point.sessionId, y: point.rampPeakV as number })), { pointRadius: 4, borderWidth: 2 })];
     chart.update('none');
   }

@@ -28,7 +28,7 @@ export class TrimScreen implements Screen {
 
   constructor(private readonly context: ScreenContext) {
     this.seriesSelect.value = 'E24';
-    this.chart = createXyChart(this.canvas, { xTitle: 'Electrical degrees', yTitle: 'Ramp volts', xMin: 0, xMax: 360, xStep: 30, xTick: (value) => `${value}°`, yTick: (value) => `${value} V`, tooltip: true });
+    this.chart = createXyChart(this.canvas, { xTitle: 'Electrical degrees', yTitle: 'Ramp volts', xMin: 0, xMax: 360, xStep: 30, xTick: (value) => `${value}°`, yTick: (value) => `${Number(value.toFixed(2))} V`, tooltip: true });
     this.seriesSelect.addEventListener('change', () => void this.load());
     this.refreshButton.addEventListener('click', () => void this.load());
     const seriesId = uniqueId('series');
@@ -40,13 +40,8 @@ export class TrimScreen implements Screen {
       this.recheck,
       h(
         'div',
-        { class: 'two-columns' },
-        h(
-          'div',
-          { class: 'stack' },
-          h('section', { class: 'panel stack', 'aria-label': 'Plan' }, h('div', { class: 'row' }, h('label', { class: 'field', for: seriesId }, 'Standard values from', this.seriesSelect), this.refreshButton), this.summary),
-          h('section', { class: 'panel', 'aria-labelledby': 'trim-list-title' }, h('h2', { id: 'trim-list-title' }, 'Changes, best first'), this.table),
-        ),
+        { class: 'trim-top' },
+        h('section', { class: 'panel stack', 'aria-label': 'Plan' }, h('div', { class: 'row' }, h('label', { class: 'field', for: seriesId }, 'Standard values from', this.seriesSelect), this.refreshButton), this.summary),
         h(
           'section',
           { class: 'panel', 'aria-labelledby': 'trim-plot-title' },
@@ -56,11 +51,12 @@ export class TrimScreen implements Screen {
             'div',
             { class: 'plot-caption' },
             h('span', {}, h('span', { class: 'swatch ramp', 'aria-hidden': 'true' }), 'measured'),
-            h('span', {}, h('span', { class: 'swatch control', 'aria-hidden': 'true' }), 'predicted after the change (dashed)'),
+            h('span', {}, h('span', { class: 'swatch control', 'aria-hidden': 'true' }), 'predicted after the chosen change (dashed)'),
             h('span', {}, h('span', { class: 'swatch sync', 'aria-hidden': 'true' }), 'target'),
           ),
         ),
       ),
+      h('section', { class: 'panel', 'aria-labelledby': 'trim-list-title' }, h('h2', { id: 'trim-list-title' }, 'Changes, best first'), h('p', { class: 'muted' }, 'Pick a row to draw its predicted ramp. Power the board down before changing a part.'), this.table),
     );
     context.store.on('state', () => this.renderRecheck());
   }
@@ -97,7 +93,7 @@ export class TrimScreen implements Screen {
       this.summary,
       h('p', { class: 'big-reading' }, h('span', { class: 'label' }, 'Ramp peak now'), h('span', { class: 'value', 'data-testid': 'trim-measured' }, formatSi(plan.measuredPeakV, 'V')), h('span', { class: 'design' }, ` target ${formatSi(plan.targetPeakV, 'V')}`)),
       h('p', { 'data-testid': 'trim-message' }, plan.message),
-      plan.estimate ? h('p', { class: 'muted' }, `The board behaves as if the charging current were ${formatSi(plan.estimate.chargingCurrentA, 'A')} with V_EB ${formatSi(plan.estimate.vebV, 'V')}. A current error and a capacitance error look the same from the ramp alone.`) : null,
+      plan.estimate ? h('p', { class: 'muted' }, `Estimate from the ramp: charging current ${formatSi(plan.estimate.chargingCurrentA, 'A')}, V_EB ${formatSi(plan.estimate.vebV, 'V')} (as the planner reports it). A current error and a capacitance error look the same from the ramp alone.`) : null,
     );
     if (plan.suggestions.length === 0) {
       fill(this.table, h('p', { class: 'empty', 'data-testid': 'trim-none' }, plan.inTolerance ? 'The ramp is in tolerance: nothing to change.' : 'No standard value brings the ramp to its target; check the parts against the design.'));
@@ -168,7 +164,7 @@ export class TrimScreen implements Screen {
     for (const point of [...measured, ...predicted]) high = Math.max(high, point.y);
     const y = this.chart.options.scales?.y;
     if (y) {
-      y.min = Math.min(0, ...measured.map((point) => point.y));
+      y.min = Math.floor(Math.min(0, ...measured.map((point) => point.y)));
       y.max = Math.ceil(high * 1.15);
     }
     this.chart.data.datasets = [

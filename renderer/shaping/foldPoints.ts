@@ -123,8 +123,11 @@ export function foldCyclesPoints(cycles: readonly FoldCycle[], resolution: FoldR
 export function growScale(current: { lowV: number; highV: number } | null, lowV: number, highV: number): { lowV: number; highV: number } {
   if (!Number.isFinite(lowV) || !Number.isFinite(highV)) return current ?? { lowV: -1, highV: 1 };
   const margin = Math.max(0.5, (highV - lowV) * 0.05);
-  const wantedLow = Math.floor(lowV - margin);
-  const wantedHigh = Math.ceil(highV + margin);
+  // Round out to a step that gives clean ticks: 5 V for mains-sized swings, 2 V or 1 V for small ones.
+  const span = highV - lowV + 2 * margin;
+  const step = span > 20 ? 5 : span > 8 ? 2 : 1;
+  const wantedLow = Math.floor((lowV - margin) / step) * step;
+  const wantedHigh = Math.ceil((highV + margin) / step) * step;
   if (!current) return { lowV: wantedLow, highV: wantedHigh };
   return { lowV: Math.min(current.lowV, wantedLow), highV: Math.max(current.highV, wantedHigh) };
 }

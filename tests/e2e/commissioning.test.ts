@@ -93,6 +93,14 @@ describe('browser mode with the virtual board', () => {
     await expect(page.getByTestId('link-crc').textContent()).resolves.toMatch(/CRC errors\s*\d+/);
     await screenshot(page, '3-bench-fault');
 
+    // Hold freezes the fold (H on the keyboard), Keep capture stores the last seconds in the session.
+    await page.locator('body').press('h');
+    await expect.poll(() => page.getByTestId('hold').getAttribute('aria-pressed'), { timeout: 10_000 }).toBe('true');
+    await page.getByTestId('hold').click();
+    await expect.poll(() => page.getByTestId('hold').getAttribute('aria-pressed'), { timeout: 10_000 }).toBe('false');
+    await page.getByTestId('keep-capture').click();
+    await page.locator('.notice', { hasText: /Kept [\d.]+ s of samples as capture \d+/ }).waitFor({ timeout: 15_000 });
+
     // 1 Sync: recorded, in tolerance.
     await recordStep('sync');
     expect(await stepVerdict('sync')).toBe('in-tolerance');

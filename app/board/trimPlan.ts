@@ -68,7 +68,17 @@ export interface TrimPlan {
   status: 'in-tolerance' | 'trim' | 'no-fix';
   summary: string;
   measuredPeakErrorPct: number;
-  estimate: { chargingCurrentA: number; vebV: number; designCurrentA: number; currentErrorPct: number; capacitanceErrorPct: number; basis: 'peak' | 'slope'; ambiguity: string };
+  estimate: {
+    chargingCurrentA: number;
+    /** Effective V_EB that explains the ramp with the parts as designed (may be unphysical when explanation is 'capacitance'). */
+    vebV: number;
+    designCurrentA: number;
+    currentErrorPct: number;
+    capacitanceErrorPct: number;
+    basis: 'peak' | 'slope';
+    explanation: 'veb' | 'capacitance';
+    ambiguity: string;
+  };
   suggestions: TrimSuggestion[];
   controlLimit: ControlLimitSuggestion | null;
   notes: string[];
@@ -100,6 +110,7 @@ export function planTrim(design: BoardDesign, measured: RampReadings, options: T
     currentErrorPct: estimate.currentErrorPct,
     capacitanceErrorPct: estimate.capacitanceErrorPct,
     basis: estimate.basis,
+    explanation: estimate.explanation,
     ambiguity: estimate.ambiguity,
   };
 

@@ -36,7 +36,10 @@ export function rampReadingsOf(readings: CaptureReadings, capturePath: string): 
 function printHuman(plan: TrimPlan, ramp: RampReadings): void {
   const lines = [
     `Measured ramp: floor ${(ramp.floorV * 1000).toFixed(1)} mV, peak ${formatVolt(ramp.peakV)}, slope ${ramp.slopeVPerMs.toFixed(3)} V/ms${ramp.clipped ? ', clipped' : ''}`,
-    `Estimate: charging current ${(plan.estimate.chargingCurrentA * 1e3).toFixed(3)} mA (design ${(plan.estimate.designCurrentA * 1e3).toFixed(3)} mA), effective V_EB ${plan.estimate.vebV.toFixed(3)} V`,
+    `Estimate: charging current ${(plan.estimate.chargingCurrentA * 1e3).toFixed(3)} mA (design ${(plan.estimate.designCurrentA * 1e3).toFixed(3)} mA), ` +
+      (plan.estimate.explanation === 'veb'
+        ? `effective V_EB ${plan.estimate.vebV.toFixed(3)} V`
+        : `too far off for V_EB: ramp capacitor ${plan.estimate.capacitanceErrorPct.toFixed(0)} % off, or a wrong emitter resistor`),
     plan.summary,
   ];
   plan.suggestions.forEach((suggestion, index) => lines.push(`  ${index + 1}. ${suggestion.reason}`));

@@ -11,7 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputError } from '../../../app/errors';
 import { LinkError, linkErrorFromMessage } from '../../../main/serial/linkErrors';
 import { openLoggerLink, type LoggerLink } from '../../../main/serial/loggerLink';
-import { portInfoFrom, sameUsbDevice } from '../../../main/serial/listPorts';
+import { listPorts, portInfoFrom, sameUsbDevice } from '../../../main/serial/listPorts';
 import { startPtyPair, type PtyPair } from '../../helpers/socat';
 
 let folder: string;
@@ -114,5 +114,16 @@ describe('port identity', () => {
     expect(sameUsbDevice(before, after)).toBe(true);
     expect(sameUsbDevice(before, { ...after, serialNumber: 'E660583884' })).toBe(false);
     expect(sameUsbDevice(portInfoFrom({ path: '/dev/ttyS0' }), portInfoFrom({ path: '/dev/ttyS0' }))).toBe(false);
+  });
+
+  it('lists the ports of this machine (udev on Linux) with ids normalised or null', async () => {
+    const ports = await listPorts();
+    expect(Array.isArray(ports)).toBe(true);
+    for (const port of ports) {
+      expect(port.path).toMatch(/^(\/dev\/|COM)/);
+      for (const id of [port.vendorId, port.productId]) if (id !== null) expect(id).toMatch(/^[0-9a-f]{4}$/);
+    }
+    // socat's pseudo-terminals are not serial hardware: the list does not offer them.
+    expect(ports.some((port) => port.path === pair.hostPath)).toBe(false);
   });
 });

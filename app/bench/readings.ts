@@ -79,6 +79,8 @@ export interface TransferSummary {
   maxDeviationDeg: number;
   controlMinV: number;
   controlMaxV: number;
+  /** Estimate of how much the bounded-memory hull may have lowered maxDeviationDeg (0 for most captures). */
+  thinningErrorDeg: number;
 }
 
 export interface CaptureReadings {

@@ -3,6 +3,11 @@
  * (gain deg/V, offset deg) and the convex hull of the points. The largest |residual| from any line is reached at a
  * vertex of the hull (|residual| is convex in the point), so the max deviation from linear is exact without keeping
  * every point; a hull of noisy near-linear points stays small.
+ * Points on a smooth curved transfer (an Early-effect ramp) can all lie on the hull, so it is capped: past
+ * `maxHullVertices` the flattest vertices (least height above the chord of their neighbours) are dropped down to
+ * half the cap. The max deviation may then read a little low; the largest height dropped in one step is kept in
+ * `thinningErrorDeg` as an estimate of how much (our rule; not a strict bound, since drops next to each other can
+ * add up, but for a dense sweep the heights are far below the firing jitter).
  */
 import { LineAccumulator } from './leastSquares';
 
@@ -13,6 +18,8 @@ export interface TransferFitReading {
   maxDeviationDeg: number;
   controlMinV: number;
   controlMaxV: number;
+  /** Estimate of how much the hull cap may have lowered maxDeviationDeg (0 while the hull was never thinned). */
+  thinningErrorDeg: number;
 }
 
 interface Point {
@@ -25,6 +32,16 @@ export class TransferCurveAccumulator {
   private hull: Point[] = [];
   private controlMinV = Number.POSITIVE_INFINITY;
   private controlMaxV = Number.NEGATIVE_INFINITY;
+  private readonly maxHullVertices: number;
+  private thinningErrorDeg = 0;
+
+  constructor(options: { maxHullVertices?: number } = {}) {
+    this.maxHullVertices = Math.max(8, options.maxHullVertices ?? 256);
+  }
+
+  get hullSize(): number {
+    return this.hull.length;
+  }
 
   get points(): number {
     return this.line.count;
@@ -38,6 +55,33 @@ export class TransferCurveAccumulator {
     const point = { x: controlV, y: alphaDeg };
     if (this.hull.length >= 3 && insideConvex(this.hull, point)) return;
     this.hull = convexHull([...this.hull, point]);
+    if (this.hull.length > this.maxHullVertices) this.thin();
+  }
+
+  /** Drops the flattest vertices until half the cap remains; remembers the largest vertical height dropped. */
+  private thin(): void {
+    const target = this.maxHullVertices >> 1;
+    while (this.hull.length > target) {
+      let flattest = -1;
+      let flattestHeight = Number.POSITIVE_INFINITY;
+      const count = this.hull.length;
+      for (let i = 0; i < count; i++) {
+        const before = this.hull[(i + count - 1) % count];
+        const vertex = this.hull[i];
+        const after = this.hull[(i + 1) % count];
+        // Extreme control voltages stay: they set the range.
+        if (vertex.x === this.controlMinV || vertex.x === this.controlMaxV || after.x === before.x) continue;
+        const chordY = before.y + ((vertex.x - before.x) * (after.y - before.y)) / (after.x - before.x);
+        const height = Math.abs(vertex.y - chordY);
+        if (height < flattestHeight) {
+          flattestHeight = height;
+          flattest = i;
+        }
+      }
+      if (flattest < 0) break;
+      this.thinningErrorDeg = Math.max(this.thinningErrorDeg, flattestHeight);
+      this.hull.splice(flattest, 1);
+    }
   }
 
   /**
@@ -58,6 +102,7 @@ export class TransferCurveAccumulator {
       maxDeviationDeg,
       controlMinV: this.controlMinV,
       controlMaxV: this.controlMaxV,
+      thinningErrorDeg: this.thinningErrorDeg,
     };
   }
 }

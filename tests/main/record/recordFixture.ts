@@ -1,0 +1,61 @@
+/**
+ * A realistic session of our own for the record and exchange tests: the virtual board (app/sim) runs the demo
+ * charger design with a slow control sweep, the capture analyzer measures it, and everything goes into a fresh
+ * logbook the way the session service writes it: cycles, transfer points, the readings, one kept capture, a trim
+ * and link events. Invented unit serial RW-7731.
+ */
+import type { SampleBlock } from '../../../app/capture/samples';
+import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
+import type { BoardDesign } from '../../../app/board/design';
+import { synthesiseCapture } from '../../../app/sim';
+import type { Logbook } from '../../../main/store/logbookTypes';
+import { chargerDesign } from '../store/storeFixtures';
+
+export function mergeBlocks(blocks: readonly SampleBlock[]): SampleBlock {
+  const length = blocks.reduce((sum, block) => sum + block.sync.length, 0);
+  const join = (pick: (block: SampleBlock) => Float64Array) => {
+    const out = new Float64Array(length);
+    let offset = 0;
+    for (const block of blocks) {
+      out.set(pick(block), offset);
+      offset += block.sync.length;
+    }
+    return out;
+  };
+  return {
+    startS: blocks[0].startS,
+    sampleRateHz: blocks[0].sampleRateHz,
+    sync: join((block) => block.sync),
+    ramp: join((block) => block.ramp),
+    gate: join((block) => block.gate),
+    control: blocks.every((block) => block.control) ? join((block) => block.control as Float64Array) : null,
+    afterGap: false,
+  };
+}
+
+export interface RecordedSession {
+  sessionId: number;
+  design: BoardDesign;
+  capture: SampleBlock;
+}
+
+export async function recordSweepSession(logbook: Logbook, options: { unitSerial?: string; startedAt?: Date; seconds?: number; seed?: number } = {}): Promise<RecordedSession> {
+  const design = chargerDesign();
+  const blocks = [...synthesiseCapture(design, { durationS: options.seconds ?? 1.2, sampleRateHz: 10_000, seed: options.seed ?? 7, controlSweep: { fromV: 2, toV: 6, periodS: 2.4 } })];
+  const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: true });
+  const writer = await logbook.startSession({ unitSerial: options.unitSerial ?? 'RW-7731', design, operator: 'A. Tester', notes: 'sweep for the record', startedAt: options.startedAt ?? new Date('2026-11-20T08:30:00Z') });
+  for (const block of blocks) {
+    for (const cycle of analyzer.push(block)) {
+      writer.addCycle(cycle);
+      if (cycle.alphaDeg !== null && cycle.controlV !== null) writer.addTransferPoint({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
+    }
+  }
+  writer.setReadings(analyzer.finish());
+  const capture = mergeBlocks(blocks.slice(0, Math.max(1, Math.floor(blocks.length / 3))));
+  writer.addCapture(capture, 'ramp check');
+  writer.addTrim({ part: 'R14', fromOhm: 5600, toOhm: 6200, method: 'trim plan', reason: 'ramp peak 4 % high: emitter resistor one E24 step up' });
+  writer.addLinkEvent('opened', 'virtual board', 1);
+  writer.addLinkEvent('crc-failures', '3 lines failed their CRC', 3);
+  const row = await writer.close();
+  return { sessionId: row.id, design, capture };
+}

@@ -1,0 +1,105 @@
+/**
+ * The commissioning record end to end: a recorded session rendered to HTML and PDF, the PDF rasterised with
+ * pdftoppm and read back with pdftotext (Debian poppler-utils), the capture digest checked against the logbook.
+ */
+import { execFileSync } from 'node:child_process';
+import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { buildRecord, recomputeCaptureDigest } from '../../../main/record/buildRecord';
+import { openRecordSources } from '../../../main/record/openRecordSources';
+import { verifyRecordFile, writeRecordFile } from '../../../main/record/writeReport';
+import { tempFolder, type TempFolder } from '../store/storeFixtures';
+import { recordSweepSession, type RecordedSession } from './recordFixture';
+
+let folder: TempFolder;
+let sources: ReturnType<typeof openRecordSources>;
+let session: RecordedSession;
+const now = new Date('2026-11-20T10:00:00Z');
+
+beforeAll(async () => {
+  folder = tempFolder('rampwright-report-');
+  sources = openRecordSources(folder.file('logbook.sqlite'), { create: true });
+  session = await recordSweepSession(sources.logbook);
+}, 60_000);
+
+afterAll(async () => {
+  await sources.close();
+  folder.remove();
+});
+
+describe('commissioning record', () => {
+  it('holds the identity, judged readings, fold, transfer fit, trims and link health', async () => {
+    const record = await buildRecord(sources, session.sessionId, { now });
+    expect(record.unit.serial).toBe('RW-7731');
+    expect(record.design.name).toBe(session.design.name);
+    expect(record.design.contentHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(record.checks.map((check) => check.key)).toContain('rampPeakV');
+    expect(record.checks.every((check) => check.verdict === null || ['in-tolerance', 'marginal', 'out-of-tolerance'].includes(check.verdict))).toBe(true);
+    expect(record.fold.length).toBeGreaterThanOrEqual(3);
+    // Each folded cycle starts on its rising crossing, so 0 deg is a zero crossing (within a bucket: 1 deg of 360).
+    expect(Math.min(...record.fold[0].zeroCrossingsDeg)).toBeLessThan(1);
+    expect(record.fold[0].firingDeg.length).toBe(1);
+    // The sweep (2 to 6 V) moves alpha with the control: a positive gain.
+    expect(record.transfer.fit?.gainDegPerV).toBeGreaterThan(0);
+    expect(record.trims[0].reason).toContain('E24');
+    expect(record.link.errors).toBe(3);
+  });
+
+  it('digest is the sha-256 of the stated text over each capture\'s raw-sample hash, and recomputes from the samples', async () => {
+    const record = await buildRecord(sources, session.sessionId, { now });
+    // Recompute by hand from the block itself: float64 little-endian, channel after channel (sync, ramp, gate, control).
+    const block = session.capture;
+    const raw = Buffer.alloc(4 * block.sync.length * 8);
+    [block.sync, block.ramp, block.gate, block.control as Float64Array].forEach((values, channel) => values.forEach((value, index) => raw.writeDoubleLE(value, (channel * block.sync.length + index) * 8)));
+    const captureHash = createHash('sha256').update(raw).digest('hex');
+    const digest = createHash('sha256').update(`rampwright-captures-v1\n${captureHash}\n`).digest('hex');
+    expect(record.captures[0].sha256).toBe(captureHash);
+    expect(record.capturesSha256).toBe(digest);
+    expect(await recomputeCaptureDigest(sources.logbook, session.sessionId)).toBe(digest);
+  });
+
+  it('HTML is self-contained: no scripts, no external references, inline SVG, verdicts in words with a symbol', async () => {
+    const path = folder.file('record.html');
+    await writeRecordFile(sources, session.sessionId, path, { now });
+    const html = readFileSync(path, 'utf8');
+    expect(html).not.toMatch(/<script|<link |src=|@import|url\(/i);
+    expect(html.match(/<svg /g)?.length).toBe(2);
+    expect(html).toContain('Ramp peak');
+    expect(html).toMatch(/class="verdict (in-tolerance|marginal|out-of-tolerance)"><span aria-hidden="true">[\u2713\u26a0\u2717]<\/span> (in tolerance|marginal|out of tolerance)/);
+    expect(html).toContain('does not certify');
+    expect((await verifyRecordFile(sources, path)).matches).toBe(true);
+  });
+
+  it('PDF renders to PNG pages with pdftoppm, and pdftotext finds the readings, the digest and the unit', async () => {
+    const path = folder.file('record.pdf');
+    await writeRecordFile(sources, session.sessionId, path, { now });
+    const info = execFileSync('pdfinfo', [path], { encoding: 'utf8' });
+    const pages = Number(/Pages:\s+(\d+)/.exec(info)?.[1]);
+    // Identity, readings, two plots, trims, link health and captures on A4: two or three pages.
+    expect(pages).toBeGreaterThanOrEqual(2);
+    expect(pages).toBeLessThanOrEqual(3);
+    execFileSync('pdftoppm', ['-png', '-r', '60', path, folder.file('page')]);
+    const pngs = readdirSync(folder.path).filter((name) => name.startsWith('page') && name.endsWith('.png'));
+    expect(pngs.length).toBe(pages);
+    for (const png of pngs) expect(readFileSync(folder.file(png)).subarray(1, 4).toString('latin1')).toBe('PNG');
+    if (process.env.RAMPWRIGHT_KEEP_RECORD_PNG) for (const png of pngs) writeFileSync(`${process.env.RAMPWRIGHT_KEEP_RECORD_PNG}/${png}`, readFileSync(folder.file(png)));
+    const text = execFileSync('pdftotext', ['-layout', path, '-'], { encoding: 'utf8' });
+    const record = await buildRecord(sources, session.sessionId, { now });
+    expect(text).toContain('RW-7731');
+    for (const check of record.checks) expect(text).toContain(check.label);
+    expect(text).toMatch(/in tolerance|marginal|out of tolerance/);
+    expect(text).toContain(record.capturesSha256 as string);
+    expect((await verifyRecordFile(sources, path)).matches).toBe(true);
+  });
+
+  it('a record whose digest was altered does not verify', async () => {
+    const path = folder.file('tampered.html');
+    await writeRecordFile(sources, session.sessionId, path, { now });
+    const html = readFileSync(path, 'utf8').replace(/content="([0-9a-f])/, (_, first: string) => `content="${first === '0' ? '1' : '0'}`);
+    writeFileSync(path, html);
+    const result = await verifyRecordFile(sources, path);
+    expect(result.matches).toBe(false);
+    expect(result.recomputed).not.toBe(result.stated);
+  });
+});

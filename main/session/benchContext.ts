@@ -9,7 +9,7 @@ import { openSqliteLogbook } from '../store/index';
 import type { Logbook } from '../store/logbookTypes';
 import { createDesignCatalog, type DesignCatalog } from './designCatalog';
 import { createBenchDispatch, type BenchDispatch } from './dispatch';
-import { sessionJsonExporter } from './exporters';
+import { sessionJsonExporter, type SessionExporter } from './exporters';
 import { exampleDesignsFolder } from './packagePaths';
 import { createSessionService, type SerialAccess, type SessionService, type SessionServiceOptions } from './sessionService';
 
@@ -30,13 +30,15 @@ export interface BenchContextOptions {
   virtualPaced?: boolean;
   pipeline?: SessionServiceOptions['pipeline'];
   onBug?: (call: string, error: unknown) => void;
+  /** More export formats (the commissioning record, CSV, COMTRADE...) beside the built-in session JSON. */
+  exporters?: readonly SessionExporter[];
 }
 
 export async function openBenchContext(options: BenchContextOptions): Promise<BenchContext> {
   mkdirSync(dirname(options.logbookPath), { recursive: true });
   const logbook = await openSqliteLogbook(options.logbookPath);
   const designs = createDesignCatalog({ logbook, exampleFolders: [exampleDesignsFolder()], saveFolder: options.designsFolder ?? join(dirname(options.logbookPath), 'designs') });
-  const service = createSessionService({ logbook, designs, serial: options.serial ?? null, exporters: [sessionJsonExporter], virtualPaced: options.virtualPaced, pipeline: options.pipeline });
+  const service = createSessionService({ logbook, designs, serial: options.serial ?? null, exporters: [sessionJsonExporter, ...(options.exporters ?? [])], virtualPaced: options.virtualPaced, pipeline: options.pipeline });
   const dispatch = createBenchDispatch(service.handlers, { onBug: options.onBug });
   return {
     logbook,

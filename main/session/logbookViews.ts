@@ -26,7 +26,8 @@ async function stepsOf(detail: StoredDetail, designs: DesignCatalog): Promise<St
   if (!readings) return [];
   const stored = await designs.get(detail.row.designName, detail.row.designVersion).catch(() => designs.get(detail.row.designName).catch(() => null));
   if (!stored) return [];
-  const fit = detail.transfer.fit ?? readings.transfer;
+  // The readings' own fit carries its thinning estimate; the logbook's fit record has none (taken as 0).
+  const fit = readings.transfer ?? (detail.transfer.fit ? { ...detail.transfer.fit, thinningErrorDeg: 0 } : null);
   const inputs = {
     design: stored.design,
     window: readings,

@@ -8,16 +8,15 @@ import { predictRamp } from '../../app/board/rampModel';
 import { controlLimitsOf } from '../../app/board/controlDivider';
 import { alphaForControl } from '../../app/board/firingAngle';
 import { judgeReadings, type ReadingCheck } from '../../app/bench/judge';
-import type { CaptureReadings } from '../../app/bench/readings';
+import type { CaptureReadings, TransferSummary } from '../../app/bench/readings';
 import { commissioningStepNames, type CommissioningStep, type Reading, type StepReport, type Verdict } from '../../app/contract';
-import type { TransferFitReading } from '../../app/signal/transferCurve';
 import type { AlphaExtremes } from './benchPipeline';
 
 export interface StepInputs {
   design: BoardDesign;
   /** Readings of the last complete window (null before the first). */
   window: CaptureReadings | null;
-  transferFit: TransferFitReading | null;
+  transferFit: TransferSummary | null;
   extremes: AlphaExtremes;
   /** Reports recorded by `checkStep` in this session. */
   recorded: Partial<Record<CommissioningStep, StepReport>>;

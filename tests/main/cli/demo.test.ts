@@ -1,10 +1,8 @@
 // `rampwright demo` end to end: the summary a technician reads, the safety note once, and a closed session with
-// its trim in the logbook of the user's data folder (or --db). One run in-process, one as a spawned command.
-import { execFile } from 'node:child_process';
+// its trim in the logbook of the user's data folder (or --db). Runs the command function in-process.
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { promisify } from 'node:util';
 import { afterAll, describe, expect, it, vi } from 'vitest';
 import { runCommandLine } from '../../../main/cli/rampwright';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
@@ -63,9 +61,10 @@ describe('rampwright demo', () => {
     }
   });
 
-  it('as a command with --db and --json: every step in tolerance after the trim, the ramp on its target', async () => {
+  it('with --db and --json: every step in tolerance after the trim, the ramp on its target', async () => {
     const dbPath = join(folder, 'json', 'bench.sqlite');
-    const { stdout } = await promisify(execFile)(process.execPath, ['--import', 'tsx', 'main/cli/rampwright.ts', 'demo', '--db', dbPath, '--json'], { cwd: process.cwd(), timeout: 120_000 });
+    const { code, stdout } = await runInProcess(['demo', '--db', dbPath, '--json'], {});
+    expect(code).toBe(0);
     const result = JSON.parse(stdout) as {
       logbook: string;
       session: { status: string; cycles: number };

@@ -79,7 +79,7 @@ describe('measureSteps', () => {
     const lowDeg = alphaForControl(design, lowV)!;
     const highDeg = alphaForControl(design, highV)!;
     const gain = (highDeg - lowDeg) / (highV - lowV);
-    const fit = { points: 200, gainDegPerV: gain, offsetDeg: lowDeg - gain * lowV, maxDeviationDeg: 0.3, controlMinV: lowV, controlMaxV: highV };
+    const fit = { points: 200, gainDegPerV: gain, offsetDeg: lowDeg - gain * lowV, maxDeviationDeg: 0.3, controlMinV: lowV, controlMaxV: highV, thinningErrorDeg: 0 };
     const steps = measureSteps(inputs({ transferFit: fit }));
     expect(steps.transfer.status).toBe('measuring');
     expect(steps.transfer.readings.slice(0, 2).map((reading) => reading.verdict)).toEqual(['in-tolerance', 'in-tolerance']);

@@ -13,12 +13,15 @@ export type LinkErrorKind = 'not-found' | 'busy' | 'permission-denied' | 'not-a-
 export class LinkError extends InputError {
   readonly kind: LinkErrorKind;
   readonly path: string;
+  /** The message without the device in front. */
+  readonly detail: string;
 
   constructor(kind: LinkErrorKind, path: string, message: string) {
     super(message, path === '' ? 'serial port' : path);
     this.name = 'LinkError';
     this.kind = kind;
     this.path = path;
+    this.detail = message;
   }
 }
 
@@ -37,7 +40,7 @@ function permissionHint(path: string, facts: PlatformFacts): string {
 export function linkErrorFromMessage(path: string, message: string, facts: PlatformFacts = { platform: process.platform }): LinkError {
   const text = message.toLowerCase();
   if (text.includes('no such file') || text.includes('enoent') || text.includes('file not found') || text.includes('cannot find')) {
-    return new LinkError('not-found', path, 'no such serial device: is the logger plugged in? (list ports with the Bench screen or `rampwright record --help`)');
+    return new LinkError('not-found', path, 'no such serial device: is the logger plugged in?');
   }
   if (text.includes('cannot lock') || text.includes('resource temporarily unavailable') || text.includes('busy') || text.includes('access denied')) {
     return new LinkError('busy', path, 'the serial device is busy: another program (a terminal, another Rampwright) has it open; close that program and try again');

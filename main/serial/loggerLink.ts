@@ -88,6 +88,14 @@ function deviceExists(path: string): boolean {
   }
 }
 
+/** The serial ports there are, in a sentence, so a wrong path can be put right at once. */
+async function portsHere(): Promise<string> {
+  const ports = await listPorts().catch(() => [] as PortInfo[]);
+  if (ports.length === 0) return 'No serial ports were found on this computer.';
+  const named = ports.map((port) => (port.vendorId ? `${port.path} (USB ${port.vendorId}:${port.productId}${port.manufacturer ? `, ${port.manufacturer}` : ''})` : port.path));
+  return `Serial ports here: ${named.join(', ')}.`;
+}
+
 async function identify(path: string): Promise<PortInfo | null> {
   try {
     const real = realpathSync(path);
@@ -103,8 +111,14 @@ export async function openLoggerLink(options: LoggerLinkOptions): Promise<Logger
   const maxLineBytes = options.maxLineBytes ?? 4096;
   const noDataTimeoutMs = options.noDataTimeoutMs ?? 3000;
   const reopenIntervalMs = options.reopenIntervalMs ?? 250;
-  checkDevicePath(options.path);
-  const first = await openPort(options.path, baudRate);
+  let first: SerialPort;
+  try {
+    checkDevicePath(options.path);
+    first = await openPort(options.path, baudRate);
+  } catch (error) {
+    if (error instanceof LinkError && error.kind === 'not-found') throw new LinkError('not-found', error.path, `${error.detail} ${await portsHere()}`);
+    throw error;
+  }
   const identity = await identify(options.path);
 
   const queue = createLinkQueue<LinkLine, LinkEvent>(options.queueCapacityLines ?? 4096, (count) => ({ kind: 'lines-dropped', count, atMs: Date.now() }));

@@ -45,6 +45,10 @@ describe('opening the logger port', () => {
     expect(error.kind).toBe('not-found');
     expect(error.message).toContain(join(folder, 'ttyACM7'));
     expect(error.message).toMatch(/plugged in/);
+    // It says which ports there are, so the right one can be given at once (this machine's list, or that it has none).
+    const listed = await listPorts();
+    if (listed.length === 0) expect(error.message).toMatch(/No serial ports were found/);
+    else expect(error.message).toContain(`Serial ports here: ${listed[0].path}`);
   });
 
   it('says the port is busy when another program holds it', async () => {

@@ -60,6 +60,8 @@ export interface BenchPipeline {
   restartReadings(options?: { keepTransfer?: boolean }): void;
   /** Stream time of the newest sample (s). */
   newestS(): number;
+  /** Measure against another design from now on (a session opened for it): analysis restarts, the link stays. */
+  retarget(design: BoardDesign): void;
 }
 
 interface PendingFold {
@@ -70,13 +72,14 @@ interface PendingFold {
   zeroCrossingsS: number[];
 }
 
-export function createBenchPipeline(design: BoardDesign, options: BenchPipelineOptions = {}): BenchPipeline {
+export function createBenchPipeline(initialDesign: BoardDesign, options: BenchPipelineOptions = {}): BenchPipeline {
   const windowS = options.windowS ?? 1;
   const foldBuckets = options.foldBuckets ?? 240;
   const maxTransferPoints = options.maxTransferPoints ?? 4000;
-  const analyzerOptions = { rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false };
+  let design = initialDesign;
+  let analyzerOptions = { rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false };
   const decoder: LoggerDecoder = createLoggerDecoder();
-  const sessionAnalyzer: CaptureAnalyzer = createCaptureAnalyzer(analyzerOptions);
+  let sessionAnalyzer: CaptureAnalyzer = createCaptureAnalyzer(analyzerOptions);
   const ring: SampleRing = createSampleRing({ keepS: options.ringS ?? 10 });
   const folds = createFoldKeeper(options.foldCycles ?? 20);
   let windowAnalyzer: CaptureAnalyzer = createCaptureAnalyzer(analyzerOptions);
@@ -149,6 +152,19 @@ export function createBenchPipeline(design: BoardDesign, options: BenchPipelineO
     foldWhatIsComplete();
   }
 
+  function restartReadings(restart: { keepTransfer?: boolean } = {}): void {
+    windowAnalyzer = createCaptureAnalyzer(analyzerOptions);
+    windowStartS = null;
+    lastWindow = null;
+    extremes = { alphaMinDeg: null, alphaMaxDeg: null, cycles: 0 };
+    if (!restart.keepTransfer) {
+      transfer = new TransferCurveAccumulator();
+      points = [];
+    }
+    folds.clear();
+    pendingFolds = [];
+  }
+
   return {
     pushLines(lines) {
       const step: PipelineStep = { blocks: [], cycles: [], problems: [], window: null, greeting: null };
@@ -174,18 +190,13 @@ export function createBenchPipeline(design: BoardDesign, options: BenchPipelineO
     transferFit: () => transfer.reading({ minimumRangeV: 0.2 }),
     alphaExtremes: () => ({ ...extremes }),
     lastSeconds: (seconds) => ring.lastSeconds(seconds),
-    restartReadings(restart = {}) {
-      windowAnalyzer = createCaptureAnalyzer(analyzerOptions);
-      windowStartS = null;
-      lastWindow = null;
-      extremes = { alphaMinDeg: null, alphaMaxDeg: null, cycles: 0 };
-      if (!restart.keepTransfer) {
-        transfer = new TransferCurveAccumulator();
-        points = [];
-      }
-      folds.clear();
-      pendingFolds = [];
-    },
+    restartReadings,
     newestS: () => newestS,
+    retarget(next) {
+      design = next;
+      analyzerOptions = { rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false };
+      sessionAnalyzer = createCaptureAnalyzer(analyzerOptions);
+      restartReadings();
+    },
   };
 }

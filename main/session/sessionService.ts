@@ -147,14 +147,8 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
   /** Analysis follows the session's design; a link opened for another design is re-measured against it. */
   const followDesign = (design: BoardDesign): void => {
     if (!current || current.design === design) return;
-    const { link, virtual } = current;
-    current = null;
-    void link.source.stop();
-    if (virtual) {
-      attach(virtual, design, virtual);
-    } else {
-      attach(link.source, design, null);
-    }
+    current.link.pipeline.retarget(design);
+    current.design = design;
   };
 
   const requireSession = (): BenchSession => {

@@ -137,6 +137,24 @@ describe('session service on the virtual board', () => {
     expect(detail.notes).toContain('signed off without sync, transfer, limits');
   });
 
+  it('re-measures an open link against the design of a session started on it, without losing the stream', async () => {
+    await client.connect({ kind: 'virtual', designName: demoDefaults.designName, faults: [], seed: 5 });
+    pump(0.5);
+    const heater = (await client.listDesigns()).designs.find((summary) => summary.mainsHz === 60)!;
+    await client.startSession({ unitSerial: 'TEST-0005', designName: heater.name, operator: 'Tess' });
+    pump(1.5);
+    const state = await client.benchState();
+    // The board on the bench runs at 50 Hz (its own design); the session's design says 60 Hz: the reading stays the
+    // measured 50 Hz and is judged against 60 Hz (1 % tolerance) as out of tolerance.
+    const frequency = state.steps.find((step) => step.step === 'sync')!.readings.find((reading) => reading.key === 'frequencyHz')!;
+    expect(Math.abs(frequency.value! - 50)).toBeLessThan(0.05);
+    expect(frequency.expected).toBe(60);
+    expect(frequency.verdict).toBe('out-of-tolerance');
+    // The decoder kept its greeting: nothing arrived "before a greeting" or otherwise unreadable.
+    expect(state.link.badLines).toBe(0);
+    expect(state.link.state).toBe('streaming');
+  });
+
   it('refuses what cannot be done now, with words a technician reads', async () => {
     expect((await refusal(client.checkStep({ step: 'sync' }))).code).toBe('not-ready');
     expect((await refusal(client.trimPlan({}))).message).toMatch(/no link is open/);

@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { validateBoardPhysics } from '../../../app/board/boardPhysics';
 import { controlLimitsOf } from '../../../app/board/controlDivider';
@@ -56,6 +57,36 @@ describe('sizing', () => {
     const weakDivider = sizingTargetsSchema.parse({ mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 6, cRampFarad: 4.7e-7, dividerCurrentA: 1e-7 });
     expect(() => sizeBoard(weakDivider)).toThrow(/dividerCurrentA: a divider current of 0.1 uA/);
     expect(sizingTargetsSchema.safeParse({ mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 6, cRampFarad: -1 }).success).toBe(false);
+  });
+});
+
+describe('sizing properties (fast-check)', () => {
+  it('any targets give a physically valid E24 design near the target, or an InputError naming the field', () => {
+    fc.assert(
+      fc.property(
+        fc.record({
+          mainsHz: fc.constantFrom(50, 60),
+          rectifier: fc.constantFrom('half-wave' as const, 'full-wave' as const),
+          supplyV: fc.double({ min: 6, max: 36, noNaN: true }),
+          targetShare: fc.double({ min: 0.1, max: 0.95, noNaN: true }),
+          cRampFarad: fc.constantFrom(1e-7, 2.2e-7, 4.7e-7, 1e-6),
+          emitterDropFraction: fc.double({ min: 0.05, max: 0.4, noNaN: true }),
+        }),
+        (draw) => {
+          const targets = sizingTargetsSchema.parse({ ...draw, rampTargetV: draw.supplyV * draw.targetShare });
+          try {
+            const result = sizeBoard(targets);
+            expect(validateBoardPhysics(result.design).filter((problem) => problem.severity === 'error')).toEqual([]);
+            // E24 steps are 10 % apart, so one resistor alone lands within 5 %; the divider search does better.
+            expect(Math.abs(result.peakErrorPct)).toBeLessThan(5);
+          } catch (error) {
+            expect(error).toBeInstanceOf(InputError);
+            expect((error as InputError).where).toMatch(/emitterDropFraction|dividerCurrentA|syncResetUs|supplyV/);
+          }
+        },
+      ),
+      { numRuns: 30 },
+    );
   });
 });
 

@@ -28,6 +28,11 @@ async function start(): Promise<void> {
   const screens = [new BoardScreen(context), bench, new TransferScreen(context), new TrimScreen(context), new LogbookScreen(context)];
   shell = new Shell(context, store, screens, { checkStep: () => bench.checkSelected(), toggleHold: () => bench.toggleHold(), keepCapture: () => bench.keepCapture() });
   client.subscribe('notice', (notice) => notices.show(notice.level, notice.message));
+  // The desktop shell's own menu (browser mode never sends these).
+  client.subscribe('menuCommand', (command) => {
+    if (command.command === 'show-screen') shell?.show(command.screen);
+    else shell?.showSafetyNote();
+  });
   store.connectEvents();
   fill(root, shell.element);
   root.setAttribute('aria-busy', 'false');

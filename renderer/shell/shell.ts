@@ -85,6 +85,13 @@ export class Shell {
     document.title = `Rampwright · ${this.screens.get(name)?.title ?? ''}`;
   }
 
+  /** Brings the safety note into view and gives it focus, so a screen reader reads it out. */
+  showSafetyNote(): void {
+    const note = this.element.querySelector<HTMLElement>('[data-testid="safety-note"]');
+    note?.scrollIntoView({ block: 'start' });
+    note?.focus();
+  }
+
   private updateStatus(): void {
     const session = this.store.state?.session ?? null;
     fill(this.sessionChip, session ? [h('span', {}, 'Unit'), h('strong', { 'data-testid': 'unit-serial' }, session.unitSerial), h('span', { class: 'muted' }, `session ${session.id} open`)] : h('span', { class: 'muted' }, 'No session open'));
@@ -150,7 +157,7 @@ export class Shell {
 function safetyNote(): HTMLElement {
   return h(
     'aside',
-    { class: 'safety', 'aria-label': 'Safety note', 'data-testid': 'safety-note' },
+    { class: 'safety', 'aria-label': 'Safety note', 'data-testid': 'safety-note', tabindex: '-1' },
     h('span', { class: 'mark', 'aria-hidden': 'true' }, '⚠'),
     h(
       'p',

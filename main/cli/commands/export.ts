@@ -1,0 +1,41 @@
+/**
+ * `rampwright export --db <file> --session <id> --out <file> [--format <kind>]`: a session out of the logbook.
+ * Default: the whole session as a portable archive (app/exchange/ARCHIVE.md) that `rampwright import` reads on
+ * another bench. Other kinds: its captures as CSV or COMTRADE, its transfer points or readings as CSV.
+ */
+import type { Command } from 'commander';
+import { InputError } from '../../../app/errors';
+import { exportKinds, exportSessionFile, type ExportKind } from '../../exchange/exportFiles';
+import { openRecordSources } from '../../record/openRecordSources';
+import { parseSessionId } from './report';
+
+interface ExportOptions {
+  db?: string;
+  session?: string;
+  out?: string;
+  format?: string;
+}
+
+export function registerExportCommand(program: Command): void {
+  program
+    .command('export')
+    .description('Export a session: a portable archive (default), captures as CSV or COMTRADE, transfer points or readings as CSV')
+    .option('--db <file>', 'logbook file')
+    .option('--session <id>', 'session number (rampwright log lists them)')
+    .option('--out <file>', 'file to write')
+    .option('--format <kind>', `what to write: ${exportKinds.join(', ')}`, 'archive')
+    .action(async (options: ExportOptions) => {
+      if (!options.db) throw new InputError('give the logbook with --db <file>', '--db');
+      if (!options.out) throw new InputError('give the file to write with --out <file>', '--out');
+      const kind = options.format ?? 'archive';
+      if (!(exportKinds as readonly string[]).includes(kind)) throw new InputError(`"${kind}" is not an export kind (use ${exportKinds.join(', ')})`, '--format');
+      const sessionId = parseSessionId(options.session, true) as number;
+      const sources = openRecordSources(options.db);
+      try {
+        const written = await exportSessionFile(sources, sessionId, options.out, kind as ExportKind);
+        process.stdout.write(`Wrote ${written.join(', ')}\n`);
+      } finally {
+        await sources.close();
+      }
+    });
+}

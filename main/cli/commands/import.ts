@@ -1,0 +1,37 @@
+/**
+ * `rampwright import --db <file> <archive>`: a session archive from another bench into this logbook. Idempotent:
+ * a session already here (same content hash) is left as it is; a damaged archive changes nothing.
+ */
+import type { Command } from 'commander';
+import { readFile } from 'node:fs/promises';
+import { InputError } from '../../../app/errors';
+import { importSessionArchive } from '../../exchange/sessionArchive';
+import { openRecordSources } from '../../record/openRecordSources';
+
+export function registerImportCommand(program: Command): void {
+  program
+    .command('import')
+    .description('Import a session archive (from rampwright export) into a logbook; importing it again changes nothing')
+    .argument('<archive>', 'archive file')
+    .option('--db <file>', 'logbook file (created when missing)')
+    .action(async (archivePath: string, options: { db?: string }) => {
+      if (!options.db) throw new InputError('give the logbook with --db <file>', '--db');
+      let bytes: Buffer;
+      try {
+        bytes = await readFile(archivePath);
+      } catch {
+        throw new InputError('cannot read the archive', archivePath);
+      }
+      const sources = openRecordSources(options.db, { create: true });
+      try {
+        const result = importSessionArchive(sources.db, bytes, archivePath);
+        process.stdout.write(
+          result.imported
+            ? `Imported as session ${result.sessionId} (content sha-256 ${result.contentSha256})\n`
+            : `Already in this logbook as session ${result.sessionId} (content sha-256 ${result.contentSha256}); nothing changed\n`,
+        );
+      } finally {
+        await sources.close();
+      }
+    });
+}

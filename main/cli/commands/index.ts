@@ -8,6 +8,9 @@ import { registerTrimCommand } from './trim';
 import { registerServeCommand } from './serve';
 import { registerLogCommand } from './log';
 import { registerRecordCommand } from './record';
+import { registerReportCommand } from './report';
+import { registerExportCommand } from './export';
+import { registerImportCommand } from './import';
 
 export function registerCommands(program: Command): void {
   void program;
@@ -19,4 +22,7 @@ export function registerCommands(program: Command): void {
   registerServeCommand(program);
   registerLogCommand(program);
   registerRecordCommand(program);
+  registerReportCommand(program);
+  registerExportCommand(program);
+  registerImportCommand(program);
 }

@@ -35,6 +35,15 @@ export interface RunningBench {
   close(): Promise<void>;
 }
 
+/** Why a server could not listen, in words, naming the option to change; anything unexpected stays a bug. */
+export function listenFault(error: unknown, host: string, port: number): unknown {
+  const code = (error as NodeJS.ErrnoException | null)?.code;
+  if (code === 'EADDRINUSE') return new InputError(`port ${port} is already in use on ${host}: pick another with --port (0 picks a free one)`, '--port');
+  if (code === 'EACCES') return new InputError(`this user may not listen on port ${port} (ports below 1024 need privileges): pick another with --port`, '--port');
+  if (code === 'EADDRNOTAVAIL') return new InputError(`${host} is not an address of this computer`, '--host');
+  return error;
+}
+
 export async function startBenchServe(options: BenchServeOptions): Promise<RunningBench> {
   const host = options.host ?? '127.0.0.1';
   const loopback = isLoopbackAddress(host) || host === 'localhost';
@@ -57,6 +66,8 @@ export async function startBenchServe(options: BenchServeOptions): Promise<Runni
       port: options.port ?? 0,
       token: options.tokenRequired ? createAccessToken() : null,
       staticRoot: staticRoot && existsSync(staticRoot) ? staticRoot : null,
+    }).catch((error: unknown) => {
+      throw listenFault(error, host, options.port ?? 0);
     });
     const banner = [`Rampwright bench at ${server.url}`, `Logbook: ${options.logbookPath}`];
     if (server.token) banner.push(`Access token: ${server.token} (every request needs it; the address above carries it)`);

@@ -28,6 +28,17 @@ describe('serve options', () => {
     expect(String((failure as Error).message)).toMatch(/--token-required/);
   });
 
+  it('says a busy port is busy, naming --port, instead of failing as a bug', async () => {
+    const first = await startBenchServe({ logbookPath: join(folder, 'busy-1.sqlite'), port: 0, staticRoot: null });
+    try {
+      const failure = await startBenchServe({ logbookPath: join(folder, 'busy-2.sqlite'), port: first.server.port, staticRoot: null }).catch((error: unknown) => error);
+      expect(failure).toBeInstanceOf(InputError);
+      expect(String((failure as Error).message)).toMatch(/--port: port \d+ is already in use/);
+    } finally {
+      await first.close();
+    }
+  });
+
   it('prints a token and the address carrying it in token mode', async () => {
     const running = await startBenchServe({ logbookPath: join(folder, 'token.sqlite'), host: '127.0.0.2', port: 0, tokenRequired: true, staticRoot: null });
     try {

@@ -12,7 +12,7 @@
  *   over the last 10 % of the interval is below 40 % of the linear-part slope. An Early-effect ramp keeps most of its
  *   slope to the end (about 75 % for a strong Early effect), a saturated source none (our rule).
  */
-import { fitIndexLine } from './leastSquares';
+import { fitIndexLine, type LineFit } from './leastSquares';
 
 export interface RampSegment {
   floorV: number;
@@ -89,7 +89,8 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
   // Two passes: the floor is the median of the foot samples up to the start the line gives, and the line's
   // 10 % level depends on the floor; starting from the lowest sample, the second pass is settled.
   let floorV = lowV;
-  let fit: ReturnType<typeof fitIndexLine> = null;
+  let fit: LineFit | null = null;
+  let previousFit: LineFit | null = null;
   let linearFrom = riseIndex;
   let linearTo = riseIndex;
   let startIndex = riseIndex;
@@ -99,14 +100,24 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
     // Linear part: from the last 10 % up-crossing before the end to the first 90 % up-crossing after it.
     const proximalV = floorV + 0.1 * spanV;
     const distalV = floorV + 0.9 * spanV;
+    const previousFrom = linearFrom;
+    const previousTo = linearTo;
     linearFrom = lastUpCrossing(values, proximalV, footStart, lastHighIndex);
     if (linearFrom < 0) linearFrom = riseIndex;
     linearTo = linearFrom;
     while (linearTo <= lastHighIndex && values[linearTo] < distalV) linearTo += 1;
-    // Residuals only on the last pass: they give the nonlinearity.
+    // Residuals only on the last pass: they give the nonlinearity. The same samples give the same line, so the
+    // second pass refits only when the new floor moved the 10 % or 90 % crossing.
     const residuals = { residuals: pass === 1 };
-    fit = fitIndexLine(values, linearFrom, linearTo, residuals) ?? fitIndexLine(values, linearFrom - 1, linearTo + 1, residuals);
+    // (A cast: the compiler does not follow the assignment at the end of the previous pass.)
+    const earlier = previousFit as LineFit | null;
+    const sameSamples: boolean = pass === 1 && earlier !== null && linearFrom === previousFrom && linearTo === previousTo && earlier.count === linearTo - linearFrom;
+    fit =
+      sameSamples && earlier
+        ? withResiduals(values, earlier, linearFrom, linearTo)
+        : (fitIndexLine(values, linearFrom, linearTo, residuals) ?? fitIndexLine(values, linearFrom - 1, linearTo + 1, residuals));
     if (!fit || !(fit.slope > 0)) return null;
+    previousFit = fit;
     startIndex = (floorV - fit.intercept) / fit.slope;
     floorV = median(values, footStart, Math.max(footStart + 1, Math.min(riseIndex, Math.floor(startIndex) + 1)));
     startIndex = (floorV - fit.intercept) / fit.slope;
@@ -154,4 +165,16 @@ function median(values: ArrayLike<number>, from: number, to: number): number {
   part.sort();
   const middle = part.length >> 1;
   return part.length % 2 === 1 ? part[middle] : (part[middle - 1] + part[middle]) / 2;
+}
+
+/** The residual figures of a line already fitted to positions from .. to - 1. */
+function withResiduals(values: ArrayLike<number>, fit: LineFit, from: number, to: number): LineFit {
+  let maxAbsResidual = 0;
+  let sumSquares = 0;
+  for (let i = from; i < to; i++) {
+    const residual = values[i] - (fit.slope * i + fit.intercept);
+    sumSquares += residual * residual;
+    if (Math.abs(residual) > maxAbsResidual) maxAbsResidual = Math.abs(residual);
+  }
+  return { ...fit, maxAbsResidual, rmsResidual: Math.sqrt(sumSquares / fit.count) };
 }

@@ -33,7 +33,8 @@ export class SampleHistory {
       grown.set(this.buffer.subarray(0, this.count));
       this.buffer = grown;
     }
-    for (let i = 0; i < values.length; i++) this.buffer[this.count + i] = values[i];
+    if (values instanceof Float64Array) this.buffer.set(values, this.count);
+    else for (let i = 0; i < values.length; i++) this.buffer[this.count + i] = values[i];
     this.count += values.length;
   }
 

@@ -129,7 +129,10 @@ export function analyseDrift(samples: readonly DriftSample[], limits: DriftLimit
 }
 
 function percent(value: number | null): string {
-  return value === null ? 'unknown (two sessions give no uncertainty)' : `${(100 * value).toFixed(value > 0.999 ? 2 : 1)} %`;
+  if (value === null) return 'unknown (two sessions give no uncertainty)';
+  // Never print a certainty the fit cannot give: beyond four nines say so rather than round to 100 %.
+  if (value > 0.9999) return 'above 99.99 %';
+  return `${(100 * value).toFixed(value > 0.999 ? 2 : 1)} %`;
 }
 
 function describeDrift(fit: LinearFit, forecasts: readonly CrossingForecast[], alarming: CrossingForecast | null): string {

@@ -1,0 +1,104 @@
+/**
+ * Recall over the logbook: two sessions side by side with their transfer curves overlaid, a unit's drift across
+ * sessions with the trend warning, and a board design's fleet against the board model's Monte Carlo prediction.
+ * Each returns plain data plus its plot as an SVG string (app/record/plots.ts), ready for a screen or a page.
+ */
+import { boardDesignSchema, type BoardDesign } from '../../app/board/design';
+import { analyseTolerances } from '../../app/board/toleranceAnalysis';
+import { InputError } from '../../app/errors';
+import { analyseDrift, type DriftAnalysis, type DriftLimits, type DriftOptions } from '../../app/record/drift';
+import { designFigures, trendedFigures, type TrendedFigure } from '../../app/record/designFigures';
+import { figureToSvg } from '../../app/record/figure';
+import { fleetFigure, gainPredictionFromPeak, type FleetFigure } from '../../app/record/fleet';
+import { driftFigure, fleetHistogramFigure, transferFigure } from '../../app/record/plots';
+import type { SessionComparison } from '../store/logbookTypes';
+import { latestDesignVersion, latestSessionPerUnit, readDesignVersion } from '../store/recordQueries';
+import type { RecordSources } from './buildRecord';
+
+const designOf = (json: string): BoardDesign => boardDesignSchema.parse(JSON.parse(json));
+
+export interface ComparisonReport {
+  comparison: SessionComparison;
+  /** Rows whose difference is beyond the design tolerance (the logbook's comparison decides it). */
+  flagged: string[];
+  transferSvg: string;
+}
+
+export async function compareReport(sources: RecordSources, aId: number, bId: number): Promise<ComparisonReport> {
+  const comparison = await sources.logbook.compareSessions(aId, bId);
+  const [a, b] = await Promise.all([sources.logbook.session(aId), sources.logbook.session(bId)]);
+  const transferSvg = figureToSvg(
+    transferFigure(
+      [
+        { label: `session ${aId}`, points: comparison.transferA, fit: a?.transfer.fit ?? null },
+        { label: `session ${bId}`, points: comparison.transferB, fit: b?.transfer.fit ?? null },
+      ],
+      { title: `Transfer curves of sessions ${aId} and ${bId} overlaid, with their least-squares lines` },
+    ),
+  );
+  return { comparison, flagged: comparison.rows.filter((row) => row.beyondTolerance).map((row) => row.label), transferSvg };
+}
+
+export interface DriftFigureReport {
+  key: TrendedFigure;
+  label: string;
+  unit: string;
+  nominal: number | null;
+  limits: DriftLimits;
+  analysis: DriftAnalysis;
+  svg: string;
+}
+
+export interface DriftReport {
+  unit: string;
+  designName: string;
+  figures: DriftFigureReport[];
+  warnings: string[];
+}
+
+/** A unit's figures across its sessions, against the limits of the design version of its latest session. */
+export async function driftReport(sources: RecordSources, unitSerial: string, options: DriftOptions = {}): Promise<DriftReport> {
+  const drift = await sources.logbook.unitDrift(unitSerial);
+  const last = drift.points[drift.points.length - 1];
+  if (!last) throw new InputError(`unit "${unitSerial}" has no sessions yet`, sources.logbook.location);
+  const detail = await sources.logbook.session(last.sessionId);
+  const version = readDesignVersion(sources.db, detail!.designId);
+  const expected = designFigures(designOf(version.designJson));
+  const figures = trendedFigures.map(({ key, label, unit }) => {
+    const analysis = analyseDrift(drift.points.map((point) => ({ sessionId: point.sessionId, startedAt: point.startedAt, value: point[key] })), expected[key].limits, options);
+    return { key, label, unit, nominal: expected[key].nominal, limits: expected[key].limits, analysis, svg: figureToSvg(driftFigure(analysis, expected[key].limits, { label, unit })) };
+  });
+  return { unit: unitSerial, designName: version.name, figures, warnings: figures.filter((figure) => figure.analysis.warning).map((figure) => `${figure.label}: ${figure.analysis.message}`) };
+}
+
+export interface FleetReport {
+  designName: string;
+  designVersion: number;
+  units: number;
+  figures: Array<FleetFigure & { svg: string }>;
+}
+
+/** Each unit's latest session of the design, histogrammed, with the Monte Carlo prediction of the newest version. */
+export async function fleetReport(sources: RecordSources, designName: string, options: { runs?: number; seed?: number; binCount?: number } = {}): Promise<FleetReport> {
+  const version = latestDesignVersion(sources.db, designName);
+  if (!version) throw new InputError(`there is no board design "${designName}" in this logbook`, sources.logbook.location);
+  const design = designOf(version.designJson);
+  const latest = latestSessionPerUnit(sources.db, designName);
+  const peaks: number[] = [];
+  const gains: number[] = [];
+  for (const { sessionId } of latest) {
+    const figures = await sources.logbook.sessionFigures(sessionId);
+    if (figures?.rampPeakV !== null && figures?.rampPeakV !== undefined) peaks.push(figures.rampPeakV);
+    if (figures?.alphaGainDegPerV !== null && figures?.alphaGainDegPerV !== undefined) gains.push(figures.alphaGainDegPerV);
+  }
+  const tolerance = analyseTolerances(design, { runs: options.runs ?? 500, seed: options.seed ?? 1 });
+  const nominalGain = designFigures(design).alphaGainDegPerV.nominal;
+  const peakFigure = fleetFigure('rampPeakV', peaks, { nominal: tolerance.peakV.nominal, mean: tolerance.peakV.mean, standardDeviation: tolerance.peakV.standardDeviation }, options);
+  const gainFigure = fleetFigure('alphaGainDegPerV', gains, nominalGain === null ? null : gainPredictionFromPeak(tolerance.peakV, nominalGain), options);
+  return {
+    designName,
+    designVersion: version.version,
+    units: latest.length,
+    figures: [peakFigure, gainFigure].map((figure) => ({ ...figure, svg: figureToSvg(fleetHistogramFigure(figure)) })),
+  };
+}

@@ -61,12 +61,13 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
 
   const health = (): LinkHealth => current?.link.health() ?? disconnectedHealth();
   const stateOf = (): BenchState => {
-    const inputs = stepInputsOf(session, session?.design ?? current?.design ?? ({} as BoardDesign), current?.link.pipeline ?? null);
+    // Steps need a design to judge against: the session's, else the open link's; with neither there are none.
+    const design = session?.design ?? current?.design ?? null;
     return {
       session: session?.open ?? null,
       link: health(),
       held,
-      steps: current || session ? stepReports(inputs) : [],
+      steps: design ? stepReports(stepInputsOf(session, design, current?.link.pipeline ?? null)) : [],
       currentStep: currentStep(session),
       recheckNeeded: session?.recheckNeeded ?? false,
     };

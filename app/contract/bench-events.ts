@@ -5,7 +5,7 @@
 import { z } from 'zod';
 import { foldCycleSchema, linkHealthSchema, stepReportSchema, transferPointSchema } from './readings';
 import { benchStateSchema } from './records';
-import { benchEventNames, isBenchEventName, type BenchEventName } from './names';
+import { benchEventNames, isBenchEventName, type BenchEventName, type SameNames } from './names';
 
 export const liveFrameSchema = z.object({
   /** Open session, null when the link streams without a session. */
@@ -58,6 +58,6 @@ export function isEventName(name: unknown): name is EventName {
   return isBenchEventName(name);
 }
 
-type Same<A, B> = [A] extends [B] ? ([B] extends [A] ? true : false) : false;
-const eventNamesMatch: Same<EventName, BenchEventName> = true;
+// The name list and the event list must hold the same names.
+const eventNamesMatch: SameNames<EventName, BenchEventName> = true;
 void eventNamesMatch;

@@ -5,7 +5,7 @@
  */
 import { z } from 'zod';
 import { boardDesignSchema } from '../board/design';
-import { benchCallNames, isBenchCallName, type BenchCallName } from './names';
+import { benchCallNames, isBenchCallName, type BenchCallName, type SameNames } from './names';
 import { commissioningStepSchema, linkHealthSchema, stepReportSchema, transferFitSchema, transferPointSchema } from './readings';
 import {
   appliedTrimSchema,
@@ -141,6 +141,5 @@ export function isCallName(name: unknown): name is CallName {
 }
 
 // The name list and the call list must hold the same names: each line fails to compile if one has a name the other lacks.
-type Same<A, B> = [A] extends [B] ? ([B] extends [A] ? true : false) : false;
-const callNamesMatch: Same<CallName, BenchCallName> = true;
+const callNamesMatch: SameNames<CallName, BenchCallName> = true;
 void callNamesMatch;

@@ -43,3 +43,6 @@ export function isBenchCallName(name: unknown): name is BenchCallName {
 export function isBenchEventName(name: unknown): name is BenchEventName {
   return typeof name === 'string' && (benchEventNames as readonly string[]).includes(name);
 }
+
+/** True when two unions of names hold the same names (used to tie the lists to the schemas at compile time). */
+export type SameNames<A, B> = [A] extends [B] ? ([B] extends [A] ? true : false) : false;

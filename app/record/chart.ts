@@ -174,13 +174,17 @@ export function buildChart(spec: ChartSpec): Figure {
       case 'vertical': {
         if (!(series.at >= xLow && series.at <= xHigh)) break;
         items.push({ kind: 'path', d: pathFromPoints([[sx(series.at), top], [sx(series.at), top + plotH]]), stroke: series.colour, fill: null, widthPx: series.widthPx ?? 1, dash: series.dash });
-        if (series.label) text(sx(series.at) + 3, top + 11, series.label, 'start', series.colour, 10);
+        // Labels near the right edge go on the line's left, at the bottom, clear of horizontal markers' labels and trends.
+        if (series.label) {
+          const nearRight = sx(series.at) > left + plotW * 0.6;
+          text(sx(series.at) + (nearRight ? -3 : 3), nearRight ? top + plotH - 6 : top + 11, series.label, nearRight ? 'end' : 'start', series.colour, 10);
+        }
         break;
       }
       case 'horizontal': {
         if (!(series.at >= yLow && series.at <= yHigh)) break;
         items.push({ kind: 'path', d: pathFromPoints([[left, sy(series.at)], [left + plotW, sy(series.at)]]), stroke: series.colour, fill: null, widthPx: series.widthPx ?? 1, dash: series.dash });
-        if (series.label) text(left + plotW - 4, sy(series.at) - 4, series.label, 'end', series.colour, 10);
+        if (series.label) text(left + 4, sy(series.at) - 4, series.label, 'start', series.colour, 10);
         break;
       }
     }

@@ -4,7 +4,7 @@
  * store's writer, so the link never waits on the disk), and sends throttled live frames to the screens.
  */
 import type { BoardDesign } from '../../app/board/design';
-import { BenchFault, type BenchState, type EventData, type LinkHealth, type PortInfo } from '../../app/contract';
+import { BenchFault, type BenchState, type EventData, type LinkHealth, type PortInfo, type TransferPoint } from '../../app/contract';
 import type { Logbook } from '../store/logbookTypes';
 import { checkSessionStep, currentStep, recordMeasurements, stepInputsOf, type BenchSession } from './benchSession';
 import type { BenchPipelineOptions } from './benchPipeline';
@@ -74,8 +74,14 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
   };
   const emitState = () => hub.emit('state', stateOf());
 
+  /** Transfer points since the last live frame: sent in one batch with it (also while the plot is held). */
+  let pendingTransfer: TransferPoint[] = [];
   const live = createThrottle<null>(
     () => {
+      if (pendingTransfer.length > 0) {
+        hub.emit('transfer', { sessionId: session?.open.id ?? null, points: pendingTransfer });
+        pendingTransfer = [];
+      }
       if (!current || held) return;
       const inputs = stepInputsOf(session, session?.design ?? current.design, current.link.pipeline);
       const frame: EventData<'live'> = { sessionId: session?.open.id ?? null, t: current.link.pipeline.newestS(), fold: current.link.pipeline.fold(), steps: stepReports(inputs), link: current.link.health() };
@@ -114,8 +120,9 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
           lastHealthMs = clock.now();
           hub.emit('health', attached.link.health());
         }
-        const points = step.cycles.filter((cycle) => cycle.controlV !== null && cycle.alphaDeg !== null);
-        if (points.length > 0) hub.emit('transfer', { sessionId: session?.open.id ?? null, points: points.map((cycle) => ({ t: cycle.t, controlV: cycle.controlV as number, alphaDeg: cycle.alphaDeg as number })) });
+        for (const cycle of step.cycles) {
+          if (cycle.controlV !== null && cycle.alphaDeg !== null) pendingTransfer.push({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
+        }
       },
       event: (kind, detail, state) => {
         if (current !== attached) return;
@@ -139,6 +146,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
     const leaving = current;
     current = null;
     live.stop();
+    pendingTransfer = [];
     if (heartbeat !== null) clearInterval(heartbeat);
     heartbeat = null;
     await leaving.link.source.stop();

@@ -83,9 +83,15 @@ describe('session service on the virtual board', () => {
 
   it('sends throttled live frames with at most 20 folded cycles, degree-indexed, gate pulses kept', async () => {
     const { design } = await client.getDesign({ name: demoDefaults.designName });
+    const transferBatches: number[] = [];
+    client.subscribe('transfer', (batch) => transferBatches.push(batch.points.length));
     await client.connect({ kind: 'virtual', designName: design.name, faults: [], seed: 3 });
     pump(1.5);
     expect(liveFrames.length).toBeGreaterThan(0);
+    // Transfer points travel in batches with the live frames, not one event per cycle: 1.5 s at 50 Hz is about
+    // 70 firing cycles after the analyzer's 0.2 s warm-up.
+    expect(transferBatches.length).toBeLessThanOrEqual(liveFrames.length + 1);
+    expect(transferBatches.reduce((sum, count) => sum + count, 0)).toBeGreaterThan(50);
     const frame = liveFrames[liveFrames.length - 1];
     expect(frame.fold.length).toBeGreaterThan(0);
     expect(frame.fold.length).toBeLessThanOrEqual(20);

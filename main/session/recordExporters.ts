@@ -8,7 +8,6 @@ import { readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { BenchFault, type ExportFormat } from '../../app/contract';
-import { isInputError } from '../../app/errors';
 import { exportSessionFile, type ExportKind } from '../exchange/exportFiles';
 import { buildSessionArchive, encodeSessionArchive } from '../exchange/sessionArchive';
 import type { RecordSources } from '../record/buildRecord';
@@ -18,12 +17,9 @@ import type { ExportContext, SessionExporter } from './exporters';
 
 async function withSources<T>(context: ExportContext, work: (sources: RecordSources) => Promise<T>): Promise<T> {
   const db = openLogbookDatabase(context.logbook.location);
+  // InputErrors (nothing to export, an unwritable file) reach the screen as expected faults via toBenchError.
   try {
     return await work({ logbook: context.logbook, db });
-  } catch (error) {
-    // Expected faults (no such session, nothing to export) reach the screen as such, not as bugs.
-    if (isInputError(error)) throw new BenchFault('not-found', error.message, 'sessionId');
-    throw error;
   } finally {
     db.close();
   }

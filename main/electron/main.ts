@@ -10,6 +10,7 @@ import { fileURLToPath } from 'node:url';
 import { openBenchContext, type BenchContext } from '../session/benchContext';
 import { defaultLogbookFileName, userDataFolder } from '../session/dataFolder';
 import { serialAccess } from '../session/serialAccess';
+import { recordExporters } from '../session/recordExporters';
 import { setupBenchIpc } from './ipc';
 import { buildMenuTemplate } from './menu';
 import { lockDownSession, lockDownWebContents, rendererBaseUrlOf, secureWebPreferences } from './security';
@@ -76,7 +77,7 @@ function installMenu(bench: BenchContext): void {
 async function start(): Promise<void> {
   await app.whenReady();
   lockDownSession(session.defaultSession);
-  context = await openBenchContext({ logbookPath: join(dataFolder, defaultLogbookFileName), serial: await serialAccess() });
+  context = await openBenchContext({ logbookPath: join(dataFolder, defaultLogbookFileName), serial: await serialAccess(), exporters: recordExporters });
   const bench = context;
   setupBenchIpc({
     ipcMain,

@@ -11,6 +11,7 @@ import { startBenchServer, type BenchServer } from '../server/benchServer';
 import { openBenchContext, type BenchContext } from './benchContext';
 import { demoDefaults } from './commissioningDemo';
 import { rendererFolder } from './packagePaths';
+import { recordExporters } from './recordExporters';
 import type { SerialAccess } from './sessionService';
 
 export interface BenchServeOptions {
@@ -50,7 +51,7 @@ export async function startBenchServe(options: BenchServeOptions): Promise<Runni
   if (!loopback && !options.tokenRequired) {
     throw new InputError(`serving on ${host} lets other computers reach the bench: add --token-required (an access token is printed) or leave --host out for this computer only`, '--host');
   }
-  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null });
+  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters });
   try {
     if (options.demo) {
       const { design } = await context.designs.get(demoDefaults.designName);

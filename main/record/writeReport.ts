@@ -26,6 +26,11 @@ export async function renderRecordFile(sources: RecordSources, sessionId: number
 
 export async function writeRecordFile(sources: RecordSources, sessionId: number, path: string, options: { now?: Date } = {}): Promise<{ path: string; bytes: number }> {
   const bytes = await renderRecordFile(sources, sessionId, recordFormatOf(path), options);
+  await writeWholeFile(path, bytes);
+  return { path, bytes: bytes.length };
+}
+
+export async function writeWholeFile(path: string, bytes: Uint8Array): Promise<void> {
   const partial = `${path}.partial`;
   try {
     await writeFile(partial, bytes);
@@ -33,9 +38,8 @@ export async function writeRecordFile(sources: RecordSources, sessionId: number,
   } catch (error) {
     await rm(partial, { force: true });
     const code = (error as NodeJS.ErrnoException).code;
-    throw new InputError(`cannot write the record${code ? ` (${code})` : ''}`, path);
+    throw new InputError(`cannot write the file${code ? ` (${code})` : ''}`, path);
   }
-  return { path, bytes: bytes.length };
 }
 
 /** The capture digest a record file states: the HTML meta tag, or the PDF's keywords. */

@@ -2,10 +2,15 @@
  * `rampwright report --db <file> --session <id> --out <file.pdf|.html>`: the commissioning record of a session.
  * `rampwright report --db <file> [--session <id>] --verify <record>`: recomputes the capture digest from the
  * logbook's samples and says whether the record matches (exit 2 when it does not).
+ * Recall pages (HTML): `--compare <a>,<b>` two sessions side by side, `--unit <serial>` a unit's drift with the trend
+ * warning, `--design <name>` the fleet of a board design against the Monte Carlo prediction.
  */
 import type { Command } from 'commander';
 import { InputError } from '../../../app/errors';
 import { openRecordSources } from '../../record/openRecordSources';
+import { compareReport, driftReport, fleetReport } from '../../record/recall';
+import { comparisonPage, driftPage, fleetPage } from '../../record/recallPages';
+import { writeWholeFile } from '../../record/writeReport';
 import { verifyRecordFile, writeRecordFile } from '../../record/writeReport';
 
 interface ReportOptions {
@@ -13,6 +18,26 @@ interface ReportOptions {
   session?: string;
   out?: string;
   verify?: string;
+  compare?: string;
+  unit?: string;
+  design?: string;
+}
+
+async function writeRecallPage(options: ReportOptions, sources: ReturnType<typeof openRecordSources>): Promise<boolean> {
+  const chosen = [options.compare, options.unit, options.design].filter((value) => value !== undefined).length;
+  if (chosen === 0) return false;
+  if (chosen > 1) throw new InputError('give one of --compare, --unit or --design', '--compare');
+  if (!options.out || !/\.html?$/i.test(options.out)) throw new InputError('recall pages are HTML: give --out <file.html>', '--out');
+  let html: string;
+  if (options.compare !== undefined) {
+    const ids = options.compare.split(',').map((part) => parseSessionId(part.trim(), true) as number);
+    if (ids.length !== 2) throw new InputError(`"${options.compare}" is not two sessions: use --compare <a>,<b>`, '--compare');
+    html = comparisonPage(await compareReport(sources, ids[0], ids[1]));
+  } else if (options.unit !== undefined) html = driftPage(await driftReport(sources, options.unit));
+  else html = fleetPage(await fleetReport(sources, options.design as string));
+  await writeWholeFile(options.out, new TextEncoder().encode(html));
+  process.stdout.write(`Wrote ${options.out}\n`);
+  return true;
 }
 
 export function parseSessionId(text: string | undefined, required: boolean): number | undefined {
@@ -32,8 +57,20 @@ export function registerReportCommand(program: Command): void {
     .option('--session <id>', 'session number (rampwright log lists them)')
     .option('--out <file>', 'record to write: .pdf or .html')
     .option('--verify <record>', 'a record file to check against the logbook\'s captures')
+    .option('--compare <a,b>', 'recall page: two sessions side by side (HTML)')
+    .option('--unit <serial>', 'recall page: drift of a unit across its sessions (HTML)')
+    .option('--design <name>', 'recall page: the fleet of a board design (HTML)')
     .action(async (options: ReportOptions) => {
       if (!options.db) throw new InputError('give the logbook with --db <file>', '--db');
+      if (options.compare !== undefined || options.unit !== undefined || options.design !== undefined) {
+        const sources = openRecordSources(options.db);
+        try {
+          await writeRecallPage(options, sources);
+        } finally {
+          await sources.close();
+        }
+        return;
+      }
       if (!options.out && !options.verify) throw new InputError('give --out <file.pdf|.html> to write a record, or --verify <record> to check one', '--out');
       const sources = openRecordSources(options.db);
       try {

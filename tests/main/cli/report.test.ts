@@ -112,4 +112,18 @@ describe('rampwright export and import', () => {
     expect(result.stderr).toMatch(/damaged\.rwsession: is not a Rampwright session archive/);
     expect(JSON.parse((await run(['log', '--db', target, '--json'])).stdout).sessions).toEqual([]);
   });
+
+  it('writes recall pages: drift of a unit, fleet of a design, two sessions side by side', async () => {
+    const drift = await run(['report', '--db', dbPath, '--unit', 'RW-7731', '--out', folder.file('drift.html')]);
+    expect(drift.code).toBe(0);
+    expect(readFileSync(folder.file('drift.html'), 'utf8')).toContain('Drift of unit RW-7731');
+    const fleet = await run(['report', '--db', dbPath, '--design', 'Charger firing board CH-50H (demo)', '--out', folder.file('fleet.html')]);
+    expect(fleet.code).toBe(0);
+    expect(readFileSync(folder.file('fleet.html'), 'utf8')).toContain('1 units');
+    const compare = await run(['report', '--db', dbPath, '--compare', `${sessionId},${sessionId}`, '--out', folder.file('compare.html')]);
+    expect(compare.code).toBe(0);
+    const wrong = await run(['report', '--db', dbPath, '--unit', 'RW-7731', '--out', folder.file('drift.pdf')]);
+    expect(wrong.code).toBe(2);
+    expect(wrong.stderr).toMatch(/recall pages are HTML/);
+  });
 });

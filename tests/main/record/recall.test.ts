@@ -7,6 +7,7 @@ import { analyseTolerances } from '../../../app/board/toleranceAnalysis';
 import { designFigures } from '../../../app/record/designFigures';
 import { openRecordSources } from '../../../main/record/openRecordSources';
 import { compareReport, driftReport, fleetReport } from '../../../main/record/recall';
+import { comparisonPage, driftPage, fleetPage } from '../../../main/record/recallPages';
 import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
 
 let folder: TempFolder;
@@ -96,5 +97,21 @@ describe('recall', () => {
     const gain = report.figures.find((figure) => figure.key === 'alphaGainDegPerV')!;
     expect(gain.prediction!.nominal).toBe(designFigures(design).alphaGainDegPerV.nominal);
     expect(peak.svg).toContain('Monte Carlo prediction');
+  });
+
+  it('recall pages are self-contained HTML with the warning in words and the flagged rows marked', async () => {
+    const drift = driftPage(await driftReport(sources, 'RW-0500'));
+    expect(drift).not.toMatch(/<script|src=|<link /i);
+    expect(drift).toMatch(/<strong>Warning:<\/strong> Ramp peak: trend/);
+    expect(drift.match(/<svg /g)!.length).toBe(5);
+    // The fixture writes the slope as peak / 9.7 ms, so the slope climbs with the peak: both rows flagged.
+    expect(drift.match(/<tr class="flagged"><td>(Ramp peak|Ramp slope)<\/td>/g)!.length).toBe(2);
+    expect(drift.match(/<tr class="flagged">/g)!.length).toBe(2);
+    const far = (await sources.logbook.listSessions({ unitSerial: 'RW-0611' }))[0].id;
+    const comparison = comparisonPage(await compareReport(sources, sessionIds[0], far));
+    expect(comparison).toMatch(/<tr class="flagged"><td>Ramp peak<\/td>.*yes \(flagged\)/);
+    const fleet = fleetPage(await fleetReport(sources, chargerDesign().name, { runs: 100 }));
+    expect(fleet).toContain('Monte Carlo prediction of the board model');
+    expect(fleet.match(/<svg /g)!.length).toBe(2);
   });
 });

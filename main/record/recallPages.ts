@@ -1,0 +1,64 @@
+/** Recall reports (recall.ts) as HTML pages: comparison, drift and fleet, for the report command and the screens. */
+import { formatReading } from '../../app/record/recordModel';
+import { renderRecallHtml, type RecallSection } from '../../app/record/renderRecallHtml';
+import type { ComparisonReport, DriftReport, FleetReport } from './recall';
+
+const number = (value: number | null, unit: string) => (value === null ? '-' : formatReading(value, unit));
+
+export function comparisonPage(report: ComparisonReport, options: { now?: Date } = {}): string {
+  const { comparison } = report;
+  const section: RecallSection = {
+    heading: `Unit ${comparison.a.unit}: session ${comparison.a.id} (${comparison.a.startedAt.slice(0, 10)}) against session ${comparison.b.id} (${comparison.b.startedAt.slice(0, 10)})`,
+    warnings: report.flagged.length > 0 ? [`differences beyond the design tolerance: ${report.flagged.join(', ')}.`] : [],
+    paragraphs: report.flagged.length === 0 ? ['No difference goes beyond the design tolerance.'] : [],
+    table: {
+      head: ['Reading', `Session ${comparison.a.id}`, `Session ${comparison.b.id}`, 'Difference', 'Beyond tolerance'],
+      rows: comparison.rows.map((row) => [row.label, number(row.a, row.unit), number(row.b, row.unit), number(row.difference, row.unit), row.beyondTolerance ? 'yes (flagged)' : 'no']),
+      flaggedRows: comparison.rows.flatMap((row, index) => (row.beyondTolerance ? [index] : [])),
+    },
+    svgs: [report.transferSvg],
+  };
+  return renderRecallHtml(`Sessions side by side: ${comparison.a.unit}`, [section], { generatedAt: (options.now ?? new Date()).toISOString() });
+}
+
+export function driftPage(report: DriftReport, options: { now?: Date } = {}): string {
+  const sections: RecallSection[] = [
+    {
+      heading: `Unit ${report.unit} (${report.designName}): figures across sessions`,
+      warnings: report.warnings,
+      paragraphs: [
+        'Each figure is fitted by ordinary least squares against days since the first session; the band is the 95 % confidence band of the line (Student t, n - 2 degrees of freedom). A warning is raised when the line reaches a design limit within a year of the last session and the slope points that way with at least 90 % confidence.',
+      ],
+      table: {
+        head: ['Figure', 'Design', 'Limits', 'Trend per day', 'Standard error', 'Sessions', 'Forecast'],
+        rows: report.figures.map((figure) => [
+          figure.label,
+          number(figure.nominal, figure.unit),
+          `${number(figure.limits.low, '')} to ${number(figure.limits.high, '')} ${figure.unit}`,
+          figure.analysis.fit ? figure.analysis.fit.slope.toPrecision(3) : '-',
+          figure.analysis.fit?.slopeStandardError ? figure.analysis.fit.slopeStandardError.toPrecision(2) : '-',
+          String(figure.analysis.points.length),
+          figure.analysis.message ?? 'too few sessions for a trend',
+        ]),
+        flaggedRows: report.figures.flatMap((figure, index) => (figure.analysis.warning ? [index] : [])),
+      },
+      svgs: report.figures.map((figure) => figure.svg),
+    },
+  ];
+  return renderRecallHtml(`Drift of unit ${report.unit}`, sections, { generatedAt: (options.now ?? new Date()).toISOString() });
+}
+
+export function fleetPage(report: FleetReport, options: { now?: Date } = {}): string {
+  const sections: RecallSection[] = report.figures.map((figure) => ({
+    heading: `${figure.label} over ${figure.values.length} units`,
+    warnings: figure.outliers > 0 ? [`${figure.outliers} unit(s) lie beyond three standard deviations of the prediction.`] : [],
+    paragraphs: [
+      figure.prediction
+        ? `Monte Carlo prediction of the board model (version ${report.designVersion}): mean ${number(figure.prediction.mean, figure.unit)}, standard deviation ${number(figure.prediction.standardDeviation, figure.unit)}, design ${number(figure.prediction.nominal, figure.unit)}.`
+        : 'No prediction for this figure.',
+    ],
+    table: { head: ['From', 'To', 'Units', 'Predicted'], rows: figure.bins.map((bin) => [number(bin.fromValue, figure.unit), number(bin.toValue, figure.unit), String(bin.count), bin.predicted === null ? '-' : bin.predicted.toFixed(1)]) },
+    svgs: [figure.svg],
+  }));
+  return renderRecallHtml(`Fleet of ${report.designName}: ${report.units} units`, sections, { generatedAt: (options.now ?? new Date()).toISOString() });
+}

@@ -30,7 +30,7 @@ export interface FleetFigure {
   outliers: number;
 }
 
-/** Bin edges over the values and the prediction's +-3 sd, `binCount` equal bins (default: Sturges' rule, ceil(log2 n) + 1). */
+/** Bin edges over the values and the prediction's +-3 sd, `binCount` equal bins (default: Sturges' rule, ceil(log2 n) + 1, at least 12). */
 export function histogramBins(values: readonly number[], prediction: FleetFigure['prediction'], options: { binCount?: number } = {}): HistogramBin[] {
   const finite = values.filter(Number.isFinite);
   const candidates = [...finite];
@@ -42,7 +42,8 @@ export function histogramBins(values: readonly number[], prediction: FleetFigure
     low -= Math.abs(low) * 0.01 || 0.01;
     high += Math.abs(high) * 0.01 || 0.01;
   }
-  const binCount = options.binCount ?? Math.max(5, Math.ceil(Math.log2(Math.max(finite.length, 1))) + 1);
+  // At least 12 bins: the span includes the prediction's +-3 sd, often far wider than a good fleet's own spread.
+  const binCount = options.binCount ?? Math.max(12, Math.ceil(Math.log2(Math.max(finite.length, 1))) + 1);
   const width = (high - low) / binCount;
   const bins: HistogramBin[] = [];
   for (let index = 0; index < binCount; index++) {

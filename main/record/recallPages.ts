@@ -35,7 +35,7 @@ export function driftPage(report: DriftReport, options: { now?: Date } = {}): st
           figure.label,
           number(figure.nominal, figure.unit),
           `${number(figure.limits.low, '')} to ${number(figure.limits.high, '')} ${figure.unit}`,
-          figure.analysis.fit ? figure.analysis.fit.slope.toPrecision(3) : '-',
+          figure.analysis.fit ? `${figure.analysis.fit.slope.toPrecision(3)} ${figure.unit}/day` : '-',
           figure.analysis.fit?.slopeStandardError ? figure.analysis.fit.slopeStandardError.toPrecision(2) : '-',
           String(figure.analysis.points.length),
           figure.analysis.message ?? 'too few sessions for a trend',

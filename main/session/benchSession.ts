@@ -29,11 +29,19 @@ const problemKinds: Partial<Record<LinkProblem['code'], LinkEventKind>> = {
   oversize: 'line-too-long',
 };
 
-/** Records what one push of lines produced; cheap, the writer only queues. */
+/** Steps during which the board's ramp is settled, so (control, alpha) points belong to its transfer curve. */
+const sweepSteps: readonly CommissioningStep[] = ['transfer', 'limits', 'sign-off'];
+
+/**
+ * Records what one push of lines produced; cheap, the writer only queues. Every cycle is kept, but transfer
+ * points only once sync, ramp and trim are recorded: before a trim the board is a different board, and its
+ * points would bend the session's transfer curve.
+ */
 export function recordMeasurements(session: BenchSession, cycles: readonly CycleReading[], problems: readonly LinkProblem[]): void {
+  const sweeping = sweepSteps.includes(currentStepOf(session));
   for (const cycle of cycles) {
     session.writer.addCycle(cycle);
-    if (cycle.controlV !== null && cycle.alphaDeg !== null) session.writer.addTransferPoint({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
+    if (sweeping && cycle.controlV !== null && cycle.alphaDeg !== null) session.writer.addTransferPoint({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
   }
   for (const problem of problems) session.writer.addLinkEvent(problemKinds[problem.code] ?? 'decoder-problem', problem.message);
 }

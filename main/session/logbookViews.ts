@@ -13,14 +13,6 @@ export function sessionRowView(row: StoredRow): SessionRow {
   return { ...row };
 }
 
-/** At most `limit` rows, evenly picked, so a long session's per-cycle list stays drawable. */
-export function thinRows<Row>(rows: readonly Row[], limit: number): Row[] {
-  if (rows.length <= limit) return [...rows];
-  const picked: Row[] = [];
-  for (let index = 0; index < limit; index++) picked.push(rows[Math.floor((index * rows.length) / limit)]);
-  return picked;
-}
-
 async function stepsOf(detail: StoredDetail, designs: DesignCatalog): Promise<StepReport[]> {
   const readings: CaptureReadings | null = detail.readings;
   if (!readings) return [];
@@ -51,7 +43,7 @@ export async function sessionDetailView(logbook: Logbook, designs: DesignCatalog
     transfer: { points: detail.transfer.points, fit: detail.transfer.fit },
     trims: detail.trims.map((trim) => ({ id: trim.id, part: trim.part, fromOhm: trim.fromOhm, toOhm: trim.toOhm, reason: trim.reason, at: trim.at })),
     linkEvents: detail.linkEvents.map((event) => ({ at: event.at, kind: event.kind, detail: event.count > 1 ? `${event.detail} (${event.count} times)` : event.detail })),
-    perCycle: thinRows(detail.readings?.perCycle ?? [], 400),
+    perCycle: await logbook.cycleReadings(sessionId, { maxRows: 400 }),
     captures: detail.captures.map((capture) => ({ id: capture.id, startS: capture.startS, seconds: capture.seconds, label: capture.label })),
   };
 }

@@ -46,6 +46,14 @@ export interface SessionRow {
   linkErrors: number;
 }
 
+/** One stored cycle as recall shows it. */
+export interface CycleRecord {
+  t: number;
+  alphaDeg: number | null;
+  rampPeakV: number | null;
+  controlV: number | null;
+}
+
 export interface TransferPointRecord {
   t: number;
   controlV: number;
@@ -245,6 +253,8 @@ export interface Logbook {
   listSessions(filter?: SessionFilter): Promise<SessionRow[]>;
   session(id: number): Promise<SessionDetail | null>;
   transferCurve(sessionId: number): Promise<TransferPointRecord[]>;
+  /** The session's per-cycle readings in order, thinned evenly to at most `maxRows` (default all). */
+  cycleReadings(sessionId: number, options?: { maxRows?: number }): Promise<CycleRecord[]>;
   readCapture(captureId: number): Promise<StoredCapture | null>;
   sessionFigures(sessionId: number): Promise<SessionFigures | null>;
   compareSessions(aId: number, bId: number): Promise<SessionComparison>;

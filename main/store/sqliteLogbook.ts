@@ -10,7 +10,7 @@ import { decodeCapture } from './captureCodec';
 import { driftTrend } from './driftTrend';
 import type {
   CaptureInfo, ComparisonRow, DesignVersion, LinkEventKind, Logbook, SessionComparison, SessionDetail, SessionFigures, SessionFilter, SessionRow,
-  TransferPointRecord, UnitRecord,
+  CycleRecord, TransferPointRecord, UnitRecord,
 } from './logbookTypes';
 import { linkErrorKinds } from './logbookTypes';
 import { createSqliteLogbookWriter, writerIdentity } from './logbookWriter';
@@ -186,6 +186,13 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
     },
     async transferCurve(sessionId) {
       return db.prepare('SELECT t_s AS t, control_v AS controlV, alpha_deg AS alphaDeg FROM transfer_points WHERE session_id = ? ORDER BY seq').all(sessionId) as TransferPointRecord[];
+    },
+    async cycleReadings(sessionId, options = {}) {
+      const { n } = db.prepare('SELECT count(*) AS n FROM cycles WHERE session_id = ?').get(sessionId) as { n: number };
+      const every = Math.max(1, Math.ceil(n / Math.max(1, options.maxRows ?? n)));
+      return db
+        .prepare('SELECT t_s AS t, alpha_deg AS alphaDeg, ramp_peak_v AS rampPeakV, control_v AS controlV FROM cycles WHERE session_id = ? AND seq % ? = 0 ORDER BY seq')
+        .all(sessionId, every) as CycleRecord[];
     },
     async readCapture(captureId) {
       const [info] = captureInfos(db, 'id = ?', captureId);

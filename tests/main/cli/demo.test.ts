@@ -83,5 +83,18 @@ describe('rampwright demo', () => {
     expect(result.trim).toMatchObject({ part: 'rEmitter', series: 'E24' });
     expect(result.steps.filter((step) => step.step !== 'sign-off').map((step) => step.verdict)).toEqual(['in-tolerance', 'in-tolerance', 'in-tolerance', 'in-tolerance', 'in-tolerance']);
     expect(result.safety.length).toBeGreaterThan(3);
+
+    // The logbook keeps every cycle, and a transfer curve of the trimmed board only: the charging ramp is linear
+    // (board model), so alpha is a straight line in the control voltage to within the design's 2 deg alpha
+    // tolerance; points from before the trim (a ramp 43 % taller) would sit tens of degrees off that line.
+    const logbook = await openSqliteLogbook(dbPath);
+    try {
+      const stored = await logbook.listSessions();
+      const detail = await logbook.session(stored[0].id);
+      expect(detail?.transfer.fit?.maxDeviationDeg).toBeLessThan(2);
+      expect((await logbook.cycleReadings(stored[0].id)).length).toBe(result.session.cycles);
+    } finally {
+      await logbook.close();
+    }
   });
 });

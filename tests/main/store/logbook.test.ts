@@ -103,6 +103,18 @@ describe('recall', () => {
     expect([detail?.transfer.fit?.controlMinV, detail?.transfer.fit?.controlMaxV]).toEqual([1, 4]);
   });
 
+  it("gives a session's per-cycle readings in order, thinned evenly for drawing", async () => {
+    const peaks = Array.from({ length: 10 }, (_, index) => 7 + index / 100);
+    const id = await session('RW-0142', 0, peaks);
+    const all = await logbook.cycleReadings(id);
+    expect(all.map((row) => row.rampPeakV)).toEqual(peaks);
+    expect(all.map((row) => row.t)).toEqual(peaks.map((_, index) => index * 0.02));
+    // 10 cycles into at most 4 rows: every third cycle (seq 0, 3, 6, 9), in order.
+    const thinned = await logbook.cycleReadings(id, { maxRows: 4 });
+    expect(thinned.map((row) => row.alphaDeg)).toEqual([80, 83, 86, 89]);
+    expect(await logbook.cycleReadings(id + 1000)).toEqual([]);
+  });
+
   it('puts two sessions of a unit side by side and flags differences beyond the design tolerance', async () => {
     const a = await session('RW-0142', 0, [7.3, 7.3, 7.3]);
     // Ramp peak tolerance: 3 % of 7.3 V = 0.219 V (fixture design). 7.6 - 7.3 = 0.3 V is beyond; alpha means equal.

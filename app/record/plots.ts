@@ -105,7 +105,8 @@ export function driftFigure(analysis: DriftAnalysis, limits: DriftLimits, labels
   });
 }
 
-export function fleetHistogramFigure(figure: FleetFigure, options: { widthPx?: number } = {}): Figure {
+/** `highlight`: one unit's value marked on the fleet (a unit against its design's fleet). */
+export function fleetHistogramFigure(figure: FleetFigure, options: { widthPx?: number; highlight?: { label: string; value: number } | null } = {}): Figure {
   const series: ChartSeries[] = [
     { kind: 'bars', from: figure.bins.map((bin) => bin.fromValue), to: figure.bins.map((bin) => bin.toValue), height: figure.bins.map((bin) => bin.count), colour: signalColours.ramp },
   ];
@@ -113,6 +114,7 @@ export function fleetHistogramFigure(figure: FleetFigure, options: { widthPx?: n
     series.push({ kind: 'line', x: figure.bins.map((bin) => (bin.fromValue + bin.toValue) / 2), y: figure.bins.map((bin) => bin.predicted ?? Number.NaN), colour: signalColours.control, widthPx: 1.8 });
   }
   if (figure.prediction) series.push({ kind: 'vertical', at: figure.prediction.nominal, colour: signalColours.control, dash: [4, 3], label: 'design' });
+  if (options.highlight) series.push({ kind: 'vertical', at: options.highlight.value, colour: signalColours.gate, widthPx: 2, label: options.highlight.label });
   return buildChart({
     title: `Fleet: ${figure.label.toLowerCase()} over ${figure.values.length} units, with the Monte Carlo prediction`,
     widthPx: options.widthPx ?? 420,

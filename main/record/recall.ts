@@ -71,25 +71,42 @@ export async function driftReport(sources: RecordSources, unitSerial: string, op
   return { unit: unitSerial, designName: version.name, figures, warnings: figures.filter((figure) => figure.analysis.warning).map((figure) => `${figure.label}: ${figure.analysis.message}`) };
 }
 
+export interface UnitInFleet {
+  serial: string;
+  value: number;
+  /** (value - predicted mean) / predicted sd; null without a prediction. */
+  predictionZ: number | null;
+  /** Fraction of the fleet's units with a lower value (0-1). */
+  fleetFractionBelow: number;
+}
+
 export interface FleetReport {
   designName: string;
   designVersion: number;
   units: number;
-  figures: Array<FleetFigure & { svg: string }>;
+  figures: Array<FleetFigure & { svg: string; marked: UnitInFleet | null }>;
 }
 
-/** Each unit's latest session of the design, histogrammed, with the Monte Carlo prediction of the newest version. */
-export async function fleetReport(sources: RecordSources, designName: string, options: { runs?: number; seed?: number; binCount?: number } = {}): Promise<FleetReport> {
+/**
+ * Each unit's latest session of the design, histogrammed, with the Monte Carlo prediction of the newest version.
+ * With `unitSerial`, that unit is marked on each histogram and placed against the fleet and the prediction.
+ */
+export async function fleetReport(sources: RecordSources, designName: string, options: { runs?: number; seed?: number; binCount?: number; unitSerial?: string } = {}): Promise<FleetReport> {
   const version = latestDesignVersion(sources.db, designName);
   if (!version) throw new InputError(`there is no board design "${designName}" in this logbook`, sources.logbook.location);
   const design = designOf(version.designJson);
   const latest = latestSessionPerUnit(sources.db, designName);
+  if (options.unitSerial !== undefined && !latest.some((entry) => entry.unit === options.unitSerial)) {
+    throw new InputError(`unit "${options.unitSerial}" has no session of board design "${designName}"`, sources.logbook.location);
+  }
   const peaks: number[] = [];
   const gains: number[] = [];
-  for (const { sessionId } of latest) {
+  const chosen: { rampPeakV: number | null; alphaGainDegPerV: number | null } = { rampPeakV: null, alphaGainDegPerV: null };
+  for (const { unit, sessionId } of latest) {
     const figures = await sources.logbook.sessionFigures(sessionId);
     if (figures?.rampPeakV !== null && figures?.rampPeakV !== undefined) peaks.push(figures.rampPeakV);
     if (figures?.alphaGainDegPerV !== null && figures?.alphaGainDegPerV !== undefined) gains.push(figures.alphaGainDegPerV);
+    if (unit === options.unitSerial && figures) Object.assign(chosen, { rampPeakV: figures.rampPeakV, alphaGainDegPerV: figures.alphaGainDegPerV });
   }
   const tolerance = analyseTolerances(design, { runs: options.runs ?? 500, seed: options.seed ?? 1 });
   const nominalGain = designFigures(design).alphaGainDegPerV.nominal;
@@ -99,6 +116,15 @@ export async function fleetReport(sources: RecordSources, designName: string, op
     designName,
     designVersion: version.version,
     units: latest.length,
-    figures: [peakFigure, gainFigure].map((figure) => ({ ...figure, svg: figureToSvg(fleetHistogramFigure(figure)) })),
+    figures: [peakFigure, gainFigure].map((figure) => {
+      const value = chosen[figure.key];
+      const marked: UnitInFleet | null = options.unitSerial === undefined || value === null ? null : {
+        serial: options.unitSerial,
+        value,
+        predictionZ: figure.prediction && figure.prediction.standardDeviation > 0 ? (value - figure.prediction.mean) / figure.prediction.standardDeviation : null,
+        fleetFractionBelow: figure.values.filter((other) => other < value).length / figure.values.length,
+      };
+      return { ...figure, marked, svg: figureToSvg(fleetHistogramFigure(figure, { highlight: marked ? { label: marked.serial, value: marked.value } : null })) };
+    }),
   };
 }

@@ -56,6 +56,9 @@ export function fleetPage(report: FleetReport, options: { now?: Date } = {}): st
       figure.prediction
         ? `Monte Carlo prediction of the board model (version ${report.designVersion}): mean ${number(figure.prediction.mean, figure.unit)}, standard deviation ${number(figure.prediction.standardDeviation, figure.unit)}, design ${number(figure.prediction.nominal, figure.unit)}.`
         : 'No prediction for this figure.',
+      ...(figure.marked
+        ? [`Unit ${figure.marked.serial}: ${number(figure.marked.value, figure.unit)}, above ${(100 * figure.marked.fleetFractionBelow).toFixed(0)} % of the fleet${figure.marked.predictionZ === null ? '' : `, ${figure.marked.predictionZ >= 0 ? '+' : ''}${figure.marked.predictionZ.toFixed(2)} standard deviations from the predicted mean`}.`]
+        : []),
     ],
     table: { head: ['From', 'To', 'Units', 'Predicted'], rows: figure.bins.map((bin) => [number(bin.fromValue, figure.unit), number(bin.toValue, figure.unit), String(bin.count), bin.predicted === null ? '-' : bin.predicted.toFixed(1)]) },
     svgs: [figure.svg],

@@ -3,7 +3,8 @@
  * `rampwright report --db <file> [--session <id>] --verify <record>`: recomputes the capture digest from the
  * logbook's samples and says whether the record matches (exit 2 when it does not).
  * Recall pages (HTML): `--compare <a>,<b>` two sessions side by side, `--unit <serial>` a unit's drift with the trend
- * warning, `--design <name>` the fleet of a board design against the Monte Carlo prediction.
+ * warning, `--design <name>` the fleet of a board design against the Monte Carlo prediction (with `--unit`, that unit
+ * marked on the fleet).
  */
 import type { Command } from 'commander';
 import { InputError } from '../../../app/errors';
@@ -26,15 +27,17 @@ interface ReportOptions {
 async function writeRecallPage(options: ReportOptions, sources: ReturnType<typeof openRecordSources>): Promise<boolean> {
   const chosen = [options.compare, options.unit, options.design].filter((value) => value !== undefined).length;
   if (chosen === 0) return false;
-  if (chosen > 1) throw new InputError('give one of --compare, --unit or --design', '--compare');
+  // --design with --unit: that unit against its design's fleet; otherwise one page kind at a time.
+  const unitInFleet = options.design !== undefined && options.unit !== undefined && options.compare === undefined;
+  if (chosen > 1 && !unitInFleet) throw new InputError('give one of --compare, --unit or --design (or --design with --unit)', '--compare');
   if (!options.out || !/\.html?$/i.test(options.out)) throw new InputError('recall pages are HTML: give --out <file.html>', '--out');
   let html: string;
   if (options.compare !== undefined) {
     const ids = options.compare.split(',').map((part) => parseSessionId(part.trim(), true) as number);
     if (ids.length !== 2) throw new InputError(`"${options.compare}" is not two sessions: use --compare <a>,<b>`, '--compare');
     html = comparisonPage(await compareReport(sources, ids[0], ids[1]));
-  } else if (options.unit !== undefined) html = driftPage(await driftReport(sources, options.unit));
-  else html = fleetPage(await fleetReport(sources, options.design as string));
+  } else if (options.design !== undefined) html = fleetPage(await fleetReport(sources, options.design, { unitSerial: options.unit }));
+  else html = driftPage(await driftReport(sources, options.unit as string));
   await writeWholeFile(options.out, new TextEncoder().encode(html));
   process.stdout.write(`Wrote ${options.out}\n`);
   return true;

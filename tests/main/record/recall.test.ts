@@ -114,4 +114,16 @@ describe('recall', () => {
     expect(fleet).toContain('Monte Carlo prediction of the board model');
     expect(fleet.match(/<svg /g)!.length).toBe(2);
   });
+
+  it('a unit against its design\'s fleet: marked on the histogram and placed by rank and by the prediction', async () => {
+    const report = await fleetReport(sources, chargerDesign().name, { runs: 300, seed: 4, unitSerial: 'RW-0611' });
+    const peak = report.figures.find((figure) => figure.key === 'rampPeakV')!;
+    // RW-0611 has the fleet's highest peak, 7.1 + 0.44 = 7.54 V: above 12 of the 13 units.
+    expect(peak.marked!.value).toBeCloseTo(7.54, 9);
+    expect(peak.marked!.fleetFractionBelow).toBeCloseTo(12 / 13, 12);
+    expect(peak.marked!.predictionZ!).toBeCloseTo((7.54 - peak.prediction!.mean) / peak.prediction!.standardDeviation, 9);
+    expect(peak.svg).toContain('>RW-0611</text>');
+    expect(fleetPage(report)).toMatch(/Unit RW-0611: 7\.540 V, above 92 % of the fleet, [+-]\d\.\d\d standard deviations from the predicted mean/);
+    await expect(fleetReport(sources, chargerDesign().name, { unitSerial: 'RW-9999' })).rejects.toThrow(/unit "RW-9999" has no session of board design/);
+  });
 });

@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildRecord, recomputeCaptureDigest } from '../../../main/record/buildRecord';
 import { openRecordSources } from '../../../main/record/openRecordSources';
 import { verifyRecordFile, writeRecordFile } from '../../../main/record/writeReport';
-import { tempFolder, type TempFolder } from '../store/storeFixtures';
+import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
 import { recordSweepSession, type RecordedSession } from './recordFixture';
 
 let folder: TempFolder;
@@ -101,5 +101,23 @@ describe('commissioning record', () => {
     const result = await verifyRecordFile(sources, path);
     expect(result.matches).toBe(false);
     expect(result.recomputed).not.toBe(result.stated);
+  });
+
+  it('a bare session (no readings, capture, transfer or trims) still gives a truthful record that verifies', async () => {
+    const writer = await sources.logbook.startSession({ unitSerial: 'RW-7732', design: chargerDesign(), operator: 'A. Tester', startedAt: new Date('2026-11-21T08:00:00Z') });
+    writer.addCycle(cycleReading(0));
+    const bare = (await writer.close()).id;
+    const record = await buildRecord(sources, bare, { now });
+    expect(record.capturesSha256).toBeNull();
+    expect(record.checks).toEqual([]);
+    for (const name of ['bare.pdf', 'bare.html']) {
+      const path = folder.file(name);
+      await writeRecordFile(sources, bare, path, { now });
+      expect(await verifyRecordFile(sources, path)).toMatchObject({ matches: true, stated: null, recomputed: null, sessionId: bare });
+    }
+    const text = execFileSync('pdftotext', [folder.file('bare.pdf'), '-'], { encoding: 'utf8' });
+    expect(text).toContain('No readings were stored with this session.');
+    expect(text).toContain('No capture was kept in this session');
+    expect(text).toContain('No trims were applied.');
   });
 });

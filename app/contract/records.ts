@@ -84,7 +84,21 @@ export const trimPlanSchema = z.object({
   message: z.string(),
   measuredPeakV: z.number().nullable(),
   targetPeakV: z.number(),
-  estimate: z.object({ chargingCurrentA: z.number(), vebV: z.number() }).nullable(),
+  /**
+   * What the board actually does, from its ramp. `explanation` says which reading the planner predicts with: an
+   * effective V_EB ('veb'), or, when no junction could be that far off, a capacitance error ('capacitance';
+   * then vebV is only the formal solution and is not shown as a V_EB).
+   */
+  estimate: z
+    .object({
+      chargingCurrentA: z.number(),
+      designCurrentA: z.number(),
+      vebV: z.number(),
+      explanation: z.enum(['veb', 'capacitance']),
+      capacitanceErrorPct: z.number(),
+      ambiguity: z.string(),
+    })
+    .nullable(),
   suggestions: z.array(trimSuggestionSchema),
   measuredRamp: foldTraceSchema.nullable(),
 });

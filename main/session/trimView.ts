@@ -43,7 +43,14 @@ export function trimPlanView(design: BoardDesign, plan: TrimPlan, window: Captur
     message: [plan.summary, ...plan.notes].join(' '),
     measuredPeakV: window?.ramp.peakV ?? null,
     targetPeakV: design.rampTargetV,
-    estimate: { chargingCurrentA: plan.estimate.chargingCurrentA, vebV: plan.estimate.vebV },
+    estimate: {
+      chargingCurrentA: plan.estimate.chargingCurrentA,
+      designCurrentA: plan.estimate.designCurrentA,
+      vebV: plan.estimate.vebV,
+      explanation: plan.estimate.explanation,
+      capacitanceErrorPct: plan.estimate.capacitanceErrorPct,
+      ambiguity: plan.estimate.ambiguity,
+    },
     suggestions: plan.suggestions.map((suggestion) => ({
       part: suggestion.part,
       partRef: suggestion.ref,

@@ -7,6 +7,7 @@ import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Ch
 import { h, fill, uniqueId } from '../dom/h';
 import { formatSi } from '../shaping/formatSi';
 import { foldTracePoints } from '../shaping/foldPoints';
+import { trimEstimateText } from '../shaping/trimEstimateText';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 
 const methodWords: Record<TrimSuggestion['method'], string> = { replace: 'Replace', parallel: 'Add in parallel', series: 'Add in series' };
@@ -93,7 +94,7 @@ export class TrimScreen implements Screen {
       this.summary,
       h('p', { class: 'big-reading' }, h('span', { class: 'label' }, 'Ramp peak now'), h('span', { class: 'value', 'data-testid': 'trim-measured' }, formatSi(plan.measuredPeakV, 'V')), h('span', { class: 'design' }, ` target ${formatSi(plan.targetPeakV, 'V')}`)),
       h('p', { 'data-testid': 'trim-message' }, plan.message),
-      plan.estimate ? h('p', { class: 'muted' }, `Estimate from the ramp: charging current ${formatSi(plan.estimate.chargingCurrentA, 'A')}, V_EB ${formatSi(plan.estimate.vebV, 'V')} (as the planner reports it). A current error and a capacitance error look the same from the ramp alone.`) : null,
+      plan.estimate ? h('p', { class: 'muted', 'data-testid': 'trim-estimate' }, trimEstimateText(plan.estimate)) : null,
     );
     if (plan.suggestions.length === 0) {
       fill(this.table, h('p', { class: 'empty', 'data-testid': 'trim-none' }, plan.inTolerance ? 'The ramp is in tolerance: nothing to change.' : 'No standard value brings the ramp to its target; check the parts against the design.'));

@@ -19,6 +19,8 @@ export interface FormatSiOptions {
   digits?: number;
   /** Text for a missing value (default an en dash). */
   missing?: string;
+  /** Keep trailing zeros, for readings whose resolution is part of the answer ("50.00 Hz"). */
+  keepZeros?: boolean;
 }
 
 /** `value` in base units (V, A, s, Hz, Ω, F) as "number prefix+unit". */
@@ -34,13 +36,14 @@ export function formatSi(value: number | null | undefined, unit: string, options
       break;
     }
   }
+  const shape = (number: number): string => (options.keepZeros ? plainDigits(number.toPrecision(digits)) : trimZeros(number.toPrecision(digits)));
   let scaled = value / 10 ** chosen.exponent;
-  let text = trimZeros(scaled.toPrecision(digits));
+  let text = shape(scaled);
   // Rounding can carry into the next prefix: 999.96 V at 3 digits is 1.00 kV, not "1000 V".
   if (Math.abs(Number(text)) >= 1000 && chosen.exponent < 9) {
     const larger = prefixes[prefixes.indexOf(chosen) - 1];
     scaled = value / 10 ** larger.exponent;
-    text = trimZeros(scaled.toPrecision(digits));
+    text = shape(scaled);
     chosen = larger;
   }
   return `${text} ${chosen.symbol}${unit}`;
@@ -52,6 +55,14 @@ export function formatFixed(value: number | null | undefined, unit: string, deci
   const text = value.toFixed(decimals);
   const cleaned = text === `-${(0).toFixed(decimals)}` ? text.slice(1) : text;
   return unit === '°' ? `${cleaned}°` : `${cleaned} ${unit}`;
+}
+
+/** toPrecision's text without exponent form, zeros kept ("5.000e+1" -> "50.00"). */
+function plainDigits(text: string): string {
+  if (!text.includes('e')) return text;
+  const [mantissa, exponentText] = text.split('e');
+  const decimals = Math.max(0, (mantissa.split('.')[1]?.length ?? 0) - Number(exponentText));
+  return Number(text).toFixed(decimals);
 }
 
 /** toPrecision's text without trailing zeros and without exponent form ("3.3e+2" -> "330"). */
@@ -82,7 +93,7 @@ export function formatReading(value: number | null | undefined, unit: string, di
       return value == null || !Number.isFinite(value) ? '–' : `${formatFixed(value, '°', 2)}/V`;
     case 'Hz':
       // Mains drift is read in hundredths of a hertz: 50.02 Hz, not 50 Hz.
-      return formatSi(value, 'Hz', { digits: Math.max(digits, 4) });
+      return formatSi(value, 'Hz', { digits: Math.max(digits, 4), keepZeros: true });
     case '':
       return value == null || !Number.isFinite(value) ? '–' : String(Math.round(value));
     default:

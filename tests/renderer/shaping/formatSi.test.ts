@@ -31,6 +31,13 @@ describe('formatSi', () => {
     expect(formatSi(1 / 3, 'V', { digits: 2 })).toBe('330 mV');
   });
 
+  it('keeps trailing zeros when asked, for readings whose resolution matters', () => {
+    expect(formatSi(50, 'Hz', { digits: 4, keepZeros: true })).toBe('50.00 Hz');
+    expect(formatSi(59.996, 'Hz', { digits: 4, keepZeros: true })).toBe('60.00 Hz');
+    expect(formatSi(7500, 'Ω', { digits: 3, keepZeros: true })).toBe('7.50 kΩ');
+    expect(formatSi(1234, 'V', { digits: 2, keepZeros: true })).toBe('1.2 kV');
+  });
+
   it('shows missing values as a dash rather than NaN', () => {
     expect(formatSi(null, 'V')).toBe('–');
     expect(formatSi(Number.NaN, 'V')).toBe('–');
@@ -55,6 +62,7 @@ describe('formatFixed and formatReading', () => {
     expect(formatReading(1.234, 'V/ms')).toBe('1.23 V/ms');
     // Mains drift matters in hundredths of a hertz (common practice): four significant digits for Hz.
     expect(formatReading(50.023, 'Hz')).toBe('50.02 Hz');
+    expect(formatReading(50, 'Hz')).toBe('50.00 Hz');
     // Degrees take no SI prefix (SI Brochure: the degree is a unit accepted for use with the SI, not an SI unit).
     expect(formatReading(0.606, 'deg/V')).toBe('0.61°/V');
     expect(formatReading(23.85, 'deg/V')).toBe('23.85°/V');

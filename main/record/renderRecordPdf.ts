@@ -7,7 +7,7 @@ import { PDFDocument, StandardFonts, type PDFFont, type PDFPage } from 'pdf-lib'
 import { foldFigure, transferFigure } from '../../app/record/plots';
 import { formatReading, formatTolerance, notMeasuredWords, recordLimitsNote, verdictWords, type CommissioningRecord } from '../../app/record/recordModel';
 import { drawFigure, hexColour } from './pdfFigure';
-import { winAnsiText, wrapText } from './pdfText';
+import { wrapText } from './pdfText';
 
 const pageSize: [number, number] = [595.28, 841.89];
 const margin = 40;

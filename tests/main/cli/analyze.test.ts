@@ -1,33 +1,12 @@
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { runCommandLine } from '../../../main/cli/rampwright';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeCaptureFile } from '../../../main/capture/writeCaptureFile';
 import { synthesize } from '../../app/bench/syntheticBoard';
+import { runCli as run } from './cliRun';
 
 let folder = '';
-
-async function run(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  let stdout = '';
-  let stderr = '';
-  const outSpy = vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => {
-    stdout += String(chunk);
-    return true;
-  });
-  const errSpy = vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => {
-    stderr += String(chunk);
-    return true;
-  });
-  try {
-    const code = await runCommandLine(args);
-    return { code, stdout, stderr };
-  } finally {
-    outSpy.mockRestore();
-    errSpy.mockRestore();
-    process.exitCode = undefined;
-  }
-}
 
 // A half-wave 50 Hz unit of our own: alpha 75 deg, ramp 0.1 V + 0.9 V/ms over 9.8 ms, control swept 1 -> 6 V.
 const board = {

@@ -3,32 +3,12 @@
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it, vi } from 'vitest';
-import { runCommandLine } from '../../../main/cli/rampwright';
+import { afterAll, describe, expect, it } from 'vitest';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
+import { runCli as runInProcess } from './cliRun';
 
 const folder = mkdtempSync(join(tmpdir(), 'rampwright-demo-'));
 afterAll(() => rmSync(folder, { recursive: true, force: true }));
-
-async function runInProcess(args: string[], env: Record<string, string>): Promise<{ code: number; stdout: string; stderr: string }> {
-  let stdout = '';
-  let stderr = '';
-  const saved = Object.fromEntries(Object.keys(env).map((key) => [key, process.env[key]]));
-  Object.assign(process.env, env);
-  const outSpy = vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => ((stdout += String(chunk)), true));
-  const errSpy = vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => ((stderr += String(chunk)), true));
-  try {
-    return { code: await runCommandLine(args), stdout, stderr };
-  } finally {
-    outSpy.mockRestore();
-    errSpy.mockRestore();
-    for (const [key, value] of Object.entries(saved)) {
-      if (value === undefined) delete process.env[key];
-      else process.env[key] = value;
-    }
-    process.exitCode = undefined;
-  }
-}
 
 describe('rampwright demo', () => {
   it('commissions the demo unit into the data folder and prints the summary and the safety note once', async () => {

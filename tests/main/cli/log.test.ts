@@ -1,31 +1,11 @@
 import { readFileSync, writeFileSync } from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { runCommandLine } from '../../../main/cli/rampwright';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
 import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
+import { runCli as run } from './cliRun';
 
 let folder: TempFolder;
 let dbPath = '';
-
-async function run(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  let stdout = '';
-  let stderr = '';
-  const outSpy = vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => {
-    stdout += String(chunk);
-    return true;
-  });
-  const errSpy = vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => {
-    stderr += String(chunk);
-    return true;
-  });
-  try {
-    return { code: await runCommandLine(args), stdout, stderr };
-  } finally {
-    outSpy.mockRestore();
-    errSpy.mockRestore();
-    process.exitCode = undefined;
-  }
-}
 
 beforeAll(async () => {
   folder = tempFolder('rampwright-log-');

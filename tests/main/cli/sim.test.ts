@@ -7,12 +7,12 @@ import { constants, existsSync, mkdtempSync, openSync, readFileSync, rmSync, wri
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { ReadStream } from 'node:tty';
-import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { boardDesignSchema } from '../../../app/board/design';
 import { predictRamp } from '../../../app/board/rampModel';
 import { createLoggerDecoder, type DecodedEvent } from '../../../app/logger/decoder';
 import { encodeCommand } from '../../../app/logger/encode';
-import { runCommandLine } from '../../../main/cli/rampwright';
+import { runCli as run } from './cliRun';
 
 let folder = '';
 let designPath = '';
@@ -25,27 +25,6 @@ const designJson = {
   alphaMaxDeg: 165,
   parts: { rEmitter: { ohm: 7500 }, rBiasTop: { ohm: 22000 }, rBiasBottom: { ohm: 100000 }, cRamp: { farad: 4.7e-7 } },
 };
-
-async function run(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  let stdout = '';
-  let stderr = '';
-  const outSpy = vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => {
-    stdout += String(chunk);
-    return true;
-  });
-  const errSpy = vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => {
-    stderr += String(chunk);
-    return true;
-  });
-  try {
-    const code = await runCommandLine(args);
-    return { code, stdout, stderr };
-  } finally {
-    outSpy.mockRestore();
-    errSpy.mockRestore();
-    process.exitCode = undefined;
-  }
-}
 
 function decodeText(text: string): { events: DecodedEvent[]; decoder: ReturnType<typeof createLoggerDecoder> } {
   const decoder = createLoggerDecoder();

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseBoardDesign } from '../../../../app/board/parseBoardDesign';
 import { predictRamp } from '../../../../app/board/rampModel';
-import { runCli } from './cliRun';
+import { runCli } from '../cliRun';
 
 let folder = '';
 beforeAll(() => {

@@ -11,7 +11,7 @@ import type { TrimPlan } from '../../../../app/board/trimPlan';
 import { readDeckRamp, referenceBoards } from '../../../reference/boardCases';
 import { type FiringBoardTraces, simulateFiringBoard } from '../../../reference/firingBoardDeck';
 import { ngspiceAvailable } from '../../../reference/ngspice';
-import { runCli } from './cliRun';
+import { runCli } from '../cliRun';
 
 const board = referenceBoards.fullWave50;
 let folder = '';

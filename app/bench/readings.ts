@@ -5,6 +5,8 @@
  * crossing), a whole cycle on a half-wave board (from the rising zero crossing).
  * Angles are electrical degrees from the mains zero crossing: the sync crossing corrected by the design's sync phase.
  */
+import type { TransferFitReading } from '../signal/transferCurve';
+
 export type Rectifier = 'half-wave' | 'full-wave';
 
 export interface CycleReading {
@@ -72,16 +74,8 @@ export interface PulseSummary {
   controlV: number | null;
 }
 
-export interface TransferSummary {
-  points: number;
-  gainDegPerV: number;
-  offsetDeg: number;
-  maxDeviationDeg: number;
-  controlMinV: number;
-  controlMaxV: number;
-  /** Estimate of how much the bounded-memory hull may have lowered maxDeviationDeg (0 for most captures). */
-  thinningErrorDeg: number;
-}
+/** The transfer curve's least-squares fit as a capture reports it (app/signal/transferCurve). */
+export type TransferSummary = TransferFitReading;
 
 export interface CaptureReadings {
   frequencyHz: number | null;

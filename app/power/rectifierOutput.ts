@@ -5,7 +5,7 @@
  *   full-wave  V_dc = V_m / pi     (1 + cos alpha)
  * with V_m the peak of the mains (sqrt 2 times its rms value).
  */
-export type Rectifier = 'half-wave' | 'full-wave';
+import type { Rectifier } from '../bench/readings';
 
 export function averageOutputV(rectifier: Rectifier, mainsRmsV: number, alphaDeg: number): number {
   const peakV = Math.SQRT2 * mainsRmsV;

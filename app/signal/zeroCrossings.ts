@@ -11,6 +11,8 @@
  *   fewer the line is kept, and with only the two bracketing samples it is plain linear interpolation (IEEE 181
  *   crossing instants).
  */
+import { fitLine } from './leastSquares';
+
 export type CrossingDirection = 'rising' | 'falling';
 
 export interface ZeroCrossing {
@@ -234,22 +236,9 @@ export function estimateSyncLevels(values: ArrayLike<number>): SyncLevels | null
 /** Zero of a line fit, refined by a fit of a + b u + c u^3 about it (Newton on the cubic); null when degenerate. */
 function oddCubicZero(x: Float64Array, y: Float64Array): number | null {
   const count = x.length;
-  let meanX = 0;
-  let meanY = 0;
-  for (let i = 0; i < count; i++) {
-    meanX += x[i];
-    meanY += y[i];
-  }
-  meanX /= count;
-  meanY /= count;
-  let sxx = 0;
-  let sxy = 0;
-  for (let i = 0; i < count; i++) {
-    sxx += (x[i] - meanX) ** 2;
-    sxy += (x[i] - meanX) * (y[i] - meanY);
-  }
-  if (!(sxx > 0) || sxy === 0) return null;
-  const lineZero = meanX - meanY / (sxy / sxx);
+  const line = fitLine(x, y);
+  if (!line || line.slope === 0) return null;
+  const lineZero = -line.intercept / line.slope;
   if (count < 5) return lineZero;
   // Normal equations of [1, u, u^3] with u = x - lineZero.
   const m = [0, 0, 0, 0, 0, 0, 0];

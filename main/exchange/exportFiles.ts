@@ -3,7 +3,7 @@
  * main/capture/writeCaptureFile.ts), its transfer points and its readings (judged against the design version it
  * used) as CSV, and the whole session as an archive (sessionArchive.ts).
  */
-import { rename, rm, writeFile } from 'node:fs/promises';
+import { writeWholeFile } from '../files/writeWholeFile';
 import { basename, dirname, extname, join } from 'node:path';
 import { judgeReadings } from '../../app/bench/judge';
 import { boardDesignSchema } from '../../app/board/design';
@@ -16,17 +16,6 @@ import { buildSessionArchive, encodeSessionArchive } from './sessionArchive';
 
 export const exportKinds = ['archive', 'captures-csv', 'captures-comtrade', 'captures-comtrade-ascii', 'transfer-csv', 'readings-csv'] as const;
 export type ExportKind = (typeof exportKinds)[number];
-
-async function writeWhole(path: string, bytes: Uint8Array | string): Promise<void> {
-  const partial = `${path}.partial`;
-  try {
-    await writeFile(partial, bytes);
-    await rename(partial, path);
-  } catch (error) {
-    await rm(partial, { force: true });
-    throw new InputError(`cannot write the export (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`, path);
-  }
-}
 
 async function sessionDetail(sources: RecordSources, sessionId: number) {
   const detail = await sources.logbook.session(sessionId);
@@ -60,7 +49,7 @@ export async function exportCaptures(sources: RecordSources, sessionId: number, 
 export async function exportSessionFile(sources: RecordSources, sessionId: number, outPath: string, kind: ExportKind): Promise<string[]> {
   switch (kind) {
     case 'archive':
-      await writeWhole(outPath, encodeSessionArchive(buildSessionArchive(sources.db, sessionId)));
+      await writeWholeFile(outPath, encodeSessionArchive(buildSessionArchive(sources.db, sessionId)));
       return [outPath];
     case 'captures-csv':
       return exportCaptures(sources, sessionId, outPath, 'csv');
@@ -70,14 +59,14 @@ export async function exportSessionFile(sources: RecordSources, sessionId: numbe
       return exportCaptures(sources, sessionId, outPath, 'comtrade-ascii');
     case 'transfer-csv': {
       const detail = await sessionDetail(sources, sessionId);
-      await writeWhole(outPath, transferPointsCsv(detail.transfer.points));
+      await writeWholeFile(outPath, transferPointsCsv(detail.transfer.points));
       return [outPath];
     }
     case 'readings-csv': {
       const detail = await sessionDetail(sources, sessionId);
       if (!detail.readings) throw new InputError(`session ${sessionId} has no stored readings to export`, outPath);
       const design = boardDesignSchema.parse(JSON.parse(readDesignVersion(sources.db, detail.designId).designJson));
-      await writeWhole(outPath, readingsCsv(judgeReadings(detail.readings, design)));
+      await writeWholeFile(outPath, readingsCsv(judgeReadings(detail.readings, design)));
       return [outPath];
     }
   }

@@ -2,13 +2,14 @@
  * Writing a commissioning record to a file (.pdf or .html by its extension) and checking one against the logbook.
  * Files are written to `<name>.partial` and renamed, so a failed write never leaves half a record.
  */
-import { readFile, rename, rm, writeFile } from 'node:fs/promises';
+import { readFile } from 'node:fs/promises';
 import { extname } from 'node:path';
 import { PDFDocument } from 'pdf-lib';
 import { InputError } from '../../app/errors';
 import { renderRecordHtml } from '../../app/record/renderRecordHtml';
 import { buildRecord, recomputeCaptureDigest, type RecordSources } from './buildRecord';
 import { digestKeywordPrefix, renderRecordPdf } from './renderRecordPdf';
+import { writeWholeFile } from '../files/writeWholeFile';
 
 export type RecordFormat = 'pdf' | 'html';
 
@@ -28,18 +29,6 @@ export async function writeRecordFile(sources: RecordSources, sessionId: number,
   const bytes = await renderRecordFile(sources, sessionId, recordFormatOf(path), options);
   await writeWholeFile(path, bytes);
   return { path, bytes: bytes.length };
-}
-
-export async function writeWholeFile(path: string, bytes: Uint8Array): Promise<void> {
-  const partial = `${path}.partial`;
-  try {
-    await writeFile(partial, bytes);
-    await rename(partial, path);
-  } catch (error) {
-    await rm(partial, { force: true });
-    const code = (error as NodeJS.ErrnoException).code;
-    throw new InputError(`cannot write the file${code ? ` (${code})` : ''}`, path);
-  }
 }
 
 /** The capture digest a record file states: the HTML meta tag, or the PDF's keywords. */

@@ -11,7 +11,7 @@ import { InputError } from '../../../app/errors';
 import { openRecordSources } from '../../record/openRecordSources';
 import { compareReport, driftReport, fleetReport } from '../../record/recall';
 import { comparisonPage, driftPage, fleetPage } from '../../record/recallPages';
-import { writeWholeFile } from '../../record/writeReport';
+import { writeWholeFile } from '../../files/writeWholeFile';
 import { verifyRecordFile, writeRecordFile } from '../../record/writeReport';
 
 interface ReportOptions {

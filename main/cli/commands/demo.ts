@@ -65,7 +65,7 @@ export function demoSummaryLines(report: DemoReport, logbookPath: string, elapse
 export function registerDemoCommand(program: Command): void {
   program
     .command('demo')
-    .description('commission a unit on the virtual board from start to sign-off and log it (no hardware needed)')
+    .description('Commission a unit on the virtual board from start to sign-off and log it (no hardware needed)')
     .option('--db <file>', 'logbook file (default: logbook.sqlite in your data folder)')
     .option('--json', 'print the result as JSON')
     .action(async (options: DemoOptions) => {

@@ -28,7 +28,7 @@ export function parsePort(text: string): number {
 export function registerServeCommand(program: Command): void {
   program
     .command('serve')
-    .description('serve the bench screens to a browser on this computer (or, with a token, to others)')
+    .description('Serve the bench screens to a browser on this computer (or, with a token, to others)')
     .option('--port <number>', 'port to listen on (0 picks a free one)', '4870')
     .option('--host <address>', 'interface to listen on', '127.0.0.1')
     .option('--token-required', 'require an access token on every request (needed for any --host but this computer)')

@@ -76,7 +76,7 @@ function printHuman(result: SizingResult, out: string | undefined): void {
 export function registerSizeCommand(program: Command): void {
   program
     .command('size')
-    .description('size the ramp current source and control limit in standard values, verify with the board model')
+    .description('Size the ramp current source and control limit in standard values, verify with the board model')
     .requiredOption('--supply <volts>', 'supply of the current source (V)')
     .requiredOption('--mains <hertz>', 'mains frequency (Hz)')
     .requiredOption('--rectifier <kind>', 'half-wave or full-wave')

@@ -51,7 +51,7 @@ function printHuman(plan: TrimPlan, ramp: RampReadings): void {
 export function registerTrimCommand(program: Command): void {
   program
     .command('trim')
-    .description('measure a capture against its board design and say which resistor to change, to which standard value')
+    .description('Measure a capture against its board design and say which resistor to change, to which standard value')
     .requiredOption('--design <file>', 'board design (*.board.json)')
     .requiredOption('--capture <file>', 'capture (.csv, or COMTRADE .cfg/.dat)')
     .option('--series <name>', 'E-series to pick values from: E12, E24 or E96', 'E24')

@@ -115,7 +115,16 @@ export const benchCalls = {
   ),
   sessionDetail: call(z.object({ sessionId }).strict(), sessionDetailSchema, 'One session: readings, transfer curve, trims, link events.'),
   compareSessions: call(z.object({ sessionIdA: sessionId, sessionIdB: sessionId }).strict(), sessionComparisonSchema, 'Two sessions side by side.'),
-  drift: call(z.object({ unitSerial: nonEmpty('the unit serial') }).strict(), z.object({ unitSerial: z.string(), points: z.array(driftPointSchema) }), 'A unit\'s readings across its sessions.'),
+  drift: call(
+    z.object({ unitSerial: nonEmpty('the unit serial') }).strict(),
+    z.object({
+      unitSerial: z.string(),
+      points: z.array(driftPointSchema),
+      /** Trends that will cross (or have crossed) a tolerance of the unit's design, in words; empty when none. */
+      warnings: z.array(z.string()),
+    }),
+    'A unit\'s readings across its sessions, with a warning where a trend will cross a tolerance.',
+  ),
 
   // Exports (formats are registered by the report/export side; see issue on sign-off and recall)
   exportFormats: call(empty, z.object({ formats: z.array(exportFormatSchema) }), 'Export formats this bench can write.'),

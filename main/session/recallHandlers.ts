@@ -7,6 +7,7 @@ import type { DesignCatalog } from './designCatalog';
 import { exportSessionWith, type SessionExporter } from './exporters';
 import type { BenchHandlers } from './handlers';
 import { compareView, driftView, sessionDetailView, sessionRowView } from './logbookViews';
+import { driftWarnings } from './driftWarnings';
 
 type RecallCall = 'listDesigns' | 'getDesign' | 'saveDesign' | 'validateDesign' | 'listUnits' | 'listSessions' | 'sessionDetail' | 'compareSessions' | 'drift' | 'exportFormats' | 'exportSession';
 
@@ -24,7 +25,7 @@ export function createRecallHandlers(options: { logbook: Logbook; designs: Desig
     listSessions: async ({ unitSerial, designName, from, to, limit }) => ({ sessions: (await logbook.listSessions({ unitSerial, designName, from, to })).slice(0, limit).map(sessionRowView) }),
     sessionDetail: async ({ sessionId }) => sessionDetailView(logbook, designs, sessionId),
     compareSessions: async ({ sessionIdA, sessionIdB }) => compareView(logbook, sessionIdA, sessionIdB),
-    drift: async ({ unitSerial }) => driftView(logbook, unitSerial),
+    drift: async ({ unitSerial }) => ({ ...(await driftView(logbook, unitSerial)), warnings: await driftWarnings({ logbook, designs }, unitSerial) }),
     exportFormats: async () => ({ formats: exporters.map((exporter) => exporter.format) }),
     exportSession: async ({ sessionId, format }) => exportSessionWith(exporters, { logbook, designs }, sessionId, format),
   };

@@ -15,7 +15,7 @@ import { renderRecordFile } from '../record/writeReport';
 import { openLogbookDatabase } from '../store/openDatabase';
 import type { ExportContext, SessionExporter } from './exporters';
 
-async function withSources<T>(context: ExportContext, work: (sources: RecordSources) => Promise<T>): Promise<T> {
+export async function withSources<T>(context: ExportContext, work: (sources: RecordSources) => Promise<T>): Promise<T> {
   const db = openLogbookDatabase(context.logbook.location);
   // InputErrors (nothing to export, an unwritable file) reach the screen as expected faults via toBenchError.
   try {

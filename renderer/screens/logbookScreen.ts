@@ -262,6 +262,7 @@ export class LogbookScreen implements Screen {
     fill(
       this.drift,
       h('h2', {}, `Drift of unit ${unitSerial}`),
+      driftForecast(result.warnings, result.points.length),
       h(
         'table',
         { class: 'data' },
@@ -301,4 +302,18 @@ export class LogbookScreen implements Screen {
       }
     }
   }
+}
+
+/** The trend warnings in words with an icon (never colour alone); a plain line when no trend heads for a limit. */
+function driftForecast(warnings: readonly string[], sessions: number): HTMLElement {
+  if (warnings.length === 0) {
+    return sessions < 3
+      ? h('p', { class: 'muted', 'data-testid': 'drift-forecast' }, 'A trend with its uncertainty needs at least three sessions of this unit.')
+      : h('p', { 'data-testid': 'drift-forecast' }, 'No trend heads for a tolerance limit.');
+  }
+  return h(
+    'div',
+    { class: 'drift-warnings', role: 'alert', 'data-testid': 'drift-forecast' },
+    warnings.map((warning) => h('p', {}, h('span', { 'aria-hidden': 'true' }, '⚠ '), h('strong', {}, 'Trend warning: '), warning)),
+  );
 }

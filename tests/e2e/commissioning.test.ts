@@ -199,6 +199,8 @@ describe('browser mode with the virtual board', () => {
     await page.locator(`[data-unit="${unitSerial}"]`).click();
     await page.getByTestId('drift').waitFor({ state: 'visible' });
     expect(Number(await page.getByTestId('drift-canvas').getAttribute('data-points'))).toBe(2);
+    // Two sessions of a freshly trimmed unit: no trend can be judged yet, and the screen says so in words.
+    await expect(page.getByTestId('drift-forecast').textContent()).resolves.toMatch(/at least three sessions|No trend heads|Trend warning/);
     await screenshot(page, '9-logbook-compare');
   }, 120_000);
 

@@ -79,6 +79,12 @@ export const linkSourceSchema = z.discriminatedUnion('kind', [
 ]);
 export type LinkSource = z.infer<typeof linkSourceSchema>;
 
+/** A link source in a technician's words, for the link panel and the logbook's link events. */
+export function describeLinkSource(source: LinkSource): string {
+  if (source.kind === 'serial') return `logger on ${source.path}`;
+  return `virtual board (${source.designName}${source.faults.length ? `, fault: ${source.faults.join(', ')}` : ''})`;
+}
+
 export const linkHealthSchema = z.object({
   state: linkStateSchema,
   source: linkSourceSchema.nullable(),

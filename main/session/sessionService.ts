@@ -4,7 +4,7 @@
  * store's writer, so the link never waits on the disk), and sends throttled live frames to the screens.
  */
 import type { BoardDesign } from '../../app/board/design';
-import { BenchFault, type BenchState, type EventData, type LinkHealth, type PortInfo, type TransferPoint } from '../../app/contract';
+import { BenchFault, describeLinkSource, type BenchState, type EventData, type LinkHealth, type PortInfo, type TransferPoint } from '../../app/contract';
 import type { Logbook } from '../store/logbookTypes';
 import { checkSessionStep, currentStep, recordMeasurements, stepInputsOf, type BenchSession } from './benchSession';
 import type { BenchPipelineOptions } from './benchPipeline';
@@ -187,7 +187,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
         const source = await options.serial.open(payload.path, { baudRate: payload.baudRate });
         attach(source, design, null);
       }
-      session?.writer.addLinkEvent('opened', current ? JSON.stringify(current.link.source.description) : '');
+      session?.writer.addLinkEvent('opened', current ? `link to the ${describeLinkSource(current.link.source.description)} opened` : '');
       emitState();
       return health();
     },
@@ -217,7 +217,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
         signedOff: false,
       };
       followDesign(stored.design);
-      if (current) writer.addLinkEvent('opened', JSON.stringify(current.link.source.description));
+      if (current) writer.addLinkEvent('opened', `link to the ${describeLinkSource(current.link.source.description)} opened`);
       emitState();
       return session.open;
     },

@@ -3,7 +3,7 @@
  * length, the cycle fold, link health, and the Hold / Keep capture actions.
  */
 import type { LiveFrame } from '../../app/contract/bench-events';
-import type { CommissioningStep, LinkHealth } from '../../app/contract/readings';
+import { describeLinkSource, type CommissioningStep, type LinkHealth } from '../../app/contract/readings';
 import { CycleFoldChart, type RampTarget } from '../charts/cycleFoldChart';
 import { h, fill } from '../dom/h';
 import { verdictBadge } from '../dom/verdictBadge';
@@ -223,7 +223,7 @@ export class BenchScreen implements Screen {
 
   private renderLink(link: LinkHealth): void {
     const stateWords: Record<string, string> = { disconnected: 'Not connected', connecting: 'Connecting', streaming: 'Streaming', stalled: 'No data arriving', lost: 'Link lost' };
-    const source = link.source ? (link.source.kind === 'serial' ? `Logger on ${link.source.path}` : `Virtual board (${link.source.designName}${link.source.faults.length ? `, fault: ${link.source.faults.join(', ')}` : ''})`) : 'None';
+    const source = link.source ? capitalised(describeLinkSource(link.source)) : 'None';
     const cell = (label: string, value: string, testId?: string, wide = false) => h('div', { 'data-testid': testId ?? null, class: wide ? 'wide' : null }, h('span', {}, label), h('strong', {}, value));
     fill(
       this.linkPanel,
@@ -239,4 +239,8 @@ export class BenchScreen implements Screen {
       link.message ? h('div', { class: 'wide' }, h('span', {}, 'Message'), h('strong', {}, link.message)) : null,
     );
   }
+}
+
+function capitalised(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
 }

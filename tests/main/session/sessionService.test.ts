@@ -141,6 +141,8 @@ describe('session service on the virtual board', () => {
     expect(detail.trims[0]).toMatchObject({ part: 'rEmitter', toOhm: first.toOhm });
     expect(detail.captures).toHaveLength(1);
     expect(detail.notes).toContain('signed off without sync, transfer, limits');
+    // Link events read as words in the logbook, not as raw data.
+    expect(detail.linkEvents.find((event) => event.kind === 'opened')?.detail).toBe('link to the virtual board (Charger firing board CH-50H (demo), fault: capacitor-low) opened');
   });
 
   it('re-measures an open link against the design of a session started on it, without losing the stream', async () => {

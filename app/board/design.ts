@@ -17,6 +17,17 @@ const capacitor = z.object({
   ref: z.string().optional(),
 });
 
+/** The current-source transistor; every field defaults. */
+export const transistorSchema = z
+  .object({
+    // Typical small-signal PNP values, from memory (REFERENCES.md: V_EB 0.6-0.7 V, beta 100-300, V_A 20-100 V).
+    vebV: z.number().min(0.3).max(1.0).default(0.65),
+    beta: z.number().min(10).max(2000).default(150),
+    earlyV: z.number().positive().max(1000).default(60),
+    vecSatV: z.number().min(0).max(2).default(0.2),
+  })
+  .default({ vebV: 0.65, beta: 150, earlyV: 60, vecSatV: 0.2 });
+
 export const boardDesignSchema = z.object({
   name: z.string().min(1, 'a board design needs a name'),
   mainsHz: z.number().min(45, 'mains frequency must be 45-65 Hz').max(65, 'mains frequency must be 45-65 Hz'),
@@ -49,15 +60,7 @@ export const boardDesignSchema = z.object({
     rControlTop: resistor.optional(),
     potControl: resistor.optional(),
   }),
-  transistor: z
-    .object({
-      // Typical small-signal PNP values, from memory (REFERENCES.md: V_EB 0.6-0.7 V, beta 100-300, V_A 20-100 V).
-      vebV: z.number().min(0.3).max(1.0).default(0.65),
-      beta: z.number().min(10).max(2000).default(150),
-      earlyV: z.number().positive().max(1000).default(60),
-      vecSatV: z.number().min(0).max(2).default(0.2),
-    })
-    .default({ vebV: 0.65, beta: 150, earlyV: 60, vecSatV: 0.2 }),
+  transistor: transistorSchema,
   tolerances: z
     .object({
       rampPeakPct: z.number().positive().default(3),

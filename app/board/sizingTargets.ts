@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 import { eSeriesNames } from './eSeries';
+import { transistorSchema } from './design';
 
 export const sizingTargetsSchema = z.object({
   name: z.string().min(1).default('Sized board'),
@@ -28,14 +29,7 @@ export const sizingTargetsSchema = z.object({
   syncResetUs: z.number().min(0).max(5000).default(300),
   gatePulseUs: z.number().positive().max(10000).default(200),
   potControlOhm: z.number().positive().default(4700),
-  transistor: z
-    .object({
-      vebV: z.number().min(0.3).max(1.0).default(0.65),
-      beta: z.number().min(10).max(2000).default(150),
-      earlyV: z.number().positive().max(1000).default(60),
-      vecSatV: z.number().min(0).max(2).default(0.2),
-    })
-    .default({ vebV: 0.65, beta: 150, earlyV: 60, vecSatV: 0.2 }),
+  transistor: transistorSchema,
 });
 
 export type SizingTargets = z.output<typeof sizingTargetsSchema>;

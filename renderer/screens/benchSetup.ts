@@ -5,17 +5,22 @@
 import type { ConnectPayload } from '../../app/contract/calls';
 import { h, fill, uniqueId } from '../dom/h';
 import { runAction, type ScreenContext } from '../shell/screen';
+import { boardFaultNames, type BoardFaultName } from '../../app/sim/faults';
 
 /** The virtual board's named faults (issue on the bench link), in words a technician reads. */
+// Keyed by the simulator's own fault names, so a renamed or added fault fails to compile here.
+const faultLabels: Record<BoardFaultName, string> = {
+  'wrong-emitter-resistor': 'Wrong emitter resistor fitted',
+  'capacitor-low': 'Ramp capacitor below value',
+  'sync-phase-shift': 'Sync phase shifted',
+  'missing-pulses': 'Missing gate pulses',
+  'wrong-half-cycle-pulses': 'Pulses in the wrong half-cycle (half-wave boards)',
+  'noisy-sync': 'Noisy sync',
+  'clipped-ramp': 'Ramp clipping',
+};
 const virtualFaults: readonly { id: string; label: string }[] = [
   { id: '', label: 'No fault: a board built to its design' },
-  { id: 'wrong-emitter-resistor', label: 'Wrong emitter resistor fitted' },
-  { id: 'capacitor-low', label: 'Ramp capacitor below value' },
-  { id: 'sync-phase-shift', label: 'Sync phase shifted' },
-  { id: 'missing-pulses', label: 'Missing gate pulses' },
-  { id: 'wrong-half-cycle', label: 'Pulses in the wrong half-cycle' },
-  { id: 'noisy-sync', label: 'Noisy sync' },
-  { id: 'clipped-ramp', label: 'Ramp clipping' },
+  ...boardFaultNames.map((id) => ({ id, label: faultLabels[id] })),
 ];
 
 function field(label: string, control: HTMLElement, hint?: string): HTMLElement {

@@ -1,19 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { createComtradeCffReader } from '../../../app/formats/comtradeCffReader';
-import { InputError } from '../../../app/errors';
+import { inputErrorOf as errorOf } from '../../helpers/inputError';
 import { fixtureBytes } from './fixtureBytes';
 import { readInPieces } from './readAll';
-
-function errorOf(action: () => unknown): InputError {
-  try {
-    action();
-  } catch (error) {
-    expect(error).toBeInstanceOf(InputError);
-    return error as InputError;
-  }
-  throw new Error('expected an InputError');
-}
 
 const read = (text: string) => readInPieces(createComtradeCffReader({ source: 'x.cff' }), new TextEncoder().encode(text));
 

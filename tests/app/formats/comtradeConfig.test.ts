@@ -3,18 +3,8 @@ import fc from 'fast-check';
 import { parseComtradeConfig } from '../../../app/formats/comtradeConfigParse';
 import { formatComtradeConfig } from '../../../app/formats/comtradeConfigFormat';
 import { comtradeRecordBytes, type ComtradeConfig } from '../../../app/formats/comtradeConfig';
-import { InputError } from '../../../app/errors';
+import { inputErrorOf as errorOf } from '../../helpers/inputError';
 import { fixtureText } from './fixtureBytes';
-
-function errorOf(action: () => unknown): InputError {
-  try {
-    action();
-  } catch (error) {
-    expect(error).toBeInstanceOf(InputError);
-    return error as InputError;
-  }
-  throw new Error('expected an InputError');
-}
 
 // Field layout checked against IEEE C37.111 as summarised in REFERENCES.md.
 describe('parseComtradeConfig: the field layout of both revisions', () => {

@@ -2,19 +2,9 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { parseComtradeConfig } from '../../../app/formats/comtradeConfigParse';
 import { createComtradeDataReader } from '../../../app/formats/comtradeDataReader';
-import { InputError } from '../../../app/errors';
+import { inputErrorOf as errorOf } from '../../helpers/inputError';
 import { fixtureBytes, fixtureText } from './fixtureBytes';
 import { readInPieces } from './readAll';
-
-function errorOf(action: () => unknown): InputError {
-  try {
-    action();
-  } catch (error) {
-    expect(error).toBeInstanceOf(InputError);
-    return error as InputError;
-  }
-  throw new Error('expected an InputError');
-}
 
 /** Equal as numbers, NaN equal to NaN; `digits` decimals because a*x+b in doubles is not exact (0.01 * 1200 = 12.000000000000002). */
 function expectVolts(actual: number[], expected: number[], digits = 9): void {

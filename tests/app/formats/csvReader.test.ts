@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { createCsvReader } from '../../../app/formats/csvReader';
-import { InputError } from '../../../app/errors';
+import { inputErrorOf as errorOf } from '../../helpers/inputError';
 import { fixtureBytes } from './fixtureBytes';
 import { readInPieces } from './readAll';
 
@@ -9,16 +9,6 @@ const bytesOf = (text: string) => new TextEncoder().encode(text);
 
 function readText(text: string, options: Parameters<typeof createCsvReader>[0] = {}) {
   return readInPieces(createCsvReader(options), bytesOf(text));
-}
-
-function errorOf(action: () => unknown): InputError {
-  try {
-    action();
-  } catch (error) {
-    expect(error).toBeInstanceOf(InputError);
-    return error as InputError;
-  }
-  throw new Error('expected an InputError');
 }
 
 describe('createCsvReader: our fixtures, values worked out by hand', () => {

@@ -7,6 +7,8 @@ import type { Command } from 'commander';
 import type { ESeriesName } from '../../../app/board/eSeries';
 import { formatVolt } from '../../../app/board/formatValues';
 import type { RampReadings } from '../../../app/board/rampReadings';
+import { describeMeasuredParts, parseMeasuredParts } from '../../../app/board/measuredParts';
+import type { PartOverrides } from '../../../app/board/parts';
 import { planTrim, type TrimPlan } from '../../../app/board/trimPlan';
 import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import type { CaptureReadings } from '../../../app/bench/readings';
@@ -20,6 +22,7 @@ interface TrimOptions {
   series: string;
   rate?: string;
   json?: boolean;
+  part: string[];
 }
 
 const allowedSeries = ['E12', 'E24', 'E96'] as const;
@@ -33,8 +36,9 @@ export function rampReadingsOf(readings: CaptureReadings, capturePath: string): 
   return { floorV: ramp.floorV, peakV: ramp.peakV, slopeVPerMs: ramp.slopeVPerMs, startDelayDeg: ramp.startDelayDeg ?? undefined, clipped: ramp.clipped };
 }
 
-function printHuman(plan: TrimPlan, ramp: RampReadings): void {
+function printHuman(plan: TrimPlan, ramp: RampReadings, measuredWords: readonly string[]): void {
   const lines = [
+    ...(measuredWords.length > 0 ? [`Parts as measured on the board: ${measuredWords.join(', ')}`] : []),
     `Measured ramp: floor ${(ramp.floorV * 1000).toFixed(1)} mV, peak ${formatVolt(ramp.peakV)}, slope ${ramp.slopeVPerMs.toFixed(3)} V/ms${ramp.clipped ? ', clipped' : ''}`,
     `Estimate: charging current ${(plan.estimate.chargingCurrentA * 1e3).toFixed(3)} mA (design ${(plan.estimate.designCurrentA * 1e3).toFixed(3)} mA), ` +
       (plan.estimate.explanation === 'veb'
@@ -56,6 +60,7 @@ export function registerTrimCommand(program: Command): void {
     .requiredOption('--capture <file>', 'capture (.csv, or COMTRADE .cfg/.dat)')
     .option('--series <name>', 'E-series to pick values from: E12, E24 or E96', 'E24')
     .option('--rate <hertz>', 'sample rate of a CSV capture without a t column')
+    .option('--part <name=value>', 'a part value measured on the board, by role or designator (rEmitter=5k1, R7=5.1k, cRamp=560n); repeat for more', (entry: string, entries: string[]) => [...entries, entry], [])
     .option('--json', 'print the plan as JSON')
     .action(async (options: TrimOptions) => {
       const series = options.series.toUpperCase();
@@ -63,6 +68,8 @@ export function registerTrimCommand(program: Command): void {
       const sampleRateHz = options.rate === undefined ? undefined : Number(options.rate);
       if (sampleRateHz !== undefined && !(sampleRateHz > 0)) throw new InputError(`"${options.rate}" is not a sample rate in Hz`, '--rate');
       const design = await loadBoardDesign(options.design);
+      // Checked before the capture is read, so a mistyped value is named at once.
+      const measured: PartOverrides = parseMeasuredParts(design, options.part);
       const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false });
       for await (const block of readCaptureFile(options.capture, { sampleRateHz })) analyzer.push(block);
       const readings = analyzer.finish();
@@ -71,11 +78,11 @@ export function registerTrimCommand(program: Command): void {
         throw new InputError(`the capture's mains is ${readings.frequencyHz.toFixed(1)} Hz but ${options.design} is a ${design.mainsHz} Hz design: wrong design file?`, options.capture);
       }
       const ramp = rampReadingsOf(readings, options.capture);
-      const plan = planTrim(design, ramp, { series: series as ESeriesName });
+      const plan = planTrim(design, ramp, { series: series as ESeriesName, fitted: measured });
       if (options.json) {
-        process.stdout.write(`${JSON.stringify({ ...plan, design: options.design, capture: options.capture, ramp: readings.ramp }, null, 2)}\n`);
+        process.stdout.write(`${JSON.stringify({ ...plan, design: options.design, capture: options.capture, measuredParts: measured, ramp: readings.ramp }, null, 2)}\n`);
       } else {
-        printHuman(plan, ramp);
+        printHuman(plan, ramp, describeMeasuredParts(design, measured));
       }
     });
 }

@@ -96,9 +96,23 @@ export const benchCalls = {
   signOff: call(z.object({ notes: z.string().optional() }).strict(), sessionRowSchema, 'Record the sign-off step and close the session.'),
 
   // Trim
-  trimPlan: call(z.object({ series: z.enum(['E12', 'E24', 'E48', 'E96']).default('E24') }).strict(), trimPlanSchema, 'The ranked trim plan from the current ramp readings.'),
+  trimPlan: call(
+    z.object({
+      series: z.enum(['E12', 'E24', 'E48', 'E96']).default('E24'),
+      /**
+       * Part values measured on the board, by role or designator (ohm, farad for the capacitor). Given, they replace
+       * the session's measured values (an empty object forgets them); left out, the session's stay.
+       */
+      measuredParts: z.record(z.string(), z.number()).optional(),
+    }).strict(),
+    trimPlanSchema,
+    'The ranked trim plan from the current ramp readings and the parts known to be on the board.',
+  ),
   applyTrim: call(
-    z.object({ part: nonEmpty('the part'), fromOhm: z.number().positive(), toOhm: z.number().positive(), method: z.enum(['replace', 'parallel', 'series']), addOhm: z.number().positive().nullable().default(null), reason: z.string().default('') }).strict(),
+    z.object({
+      part: nonEmpty('the part'), fromOhm: z.number().positive(), toOhm: z.number().positive(), method: z.enum(['replace', 'parallel', 'series']), addOhm: z.number().positive().nullable().default(null), reason: z.string().default(''),
+      alsoChange: z.object({ part: nonEmpty('the second part'), fromOhm: z.number().positive(), toOhm: z.number().positive() }).strict().nullable().default(null),
+    }).strict(),
     z.object({ trim: appliedTrimSchema, recheckNeeded: z.boolean() }),
     '"I fitted this": record the change in the session and ask for a re-check of the ramp.',
   ),

@@ -76,8 +76,23 @@ export const trimSuggestionSchema = z.object({
   reason: z.string(),
   /** The model's ramp after the change over one charging interval, for drawing over the measured one. */
   predictedRamp: foldTraceSchema.nullable(),
+  /** A second position changed with this one (a divider change that also needs a new emitter resistor). */
+  alsoChange: z.object({ part: z.string(), partRef: z.string().nullable(), fromOhm: z.number().positive(), toOhm: z.number().positive() }).nullable(),
 });
 export type TrimSuggestion = z.infer<typeof trimSuggestionSchema>;
+
+/**
+ * A part value the plan took from the board as built rather than from the design: measured by the technician, or
+ * fitted this session through "I fitted this". Ohm for resistors, farad for the capacitor.
+ */
+export const knownPartSchema = z.object({
+  part: z.string(),
+  partRef: z.string().nullable(),
+  value: z.number().positive(),
+  designValue: z.number().positive(),
+  source: z.enum(['measured', 'fitted']),
+});
+export type KnownPart = z.infer<typeof knownPartSchema>;
 
 export const trimPlanSchema = z.object({
   inTolerance: z.boolean(),
@@ -101,6 +116,8 @@ export const trimPlanSchema = z.object({
     .nullable(),
   suggestions: z.array(trimSuggestionSchema),
   measuredRamp: foldTraceSchema.nullable(),
+  /** Parts the plan took as they are on the board, not as designed. */
+  knownParts: z.array(knownPartSchema),
 });
 export type TrimPlanView = z.infer<typeof trimPlanSchema>;
 

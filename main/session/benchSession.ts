@@ -9,6 +9,7 @@ import type { CommissioningStep, OpenSession, StepReport } from '../../app/contr
 import type { LinkProblem } from '../../app/logger';
 import type { LinkEventKind, LogbookWriter } from '../store/logbookTypes';
 import type { BenchPipeline } from './benchPipeline';
+import type { KnownParts } from './knownParts';
 import { currentStepOf, recordStep, stepReports, type StepInputs } from './steps';
 
 export interface BenchSession {
@@ -19,6 +20,8 @@ export interface BenchSession {
   recheckNeeded: boolean;
   trimsApplied: number;
   signedOff: boolean;
+  /** Parts on the board that differ from the design: measured by the technician, or fitted through a trim. */
+  knownParts: KnownParts;
 }
 
 const problemKinds: Partial<Record<LinkProblem['code'], LinkEventKind>> = {

@@ -82,7 +82,7 @@ export async function runCommissioningDemo(context: BenchContext, options: DemoO
   const trimPlan = await client.trimPlan({ series: 'E24' });
   const first = trimPlan.suggestions[0];
   if (first) {
-    await client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason });
+    await client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason, alsoChange: first.alsoChange ? { part: first.alsoChange.part, fromOhm: first.alsoChange.fromOhm, toOhm: first.alsoChange.toOhm } : null });
     run(settleS);
     await client.checkStep({ step: 'ramp' });
   } else {

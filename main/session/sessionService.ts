@@ -215,6 +215,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
         recheckNeeded: false,
         trimsApplied: 0,
         signedOff: false,
+        knownParts: {},
       };
       followDesign(stored.design);
       if (current) writer.addLinkEvent('opened', `link to the ${describeLinkSource(current.link.source.description)} opened`);

@@ -3,6 +3,7 @@
  * (recorded, fitted to the virtual board, re-check asked for), and the transfer curve so far.
  */
 import type { BoardDesign } from '../../app/board/design';
+import { checkMeasuredParts } from '../../app/board/measuredParts';
 import type { ResistorRole } from '../../app/board/trimCandidates';
 import { BenchFault } from '../../app/contract';
 import type { Logbook } from '../store/logbookTypes';
@@ -11,6 +12,7 @@ import type { DesignCatalog } from './designCatalog';
 import type { BenchHandlers } from './handlers';
 import type { LiveLink } from './liveLink';
 import { idealTransfer } from './steps';
+import { type KnownParts, knownPartViews, overridesOf, withFitted, withMeasured } from './knownParts';
 import { planFromWindow, trimPlanView } from './trimView';
 import type { VirtualSource } from './virtualSource';
 
@@ -33,30 +35,48 @@ export interface TrimHandlerContext {
 export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandlers, 'trimPlan' | 'applyTrim' | 'transferPoints' | 'clearTransfer'> {
   const { logbook, designs, requireSession, requireLink, emitState } = context;
   return {
-    async trimPlan({ series }) {
+    async trimPlan({ series, measuredParts }) {
       const link = requireLink();
-      const design = context.session()?.design ?? link.design;
+      const open = context.session();
+      const design = open?.design ?? link.design;
+      const measured = measuredParts === undefined ? null : checkMeasuredParts(design, measuredParts, 'measuredParts');
+      // The session remembers what it was told; without a session the values serve this one plan.
+      let known: KnownParts = open?.knownParts ?? {};
+      if (measured !== null) known = withMeasured(known, measured);
+      if (open) open.knownParts = known;
       const window = link.link.pipeline.lastWindow();
-      const plan = planFromWindow(design, window, series);
+      const plan = planFromWindow(design, window, series, overridesOf(known));
       const fold = link.link.pipeline.fold();
-      return trimPlanView(design, plan, window, fold.length > 0 ? fold[fold.length - 1].ramp : null);
+      return trimPlanView(design, plan, window, fold.length > 0 ? fold[fold.length - 1].ramp : null, knownPartViews(design, known));
     },
-    async applyTrim({ part, fromOhm, toOhm, method, addOhm, reason }) {
+    async applyTrim({ part, fromOhm, toOhm, method, addOhm, reason, alsoChange }) {
       const open = requireSession();
       const design = open.design;
-      if (!(part in design.parts) || part === 'cRamp') throw new BenchFault('input', `"${part}" is not a resistor position of the design ${design.name}`, 'part');
+      const resistorPosition = (name: string, field: string): ResistorRole => {
+        if (!(name in design.parts) || name === 'cRamp') throw new BenchFault('input', `"${name}" is not a resistor position of the design ${design.name}`, field);
+        return name as ResistorRole;
+      };
+      const first = resistorPosition(part, 'part');
+      const second = alsoChange ? resistorPosition(alsoChange.part, 'alsoChange.part') : null;
+      if (second === first) throw new BenchFault('input', `the second change must be at another position than ${part}`, 'alsoChange.part');
       const methodWords = method === 'replace' ? 'replaced' : `${addOhm ?? '?'} ohm added in ${method}`;
       open.writer.addTrim({ part, fromOhm, toOhm, method: `trim plan: ${methodWords}`, reason });
+      if (alsoChange && second) open.writer.addTrim({ part: second, fromOhm: alsoChange.fromOhm, toOhm: alsoChange.toOhm, method: 'trim plan: replaced (with the change above)', reason });
       open.trimsApplied += 1;
       open.recheckNeeded = true;
+      open.knownParts = withFitted(open.knownParts, first, toOhm);
+      if (alsoChange && second) open.knownParts = withFitted(open.knownParts, second, alsoChange.toOhm);
       delete open.recorded.ramp;
       delete open.recorded.trim;
-      // The virtual board gets the part; a real board got it from the technician's soldering iron.
-      context.link()?.virtual?.fitResistor(part as ResistorRole, { method, toOhm, addOhm });
+      // The virtual board gets the parts; a real board got them from the technician's soldering iron.
+      const virtual = context.link()?.virtual;
+      virtual?.fitResistor(first, { method, toOhm, addOhm });
+      if (alsoChange && second) virtual?.fitResistor(second, { method: 'replace', toOhm: alsoChange.toOhm, addOhm: null });
       context.link()?.link.pipeline.restartReadings();
       await open.writer.flush();
       const detail = await logbook.session(open.open.id);
-      const trim = detail?.trims[detail.trims.length - 1];
+      // The first of the rows just written (the second change, when there is one, follows it).
+      const trim = detail?.trims[detail.trims.length - (alsoChange ? 2 : 1)];
       if (!trim) throw new Error('the fitted change did not reach the logbook');
       emitState();
       return { trim: { id: trim.id, part: trim.part, fromOhm: trim.fromOhm, toOhm: trim.toOhm, reason: trim.reason, at: trim.at }, recheckNeeded: true };

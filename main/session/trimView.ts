@@ -6,8 +6,9 @@ import type { BoardDesign } from '../../app/board/design';
 import { predictRamp, rampVoltageAt } from '../../app/board/rampModel';
 import { planTrim, type TrimPlan, type TrimSuggestion } from '../../app/board/trimPlan';
 import type { ESeriesName } from '../../app/board/eSeries';
+import type { PartOverrides } from '../../app/board/parts';
 import type { CaptureReadings } from '../../app/bench/readings';
-import type { FoldTrace, TrimPlanView } from '../../app/contract';
+import type { FoldTrace, KnownPart, TrimPlanView } from '../../app/contract';
 import { BenchFault } from '../../app/contract';
 
 /** The model's ramp after a change, over its charging interval, in degrees from the sync zero crossing. */
@@ -29,15 +30,16 @@ export function predictedRampTrace(design: BoardDesign, suggestion: Pick<TrimSug
   return { deg, v };
 }
 
-export function planFromWindow(design: BoardDesign, window: CaptureReadings | null, series: ESeriesName): TrimPlan {
+/** The plan for the last window's ramp; `fitted` holds the parts known to differ from the design. */
+export function planFromWindow(design: BoardDesign, window: CaptureReadings | null, series: ESeriesName, fitted: PartOverrides = {}): TrimPlan {
   const ramp = window?.ramp;
   if (!ramp || ramp.peakV === null || ramp.floorV === null || ramp.slopeVPerMs === null) {
     throw new BenchFault('not-ready', 'no ramp measured yet: connect the board and wait a second for the ramp readings');
   }
-  return planTrim(design, { floorV: ramp.floorV, peakV: ramp.peakV, slopeVPerMs: ramp.slopeVPerMs, startDelayDeg: ramp.startDelayDeg ?? undefined, clipped: ramp.clipped, alphaMaxDeg: window?.pulse.alphaMaxDeg ?? null }, { series });
+  return planTrim(design, { floorV: ramp.floorV, peakV: ramp.peakV, slopeVPerMs: ramp.slopeVPerMs, startDelayDeg: ramp.startDelayDeg ?? undefined, clipped: ramp.clipped, alphaMaxDeg: window?.pulse.alphaMaxDeg ?? null }, { series, fitted });
 }
 
-export function trimPlanView(design: BoardDesign, plan: TrimPlan, window: CaptureReadings | null, measuredRamp: FoldTrace | null): TrimPlanView {
+export function trimPlanView(design: BoardDesign, plan: TrimPlan, window: CaptureReadings | null, measuredRamp: FoldTrace | null, knownParts: KnownPart[] = []): TrimPlanView {
   return {
     inTolerance: plan.status === 'in-tolerance',
     message: [plan.summary, ...plan.notes].join(' '),
@@ -62,11 +64,12 @@ export function trimPlanView(design: BoardDesign, plan: TrimPlan, window: Captur
       predictedPeakV: suggestion.predictedPeakV,
       predictedAlphaMaxDeg: suggestion.predictedAlphaRangeDeg.maxDeg,
       headroomV: suggestion.headroomV,
-      reason: suggestion.alsoChange
-        ? `${suggestion.reason} (also ${suggestion.alsoChange.ref ?? suggestion.alsoChange.part} to ${suggestion.alsoChange.toOhm} ohm)`
-        : suggestion.reason,
+      // The planner's reason names the second change too ("... and rEmitter (R7) 7.5 kohm with 8.2 kohm").
+      reason: suggestion.reason,
       predictedRamp: predictedRampTrace(design, suggestion),
+      alsoChange: suggestion.alsoChange ? { part: suggestion.alsoChange.part, partRef: suggestion.alsoChange.ref, fromOhm: suggestion.alsoChange.fromOhm, toOhm: suggestion.alsoChange.toOhm } : null,
     })),
     measuredRamp,
+    knownParts,
   };
 }

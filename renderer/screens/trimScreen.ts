@@ -137,7 +137,7 @@ export class TrimScreen implements Screen {
 
   private async applyTrim(suggestion: TrimSuggestion, button: HTMLButtonElement): Promise<void> {
     await runAction(this.context, button, async () => {
-      const result = await this.context.client.applyTrim({ part: suggestion.part, fromOhm: suggestion.fromOhm, toOhm: suggestion.toOhm, method: suggestion.method, addOhm: suggestion.addOhm, reason: suggestion.reason });
+      const result = await this.context.client.applyTrim({ part: suggestion.part, fromOhm: suggestion.fromOhm, toOhm: suggestion.toOhm, method: suggestion.method, addOhm: suggestion.addOhm, reason: suggestion.reason, alsoChange: suggestion.alsoChange ? { part: suggestion.alsoChange.part, fromOhm: suggestion.alsoChange.fromOhm, toOhm: suggestion.alsoChange.toOhm } : null });
       this.context.notices.show('info', `Recorded: ${partWords[result.trim.part] ?? result.trim.part} ${formatSi(result.trim.fromOhm, 'Ω')} → ${formatSi(result.trim.toOhm, 'Ω')}. Check the ramp again.`);
       await this.context.store.refresh();
     });

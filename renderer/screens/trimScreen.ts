@@ -1,17 +1,25 @@
 /**
  * Trim: the ranked trim plan (which part, which standard value, what the ramp will then do), the predicted ramp
- * drawn over the measured one, and "I fitted this", which records the change and asks for a re-check.
+ * drawn over the measured one, and "I fitted this", which records the change and asks for a re-check. Parts the
+ * technician measured on the board go to the planner, so a wrong part fitted is planned from, not around.
  */
-import type { TrimPlanView, TrimSuggestion } from '../../app/contract/records';
+import type { BoardDesign, PartRole } from '../../app/board/design';
+import type { KnownPart, TrimPlanView, TrimSuggestion } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { h, fill, uniqueId } from '../dom/h';
 import { formatSi } from '../shaping/formatSi';
+import { measurableParts, partValueText, readMeasuredFields } from '../shaping/measuredPartsForm';
 import { foldTracePoints } from '../shaping/foldPoints';
 import { trimEstimateText } from '../shaping/trimEstimateText';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 
 const methodWords: Record<TrimSuggestion['method'], string> = { replace: 'Replace', parallel: 'Add in parallel', series: 'Add in series' };
 const partWords: Record<string, string> = { rEmitter: 'Emitter resistor', rBiasTop: 'Bias divider, top', rBiasBottom: 'Bias divider, bottom', rControlTop: 'Control limit resistor', cRamp: 'Ramp capacitor' };
+
+function knownPartText(part: KnownPart): string {
+  const unit = part.part === 'cRamp' ? 'F' : 'Ω';
+  return `${part.partRef ?? partWords[part.part] ?? part.part} ${formatSi(part.value, unit)} ${part.source === 'measured' ? 'measured' : 'fitted'} (design ${formatSi(part.designValue, unit)})`;
+}
 
 export class TrimScreen implements Screen {
   readonly name = 'trim' as const;
@@ -24,7 +32,13 @@ export class TrimScreen implements Screen {
   private readonly recheck = h('div', { class: 'banner', role: 'alert', hidden: true, 'data-testid': 'trim-recheck' });
   private readonly canvas = h('canvas', { role: 'img', 'aria-label': 'Ramp: measured and predicted', 'data-testid': 'trim-canvas' });
   private readonly chart: Chart<'line', { x: number; y: number }[]>;
+  private readonly partsForm = h('div', { class: 'form-grid wide-fields', 'data-testid': 'trim-parts' });
+  private readonly partsButton = h('button', { class: 'secondary', type: 'button', 'data-testid': 'trim-parts-plan' }, 'Plan with these values');
+  private readonly partsForget = h('button', { class: 'secondary', type: 'button', 'data-testid': 'trim-parts-forget' }, 'Forget measured values');
+  private readonly partInputs = new Map<PartRole, { input: HTMLInputElement; problem: HTMLElement; fitted: HTMLElement }>();
   private plan: TrimPlanView | null = null;
+  private design: BoardDesign | null = null;
+  private designKey = '';
   private chosen = 0;
 
   constructor(private readonly context: ScreenContext) {
@@ -57,8 +71,18 @@ export class TrimScreen implements Screen {
           ),
         ),
       ),
+      h(
+        'section',
+        { class: 'panel stack trim-parts', 'aria-labelledby': 'trim-parts-title' },
+        h('h2', { id: 'trim-parts-title' }, 'Parts on the board'),
+        h('p', { class: 'muted' }, 'If the ramp is far off, measure the parts that set it (board powered down, part lifted at one end) and type what you found; leave a field blank for a part you did not measure. The plan then starts from the board as built.'),
+        this.partsForm,
+        h('div', { class: 'row' }, this.partsButton, this.partsForget),
+      ),
       h('section', { class: 'panel', 'aria-labelledby': 'trim-list-title' }, h('h2', { id: 'trim-list-title' }, 'Changes, best first'), h('p', { class: 'muted' }, 'Pick a row to draw its predicted ramp. Power the board down before changing a part.'), this.table),
     );
+    this.partsButton.addEventListener('click', () => void this.planWithMeasured(false));
+    this.partsForget.addEventListener('click', () => void this.planWithMeasured(true));
     context.store.on('state', () => this.renderRecheck());
   }
 
@@ -80,11 +104,80 @@ export class TrimScreen implements Screen {
       this.draw();
       return;
     }
+    await this.loadDesign();
     const plan = await runAction(this.context, this.refreshButton, () => this.context.client.trimPlan({ series: this.seriesSelect.value as 'E24' }));
     if (!plan) return;
+    this.showPlan(plan);
+  }
+
+  private showPlan(plan: TrimPlanView): void {
     this.plan = plan;
     this.chosen = 0;
     this.render();
+    this.renderParts(plan.knownParts);
+  }
+
+  /** The session's design, for the part fields (fetched again only when the session's design changes). */
+  private async loadDesign(): Promise<void> {
+    const session = this.context.store.state?.session;
+    if (!session) return;
+    const key = `${session.designName}@${session.designVersion}`;
+    if (key === this.designKey && this.design) return;
+    const stored = await runAction(this.context, null, () => this.context.client.getDesign({ name: session.designName, version: session.designVersion }));
+    if (!stored) return;
+    this.design = stored.design;
+    this.designKey = key;
+    this.buildPartFields(stored.design);
+  }
+
+  private buildPartFields(design: BoardDesign): void {
+    this.partInputs.clear();
+    const labels = measurableParts.map((role) => {
+      const part = role === 'cRamp' ? { value: design.parts.cRamp.farad, ref: design.parts.cRamp.ref } : { value: design.parts[role]?.ohm ?? Number.NaN, ref: design.parts[role]?.ref };
+      const designValue = part.value;
+      const ref = part.ref;
+      const id = uniqueId(`measured-${role}`);
+      const input = h('input', { id, type: 'text', inputmode: 'decimal', autocomplete: 'off', spellcheck: 'false', placeholder: `as designed: ${partValueText(designValue)}`, 'data-testid': `measured-${role}` });
+      const problem = h('span', { class: 'field-problem', 'aria-live': 'polite' });
+      const fitted = h('span', { class: 'muted small' });
+      input.setAttribute('aria-describedby', `${id}-problem`);
+      problem.id = `${id}-problem`;
+      this.partInputs.set(role, { input, problem, fitted });
+      return h('label', { class: 'field', for: id }, `${partWords[role] ?? role}${ref ? ` (${ref})` : ''}, ${role === 'cRamp' ? 'F' : 'Ω'}`, input, fitted, problem);
+    });
+    fill(this.partsForm, labels);
+  }
+
+  /** Measured values go back in their fields; a part changed this session says so under its field. */
+  private renderParts(known: readonly KnownPart[]): void {
+    for (const [role, field] of this.partInputs) {
+      const entry = known.find((part) => part.part === role);
+      field.input.value = entry?.source === 'measured' ? partValueText(entry.value) : '';
+      field.input.setAttribute('aria-invalid', 'false');
+      field.problem.textContent = '';
+      field.fitted.textContent = entry?.source === 'fitted' ? `fitted this session: ${formatSi(entry.value, role === 'cRamp' ? 'F' : 'Ω')}` : '';
+    }
+  }
+
+  private async planWithMeasured(forget: boolean): Promise<void> {
+    const design = this.design;
+    if (!design || !this.context.store.state?.session) return;
+    const texts: Partial<Record<PartRole, string>> = {};
+    for (const [role, field] of this.partInputs) texts[role] = forget ? '' : field.input.value;
+    const { measured, problems } = readMeasuredFields(design, texts);
+    let firstBad: HTMLInputElement | null = null;
+    for (const [role, field] of this.partInputs) {
+      const problem = problems[role] ?? '';
+      field.problem.textContent = problem;
+      field.input.setAttribute('aria-invalid', String(problem !== ''));
+      if (problem !== '' && firstBad === null) firstBad = field.input;
+    }
+    if (firstBad) {
+      firstBad.focus();
+      return;
+    }
+    const plan = await runAction(this.context, forget ? this.partsForget : this.partsButton, () => this.context.client.trimPlan({ series: this.seriesSelect.value as 'E24', measuredParts: measured }));
+    if (plan) this.showPlan(plan);
   }
 
   private render(): void {
@@ -95,6 +188,7 @@ export class TrimScreen implements Screen {
       h('p', { class: 'big-reading' }, h('span', { class: 'label' }, 'Ramp peak now'), h('span', { class: 'value', 'data-testid': 'trim-measured' }, formatSi(plan.measuredPeakV, 'V')), h('span', { class: 'design' }, ` target ${formatSi(plan.targetPeakV, 'V')}`)),
       h('p', { 'data-testid': 'trim-message' }, plan.message),
       plan.estimate ? h('p', { class: 'muted', 'data-testid': 'trim-estimate' }, trimEstimateText(plan.estimate)) : null,
+      plan.knownParts.length > 0 ? h('p', { 'data-testid': 'trim-known' }, h('strong', {}, 'Planned for the board as built: '), plan.knownParts.map(knownPartText).join('; '), '.') : null,
     );
     if (plan.suggestions.length === 0) {
       fill(this.table, h('p', { class: 'empty', 'data-testid': 'trim-none' }, plan.inTolerance ? 'The ramp is in tolerance: nothing to change.' : 'No standard value brings the ramp to its target; check the parts against the design.'));

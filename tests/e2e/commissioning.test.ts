@@ -116,6 +116,18 @@ describe('browser mode with the virtual board', () => {
     await page.getByTestId('fitted-0').waitFor({ timeout: 20_000 });
     await expect(page.getByTestId('trim-message').textContent()).resolves.not.toBe('');
     expect(await canvasInk(page, '[data-testid="trim-canvas"]')).toBeGreaterThan(0.02);
+    // The technician measured the ramp capacitor: a slipped prefix is named beside the field and nothing is sent;
+    // the value as measured (470 nF design, 30 % low on the demo board) reaches the plan.
+    const capacitor = page.getByTestId('measured-cRamp');
+    await capacitor.fill('330');
+    await page.getByTestId('trim-parts-plan').click();
+    await expect.poll(() => capacitor.getAttribute('aria-invalid')).toBe('true');
+    await expect(page.locator('label.field', { has: capacitor }).locator('.field-problem').textContent()).resolves.toMatch(/more than 10 times off its design value 470 nF/);
+    await capacitor.fill('330n');
+    await page.getByTestId('trim-parts-plan').click();
+    await expect.poll(() => page.getByTestId('trim-known').textContent(), { timeout: 15_000 }).toMatch(/Planned for the board as built: C6 330 nF measured \(design 470 nF\)/);
+    expect(await capacitor.getAttribute('aria-invalid')).toBe('false');
+    await expect(capacitor.inputValue()).resolves.toBe('330n');
     await screenshot(page, '4-trim-plan');
     await page.getByTestId('fitted-0').click();
     await page.getByTestId('trim-recheck').waitFor({ state: 'visible' });

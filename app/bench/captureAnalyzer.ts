@@ -9,7 +9,7 @@ import { GatePulseTracker, type GatePulse } from '../signal/gatePulses';
 import { MainsFrequencyTracker } from '../signal/mainsFrequency';
 import { analyzeRampSegment } from '../signal/rampSegment';
 import { SampleHistory } from '../signal/sampleHistory';
-import { ZeroCrossingTracker, type ZeroCrossing } from '../signal/zeroCrossings';
+import { estimateSyncLevels, ZeroCrossingTracker, type ZeroCrossing } from '../signal/zeroCrossings';
 import { learnFirstLevels, type FirstLevels } from './firstLevels';
 import type { CaptureReadings, CycleReading, Rectifier } from './readings';
 import { ReadingsSummary } from './readingsSummary';
@@ -67,6 +67,11 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
   let pulses: GatePulse[] = [];
   let lastChargeEndIndex = Number.NaN;
   let invalidSamples = 0;
+  // A sync that was dead while the first levels were learned (board powered after the capture started, probe
+  // clipped on late) is looked for again in whole windows of warmupS, counted in samples so the result does not
+  // depend on how the samples arrive in blocks.
+  let lateSync: Float64Array | null = null;
+  let lateSyncFill = 0;
 
   const timeOf = (index: number): number => segmentStartS + index / sampleRateHz;
 
@@ -84,6 +89,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
     previousCrossingIndex = Number.NaN;
     pulses = [];
     lastChargeEndIndex = Number.NaN;
+    lateSyncFill = 0;
   }
 
   /** Closes a stretch: windows whose end is known are analysed with whatever margin exists. */
@@ -192,7 +198,8 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
     if (!Number.isFinite(firstStartS)) firstStartS = block.startS;
     const firstIndex = nextIndex;
     history.append(block.ramp);
-    if (crossingTracker) for (const crossing of crossingTracker.push(block.sync, firstIndex)) onCrossing(crossing);
+    if (!crossingTracker) lookForLateSync(block.sync, firstIndex);
+    else for (const crossing of crossingTracker.push(block.sync, firstIndex)) onCrossing(crossing);
     if (pulseTracker) {
       const found = pulseTracker.push(block.gate, block.control, firstIndex);
       pulses.push(...found.started);
@@ -215,6 +222,29 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
     history.discardBefore(Math.max(keepFrom, lastIndex - 2 * holdSamples));
     if (!openWindow && pending.length === 0) pulses = pulses.filter((pulse) => pulse.riseIndex > lastIndex - holdSamples);
     return readings;
+  }
+
+  /** Fills the window; when full, learns sync levels from it and, when they hold, tracks from the next sample on. */
+  function lookForLateSync(sync: Float64Array, firstIndex: number): void {
+    const windowSamples = Math.max(1, Math.round(warmupS * sampleRateHz));
+    if (lateSync === null || lateSync.length !== windowSamples) {
+      lateSync = new Float64Array(windowSamples);
+      lateSyncFill = 0;
+    }
+    let offset = 0;
+    while (offset < sync.length && !crossingTracker) {
+      const take = Math.min(sync.length - offset, windowSamples - lateSyncFill);
+      lateSync.set(sync.subarray(offset, offset + take), lateSyncFill);
+      lateSyncFill += take;
+      offset += take;
+      if (lateSyncFill < windowSamples) break;
+      const found = estimateSyncLevels(lateSync);
+      lateSyncFill = 0;
+      if (found && found.amplitudeV >= (options.minimumSyncAmplitudeV ?? 0.05)) {
+        crossingTracker = new ZeroCrossingTracker(found);
+        for (const crossing of crossingTracker.push(sync.subarray(offset), firstIndex + offset)) onCrossing(crossing);
+      }
+    }
   }
 
   function endWarmup(): CycleReading[] {

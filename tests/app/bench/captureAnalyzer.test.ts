@@ -176,6 +176,26 @@ describe('createCaptureAnalyzer on synthetic boards (closed-form truth)', () => 
     expect(empty.ramp.peakV).toBeNull();
   });
 
+  it('a sync that comes alive after the first levels were learned is found in a later window, whatever the blocks', () => {
+    const { blocks, truth } = synthesize(fullWave);
+    // The sync probe is clipped on at 0.55 s: before that the channel shows only a few millivolts of noise.
+    const liveFromS = 0.55;
+    const late = blocks.map((block) => {
+      const sync = Float64Array.from(block.sync, (value, index) => (block.startS + index / block.sampleRateHz < liveFromS ? 0.002 * Math.sin(index) : value));
+      return { ...block, sync };
+    });
+    const { readings } = analyze(late, { rectifier: 'full-wave' });
+    // Windows of 0.2 s in samples: [0, 0.2) learns nothing, [0.2, 0.4) nothing, [0.4, 0.6) finds the sync, and
+    // crossings are tracked from the end of that window on.
+    const trackedFromS = (3 * Math.round(0.2 * fullWave.sampleRateHz)) / fullWave.sampleRateHz;
+    expect(readings.frequencyHz).toBeCloseTo(50, 3);
+    expect(readings.firingIntervals).toBe(truth.intervalStartsS.filter((startS) => startS > trackedFromS).length - 1);
+    expect(readings.ramp.peakV).toBeCloseTo(7.425, 2);
+    expect(readings.pulse.alphaDeg).toBeCloseTo(64, 0);
+    // The same readings however the samples are cut.
+    expect(analyze(recut(late, [37, 1000, 5, 4096]), { rectifier: 'full-wave' }).readings).toEqual(readings);
+  });
+
   it('keepPerCycle false keeps the summary and drops the per-interval list', () => {
     const { blocks } = synthesize({ ...fullWave, durationS: 0.6 });
     const kept = analyze(blocks, { rectifier: 'full-wave' }).readings;

@@ -9,6 +9,7 @@ import type { Verdict } from '../contract/readings';
 import type { BoardDesign } from '../board/design';
 import { alphaForControl } from '../board/firingAngle';
 import { predictRamp } from '../board/rampModel';
+import { anodeVoltageAtAlphaV, minimumGatePulseUs } from '../power/gatePulse';
 import type { CaptureReadings } from './readings';
 
 export interface ReadingCheck {
@@ -32,6 +33,12 @@ const mainsTolerancePct = 1;
 
 /** Gate pulse width tolerance: +-20 % of the design width (our rule: RC pulse stages with 10 % capacitors). */
 const pulseWidthTolerancePct = 20;
+
+/**
+ * A gate pulse under twice the latching minimum is marginal (our rule: the latching current of a thyristor rises
+ * when it is cold and spreads between parts of one type, from memory).
+ */
+const latchMarginFactor = 2;
 
 export function verdictFor(deviation: number, toleranceAbs: number): Verdict {
   const size = Math.abs(deviation);
@@ -83,9 +90,37 @@ export function judgeReadings(readings: CaptureReadings, design: BoardDesign): R
   checks.push(limit('alphaMaxDeg', 'Largest alpha', 'deg', readings.pulse.alphaMaxDeg, design.alphaMaxDeg, alphaToleranceDeg, 'max'));
   checks.push(limit('alphaMinDeg', 'Smallest alpha', 'deg', readings.pulse.alphaMinDeg, design.alphaMinDeg, alphaToleranceDeg, 'min'));
   checks.push(against('pulseWidthUs', 'Gate pulse width', 'us', readings.pulse.widthUs, design.gatePulseUs, (design.gatePulseUs * pulseWidthTolerancePct) / 100));
+  if (design.load) checks.push(latchCheck(readings, design));
   const counted = readings.firingIntervals > 0;
   checks.push(against('wrongHalfCyclePulses', 'Pulses in the wrong half-cycle', '', counted ? readings.pulse.wrongHalfCycle : null, 0, 0));
   checks.push(against('missingPulses', 'Missing pulses', '', counted ? readings.pulse.missing : null, 0, 0));
   checks.push(against('multiplePulses', 'Half-cycles with more than one pulse', '', counted ? readings.pulse.multiplePulses : null, 0, 0));
   return checks;
+}
+
+/**
+ * Is the gate pulse long enough for the thyristor to latch where it is hardest: at the largest alpha, where the
+ * anode voltage is lowest (app/power/gatePulse.ts). The largest alpha measured, or the design's when none was seen.
+ */
+function latchCheck(readings: CaptureReadings, design: BoardDesign): ReadingCheck {
+  const load = design.load;
+  if (!load) throw new Error('latchCheck needs a design with a load');
+  const alphaDeg = readings.pulse.alphaMaxDeg ?? design.alphaMaxDeg;
+  const anodeV = anodeVoltageAtAlphaV(load.mainsRmsV, alphaDeg);
+  const minimumUs = minimumGatePulseUs({ latchingCurrentA: load.latchingCurrentA, loadOhm: load.ohm, loadHenry: load.henry }, anodeV);
+  const measured = readings.pulse.widthUs;
+  const label = `Gate pulse against latching at ${alphaDeg.toFixed(1)} deg`;
+  if (!Number.isFinite(minimumUs)) {
+    return {
+      key: 'pulseLatchUs', label, measured, expected: null, toleranceAbs: null, unit: 'us',
+      verdict: measured === null ? null : 'out-of-tolerance',
+      note: `at ${alphaDeg.toFixed(1)} deg the anode sees ${anodeV.toFixed(1)} V, so the load current (at most ${((anodeV / load.ohm) * 1000).toFixed(0)} mA) never reaches the ${(load.latchingCurrentA * 1000).toFixed(0)} mA latching current: no pulse width fires it; lower the largest alpha`,
+    };
+  }
+  const verdict = measured === null ? null : measured < minimumUs ? 'out-of-tolerance' : measured < latchMarginFactor * minimumUs ? 'marginal' : 'in-tolerance';
+  return {
+    // Tolerance 0 past the limit: the band starts at the minimum (the margin rule above makes "marginal").
+    key: 'pulseLatchUs', label, measured, expected: minimumUs, toleranceAbs: 0, unit: 'us', verdict,
+    note: `limit: at least ${minimumUs.toFixed(0)} us for the load to pass the latching current (${latchMarginFactor} times that for margin)`,
+  };
 }

@@ -28,6 +28,23 @@ export const transistorSchema = z
   })
   .default({ vebV: 0.65, beta: 150, earlyV: 60, vecSatV: 0.2 });
 
+/**
+ * The power stage the board fires, when the design names it: the mains the thyristor sees, the load and the
+ * thyristor's latching current. With it the Limits step judges whether the gate pulse is long enough to latch at
+ * the largest alpha (app/power/gatePulse.ts) and states the load voltage range (app/power/rectifierOutput.ts).
+ */
+export const loadSchema = z.object({
+  /** Mains at the thyristor's anode, rms (V). */
+  mainsRmsV: z.number().positive('the mains voltage must be above 0 V').max(1000, 'a mains above 1000 V rms is outside this tool'),
+  /** Load resistance (ohm). */
+  ohm: z.number().positive('the load resistance must be above 0 ohm').finite(),
+  /** Load inductance (H); 0 for a resistive load. */
+  henry: z.number().min(0, 'the load inductance cannot be negative').max(100).default(0),
+  /** Latching current of the thyristor from its data sheet (A). */
+  latchingCurrentA: z.number().positive('the latching current must be above 0 A').max(10),
+});
+export type PowerLoad = z.output<typeof loadSchema>;
+
 export const boardDesignSchema = z.object({
   name: z.string().min(1, 'a board design needs a name'),
   mainsHz: z.number().min(45, 'mains frequency must be 45-65 Hz').max(65, 'mains frequency must be 45-65 Hz'),
@@ -61,6 +78,7 @@ export const boardDesignSchema = z.object({
     potControl: resistor.optional(),
   }),
   transistor: transistorSchema,
+  load: loadSchema.optional(),
   tolerances: z
     .object({
       rampPeakPct: z.number().positive().default(3),

@@ -9,6 +9,7 @@ import { controlLimitsOf } from '../../app/board/controlDivider';
 import { alphaForControl } from '../../app/board/firingAngle';
 import { judgeReadings, type ReadingCheck } from '../../app/bench/judge';
 import type { CaptureReadings, TransferSummary } from '../../app/bench/readings';
+import { averageOutputV } from '../../app/power/rectifierOutput';
 import { commissioningStepNames, type CommissioningStep, type Reading, type StepReport, type Verdict } from '../../app/contract';
 import type { AlphaExtremes } from './benchPipeline';
 
@@ -41,8 +42,8 @@ export function readingFromCheck(check: ReadingCheck): Reading {
   let low: number | null = null;
   let high: number | null = null;
   if (expected !== null && check.toleranceAbs !== null) {
-    if (check.note === 'limit: at most') high = expected + check.toleranceAbs;
-    else if (check.note === 'limit: at least') low = expected - check.toleranceAbs;
+    if (check.note?.startsWith('limit: at most')) high = expected + check.toleranceAbs;
+    else if (check.note?.startsWith('limit: at least')) low = expected - check.toleranceAbs;
     else {
       low = expected - check.toleranceAbs;
       high = expected + check.toleranceAbs;
@@ -124,7 +125,7 @@ export function measureSteps(inputs: StepInputs): Record<CommissioningStep, Step
   }
   const limits = report(
     'limits',
-    pick(limitChecks, ['alphaMaxDeg', 'alphaMinDeg', 'pulseWidthUs', 'wrongHalfCyclePulses', 'missingPulses', 'multiplePulses']),
+    [...pick(limitChecks, ['alphaMaxDeg', 'alphaMinDeg', 'pulseWidthUs', 'pulseLatchUs', 'wrongHalfCyclePulses', 'missingPulses', 'multiplePulses']), ...loadReadings(design, limitChecks)],
     cycles,
     waiting ? null : 'turn the control to both ends so the largest and smallest alpha are seen',
     waiting,
@@ -179,4 +180,23 @@ export function idealTransfer(design: BoardDesign, points = 40): Array<{ t: numb
     if (alphaDeg !== null) line.push({ t: 0, controlV, alphaDeg });
   }
   return line;
+}
+
+/**
+ * What the measured alpha range means at the load, when the design names it: the average load voltage at the
+ * smallest and largest alpha (resistive load, app/power/rectifierOutput.ts), for information.
+ */
+function loadReadings(design: BoardDesign, limitChecks: readonly ReadingCheck[]): Reading[] {
+  const load = design.load;
+  if (!load) return [];
+  const measured = (key: string): number | null => {
+    const value = limitChecks.find((check) => check.key === key)?.measured;
+    return typeof value === 'number' ? value : null;
+  };
+  const outputAt = (alphaDeg: number | null): number | null => (alphaDeg === null ? null : averageOutputV(design.rectifier, load.mainsRmsV, alphaDeg));
+  const note = load.henry > 0 ? 'resistive-load formula; an inductive load conducting past the zero crossing gives less' : null;
+  return [
+    infoReading('loadAtAlphaMinV', 'Average load voltage at the smallest alpha', 'V', outputAt(measured('alphaMinDeg')), outputAt(design.alphaMinDeg), note),
+    infoReading('loadAtAlphaMaxV', 'Average load voltage at the largest alpha', 'V', outputAt(measured('alphaMaxDeg')), outputAt(design.alphaMaxDeg), note),
+  ];
 }

@@ -67,6 +67,15 @@ export const designFieldGroups: readonly DesignFieldGroup[] = [
     ],
   },
   {
+    title: 'Power stage (optional: for the latching check)',
+    fields: [
+      { path: 'load.mainsRmsV', label: 'Mains at the anode (V rms)', unit: 'V', kind: 'number', optional: true },
+      { path: 'load.ohm', label: 'Load resistance (Ω)', unit: 'ohm', kind: 'number', optional: true },
+      { path: 'load.henry', label: 'Load inductance (mH)', unit: 'mH', kind: 'number', optional: true },
+      { path: 'load.latchingCurrentA', label: 'Latching current (mA)', unit: 'mA', kind: 'number', optional: true },
+    ],
+  },
+  {
     title: 'Tolerances',
     fields: [
       { path: 'tolerances.rampPeakPct', label: 'Ramp peak (%)', unit: '%', kind: 'number', optional: true },
@@ -76,8 +85,11 @@ export const designFieldGroups: readonly DesignFieldGroup[] = [
   },
 ];
 
-/** Typed in microfarads, stored in farads: a technician reads "0.47" off the part, not "4.7e-7". */
-const typedScale: Record<string, number> = { uF: 1e-6 };
+/**
+ * Typed in microfarads, stored in farads: a technician reads "0.47" off the part, not "4.7e-7". Likewise
+ * millihenry and milliampere, as data sheets and load plates give them.
+ */
+const typedScale: Record<string, number> = { uF: 1e-6, mH: 1e-3, mA: 1e-3 };
 
 export function fieldValueText(design: unknown, field: DesignField): string {
   const value = getPath(design, field.path);
@@ -166,4 +178,6 @@ function deletePath(object: Record<string, unknown>, path: string): void {
     const part = current as Record<string, unknown>;
     if (part.ohm === undefined && part.farad === undefined) deletePath(object, parentPath.join('.'));
   }
+  // A power stage with every field cleared is no power stage (the design's load is optional as a whole).
+  if (parentPath.length === 1 && parentPath[0] === 'load' && Object.keys(current).length === 0) delete object.load;
 }

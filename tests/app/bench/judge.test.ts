@@ -87,3 +87,46 @@ describe('judgeReadings', () => {
     expect(byKey(checks, 'pulseWidthUs')?.verdict).toBeNull();
   });
 });
+
+describe('the gate pulse against the load it must latch (design with a load)', () => {
+  // REFERENCES.md worked value: I_L 100 mA, 200 V, 20 ohm, 0.2 H gives 100.5 us. The anode sees 200 V at 90 deg
+  // on a mains of 200/sqrt 2 V rms; hand check: -(0.2/20) ln(1 - 0.1 x 20/200) = 0.01 x 0.0100503 s = 100.503 us.
+  const loaded = boardDesignSchema.parse({ ...design, load: { mainsRmsV: 200 / Math.SQRT2, ohm: 20, henry: 0.2, latchingCurrentA: 0.1 } });
+  const latch = (pulse: Partial<CaptureReadings['pulse']>) => byKey(judgeReadings(readings({ pulse }), loaded), 'pulseLatchUs');
+
+  it('judges the width at the largest alpha measured against the latching minimum, with twice it for margin', () => {
+    const wide = latch({ alphaMaxDeg: 90, widthUs: 250 });
+    expect(wide?.expected).toBeCloseTo(100.503, 2);
+    expect(wide?.verdict).toBe('in-tolerance');
+    expect(wide?.label).toBe('Gate pulse against latching at 90.0 deg');
+    expect(latch({ alphaMaxDeg: 90, widthUs: 150 })?.verdict).toBe('marginal');
+    expect(latch({ alphaMaxDeg: 90, widthUs: 80 })?.verdict).toBe('out-of-tolerance');
+    expect(latch({ alphaMaxDeg: 90, widthUs: null })?.verdict).toBeNull();
+  });
+
+  it('past the angle where the load current can reach the latching current no width fires it, and it says so', () => {
+    // 179.5 deg: 200 V x sin(0.5 deg) = 1.75 V, at most 87 mA into 20 ohm, under the 100 mA latching current.
+    const late = latch({ alphaMaxDeg: 179.5, widthUs: 5000 });
+    expect(late?.expected).toBeNull();
+    expect(late?.verdict).toBe('out-of-tolerance');
+    expect(late?.note).toContain('never reaches the 100 mA latching current');
+  });
+
+  it('takes the design alpha max when no pulse was measured, and a design without a load has no such check', () => {
+    expect(latch({ alphaMaxDeg: null, widthUs: 200 })?.label).toBe('Gate pulse against latching at 165.0 deg');
+    expect(byKey(judgeReadings(readings({}), design), 'pulseLatchUs')).toBeUndefined();
+  });
+
+  it('refuses a load that is not one, naming the field', () => {
+    for (const [load, path] of [
+      [{ mainsRmsV: 0, ohm: 20, latchingCurrentA: 0.1 }, 'load.mainsRmsV'],
+      [{ mainsRmsV: 230, ohm: -1, latchingCurrentA: 0.1 }, 'load.ohm'],
+      [{ mainsRmsV: 230, ohm: 20, henry: -0.1, latchingCurrentA: 0.1 }, 'load.henry'],
+      [{ mainsRmsV: 230, ohm: 20 }, 'load.latchingCurrentA'],
+    ] as const) {
+      const parsed = boardDesignSchema.safeParse({ ...design, load });
+      expect(parsed.success).toBe(false);
+      expect(parsed.error?.issues.map((issue) => issue.path.join('.'))).toContain(path);
+    }
+  });
+});

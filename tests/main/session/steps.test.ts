@@ -97,6 +97,24 @@ describe('measureSteps', () => {
     expect(alphaMax.high).toBe(167);
     expect(alphaMax.low).toBeNull();
   });
+
+  it('with a load in the design, the limits step judges latching at the largest alpha and gives the load voltage range', () => {
+    // A 230 V heater of our own: 50 ohm resistive, thyristor latching at 60 mA.
+    const heater = parseBoardDesign({ ...design, load: { mainsRmsV: 230, ohm: 50, latchingCurrentA: 0.06 } });
+    const steps = measureSteps(inputs({ design: heater, extremes: { alphaMinDeg: 30, alphaMaxDeg: 160, cycles: 300 } }));
+    const byKey = (key: string) => steps.limits.readings.find((reading) => reading.key === key)!;
+    // Resistive load: no inductance to wait for, the minimum is 0 us and the band starts there.
+    expect(byKey('pulseLatchUs')).toMatchObject({ value: 200, expected: 0, low: 0, high: null, verdict: 'in-tolerance' });
+    // Half-wave average into a resistor, V_m/(2 pi) (1 + cos alpha) (any power-electronics handbook): at 30 deg
+    // 325.27/6.2832 x 1.8660 = 96.60 V; at 160 deg 51.768 x 0.060307 = 3.122 V (hand values).
+    expect(byKey('loadAtAlphaMinV').value).toBeCloseTo(96.60, 1);
+    expect(byKey('loadAtAlphaMaxV').value).toBeCloseTo(3.122, 2);
+    expect(byKey('loadAtAlphaMaxV').verdict).toBeNull();
+    // The design's own limits give the expected values: alpha min 0 deg (default) is the whole half-wave, 0.45 x 230 V.
+    expect(byKey('loadAtAlphaMinV').expected).toBeCloseTo(0.45 * 230, 0);
+    // Without a load the step has neither reading.
+    expect(measureSteps(inputs()).limits.readings.map((reading) => reading.key)).not.toContain('pulseLatchUs');
+  });
 });
 
 describe('recorded steps and the step flow', () => {

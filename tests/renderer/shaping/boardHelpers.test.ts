@@ -63,6 +63,24 @@ describe('design form', () => {
     expect(check.design).not.toBeNull();
     expect(check.design?.parts.rDischarge).toBeUndefined();
   });
+
+  it('takes the power stage in mH and mA, asks for the rest once one field is filled, and drops it when emptied', () => {
+    const draft = structuredClone(designInput) as Record<string, unknown>;
+    setFieldText(draft, field('load.mainsRmsV'), '230');
+    const partial = checkDesign(draft);
+    expect(partial.design).toBeNull();
+    expect(problemForField(partial.problems, field('load.ohm'))).not.toBeNull();
+    expect(problemForField(partial.problems, field('load.latchingCurrentA'))).not.toBeNull();
+    setFieldText(draft, field('load.ohm'), '12');
+    setFieldText(draft, field('load.henry'), '150');
+    setFieldText(draft, field('load.latchingCurrentA'), '80');
+    const whole = checkDesign(draft);
+    expect(whole.design?.load).toEqual({ mainsRmsV: 230, ohm: 12, henry: 0.15, latchingCurrentA: 0.08 });
+    expect(fieldValueText(draft, field('load.henry'))).toBe('150');
+    for (const path of ['load.mainsRmsV', 'load.ohm', 'load.henry', 'load.latchingCurrentA']) setFieldText(draft, field(path), '');
+    expect(draft.load).toBeUndefined();
+    expect(checkDesign(draft).design?.load).toBeUndefined();
+  });
 });
 
 describe('predicted ramp over one cycle', () => {

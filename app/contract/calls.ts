@@ -13,6 +13,7 @@ import {
   designProblemSchema,
   designSummarySchema,
   driftPointSchema,
+  fleetViewSchema,
   exportFormatSchema,
   isoTimeSchema,
   openSessionSchema,
@@ -138,6 +139,12 @@ export const benchCalls = {
       warnings: z.array(z.string()),
     }),
     'A unit\'s readings across its sessions, with a warning where a trend will cross a tolerance.',
+  ),
+
+  fleet: call(
+    z.object({ designName: nonEmpty('the design name'), unitSerial: z.string().optional() }).strict(),
+    fleetViewSchema,
+    'A board design\'s fleet (each unit\'s latest session) against the board model\'s Monte Carlo prediction, with one unit placed in it.',
   ),
 
   // Exports (formats are registered by the report/export side; see issue on sign-off and recall)

@@ -27,6 +27,7 @@ export const benchCallNames = [
   'sessionDetail',
   'compareSessions',
   'drift',
+  'fleet',
   'exportFormats',
   'exportSession',
 ] as const;

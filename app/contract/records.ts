@@ -194,6 +194,32 @@ export const driftPointSchema = z.object({
 });
 export type DriftPoint = z.infer<typeof driftPointSchema>;
 
+/**
+ * A board design's fleet: each unit's latest session, one histogram per figure (ramp peak, alpha gain) with the
+ * board model's Monte Carlo prediction as the count each bin should hold, and the chosen unit placed in it.
+ */
+export const fleetFigureSchema = z.object({
+  key: z.enum(['rampPeakV', 'alphaGainDegPerV']),
+  label: z.string(),
+  unit: z.string(),
+  /** Units with this figure measured. */
+  count: z.number().int().nonnegative(),
+  bins: z.array(z.object({ fromValue: z.number(), toValue: z.number(), count: z.number().int().nonnegative(), predicted: z.number().nullable() })),
+  prediction: z.object({ nominal: z.number(), mean: z.number(), standardDeviation: z.number() }).nullable(),
+  /** Units beyond the prediction's mean +- 3 sd. */
+  outliers: z.number().int().nonnegative(),
+  marked: z.object({ serial: z.string(), value: z.number(), predictionZ: z.number().nullable(), fleetFractionBelow: z.number().min(0).max(1) }).nullable(),
+});
+export type FleetFigureView = z.infer<typeof fleetFigureSchema>;
+
+export const fleetViewSchema = z.object({
+  designName: z.string(),
+  designVersion: z.number().int().positive(),
+  units: z.number().int().nonnegative(),
+  figures: z.array(fleetFigureSchema),
+});
+export type FleetView = z.infer<typeof fleetViewSchema>;
+
 export const exportFormatSchema = z.object({
   id: z.string(),
   label: z.string(),

@@ -8,8 +8,9 @@ import { exportSessionWith, type SessionExporter } from './exporters';
 import type { BenchHandlers } from './handlers';
 import { compareView, driftView, sessionDetailView, sessionRowView } from './logbookViews';
 import { driftWarnings } from './driftWarnings';
+import { fleetView } from './fleetView';
 
-type RecallCall = 'listDesigns' | 'getDesign' | 'saveDesign' | 'validateDesign' | 'listUnits' | 'listSessions' | 'sessionDetail' | 'compareSessions' | 'drift' | 'exportFormats' | 'exportSession';
+type RecallCall = 'listDesigns' | 'getDesign' | 'saveDesign' | 'validateDesign' | 'listUnits' | 'listSessions' | 'sessionDetail' | 'compareSessions' | 'drift' | 'fleet' | 'exportFormats' | 'exportSession';
 
 export function createRecallHandlers(options: { logbook: Logbook; designs: DesignCatalog; exporters: readonly SessionExporter[] }): Pick<BenchHandlers, RecallCall> {
   const { logbook, designs, exporters } = options;
@@ -26,6 +27,7 @@ export function createRecallHandlers(options: { logbook: Logbook; designs: Desig
     sessionDetail: async ({ sessionId }) => sessionDetailView(logbook, designs, sessionId),
     compareSessions: async ({ sessionIdA, sessionIdB }) => compareView(logbook, sessionIdA, sessionIdB),
     drift: async ({ unitSerial }) => ({ ...(await driftView(logbook, unitSerial)), warnings: await driftWarnings({ logbook, designs }, unitSerial) }),
+    fleet: async ({ designName, unitSerial }) => fleetView({ logbook, designs }, designName, unitSerial),
     exportFormats: async () => ({ formats: exporters.map((exporter) => exporter.format) }),
     exportSession: async ({ sessionId, format }) => exportSessionWith(exporters, { logbook, designs }, sessionId, format),
   };

@@ -1,6 +1,6 @@
 /**
  * Logbook: units and sessions with filters; one session's readings, transfer curve, per-cycle plot, trims and link
- * events; two sessions side by side; a unit's drift across its sessions.
+ * events; two sessions side by side; a unit's drift across its sessions, and its board design's fleet.
  */
 import type { SessionComparison, SessionDetail, SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
@@ -12,6 +12,7 @@ import { readingsCsv } from '../shaping/readingsCsv';
 import { stepTitles } from '../shaping/stepView';
 import { fitLinePoints, toPoints } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
+import { FleetPanel } from './fleetPanel';
 
 type LineChart = Chart<'line', { x: number; y: number }[]>;
 
@@ -29,12 +30,15 @@ export class LogbookScreen implements Screen {
   private readonly detail = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Session', 'data-testid': 'session-detail' });
   private readonly comparison = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Two sessions side by side', 'data-testid': 'comparison' });
   private readonly drift = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Drift of the unit', 'data-testid': 'drift' });
+  private readonly fleet: FleetPanel;
   private readonly charts: LineChart[] = [];
+  private unitDesigns = new Map<string, string>();
   private sessions: SessionRow[] = [];
   private ticked: number[] = [];
   private selectedId: number | null = null;
 
   constructor(private readonly context: ScreenContext) {
+    this.fleet = new FleetPanel(context);
     for (const control of [this.unitSelect, this.designSelect, this.fromInput, this.toInput]) control.addEventListener('change', () => void this.loadSessions());
     this.compareButton.addEventListener('click', () => void this.compare());
     const field = (label: string, control: HTMLElement) => {
@@ -55,7 +59,7 @@ export class LogbookScreen implements Screen {
           h('section', { class: 'panel stack', 'aria-labelledby': 'filters-title' }, h('h2', { id: 'filters-title' }, 'Filters'), field('Unit', this.unitSelect), field('Board design', this.designSelect), field('From', this.fromInput), field('To', this.toInput)),
           h('section', { class: 'panel stack', 'aria-labelledby': 'units-title' }, h('h2', { id: 'units-title' }, 'Units'), this.unitsList),
         ),
-        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sessionsTable, h('div', { class: 'row' }, this.compareButton, h('span', { class: 'muted' }, 'Tick two sessions to compare them.'))), this.detail, this.comparison, this.drift),
+        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sessionsTable, h('div', { class: 'row' }, this.compareButton, h('span', { class: 'muted' }, 'Tick two sessions to compare them.'))), this.detail, this.comparison, this.drift, this.fleet.element),
       ),
     );
   }
@@ -66,12 +70,14 @@ export class LogbookScreen implements Screen {
 
   restyle(): void {
     for (const chart of this.charts) restyleChart(chart);
+    this.fleet.restyle();
   }
 
   private async loadFilters(): Promise<void> {
     const result = await runAction(this.context, null, () => Promise.all([this.context.client.listUnits({}), this.context.client.listDesigns()]));
     if (!result) return;
     const [units, designs] = result;
+    this.unitDesigns = new Map(units.units.filter((unit) => unit.designName).map((unit) => [unit.serial, unit.designName as string]));
     const unitValue = this.unitSelect.value;
     const designValue = this.designSelect.value;
     fill(this.unitSelect, h('option', { value: '' }, 'All units'), units.units.map((unit) => h('option', { value: unit.serial }, unit.serial)));
@@ -86,7 +92,6 @@ export class LogbookScreen implements Screen {
         pick.addEventListener('click', () => {
           this.unitSelect.value = unit.serial;
           void this.loadSessions();
-          void this.showDrift(unit.serial);
         });
         return h('li', {}, pick, h('div', { class: 'muted' }, `${unit.designName ?? 'no design'} · ${unit.sessions} session${unit.sessions === 1 ? '' : 's'}${unit.lastSessionAt ? ` · last ${new Date(unit.lastSessionAt).toLocaleDateString()}` : ''}`));
       }),
@@ -102,8 +107,15 @@ export class LogbookScreen implements Screen {
     this.sessions = result.sessions;
     this.ticked = this.ticked.filter((id) => this.sessions.some((session) => session.id === id));
     this.renderSessions();
-    if (this.unitSelect.value) void this.showDrift(this.unitSelect.value);
-    else this.drift.hidden = true;
+    const unitSerial = this.unitSelect.value;
+    if (unitSerial) {
+      void this.showDrift(unitSerial);
+      const designName = this.unitDesigns.get(unitSerial);
+      if (designName) void this.fleet.show(designName, unitSerial);
+    } else {
+      this.drift.hidden = true;
+      this.fleet.hide();
+    }
   }
 
   private renderSessions(): void {

@@ -214,6 +214,13 @@ describe('browser mode with the virtual board', () => {
     // Two sessions of a freshly trimmed unit: no trend can be judged yet, and the screen says so in words.
     await expect(page.getByTestId('drift-forecast').textContent()).resolves.toMatch(/at least three sessions|No trend heads|Trend warning/);
     await screenshot(page, '9-logbook-compare');
+    // The unit's board design as a fleet: one unit so far (its latest session), placed against the board model.
+    await page.getByTestId('fleet').waitFor({ state: 'visible', timeout: 20_000 });
+    expect(Number(await page.getByTestId('fleet-canvas-rampPeakV').getAttribute('data-units'))).toBe(1);
+    await expect(page.getByTestId('fleet-text-rampPeakV').textContent()).resolves.toMatch(new RegExp(`^Unit ${unitSerial}: [\\d.]+ V, above 0 % of the fleet`));
+    expect(await canvasInk(page, '[data-testid="fleet-canvas-rampPeakV"]')).toBeGreaterThan(0.01);
+    await page.getByTestId('fleet').scrollIntoViewIfNeeded();
+    await screenshot(page, '9b-logbook-fleet');
   }, 120_000);
 
   it('switches to the dark theme and stayed free of console errors', async () => {

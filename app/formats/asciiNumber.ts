@@ -2,7 +2,11 @@
  * Decimal numbers straight from bytes, without building a string per field: the sample stream of a CSV or
  * ASCII COMTRADE file is millions of fields. Up to 15 significant digits and a power of ten up to 1e22 the
  * result is one correctly rounded operation on exact operands (Clinger's fast path, "How to read floating
- * point numbers accurately", 1990), so it equals `Number(text)`; longer numbers fall back to `Number`.
+ * point numbers accurately", 1990), so it equals `Number(text)`. 16 to 19 significant digits (what a double's
+ * shortest text needs, and what noisy samples print as) are multiplied out in double-double arithmetic (Dekker's
+ * exact product and Knuth's exact sum, "A floating-point technique for extending the available precision", 1971),
+ * about 104 bits, and rounded once; when that lands within 2^-30 ulp of a halfway point the rounding is left to
+ * `Number`, as are numbers with more digits or larger exponents. So every result equals `Number(text)`.
  */
 
 const exactPowersOfTen = Array.from({ length: 23 }, (_, exponent) => 10 ** exponent);
@@ -32,7 +36,10 @@ export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number): 
     negative = code === minus;
     code = ++index < end ? bytes[index] : -1;
   }
+  // The first 15 significant digits (exact in a double) and up to 4 more after them, also exact.
   let mantissa = 0;
+  let tail = 0;
+  let tailDigits = 0;
   let significantDigits = 0;
   let decimalExponent = 0;
   let sawDigit = false;
@@ -43,14 +50,17 @@ export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number): 
   }
   while (code >= zero && code <= nine) {
     sawDigit = true;
-    if (significantDigits < 16) mantissa = mantissa * 10 + (code - zero);
-    else decimalExponent++;
+    if (significantDigits < 15) mantissa = mantissa * 10 + (code - zero);
+    else if (significantDigits < 19) {
+      tail = tail * 10 + (code - zero);
+      tailDigits++;
+    } else decimalExponent++;
     significantDigits++;
     code = ++index < end ? bytes[index] : -1;
   }
   if (code === dot) {
     code = ++index < end ? bytes[index] : -1;
-    if (mantissa === 0) {
+    if (significantDigits === 0) {
       while (code === zero) {
         sawDigit = true;
         decimalExponent--;
@@ -59,8 +69,12 @@ export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number): 
     }
     while (code >= zero && code <= nine) {
       sawDigit = true;
-      if (significantDigits < 16) {
+      if (significantDigits < 15) {
         mantissa = mantissa * 10 + (code - zero);
+        decimalExponent--;
+      } else if (significantDigits < 19) {
+        tail = tail * 10 + (code - zero);
+        tailDigits++;
         decimalExponent--;
       }
       significantDigits++;
@@ -94,15 +108,95 @@ export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number): 
   const numberEnd = index;
   while (code === space || code === tab) code = ++index < end ? bytes[index] : -1;
   scanState.stop = index;
-  if (mantissa === 0) return negative ? -0 : 0;
-  if (significantDigits <= 15 && decimalExponent >= -22 && decimalExponent <= 22) {
-    const magnitude = decimalExponent < 0 ? mantissa / exactPowersOfTen[-decimalExponent] : mantissa * exactPowersOfTen[decimalExponent];
-    return negative ? -magnitude : magnitude;
+  if (mantissa === 0 && tail === 0) return negative ? -0 : 0;
+  if (decimalExponent >= -22 && decimalExponent <= 22) {
+    if (tailDigits === 0) {
+      const magnitude = decimalExponent < 0 ? mantissa / exactPowersOfTen[-decimalExponent] : mantissa * exactPowersOfTen[decimalExponent];
+      return negative ? -magnitude : magnitude;
+    }
+    if (significantDigits <= 19) {
+      const magnitude = longMantissaTimesPowerOfTen(mantissa, tail, tailDigits, decimalExponent);
+      if (!Number.isNaN(magnitude)) return negative ? -magnitude : magnitude;
+    }
   }
   // Validated above, so Number() sees a plain decimal and rounds it correctly.
   let text = '';
   for (let position = start; position < numberEnd; position++) text += String.fromCharCode(bytes[position]);
   return Number(text);
+}
+
+/** 2^27 + 1: splits a double into two halves of 26 bits whose products are exact (Veltkamp, via Dekker 1971). */
+const splitter = 134217729;
+/** The exact rounding error of the last twoProduct/twoSum. */
+let lowPart = 0;
+
+/** a x b rounded, with the exact error in lowPart (Dekker's product; no overflow for the magnitudes used here). */
+function twoProduct(a: number, b: number): number {
+  const product = a * b;
+  const aSplit = splitter * a;
+  const aHigh = aSplit - (aSplit - a);
+  const aLow = a - aHigh;
+  const bSplit = splitter * b;
+  const bHigh = bSplit - (bSplit - b);
+  const bLow = b - bHigh;
+  lowPart = aHigh * bHigh - product + aHigh * bLow + aLow * bHigh + aLow * bLow;
+  return product;
+}
+
+/** a + b rounded, with the exact error in lowPart (Knuth's sum). */
+function twoSum(a: number, b: number): number {
+  const sum = a + b;
+  const bVirtual = sum - a;
+  lowPart = a - (sum - bVirtual) + (b - bVirtual);
+  return sum;
+}
+
+// A double's bits through typed arrays (the word order follows the platform's byte order, found once).
+const floatBits = new Float64Array(1);
+const wordBits = new Uint32Array(floatBits.buffer);
+const highWord = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0;
+
+/** The spacing of doubles at a positive double of biased exponent above 52 (all that reach here). */
+function ulpOf(value: number): number {
+  floatBits[0] = value;
+  const biasedExponent = (wordBits[highWord] >>> 20) & 0x7ff;
+  wordBits[highWord] = (biasedExponent - 52) << 20;
+  wordBits[1 - highWord] = 0;
+  return floatBits[0];
+}
+
+/**
+ * (mantissa x 10^tailDigits + tail) x 10^decimalExponent correctly rounded, or NaN when the double-double result
+ * sits too near a halfway point to decide (the caller then asks Number). decimalExponent within +-22.
+ */
+function longMantissaTimesPowerOfTen(mantissa: number, tail: number, tailDigits: number, decimalExponent: number): number {
+  // The integer of up to 19 digits as an unevaluated sum high + low, exact.
+  let high = twoProduct(mantissa, exactPowersOfTen[tailDigits]);
+  let low = lowPart;
+  high = twoSum(high, tail);
+  low += lowPart;
+  const integerHigh = high + low;
+  const integerLow = low - (integerHigh - high);
+  // Times or divided by an exact power of ten, in double-double.
+  const power = exactPowersOfTen[Math.abs(decimalExponent)];
+  let resultHigh: number;
+  let resultLow: number;
+  if (decimalExponent >= 0) {
+    resultHigh = twoProduct(integerHigh, power);
+    resultLow = lowPart + integerLow * power;
+  } else {
+    resultHigh = integerHigh / power;
+    const back = twoProduct(resultHigh, power);
+    resultLow = (integerHigh - back - lowPart + integerLow) / power;
+  }
+  const rounded = resultHigh + resultLow;
+  if (!(rounded > 0) || !Number.isFinite(rounded)) return Number.NaN;
+  // What is left beyond the rounded double, against half its ulp: too close to the tie means undecided. Just under
+  // a power of two the doubles are twice as dense, so the tie there is at a quarter ulp; both are checked.
+  const beyond = Math.abs(resultHigh - rounded + resultLow);
+  const halfUlp = ulpOf(rounded) / 2;
+  const margin = halfUlp * 2 ** -30;
+  return Math.abs(beyond - halfUlp) <= margin || Math.abs(beyond - halfUlp / 2) <= margin ? Number.NaN : rounded;
 }
 
 /**

@@ -29,6 +29,32 @@ describe('parseAsciiNumber', () => {
     );
   });
 
+  it('equals Number() for 16 to 19 significant digits at any decimal point (the double-double path)', () => {
+    const digits = fc.array(fc.integer({ min: 0, max: 9 }), { minLength: 16, maxLength: 19 });
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 9 }), digits, fc.integer({ min: -8, max: 22 }), fc.boolean(), (first, rest, point, negative) => {
+        const all = `${first}${rest.join('')}`;
+        // The point anywhere from 8 zeros before the digits to past their end.
+        const text = point <= 0 ? `0.${'0'.repeat(-point)}${all}` : point >= all.length ? `${all}${'0'.repeat(point - all.length)}` : `${all.slice(0, point)}.${all.slice(point)}`;
+        const signed = negative ? `-${text}` : text;
+        expect(Object.is(parse(signed), Number(signed))).toBe(true);
+      }),
+      { numRuns: 20000 },
+    );
+  });
+
+  it('equals Number() at exact halfway points, where only the tie rule decides', () => {
+    // Halfway between neighbouring doubles, each exact in 17 to 19 digits (hand-derived from 2^53 and 2^54):
+    // 2^53 + 1, 2^53 + 3 (ties to even go down and up), 2^54 + 2, 2^54 + 6, and the same scaled by 10^-k.
+    for (const text of ['9007199254740993', '9007199254740995', '18014398509481986', '18014398509481990', '900719925474099.3', '0.9007199254740993', '1801439850948198.6e2']) {
+      expect(Object.is(parse(text), Number(text))).toBe(true);
+    }
+    // Just under a power of two the tie is at a quarter of the upper ulp: 2^53 - 0.5 is halfway to 2^53 - 1.
+    for (const text of ['9007199254740991.5', '9007199254740991.49', '9007199254740991.51', '4503599627370495.75']) {
+      expect(Object.is(parse(text), Number(text))).toBe(true);
+    }
+  });
+
   it('equals Number() for hand-picked forms: signs, exponents, leading dots, padding, long mantissas', () => {
     for (const text of ['0', '-0', '+7', '.5', '5.', '-.25e1', '1e-7', '1E+21', '123456789012345678', '0.000000000000000000000000012', ' 3.25 ', '\t-4\t', '9007199254740993', '1.7976931348623157e308', '4.9e-324']) {
       expect(Object.is(parse(text), Number(text.trim()))).toBe(true);

@@ -87,6 +87,9 @@ describe('session service on the virtual board', () => {
     client.subscribe('transfer', (batch) => transferBatches.push(batch.points.length));
     await client.connect({ kind: 'virtual', designName: design.name, faults: [], seed: 3 });
     pump(1.5);
+    // The pump runs faster than the 50 ms frame interval, so the last batch waits on the throttle's timer: let it
+    // fire (a later timer of the same loop runs after it) before counting.
+    await new Promise((resolve) => setTimeout(resolve, 100));
     expect(liveFrames.length).toBeGreaterThan(0);
     // Transfer points travel in batches with the live frames, not one event per cycle: 1.5 s at 50 Hz is about
     // 70 firing cycles after the analyzer's 0.2 s warm-up.

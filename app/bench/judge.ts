@@ -90,6 +90,12 @@ export function judgeReadings(readings: CaptureReadings, design: BoardDesign): R
   checks.push(limit('alphaMaxDeg', 'Largest alpha', 'deg', readings.pulse.alphaMaxDeg, design.alphaMaxDeg, alphaToleranceDeg, 'max'));
   checks.push(limit('alphaMinDeg', 'Smallest alpha', 'deg', readings.pulse.alphaMinDeg, design.alphaMinDeg, alphaToleranceDeg, 'min'));
   checks.push(against('pulseWidthUs', 'Gate pulse width', 'us', readings.pulse.widthUs, design.gatePulseUs, (design.gatePulseUs * pulseWidthTolerancePct) / 100));
+  if (readings.balance) {
+    // Both half-cycles of a full-wave board should fire alike (halfCycleBalance.ts): judged with the design's own
+    // alpha and ramp-peak tolerances (our rule).
+    checks.push(against('alphaBalanceDeg', 'Alpha, positive minus negative half-cycle', 'deg', readings.balance.alphaDeg, 0, alphaToleranceDeg, balanceNote(readings.balance.alphaDeg)));
+    checks.push(against('rampPeakBalanceV', 'Ramp peak, positive minus negative half-cycle', 'V', readings.balance.rampPeakV, 0, (design.rampTargetV * design.tolerances.rampPeakPct) / 100));
+  }
   if (design.load) checks.push(latchCheck(readings, design));
   const counted = readings.firingIntervals > 0;
   checks.push(against('wrongHalfCyclePulses', 'Pulses in the wrong half-cycle', '', counted ? readings.pulse.wrongHalfCycle : null, 0, 0));
@@ -123,4 +129,16 @@ function latchCheck(readings: CaptureReadings, design: BoardDesign): ReadingChec
     key: 'pulseLatchUs', label, measured, expected: minimumUs, toleranceAbs: 0, unit: 'us', verdict,
     note: `limit: at least ${minimumUs.toFixed(0)} us for the load to pass the latching current (${latchMarginFactor} times that for margin)`,
   };
+}
+
+/**
+ * What an alpha imbalance points to: a DC offset o on a sync of peak A moves the reset asin(o/A) early before one
+ * crossing and as much late after the other, so the halves fire 2 asin(o/A) apart (the sine's geometry); the
+ * offset that would explain the reading is sin(|balance|/2) of the sync peak.
+ */
+function balanceNote(alphaDeg: number | null): string | null {
+  if (alphaDeg === null || Math.abs(alphaDeg) < 0.5) return null;
+  const offsetPct = 100 * Math.sin((Math.abs(alphaDeg) / 2) * (Math.PI / 180));
+  const early = alphaDeg < 0 ? 'positive' : 'negative';
+  return `the ${early} half-cycle fires early: as a DC offset of ${offsetPct.toFixed(1)} % of the sync peak would (check the sync coupling capacitor, winding and divider)`;
 }

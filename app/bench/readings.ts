@@ -6,6 +6,7 @@
  * Angles are electrical degrees from the mains zero crossing: the sync crossing corrected by the design's sync phase.
  */
 import type { TransferFitReading } from '../signal/transferCurve';
+import type { HalfCycleBalanceReading } from './halfCycleBalance';
 
 export type Rectifier = 'half-wave' | 'full-wave';
 
@@ -99,4 +100,6 @@ export interface CaptureReadings {
   gaps: number;
   /** Samples that were not finite numbers (or beyond +-1 MV): treated as lost, analysis restarted after them. */
   invalidSamples: number;
+  /** Positive minus negative half-cycle (full-wave boards; null for half-wave): app/bench/halfCycleBalance.ts. */
+  balance: HalfCycleBalanceReading | null;
 }

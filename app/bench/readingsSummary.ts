@@ -5,6 +5,7 @@
 import { RunningStatistics, StreamingMedian } from '../signal/runningStatistics';
 import { TransferCurveAccumulator } from '../signal/transferCurve';
 import type { MainsFrequencyReading } from '../signal/mainsFrequency';
+import { HalfCycleBalance } from './halfCycleBalance';
 import type { CaptureReadings, CycleReading, Rectifier } from './readings';
 
 export interface SummaryContext {
@@ -36,6 +37,7 @@ export class ReadingsSummary {
   private readonly amplitude = new RunningStatistics();
   private readonly transfer = new TransferCurveAccumulator();
   private readonly control = new RunningStatistics();
+  private readonly balance = new HalfCycleBalance();
   private intervals = 0;
   private chargingIntervals = 0;
   private clippedIntervals = 0;
@@ -50,6 +52,7 @@ export class ReadingsSummary {
 
   addInterval(reading: CycleReading): void {
     this.intervals += 1;
+    this.balance.add(reading);
     if (this.keepPerCycle) {
       this.perCycle.push({ t: reading.t, alphaDeg: reading.alphaDeg, rampPeakV: reading.rampPeakV, controlV: reading.controlV });
     }
@@ -128,6 +131,7 @@ export class ReadingsSummary {
       syncAmplitudeV: context.syncAmplitudeV,
       gaps: context.gaps,
       invalidSamples: context.invalidSamples,
+      balance: context.rectifier === 'full-wave' ? this.balance.reading() : null,
     };
   }
 }

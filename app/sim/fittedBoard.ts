@@ -14,6 +14,8 @@ export const wrongEmitterFactor = 1.5;
 export const lowCapacitorFactor = 0.7;
 /** Extra sync lag of `sync-phase-shift` (degrees). */
 export const syncShiftDeg = 20;
+/** DC offset of `sync-offset`, as a fraction of the sync peak (our scenario value). */
+export const syncOffsetFraction = 0.03;
 /** `clipped-ramp`: the active-region rise asked for, as a multiple of the room up to the clipping level. */
 const clipOverdrive = 1.35;
 
@@ -27,6 +29,11 @@ export interface FittedBoard {
   resetSettledV: number;
   /** Extra lag of the ramp reset behind the sync test point's zero crossing (s). */
   extraSyncLagS: number;
+  /**
+   * DC offset on the sync, as a fraction of its peak. The board's reset detector sees the offset sine cross zero
+   * asin(fraction)/(2 pi f) before each rising mains crossing and as much after each falling one.
+   */
+  syncOffsetFraction: number;
 }
 
 function overdrivenCapacitor(design: BoardDesign, overrides: PartOverrides): number {
@@ -59,5 +66,6 @@ export function fitBoard(design: BoardDesign, faults: readonly BoardFaultName[])
     dischargeTimeConstantS: values.rDischargeOhm * values.cRampFarad,
     resetSettledV: prediction.chargingCurrentA * values.rDischargeOhm,
     extraSyncLagS: faults.includes('sync-phase-shift') ? syncShiftDeg / (360 * design.mainsHz) : 0,
+    syncOffsetFraction: faults.includes('sync-offset') ? syncOffsetFraction : 0,
   };
 }

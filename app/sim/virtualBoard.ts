@@ -3,7 +3,9 @@
  * block, with measurement noise, ADC quantisation and sampling jitter, and the named board faults. Pure and
  * deterministic for a seed. The ramp itself comes from the board model (app/board/rampModel.ts); this file only
  * places it in time:
- * - sync test point: a sine at the mains frequency lagging the mains by the design's syncPhaseDeg;
+ * - sync test point: a sine at the mains frequency lagging the mains by the design's syncPhaseDeg (plus the DC
+ *   offset of the sync-offset fault, which the reset detector sees too: resets early before rising crossings and
+ *   late after falling ones, so the positive half-cycle charges longer);
  * - ramp: starts startDelayS (half the reset time) after each sync zero crossing and charges for the model's
  *   charging interval; then the reset switch discharges it through the discharge resistor (time constant R C)
  *   until the next start. Half-wave: only the half-cycle after the rising crossing charges; the negative one
@@ -123,9 +125,18 @@ export function createVirtualBoard(design: BoardDesign, options: VirtualBoardOpt
     return sweep.fromV + (sweep.toV - sweep.fromV) * triangle;
   }
 
+  // Sync offset: the offset sine crosses zero this long before a rising mains crossing and after a falling one.
+  const offsetShiftS = Math.asin(fitted.syncOffsetFraction) / (2 * Math.PI * mainsHz);
+
   function rampStartS(k: number): number {
     const wander = noisySync ? noisyResetJitterS * Math.max(-3, Math.min(3, hashedGaussian(seed, k, 1))) : 0;
-    return rampStartOffsetS + k * halfCycleS + wander;
+    const offsetShift = (k & 1) === 0 ? -offsetShiftS : offsetShiftS;
+    return rampStartOffsetS + k * halfCycleS + wander + offsetShift;
+  }
+
+  /** Charging time of half-cycle k: the positive one gains what the offset takes from the negative one. */
+  function chargingFor(k: number): number {
+    return chargingS + ((k & 1) === 0 ? 2 * offsetShiftS : -2 * offsetShiftS);
   }
 
   function charges(k: number): boolean {
@@ -144,6 +155,8 @@ export function createVirtualBoard(design: BoardDesign, options: VirtualBoardOpt
       // A sweep moves the control voltage a little during the half-cycle: settle the crossing by iteration.
       for (let pass = 0; pass < (sweep ? 4 : 1); pass++) {
         elapsedS = levelV <= prediction.floorV ? null : timeToReachV(prediction, levelV);
+        // A level the ramp reaches only after this half-cycle's reset (a shortened half) does not fire.
+        if (elapsedS !== null && elapsedS > chargingFor(k)) elapsedS = null;
         if (elapsedS === null) break;
         levelV = controlAt(startS + elapsedS);
       }
@@ -162,10 +175,12 @@ export function createVirtualBoard(design: BoardDesign, options: VirtualBoardOpt
 
   function rampAt(timeS: number, k: number): number {
     const sinceStartS = timeS - rampStartS(k);
-    if (charges(k) && sinceStartS <= chargingS) return rampVoltageAt(prediction, sinceStartS);
+    if (charges(k) && sinceStartS <= chargingFor(k)) return rampVoltageAt(prediction, sinceStartS);
     const lastCharging = charges(k) ? k : k - 1;
-    const sinceEndS = timeS - (rampStartS(lastCharging) + chargingS);
-    return fitted.resetSettledV + (prediction.peakV - fitted.resetSettledV) * Math.exp(-sinceEndS / fitted.dischargeTimeConstantS);
+    const lastChargeS = chargingFor(lastCharging);
+    const sinceEndS = timeS - (rampStartS(lastCharging) + lastChargeS);
+    const endV = offsetShiftS === 0 ? prediction.peakV : rampVoltageAt(prediction, lastChargeS);
+    return fitted.resetSettledV + (endV - fitted.resetSettledV) * Math.exp(-sinceEndS / fitted.dischargeTimeConstantS);
   }
 
   function gateAt(timeS: number, k: number): number {
@@ -195,7 +210,7 @@ export function createVirtualBoard(design: BoardDesign, options: VirtualBoardOpt
       const nominalS = (nextSample + index) / sampleRateHz;
       const timeS = jitterS > 0 ? nominalS + jitterS * random.gaussian() : nominalS;
       const k = currentHalfCycle(timeS);
-      const syncV = syncAmplitudeV * Math.sin(syncOmega * timeS + syncPhaseRad) + syncNoiseV * random.gaussian();
+      const syncV = syncAmplitudeV * (Math.sin(syncOmega * timeS + syncPhaseRad) + fitted.syncOffsetFraction) + syncNoiseV * random.gaussian();
       block.sync[index] = quantiseVolts(syncAdc, syncV + noiseV * random.gaussian());
       block.ramp[index] = quantiseVolts(rampAdc, rampAt(timeS, k) + noiseV * random.gaussian());
       block.gate[index] = quantiseVolts(gateAdc, gateAt(timeS, k) + noiseV * random.gaussian());

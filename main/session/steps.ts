@@ -84,7 +84,7 @@ export function measureSteps(inputs: StepInputs): Record<CommissioningStep, Step
   );
 
   const rampReadings = [
-    ...pick(windowChecks, ['rampPeakV', 'rampStartDelayDeg', 'rampClipped']),
+    ...pick(windowChecks, ['rampPeakV', 'rampStartDelayDeg', 'rampClipped', 'rampPeakBalanceV']),
     infoReading('slopeVPerMs', 'Ramp slope', 'V/ms', window?.ramp.slopeVPerMs ?? null, prediction.slopeVPerS / 1000),
     infoReading('rampFloorV', 'Ramp floor', 'V', window?.ramp.floorV ?? null, prediction.floorV),
     infoReading('nonlinearityPct', 'Ramp nonlinearity', '%', window?.ramp.nonlinearityPct ?? null),
@@ -125,7 +125,7 @@ export function measureSteps(inputs: StepInputs): Record<CommissioningStep, Step
   }
   const limits = report(
     'limits',
-    [...pick(limitChecks, ['alphaMaxDeg', 'alphaMinDeg', 'pulseWidthUs', 'pulseLatchUs', 'wrongHalfCyclePulses', 'missingPulses', 'multiplePulses']), ...loadReadings(design, limitChecks)],
+    [...pick(limitChecks, ['alphaMaxDeg', 'alphaMinDeg', 'alphaBalanceDeg', 'pulseWidthUs', 'pulseLatchUs', 'wrongHalfCyclePulses', 'missingPulses', 'multiplePulses']), ...loadReadings(design, limitChecks)],
     cycles,
     waiting ? null : 'turn the control to both ends so the largest and smallest alpha are seen',
     waiting,

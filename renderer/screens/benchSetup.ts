@@ -17,6 +17,7 @@ const faultLabels: Record<BoardFaultName, string> = {
   'wrong-half-cycle-pulses': 'Pulses in the wrong half-cycle (half-wave boards)',
   'noisy-sync': 'Noisy sync',
   'clipped-ramp': 'Ramp clipping',
+  'sync-offset': 'DC offset on the sync (full-wave halves fire apart)',
 };
 const virtualFaults: readonly { id: string; label: string }[] = [
   { id: '', label: 'No fault: a board built to its design' },

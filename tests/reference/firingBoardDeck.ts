@@ -3,7 +3,8 @@
  * (issue 3) and for the analysis engine (issue 2).
  *
  * Blocks (node names in `nodes`):
- * - sync: a sine at mainsHz lagging the mains by syncPhaseDeg (+ extraSyncPhaseDeg); t = 0 is a rising mains zero crossing.
+ * - sync: a sine at mainsHz lagging the mains by syncPhaseDeg (+ extraSyncPhaseDeg), plus syncOffsetV; t = 0 is a
+ *   rising mains zero crossing.
  * - zero-crossing detector -> reset switch: full-wave holds the ramp in reset while |sync| is below the level
  *   it has syncResetUs/2 either side of each crossing; half-wave holds it while sync is below that level on the
  *   positive side, so through the whole negative half-cycle. Both charge for a half-cycle minus syncResetUs.
@@ -29,6 +30,8 @@ export interface FiringBoardDeckOptions {
   syncAmplitudeV?: number;
   /** Sync lag beyond the design's syncPhaseDeg (degrees): a fault or a drifted sync network. */
   extraSyncPhaseDeg?: number;
+  /** DC offset on the sync test point (V), seen by the reset detector too: a leaky coupling or unbalanced winding. */
+  syncOffsetV?: number;
   /** Parts as actually fitted (a wrong part, a trim applied): ohm, or farad for cRamp. */
   partOverrides?: PartOverrides;
   /** The fitted transistor needs this much more V_EB than the design's at the same current (V). */
@@ -89,7 +92,7 @@ export function buildFiringBoardDeck(design: BoardDesign, options: FiringBoardDe
     `.temp ${nominalTemperatureC}`,
     `.options tnom=${nominalTemperatureC}`,
     `Vsupply vcc 0 DC ${number(design.supplyV)}`,
-    `Bsync sync 0 V=${number(syncAmplitudeV)}*sin(${number(2 * Math.PI * mainsHz)}*time-${number((lagDeg * Math.PI) / 180)})`,
+    `Bsync sync 0 V=${number(syncAmplitudeV)}*sin(${number(2 * Math.PI * mainsHz)}*time-${number((lagDeg * Math.PI) / 180)})+${number(options.syncOffsetV ?? 0)}`,
     `Breset reset 0 V=${resetExpression}`,
     `R1 vcc base ${number(values.rBiasTopOhm)}`,
     `R2 base 0 ${number(values.rBiasBottomOhm)}`,

@@ -103,6 +103,11 @@ export function formatAnalysis(path: string, result: AnalyzeResult): string {
   row('', 'alpha', r.pulse.alphaDeg === null ? '-' : `${r.pulse.alphaDeg.toFixed(2)} deg mean, jitter ${fixed(r.pulse.alphaStdDeg, 2, 'deg')}, ${fixed(r.pulse.alphaMinDeg, 2, '')} to ${fixed(r.pulse.alphaMaxDeg, 2, 'deg')}`);
   row('', 'width', fixed(r.pulse.widthUs, 0, 'us'));
   row('', 'amplitude', fixed(r.pulse.amplitudeV, 2, 'V'));
+  if (r.balance) {
+    const signedFixed = (value: number | null, digits: number, unit: string) => (value === null ? '-' : `${value >= 0 ? '+' : ''}${value.toFixed(digits)} ${unit}`);
+    row('Balance', 'alpha', `${signedFixed(r.balance.alphaDeg, 2, 'deg')} (positive minus negative half-cycle)`);
+    row('', 'ramp peak', `${signedFixed(r.balance.rampPeakV, 3, 'V')} (positive minus negative half-cycle)`);
+  }
   if (r.pulse.controlV !== null) row('Control', 'at firing', fixed(r.pulse.controlV, 3, 'V mean'));
   if (r.transfer) {
     row('Transfer', 'gain', `${r.transfer.gainDegPerV.toFixed(2)} deg/V, offset ${r.transfer.offsetDeg.toFixed(2)} deg`);

@@ -12,7 +12,7 @@ const design = boardDesignSchema.parse({
   tolerances: { rampPeakPct: 3, alphaDeg: 2, startDelayDeg: 3 },
 });
 
-function readings(overrides: { ramp?: Partial<CaptureReadings['ramp']>; pulse?: Partial<CaptureReadings['pulse']>; frequencyHz?: number }): CaptureReadings {
+function readings(overrides: { ramp?: Partial<CaptureReadings['ramp']>; pulse?: Partial<CaptureReadings['pulse']>; frequencyHz?: number; balance?: CaptureReadings['balance'] }): CaptureReadings {
   const prediction = predictRamp(design);
   return {
     frequencyHz: overrides.frequencyHz ?? 50.01,
@@ -27,6 +27,7 @@ function readings(overrides: { ramp?: Partial<CaptureReadings['ramp']>; pulse?: 
     },
     transfer: null, perCycle: [], rectifier: 'full-wave', syncPhaseDeg: 0, sampleRateHz: 20000, durationS: 1, firingIntervals: 100,
     frequencyDriftHz: 0, frequencyDriftHzPerS: 0, periodJitterUs: 2, syncOffsetV: 0, syncAmplitudeV: 5, gaps: 0, invalidSamples: 0,
+    balance: overrides.balance === undefined ? { alphaDeg: 0.1, rampPeakV: 0.01, alphaTriples: 98, rampTriples: 98 } : overrides.balance,
   };
 }
 
@@ -128,5 +129,29 @@ describe('the gate pulse against the load it must latch (design with a load)', (
       expect(parsed.success).toBe(false);
       expect(parsed.error?.issues.map((issue) => issue.path.join('.'))).toContain(path);
     }
+  });
+});
+
+describe('half-cycle balance (full-wave boards)', () => {
+  const balanced = (balance: CaptureReadings['balance']) => judgeReadings(readings({ balance }), design);
+
+  it('judges positive minus negative alpha against the alpha tolerance and the ramp peaks against the peak tolerance', () => {
+    // 2 deg alpha tolerance: 1.4 deg apart is in tolerance, 1.6 marginal (beyond 75 %), 2.3 out.
+    const alpha = (deg: number) => byKey(balanced({ alphaDeg: deg, rampPeakV: 0, alphaTriples: 50, rampTriples: 50 }), 'alphaBalanceDeg')?.verdict;
+    expect(alpha(1.4)).toBe('in-tolerance');
+    expect(alpha(-1.6)).toBe('marginal');
+    expect(alpha(-2.3)).toBe('out-of-tolerance');
+    // The offset that explains 3.44 deg: sin(1.72 deg) = 3.0 % of the sync peak (the sine's geometry).
+    const note = byKey(balanced({ alphaDeg: -3.438, rampPeakV: 0, alphaTriples: 50, rampTriples: 50 }), 'alphaBalanceDeg')?.note;
+    expect(note).toBe('the positive half-cycle fires early: as a DC offset of 3.0 % of the sync peak would (check the sync coupling capacitor, winding and divider)');
+    expect(byKey(balanced({ alphaDeg: 0.2, rampPeakV: 0, alphaTriples: 50, rampTriples: 50 }), 'alphaBalanceDeg')?.note).toBeNull();
+    // 3 % of the 6 V target is 0.18 V.
+    const peak = byKey(balanced({ alphaDeg: 0, rampPeakV: 0.2, alphaTriples: 50, rampTriples: 50 }), 'rampPeakBalanceV');
+    expect(peak).toMatchObject({ expected: 0, toleranceAbs: expect.closeTo(0.18, 9), verdict: 'out-of-tolerance' });
+  });
+
+  it('has no balance checks on a half-wave capture, and none measured gives no verdict', () => {
+    expect(byKey(balanced(null), 'alphaBalanceDeg')).toBeUndefined();
+    expect(byKey(balanced({ alphaDeg: null, rampPeakV: null, alphaTriples: 0, rampTriples: 0 }), 'alphaBalanceDeg')?.verdict).toBeNull();
   });
 });

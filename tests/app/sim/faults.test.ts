@@ -4,11 +4,11 @@
  */
 import { describe, expect, it } from 'vitest';
 import { alphaForControl } from '../../../app/board/firingAngle';
-import { predictRamp } from '../../../app/board/rampModel';
+import { predictRamp, rampVoltageAt } from '../../../app/board/rampModel';
 import { isInputError } from '../../../app/errors';
 import { faultDescriptions, faultNames, parseFaults, type FaultName } from '../../../app/sim/faults';
 import { createVirtualBoard } from '../../../app/sim/virtualBoard';
-import { fallingCrossings, gateEdges, halfWaveBoard, join, peaksBetween, risingCrossings } from './simFixtures';
+import { fallingCrossings, fullWaveBoard, gateEdges, halfWaveBoard, join, mean, peaksBetween, risingCrossings } from './simFixtures';
 
 const rateHz = 25_000;
 const clean = { sampleRateHz: rateHz, noiseV: 0, adcBits: 16, seed: 11 } as const;
@@ -96,6 +96,36 @@ describe('board faults', () => {
     const late = (signals.ramp[start + lengthSamples] - signals.ramp[start + lengthSamples - 50]) / 50;
     // A linear ramp keeps its slope; a clipped one ends much flatter (the saturated approach of the model).
     expect(late).toBeLessThan(0.5 * early);
+  });
+
+  it('sync-offset: a full-wave board fires its positive half-cycle 2 asin(0.03) = 3.44 degrees before its negative one', () => {
+    const board = fullWaveBoard();
+    const signals = join([createVirtualBoard(board, { ...clean, faults: ['sync-offset'] }).nextBlock(25_000)]);
+    // The mains crossings are the offset sine's crossings of its own mean (the sync's default peak is 10 V, the
+    // offset 3 % of it); each pulse's alpha from the crossing before it, by polarity.
+    const centred = signals.sync.map((value) => value - 0.3);
+    const crossings = [...risingCrossings(centred).map((at) => ({ at, positive: true })), ...fallingCrossings(centred).map((at) => ({ at, positive: false }))].sort((a, b) => a.at - b.at);
+    const alphas = { positive: [] as number[], negative: [] as number[] };
+    for (const edge of gateEdges(signals.gate, board.supplyV)) {
+      const before = crossings.filter((crossing) => crossing.at <= edge).at(-1);
+      if (before) (before.positive ? alphas.positive : alphas.negative).push((360 * 60 * (edge - before.at)) / rateHz);
+    }
+    const expectedDeg = -2 * Math.asin(0.03) * (180 / Math.PI);
+    // Edges are whole samples (0.86 deg at 60 Hz and 25 kS/s): the two means to one sample.
+    expect(Math.abs(mean(alphas.positive) - mean(alphas.negative) - expectedDeg)).toBeLessThanOrEqual((360 * 60) / rateHz);
+    // The positive half charges 4 asin(0.03) degrees longer, so its ramp is taller: peaks between the resets, which
+    // sit at the raw sync's own crossings, within a sample of slope.
+    const resets = [...risingCrossings(signals.sync).map((at) => ({ at, positive: true })), ...fallingCrossings(signals.sync).map((at) => ({ at, positive: false }))].sort((a, b) => a.at - b.at);
+    const peaks = peaksBetween(signals.ramp, resets.map((reset) => reset.at));
+    const positivePeaks = peaks.filter((_, index) => resets[index].positive);
+    const negativePeaks = peaks.filter((_, index) => !resets[index].positive);
+    // The model's ramp at the end of the two charging times (this board runs near its clipping level, so the
+    // longer half gains less than the shorter one loses).
+    const ramp = predictRamp(board);
+    const shiftS = Math.asin(0.03) / (2 * Math.PI * 60);
+    const expectedV = rampVoltageAt(ramp, ramp.chargingIntervalS + 2 * shiftS) - rampVoltageAt(ramp, ramp.chargingIntervalS - 2 * shiftS);
+    expect(expectedV).toBeGreaterThan(0.1);
+    expect(Math.abs(mean(positivePeaks) - mean(negativePeaks) - expectedV)).toBeLessThan(ramp.slopeVPerS / rateHz);
   });
 
   it('every fault has a one-line description, and fault words parse with clear errors', () => {

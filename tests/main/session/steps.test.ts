@@ -40,6 +40,7 @@ function readings(overrides: { peakV?: number; alphaDeg?: number; controlV?: num
     syncAmplitudeV: 10,
     gaps: 0,
     invalidSamples: 0,
+    balance: null,
   };
 }
 

@@ -22,7 +22,10 @@ export interface ReadingCheck {
   unit: string;
   /** Null when there was nothing to measure. */
   verdict: Verdict | null;
+  /** One line for the technician (a diagnosis, what the limit is for); never a marker. */
   note: string | null;
+  /** The expected value is a limit the reading must stay under ('at-most') or above ('at-least'), not a target. */
+  limit?: 'at-most' | 'at-least';
 }
 
 /** Fraction of the tolerance beyond which an in-tolerance reading is marginal (our rule). */
@@ -54,7 +57,7 @@ function against(key: string, label: string, unit: string, measured: number | nu
 function limit(key: string, label: string, unit: string, measured: number | null, limitValue: number, toleranceAbs: number, side: 'max' | 'min'): ReadingCheck {
   const beyond = measured === null ? 0 : side === 'max' ? Math.max(0, measured - limitValue) : Math.max(0, limitValue - measured);
   // Approaching the limit from inside is fine; passing it is judged by how far.
-  return { key, label, measured, expected: limitValue, toleranceAbs, unit, verdict: measured === null ? null : verdictFor(beyond, toleranceAbs), note: side === 'max' ? 'limit: at most' : 'limit: at least' };
+  return { key, label, measured, expected: limitValue, toleranceAbs, unit, verdict: measured === null ? null : verdictFor(beyond, toleranceAbs), note: null, limit: side === 'max' ? 'at-most' : 'at-least' };
 }
 
 export function judgeReadings(readings: CaptureReadings, design: BoardDesign): ReadingCheck[] {
@@ -123,11 +126,17 @@ function latchCheck(readings: CaptureReadings, design: BoardDesign): ReadingChec
       note: `at ${alphaDeg.toFixed(1)} deg the anode sees ${anodeV.toFixed(1)} V, so the load current (at most ${((anodeV / load.ohm) * 1000).toFixed(0)} mA) never reaches the ${(load.latchingCurrentA * 1000).toFixed(0)} mA latching current: no pulse width fires it; lower the largest alpha`,
     };
   }
+  if (minimumUs === 0) {
+    return {
+      key: 'pulseLatchUs', label, measured, expected: null, toleranceAbs: null, unit: 'us', verdict: measured === null ? null : 'in-tolerance',
+      note: 'a resistive load carries its full current as soon as the gate fires: any pulse that fires it latches it',
+    };
+  }
   const verdict = measured === null ? null : measured < minimumUs ? 'out-of-tolerance' : measured < latchMarginFactor * minimumUs ? 'marginal' : 'in-tolerance';
   return {
     // Tolerance 0 past the limit: the band starts at the minimum (the margin rule above makes "marginal").
-    key: 'pulseLatchUs', label, measured, expected: minimumUs, toleranceAbs: 0, unit: 'us', verdict,
-    note: `limit: at least ${minimumUs.toFixed(0)} us for the load to pass the latching current (${latchMarginFactor} times that for margin)`,
+    key: 'pulseLatchUs', label, measured, expected: minimumUs, toleranceAbs: 0, unit: 'us', verdict, limit: 'at-least',
+    note: `the load current passes the latching current ${minimumUs.toFixed(0)} us after firing; ${latchMarginFactor} times that leaves margin`,
   };
 }
 

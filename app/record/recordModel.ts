@@ -69,7 +69,7 @@ export function formatReading(value: number | boolean | null, unit: string): str
 
 export function formatTolerance(check: ReadingCheck): string {
   if (check.toleranceAbs === null) return '';
-  if (check.note?.startsWith('limit')) return `${check.note} ${formatReading(check.expected, check.unit)}`;
+  if (check.limit) return `limit: ${check.limit === 'at-most' ? 'at most' : 'at least'} ${formatReading(check.expected, check.unit)}`;
   return `\u00b1${formatReading(check.toleranceAbs, check.unit)}`;
 }
 

@@ -34,7 +34,7 @@ export function renderRecordHtml(record: CommissioningRecord): string {
   ];
   const readingRows = record.checks.map((check) => {
     const words = check.verdict ? verdictWords[check.verdict] : notMeasuredWords;
-    return `<tr>${cell(check.label)}${cell(formatReading(check.measured, check.unit), 'number')}${cell(formatReading(check.expected, check.unit), 'number')}${cell(formatTolerance(check))}<td class="verdict ${check.verdict ?? ''}"><span aria-hidden="true">${words.symbol}</span> ${escapeXml(words.text)}</td>${cell(check.note?.startsWith('limit') ? '' : check.note ?? '')}</tr>`;
+    return `<tr>${cell(check.label)}${cell(formatReading(check.measured, check.unit), 'number')}${cell(formatReading(check.expected, check.unit), 'number')}${cell(formatTolerance(check))}<td class="verdict ${check.verdict ?? ''}"><span aria-hidden="true">${words.symbol}</span> ${escapeXml(words.text)}</td>${cell(check.note ?? '')}</tr>`;
   });
   const trimRows = record.trims.map((trim) => `<tr>${cell(trim.part)}${cell(formatReading(trim.fromOhm, 'ohm'), 'number')}${cell(formatReading(trim.toOhm, 'ohm'), 'number')}${cell(trim.method)}${cell(trim.reason)}${cell(when(trim.at))}</tr>`);
   const eventRows = record.link.events.map((event) => `<tr>${cell(event.kind)}${cell(event.detail)}${cell(String(event.count), 'number')}${cell(when(event.at))}</tr>`);

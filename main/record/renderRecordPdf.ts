@@ -137,7 +137,7 @@ export async function renderRecordPdf(record: CommissioningRecord): Promise<Uint
           { text: formatReading(check.expected, check.unit) },
           { text: formatTolerance(check) },
           { text: words.text, bold: true, colour: check.verdict ? verdictInk[check.verdict] : '#555555', icon: check.verdict },
-          { text: check.note?.startsWith('limit') ? '' : check.note ?? '' },
+          { text: check.note ?? '' },
         ];
       }),
       [0.3, 0.12, 0.12, 0.16, 0.17, 0.13],

@@ -42,8 +42,8 @@ export function readingFromCheck(check: ReadingCheck): Reading {
   let low: number | null = null;
   let high: number | null = null;
   if (expected !== null && check.toleranceAbs !== null) {
-    if (check.note?.startsWith('limit: at most')) high = expected + check.toleranceAbs;
-    else if (check.note?.startsWith('limit: at least')) low = expected - check.toleranceAbs;
+    if (check.limit === 'at-most') high = expected + check.toleranceAbs;
+    else if (check.limit === 'at-least') low = expected - check.toleranceAbs;
     else {
       low = expected - check.toleranceAbs;
       high = expected + check.toleranceAbs;

@@ -102,5 +102,7 @@ function readingRow(reading: Reading): HTMLElement[] {
     h('dt', {}, reading.label),
     h('dd', { 'data-reading': reading.key }, h('strong', {}, format(reading.value)), ' ', reading.verdict ? verdictBadge(reading.verdict) : null),
     design ? h('div', { class: 'design' }, design) : null,
+    // A diagnosis or what a limit is for, in words, when the reading is off or needs explaining.
+    reading.note && reading.verdict !== 'in-tolerance' ? h('div', { class: 'reading-note', 'data-note': reading.key }, reading.note) : null,
   ].filter((element): element is HTMLElement => element !== null);
 }

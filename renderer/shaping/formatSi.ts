@@ -83,7 +83,8 @@ export function formatReading(value: number | null | undefined, unit: string, di
     case '%':
       return formatFixed(value, '%', 1);
     case 'us':
-      return formatSi(value == null ? value : value * 1e-6, 's', { digits });
+      // Zero keeps the unit it was asked in ("0 µs"), not the bare "0 s" the prefix rule would give.
+      return value === 0 ? '0 µs' : formatSi(value == null ? value : value * 1e-6, 's', { digits });
     case 'ms':
       return formatSi(value == null ? value : value * 1e-3, 's', { digits });
     case 'ohm':

@@ -76,7 +76,7 @@ function formatMeasured(check: ReadingCheck): string {
 function formatExpected(check: ReadingCheck): string {
   if (typeof check.expected === 'boolean') return check.expected ? 'yes' : 'no';
   if (check.expected === null) return '';
-  const prefix = check.note?.startsWith('limit: at most') ? 'at most ' : check.note?.startsWith('limit: at least') ? 'at least ' : '';
+  const prefix = check.limit === 'at-most' ? 'at most ' : check.limit === 'at-least' ? 'at least ' : '';
   // A limit with no tolerance past it is just the limit ("at least 120 us"), not "exactly".
   const tolerance = check.toleranceAbs === null ? '' : check.toleranceAbs === 0 ? (prefix ? '' : ' exactly') : ` +- ${check.toleranceAbs.toFixed(2)}`;
   const value = Number.isInteger(check.expected) ? String(check.expected) : check.expected.toFixed(2);

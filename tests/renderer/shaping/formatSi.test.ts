@@ -55,6 +55,7 @@ describe('formatFixed and formatReading', () => {
   it('brings contract units back to base units before choosing a prefix', () => {
     expect(formatReading(200, 'us')).toBe('200 µs');
     expect(formatReading(1500, 'us')).toBe('1.5 ms');
+    expect(formatReading(0, 'us')).toBe('0 µs');
     expect(formatReading(20, 'ms')).toBe('20 ms');
     expect(formatReading(91.25, 'deg')).toBe('91.3°');
     expect(formatReading(7500, 'ohm')).toBe('7.5 kΩ');

@@ -156,6 +156,8 @@ export const sessionDetailSchema = z.object({
   steps: z.array(stepReportSchema),
   transfer: z.object({ points: z.array(transferPointSchema), fit: transferFitSchema.nullable() }),
   trims: z.array(appliedTrimSchema),
+  /** Part values measured on the board (ohm; farad for cRamp), as told to the trim planner. */
+  partMeasurements: z.array(z.object({ part: z.string(), value: z.number(), designValue: z.number(), at: isoTimeSchema })),
   linkEvents: z.array(linkEventSchema),
   /** Per-cycle summary for plots over the session (decimated to a few hundred rows). */
   perCycle: z.array(z.object({ t: z.number(), alphaDeg: z.number().nullable(), rampPeakV: z.number().nullable(), controlV: z.number().nullable() })),

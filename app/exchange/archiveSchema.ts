@@ -28,6 +28,7 @@ export const archiveColumns = {
   transferPoints: ['seq', 't_s', 'control_v', 'alpha_deg'],
   trims: ['part', 'from_ohm', 'to_ohm', 'method', 'reason', 'at_ms'],
   linkEvents: ['kind', 'detail', 'count', 'at_ms'],
+  partMeasurements: ['part', 'value', 'design_value', 'at_ms'],
 } as const;
 
 const sha256Hex = z.string().regex(/^[0-9a-f]{64}$/, 'must be 64 lower-case hex digits (sha-256)');
@@ -64,6 +65,8 @@ export const archiveSessionSchema = z
         cycleCount: integer.nullable(),
         alphaMeanDeg: z.number().nullable(),
         rampPeakMedianV: z.number().nullable(),
+        /** The step reports as recorded; left out when the session has none (older sessions keep their hash). */
+        stepsJson: z.string().optional(),
       })
       .strict(),
     cycles: tableSchema(archiveColumns.cycles),
@@ -71,6 +74,8 @@ export const archiveSessionSchema = z
     captures: z.array(archiveCaptureSchema),
     trims: tableSchema(archiveColumns.trims),
     linkEvents: tableSchema(archiveColumns.linkEvents),
+    /** Present only when the session has measured part values, so older sessions keep their content hash. */
+    partMeasurements: tableSchema(archiveColumns.partMeasurements).optional(),
   })
   .strict();
 

@@ -10,6 +10,7 @@
  * with "\n". `rampwright report --verify` recomputes it from the samples themselves.
  */
 import type { ReadingCheck } from '../bench/judge';
+import { formatFarad, formatOhm, formatPercent } from '../board/formatValues';
 import type { FoldCycle, Verdict } from '../contract/readings';
 import type { TransferSet } from './plots';
 
@@ -33,6 +34,8 @@ export interface CommissioningRecord {
   fold: FoldCycle[];
   transfer: TransferSet & { maxDeviationDeg: number | null };
   trims: Array<{ part: string; fromOhm: number; toOhm: number; method: string; reason: string; at: string }>;
+  /** Part values measured on the board (ohm; farad for cRamp). */
+  partMeasurements: Array<{ part: string; value: number; designValue: number; at: string }>;
   link: { errors: number; events: Array<{ kind: string; detail: string; count: number; at: string }> };
   captures: RecordCapture[];
   /** sha-256 of captureDigestText(captures); null when the session kept no capture. */
@@ -65,6 +68,12 @@ export function formatReading(value: number | boolean | null, unit: string): str
   const size = Math.abs(value);
   const digits = size === 0 || Number.isInteger(value) ? 0 : size >= 100 ? 1 : size >= 10 ? 2 : 3;
   return `${value.toFixed(digits)}${unit ? ` ${unit}` : ''}`;
+}
+
+/** A measured part as the record's table shows it: part, measured, design, how far off, when. */
+export function partMeasurementCells(measurement: CommissioningRecord['partMeasurements'][number]): [string, string, string, string] {
+  const format = measurement.part === 'cRamp' ? formatFarad : formatOhm;
+  return [measurement.part, format(measurement.value), format(measurement.designValue), formatPercent(((measurement.value - measurement.designValue) / measurement.designValue) * 100)];
 }
 
 export function formatTolerance(check: ReadingCheck): string {

@@ -4,7 +4,7 @@
  */
 import { escapeXml, figureToSvg } from './figure';
 import { foldFigure, transferFigure } from './plots';
-import { formatReading, formatTolerance, notMeasuredWords, recordLimitsNote, verdictWords, type CommissioningRecord } from './recordModel';
+import { formatReading, formatTolerance, partMeasurementCells, notMeasuredWords, recordLimitsNote, verdictWords, type CommissioningRecord } from './recordModel';
 
 const style = `
 body { font-family: Helvetica, Arial, sans-serif; color: #23262a; margin: 24px auto; max-width: 760px; line-height: 1.35; }
@@ -37,6 +37,7 @@ export function renderRecordHtml(record: CommissioningRecord): string {
     return `<tr>${cell(check.label)}${cell(formatReading(check.measured, check.unit), 'number')}${cell(formatReading(check.expected, check.unit), 'number')}${cell(formatTolerance(check))}<td class="verdict ${check.verdict ?? ''}"><span aria-hidden="true">${words.symbol}</span> ${escapeXml(words.text)}</td>${cell(check.note ?? '')}</tr>`;
   });
   const trimRows = record.trims.map((trim) => `<tr>${cell(trim.part)}${cell(formatReading(trim.fromOhm, 'ohm'), 'number')}${cell(formatReading(trim.toOhm, 'ohm'), 'number')}${cell(trim.method)}${cell(trim.reason)}${cell(when(trim.at))}</tr>`);
+  const measurementRows = record.partMeasurements.map((measurement) => `<tr>${partMeasurementCells(measurement).map((text, index) => cell(text, index > 0 ? 'number' : '')).join('')}${cell(when(measurement.at))}</tr>`);
   const eventRows = record.link.events.map((event) => `<tr>${cell(event.kind)}${cell(event.detail)}${cell(String(event.count), 'number')}${cell(when(event.at))}</tr>`);
   const captureRows = record.captures.map((capture) => `<tr>${cell(capture.label ?? '-')}${cell(when(capture.startedAt))}${cell(`${capture.seconds.toFixed(3)} s at ${formatReading(capture.sampleRateHz, 'Hz')}`)}${cell(capture.roles.join(', '))}<td class="hash">${capture.sha256}</td></tr>`);
   const fit = record.transfer.fit;
@@ -63,6 +64,8 @@ ${table(['Reading', 'Measured', 'Design', 'Tolerance', 'Verdict', 'Note'], readi
 ${record.fold.length > 0 ? `<figure>${figureToSvg(foldFigure(record.fold))}<figcaption>The last ${record.fold.length} cycles of the stored capture drawn over one mains cycle; dashed lines mark the zero crossings, solid plum lines the firing point.</figcaption></figure>` : '<p>No capture was kept in this session, so there is no fold to draw.</p>'}
 <h2>Transfer curve</h2>
 ${record.transfer.points.length > 0 ? `<figure>${figureToSvg(transferFigure([record.transfer]))}<figcaption>${escapeXml(fitText)}</figcaption></figure>` : `<p>${escapeXml(fitText)}</p>`}
+<h2>Parts measured on the board</h2>
+${table(['Part', 'Measured', 'Design', 'Off by', 'When'], measurementRows, 'No part values were measured in this session.')}
 <h2>Trims applied</h2>
 ${table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], trimRows, 'No trims were applied.')}
 <h2>Link health</h2>

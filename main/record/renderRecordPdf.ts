@@ -5,7 +5,7 @@
  */
 import { PDFDocument, StandardFonts, type PDFFont, type PDFPage } from 'pdf-lib';
 import { foldFigure, transferFigure } from '../../app/record/plots';
-import { formatReading, formatTolerance, notMeasuredWords, recordLimitsNote, verdictWords, type CommissioningRecord } from '../../app/record/recordModel';
+import { formatReading, formatTolerance, partMeasurementCells, notMeasuredWords, recordLimitsNote, verdictWords, type CommissioningRecord } from '../../app/record/recordModel';
 import { drawFigure, hexColour } from './pdfFigure';
 import { wrapText } from './pdfText';
 
@@ -159,6 +159,10 @@ export async function renderRecordPdf(record: CommissioningRecord): Promise<Uint
       : 'No transfer curve was recorded in this session.',
     { size: 9 },
   );
+
+  flow.heading('Parts measured on the board');
+  if (record.partMeasurements.length === 0) flow.text('No part values were measured in this session.');
+  else flow.table(['Part', 'Measured', 'Design', 'Off by', 'When'], record.partMeasurements.map((measurement) => [...partMeasurementCells(measurement).map((text) => ({ text })), { text: when(measurement.at) }]), [0.16, 0.18, 0.18, 0.14, 0.34]);
 
   flow.heading('Trims applied');
   if (record.trims.length === 0) flow.text('No trims were applied.');

@@ -5,7 +5,7 @@
  */
 import type { BoardDesign } from '../../app/board/design';
 import type { CycleReading } from '../../app/bench/readings';
-import type { CommissioningStep, OpenSession, StepReport } from '../../app/contract';
+import { commissioningStepNames, type CommissioningStep, type OpenSession, type StepReport } from '../../app/contract';
 import type { LinkProblem } from '../../app/logger';
 import type { LinkEventKind, LogbookWriter } from '../store/logbookTypes';
 import type { BenchPipeline } from './benchPipeline';
@@ -62,6 +62,12 @@ export function stepInputsOf(session: BenchSession | null, design: BoardDesign, 
   };
 }
 
+/** The steps recorded so far, in commissioning order, to the logbook: what recall shows later. */
+export function saveRecordedSteps(session: BenchSession): void {
+  const reports = commissioningStepNames.map((step) => session.recorded[step]).filter((report): report is StepReport => report !== undefined);
+  session.writer.setStepsJson(JSON.stringify(reports));
+}
+
 /** Records the live report of a step; null when it has nothing measured yet. */
 export function checkSessionStep(session: BenchSession, pipeline: BenchPipeline, step: CommissioningStep): StepReport | null {
   const inputs = stepInputsOf(session, session.design, pipeline);
@@ -78,6 +84,7 @@ export function checkSessionStep(session: BenchSession, pipeline: BenchPipeline,
   const window = pipeline.lastWindow();
   const fit = pipeline.transferFit();
   if (window) session.writer.setReadings({ ...window, transfer: fit ?? window.transfer });
+  saveRecordedSteps(session);
   return recorded;
 }
 

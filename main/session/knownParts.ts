@@ -20,6 +20,18 @@ export function withMeasured(known: KnownParts, measured: PartOverrides): KnownP
   return next;
 }
 
+/** Measured values the session has not recorded yet (new, or a different figure), with the design's value beside. */
+export function newMeasurements(design: BoardDesign, known: KnownParts, measured: PartOverrides): Array<{ part: PartRole; value: number; designValue: number }> {
+  const changes: Array<{ part: PartRole; value: number; designValue: number }> = [];
+  for (const [role, value] of Object.entries(measured) as [PartRole, number][]) {
+    const before = known[role];
+    const designValue = designValueOf(design, role);
+    if (designValue === null || (before?.source === 'measured' && before.value === value)) continue;
+    changes.push({ part: role, value, designValue });
+  }
+  return changes;
+}
+
 /** A change fitted through the trim plan: the position now holds toOhm. */
 export function withFitted(known: KnownParts, part: PartRole, toOhm: number): KnownParts {
   return { ...known, [part]: { value: toOhm, source: 'fitted' } };

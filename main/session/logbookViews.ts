@@ -1,10 +1,12 @@
 /**
- * Logbook records as the contract shapes them: session rows, a session's detail (its steps recomputed from the
- * readings recorded with it, against the design version it used), comparisons and drift.
+ * Logbook records as the contract shapes them: session rows, a session's detail (its steps as they were recorded;
+ * for sessions stored before steps were kept, recomputed from the readings stored with it, against the design
+ * version it used), comparisons and drift.
  */
+import { z } from 'zod';
 import type { CaptureReadings } from '../../app/bench/readings';
 import type { DriftPoint, SessionComparison, SessionDetail, SessionRow, StepReport } from '../../app/contract';
-import { BenchFault } from '../../app/contract';
+import { BenchFault, stepReportSchema } from '../../app/contract';
 import type { Logbook, SessionDetail as StoredDetail, SessionRow as StoredRow } from '../store/logbookTypes';
 import type { DesignCatalog } from './designCatalog';
 import { stepReports } from './steps';
@@ -14,6 +16,17 @@ export function sessionRowView(row: StoredRow): SessionRow {
 }
 
 async function stepsOf(detail: StoredDetail, designs: DesignCatalog): Promise<StepReport[]> {
+  if (detail.stepsJson !== null) {
+    let stored: unknown = null;
+    try {
+      stored = JSON.parse(detail.stepsJson);
+    } catch {
+      stored = null;
+    }
+    const parsed = z.array(stepReportSchema).safeParse(stored);
+    // A stored value that does not fit the contract is a bug or a foreign edit: fall back to recomputing.
+    if (parsed.success) return parsed.data;
+  }
   const readings: CaptureReadings | null = detail.readings;
   if (!readings) return [];
   const stored = await designs.get(detail.row.designName, detail.row.designVersion).catch(() => designs.get(detail.row.designName).catch(() => null));
@@ -42,6 +55,7 @@ export async function sessionDetailView(logbook: Logbook, designs: DesignCatalog
     steps: await stepsOf(detail, designs),
     transfer: { points: detail.transfer.points, fit: detail.transfer.fit },
     trims: detail.trims.map((trim) => ({ id: trim.id, part: trim.part, fromOhm: trim.fromOhm, toOhm: trim.toOhm, reason: trim.reason, at: trim.at })),
+    partMeasurements: detail.partMeasurements.map(({ part, value, designValue, at }) => ({ part, value, designValue, at })),
     linkEvents: detail.linkEvents.map((event) => ({ at: event.at, kind: event.kind, detail: event.count > 1 ? `${event.detail} (${event.count} times)` : event.detail })),
     perCycle: await logbook.cycleReadings(sessionId, { maxRows: 400 }),
     captures: detail.captures.map((capture) => ({ id: capture.id, startS: capture.startS, seconds: capture.seconds, label: capture.label })),

@@ -6,7 +6,7 @@
 import type { BoardDesign } from '../../app/board/design';
 import { BenchFault, describeLinkSource, type BenchState, type EventData, type LinkHealth, type PortInfo, type TransferPoint } from '../../app/contract';
 import type { Logbook } from '../store/logbookTypes';
-import { checkSessionStep, currentStep, recordMeasurements, stepInputsOf, type BenchSession } from './benchSession';
+import { checkSessionStep, currentStep, recordMeasurements, saveRecordedSteps, stepInputsOf, type BenchSession } from './benchSession';
 import type { BenchPipelineOptions } from './benchPipeline';
 import type { DesignCatalog } from './designCatalog';
 import { createBenchEventHub, type BenchEventListener, type BenchEventSource, type BenchHandlers } from './handlers';
@@ -265,6 +265,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       const inputs = stepInputsOf(open, open.design, current?.link.pipeline ?? null);
       const report = stepReports(inputs).find((step) => step.step === 'sign-off');
       if (report) open.recorded['sign-off'] = { ...report, status: 'done' };
+      saveRecordedSteps(open);
       const missing = (['sync', 'ramp', 'trim', 'transfer', 'limits'] as const).filter((step) => !open.recorded[step]);
       const summary = missing.length === 0 ? 'signed off with every step recorded' : `signed off without ${missing.join(', ')}`;
       open.writer.setNotes([notes, summary].filter(Boolean).join('\n'));

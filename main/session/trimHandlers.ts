@@ -7,12 +7,12 @@ import { checkMeasuredParts } from '../../app/board/measuredParts';
 import type { ResistorRole } from '../../app/board/trimCandidates';
 import { BenchFault } from '../../app/contract';
 import type { Logbook } from '../store/logbookTypes';
-import type { BenchSession } from './benchSession';
+import { saveRecordedSteps, type BenchSession } from './benchSession';
 import type { DesignCatalog } from './designCatalog';
 import type { BenchHandlers } from './handlers';
 import type { LiveLink } from './liveLink';
 import { idealTransfer } from './steps';
-import { type KnownParts, knownPartViews, overridesOf, withFitted, withMeasured } from './knownParts';
+import { type KnownParts, knownPartViews, newMeasurements, overridesOf, withFitted, withMeasured } from './knownParts';
 import { planFromWindow, trimPlanView } from './trimView';
 import type { VirtualSource } from './virtualSource';
 
@@ -42,7 +42,11 @@ export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandl
       const measured = measuredParts === undefined ? null : checkMeasuredParts(design, measuredParts, 'measuredParts');
       // The session remembers what it was told; without a session the values serve this one plan.
       let known: KnownParts = open?.knownParts ?? {};
-      if (measured !== null) known = withMeasured(known, measured);
+      if (measured !== null) {
+        // A value new to the session, or measured again to a different figure, goes into the logbook.
+        for (const change of newMeasurements(design, known, measured)) open?.writer.addPartMeasurement(change);
+        known = withMeasured(known, measured);
+      }
       if (open) open.knownParts = known;
       const window = link.link.pipeline.lastWindow();
       const plan = planFromWindow(design, window, series, overridesOf(known));
@@ -68,6 +72,8 @@ export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandl
       if (alsoChange && second) open.knownParts = withFitted(open.knownParts, second, alsoChange.toOhm);
       delete open.recorded.ramp;
       delete open.recorded.trim;
+      // The logbook forgets them too: a ramp recorded before the change no longer describes the board.
+      saveRecordedSteps(open);
       // The virtual board gets the parts; a real board got them from the technician's soldering iron.
       const virtual = context.link()?.virtual;
       virtual?.fitResistor(first, { method, toOhm, addOhm });

@@ -17,7 +17,7 @@ function table(db: SqliteDatabase, name: string, columns: readonly string[], ses
 export function readArchiveSession(db: SqliteDatabase, sessionId: number): { session: ArchiveSession; captureData: Buffer[] } {
   const head = db
     .prepare(
-      `SELECT s.operator, s.started_at_ms, s.ended_at_ms, s.status, s.notes, s.readings_json, s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v,
+      `SELECT s.operator, s.started_at_ms, s.ended_at_ms, s.status, s.notes, s.readings_json, s.steps_json, s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v,
          u.serial, u.design_name, u.created_at_ms AS unit_created_at_ms, d.name AS design_name_version, d.content_hash, d.design_json, d.saved_at_ms
        FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id WHERE s.id = ?`,
     )
@@ -40,6 +40,7 @@ export function readArchiveSession(db: SqliteDatabase, sessionId: number): { ses
       cycleCount: (head.cycle_count as number | null) ?? null,
       alphaMeanDeg: (head.alpha_mean_deg as number | null) ?? null,
       rampPeakMedianV: (head.ramp_peak_median_v as number | null) ?? null,
+      ...(head.steps_json === null || head.steps_json === undefined ? {} : { stepsJson: String(head.steps_json) }),
     },
     cycles: table(db, 'cycles', archiveColumns.cycles, sessionId, 'seq'),
     transferPoints: table(db, 'transfer_points', archiveColumns.transferPoints, sessionId, 'seq'),
@@ -58,6 +59,9 @@ export function readArchiveSession(db: SqliteDatabase, sessionId: number): { ses
     trims: table(db, 'trims', archiveColumns.trims, sessionId, 'at_ms, id'),
     linkEvents: table(db, 'link_events', archiveColumns.linkEvents, sessionId, 'at_ms, id'),
   };
+  // Only when there are any: an archive of a session without them hashes as it always did.
+  const measurements = table(db, 'part_measurements', archiveColumns.partMeasurements, sessionId, 'at_ms, id');
+  if (measurements.rows.length > 0) session.partMeasurements = measurements;
   return { session, captureData: captures.map((row) => row.data as Buffer) };
 }
 
@@ -87,15 +91,16 @@ export function insertArchiveSession(db: SqliteDatabase, session: ArchiveSession
   const sessionId = Number(
     db
       .prepare(
-        `INSERT INTO sessions (unit_id, design_id, operator, started_at_ms, ended_at_ms, status, notes, readings_json, cycle_count, alpha_mean_deg, ramp_peak_median_v)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+        `INSERT INTO sessions (unit_id, design_id, operator, started_at_ms, ended_at_ms, status, notes, readings_json, steps_json, cycle_count, alpha_mean_deg, ramp_peak_median_v)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
       )
-      .run(unitId, designId, record.operator, record.startedAtMs, record.endedAtMs, record.status, record.notes, record.readingsJson, record.cycleCount, record.alphaMeanDeg, record.rampPeakMedianV).lastInsertRowid,
+      .run(unitId, designId, record.operator, record.startedAtMs, record.endedAtMs, record.status, record.notes, record.readingsJson, record.stepsJson ?? null, record.cycleCount, record.alphaMeanDeg, record.rampPeakMedianV).lastInsertRowid,
   );
   insertTable(db, 'cycles', sessionId, session.cycles);
   insertTable(db, 'transfer_points', sessionId, session.transferPoints);
   insertTable(db, 'trims', sessionId, session.trims);
   insertTable(db, 'link_events', sessionId, session.linkEvents);
+  if (session.partMeasurements) insertTable(db, 'part_measurements', sessionId, session.partMeasurements);
   const capture = db.prepare(
     `INSERT INTO captures (session_id, label, start_s, sample_rate_hz, samples_per_channel, roles, after_gap, started_at_ms, encoding, sha256, data)
      VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,

@@ -80,6 +80,14 @@ export interface TrimRecord {
   at: string;
 }
 
+/** A part value measured on the board (ohm; farad for cRamp), beside what the design asks for there. */
+export interface PartMeasurementRecord {
+  part: string;
+  value: number;
+  designValue: number;
+  at: string;
+}
+
 export type LinkEventKind =
   | 'opened'
   | 'closed'
@@ -140,8 +148,11 @@ export interface SessionDetail {
   notes: string | null;
   designId: number;
   readings: CaptureReadings | null;
+  /** The step reports as recorded at each step's check (JSON of the contract's StepReport[]), null before any. */
+  stepsJson: string | null;
   transfer: { points: TransferPointRecord[]; fit: TransferFitRecord | null };
   trims: TrimRecord[];
+  partMeasurements: PartMeasurementRecord[];
   linkEvents: LinkEventRecord[];
   captures: CaptureInfo[];
 }
@@ -234,8 +245,11 @@ export interface LogbookWriter {
   addTransferPoint(point: TransferPointRecord): void;
   addLinkEvent(kind: LinkEventKind, detail: string, count?: number): void;
   addTrim(trim: Omit<TrimRecord, 'id' | 'at'> & { at?: Date }): void;
+  addPartMeasurement(measurement: Omit<PartMeasurementRecord, 'at'> & { at?: Date }): void;
   addCapture(block: SampleBlock, label?: string): void;
   setReadings(readings: CaptureReadings): void;
+  /** The recorded step reports so far, as JSON (each call replaces the last). */
+  setStepsJson(json: string): void;
   setNotes(notes: string): void;
   stats(): LogbookWriterStats;
   /** Writes everything queued now. */

@@ -10,7 +10,7 @@ import { performance } from 'node:perf_hooks';
 import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
 import type { SampleBlock } from '../../app/capture/samples';
 import { captureEncoding, encodeCapture } from './captureCodec';
-import type { LinkEventKind, LogbookWriter, LogbookWriterStats, SessionRow, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
+import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionRow, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
 import type { SqliteDatabase } from './openDatabase';
 import { storeSessionSummary } from './sessionSummary';
 
@@ -19,8 +19,10 @@ type QueueItem =
   | { kind: 'transfer'; point: TransferPointRecord }
   | { kind: 'link'; eventKind: LinkEventKind; detail: string; count: number; atMs: number }
   | { kind: 'trim'; trim: Omit<TrimRecord, 'id' | 'at'>; atMs: number }
+  | { kind: 'measurement'; measurement: Omit<PartMeasurementRecord, 'at'>; atMs: number }
   | { kind: 'capture'; block: SampleBlock; label: string | null; atMs: number }
   | { kind: 'readings'; json: string }
+  | { kind: 'steps'; json: string }
   | { kind: 'notes'; notes: string };
 
 export interface LogbookWriterOptions {
@@ -46,11 +48,13 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
   const insertTransfer = db.prepare('INSERT INTO transfer_points (session_id, seq, t_s, control_v, alpha_deg) VALUES (?, ?, ?, ?, ?)');
   const insertLink = db.prepare('INSERT INTO link_events (session_id, kind, detail, count, at_ms) VALUES (?, ?, ?, ?, ?)');
   const insertTrim = db.prepare('INSERT INTO trims (session_id, part, from_ohm, to_ohm, method, reason, at_ms) VALUES (?, ?, ?, ?, ?, ?, ?)');
+  const insertMeasurement = db.prepare('INSERT INTO part_measurements (session_id, part, value, design_value, at_ms) VALUES (?, ?, ?, ?, ?)');
   const insertCapture = db.prepare(
     `INSERT INTO captures (session_id, label, start_s, sample_rate_hz, samples_per_channel, roles, after_gap, started_at_ms, encoding, sha256, data)
      VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
   );
   const updateReadings = db.prepare('UPDATE sessions SET readings_json = ? WHERE id = ?');
+  const updateSteps = db.prepare('UPDATE sessions SET steps_json = ? WHERE id = ?');
   const updateNotes = db.prepare('UPDATE sessions SET notes = ? WHERE id = ?');
   const heartbeat = db.prepare('UPDATE sessions SET heartbeat_at_ms = ? WHERE id = ?');
   const nextSeq = (table: 'cycles' | 'transfer_points'): number =>
@@ -83,6 +87,9 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
       case 'trim':
         insertTrim.run(sessionId, item.trim.part, item.trim.fromOhm, item.trim.toOhm, item.trim.method, item.trim.reason, item.atMs);
         return;
+      case 'measurement':
+        insertMeasurement.run(sessionId, item.measurement.part, item.measurement.value, item.measurement.designValue, item.atMs);
+        return;
       case 'capture': {
         const encoded = encodeCapture(item.block);
         insertCapture.run(
@@ -93,6 +100,9 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
       }
       case 'readings':
         updateReadings.run(item.json, sessionId);
+        return;
+      case 'steps':
+        updateSteps.run(item.json, sessionId);
         return;
       case 'notes':
         updateNotes.run(item.notes, sessionId);
@@ -147,8 +157,10 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
     addTransferPoint: (point) => enqueue({ kind: 'transfer', point: { ...point } }),
     addLinkEvent: (eventKind, detail, count = 1) => enqueue({ kind: 'link', eventKind, detail, count, atMs: Date.now() }),
     addTrim: (trim) => enqueue({ kind: 'trim', trim: { part: trim.part, fromOhm: trim.fromOhm, toOhm: trim.toOhm, method: trim.method, reason: trim.reason }, atMs: (trim.at ?? new Date()).getTime() }),
+    addPartMeasurement: (measurement) => enqueue({ kind: 'measurement', measurement: { part: measurement.part, value: measurement.value, designValue: measurement.designValue }, atMs: (measurement.at ?? new Date()).getTime() }),
     addCapture: (block, label) => enqueue({ kind: 'capture', block, label: label ?? null, atMs: Date.now() }),
     setReadings: (readings: CaptureReadings) => enqueue({ kind: 'readings', json: JSON.stringify(readings) }),
+    setStepsJson: (json) => enqueue({ kind: 'steps', json }),
     setNotes: (notes) => enqueue({ kind: 'notes', notes }),
     stats: () => ({ ...stats, queued: queue.length }),
     async flush() {

@@ -111,6 +111,21 @@ export const migrations: readonly string[] = [
   );
   CREATE INDEX link_events_by_session ON link_events (session_id);
   `,
+  // 2: part values the technician measured on the board (ohm, or farad for the ramp capacitor), beside the
+  // design's value, as told to the trim planner; and each commissioning step's report as it was recorded
+  // (steps_json), so recall shows what the technician saw, not the readings of the session's last moments.
+  `
+  ALTER TABLE sessions ADD COLUMN steps_json TEXT;
+  CREATE TABLE part_measurements (
+    id INTEGER PRIMARY KEY,
+    session_id INTEGER NOT NULL REFERENCES sessions(id),
+    part TEXT NOT NULL,
+    value REAL NOT NULL,
+    design_value REAL NOT NULL,
+    at_ms INTEGER NOT NULL
+  );
+  CREATE INDEX part_measurements_by_session ON part_measurements (session_id);
+  `,
 ];
 
 export const latestSchemaVersion = migrations.length;

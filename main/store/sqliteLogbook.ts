@@ -163,11 +163,14 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
     async session(id) {
       const found = db.prepare(`${sessionSelect} WHERE s.id = ?`).get(id) as SessionJoinRow | undefined;
       if (!found) return null;
-      const extra = db.prepare('SELECT notes, readings_json AS readings, design_id AS designId FROM sessions WHERE id = ?').get(id) as {
-        notes: string | null; readings: string | null; designId: number;
+      const extra = db.prepare('SELECT notes, readings_json AS readings, steps_json AS steps, design_id AS designId FROM sessions WHERE id = ?').get(id) as {
+        notes: string | null; readings: string | null; steps: string | null; designId: number;
       };
       const trims = db.prepare('SELECT id, part, from_ohm AS fromOhm, to_ohm AS toOhm, method, reason, at_ms AS atMs FROM trims WHERE session_id = ? ORDER BY at_ms, id').all(id) as Array<{
         id: number; part: string; fromOhm: number; toOhm: number; method: string; reason: string; atMs: number;
+      }>;
+      const measurements = db.prepare('SELECT part, value, design_value AS designValue, at_ms AS atMs FROM part_measurements WHERE session_id = ? ORDER BY at_ms, id').all(id) as Array<{
+        part: string; value: number; designValue: number; atMs: number;
       }>;
       const events = db.prepare('SELECT kind, detail, count, at_ms AS atMs FROM link_events WHERE session_id = ? ORDER BY at_ms, id').all(id) as Array<{
         kind: LinkEventKind; detail: string; count: number; atMs: number;
@@ -177,8 +180,10 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
         notes: extra.notes,
         designId: extra.designId,
         readings: extra.readings === null ? null : JSON.parse(extra.readings),
+        stepsJson: extra.steps,
         transfer: { points: await this.transferCurve(id), fit: transferFit(db, id) },
         trims: trims.map(({ atMs, ...trim }) => ({ ...trim, at: iso(atMs) })),
+        partMeasurements: measurements.map(({ atMs, ...measurement }) => ({ ...measurement, at: iso(atMs) })),
         linkEvents: events.map(({ atMs, ...event }) => ({ ...event, at: iso(atMs) })),
         captures: captureInfos(db, 'session_id = ?', id),
       };

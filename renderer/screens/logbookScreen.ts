@@ -210,6 +210,13 @@ export class LogbookScreen implements Screen {
       h('h3', {}, 'Readings'),
       readingRows.length > 0 ? h('table', { class: 'data', 'data-testid': 'detail-readings' }, h('thead', {}, h('tr', {}, ['Step', 'Reading', 'Value', 'Design', 'Verdict'].map((title) => h('th', { scope: 'col' }, title)))), h('tbody', {}, readingRows)) : h('p', { class: 'empty' }, 'No step was recorded in this session.'),
       h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), h('div', { class: 'plot small' }, transferCanvas)), h('div', {}, h('h3', {}, perCycleTitle), peaks.length + alphas.length > 0 ? h('div', { class: 'plot small' }, cycleCanvas) : h('p', { class: 'empty' }, 'No per-cycle readings were kept.'))),
+      detail.partMeasurements.length > 0 ? h('h3', {}, 'Parts measured on the board') : null,
+      detail.partMeasurements.length > 0
+        ? h('ul', { 'data-testid': 'detail-measured' }, detail.partMeasurements.map((measured) => {
+          const unit = measured.part === 'cRamp' ? 'F' : 'Ω';
+          return h('li', {}, `${measured.part}: ${formatSi(measured.value, unit)} measured, design ${formatSi(measured.designValue, unit)}, ${new Date(measured.at).toLocaleTimeString()}`);
+        }))
+        : null,
       h('h3', {}, 'Trims applied'),
       detail.trims.length > 0 ? h('ul', {}, detail.trims.map((trim) => h('li', {}, `${trim.part}: ${formatSi(trim.fromOhm, 'Ω')} → ${formatSi(trim.toOhm, 'Ω')} (${trim.reason || 'no reason given'}), ${new Date(trim.at).toLocaleTimeString()}`))) : h('p', { class: 'empty' }, 'None.'),
       h('h3', {}, 'Link events'),

@@ -182,6 +182,8 @@ describe('browser mode with the virtual board', () => {
     expect(Number(await page.getByTestId('detail-transfer-canvas').getAttribute('data-points'))).toBeGreaterThan(20);
     expect(await canvasInk(page, '[data-testid="detail-transfer-canvas"]')).toBeGreaterThan(0.02);
     await expect(page.getByTestId('session-detail').textContent()).resolves.toMatch(/Trims applied.*→/s);
+    // The ramp capacitor measured on the Trim screen is in the logbook beside its design value.
+    await expect(page.getByTestId('detail-measured').textContent()).resolves.toMatch(/cRamp: 330 nF measured, design 470 nF/);
     await screenshot(page, '8-logbook-session');
   });
 

@@ -13,7 +13,7 @@ import { archiveContentHash, decodeSessionArchive, importSessionArchive } from '
 import { openRecordSources } from '../../../main/record/openRecordSources';
 import type { SqliteDatabase } from '../../../main/store/openDatabase';
 import { recordSweepSession } from '../record/recordFixture';
-import { tempFolder, type TempFolder } from '../store/storeFixtures';
+import { chargerDesign, tempFolder, type TempFolder } from '../store/storeFixtures';
 
 let folder: TempFolder;
 let source: ReturnType<typeof openRecordSources>;
@@ -28,19 +28,20 @@ function sessionTables(db: SqliteDatabase, id: number): Record<string, unknown[]
   const rows = (sql: string) => db.prepare(sql).all(id);
   return {
     sessions: rows(`SELECT u.serial, d.content_hash, d.name AS design_name, d.design_json, u.design_name AS unit_design, u.created_at_ms AS unit_created,
-      s.operator, s.started_at_ms, s.ended_at_ms, s.status, s.notes, s.readings_json, s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v
+      s.operator, s.started_at_ms, s.ended_at_ms, s.status, s.notes, s.readings_json, s.steps_json, s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v
       FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id WHERE s.id = ?`),
     cycles: rows('SELECT * FROM cycles WHERE session_id = ? ORDER BY seq').map((row) => ({ ...(row as object), session_id: undefined })),
     transferPoints: rows('SELECT * FROM transfer_points WHERE session_id = ? ORDER BY seq').map((row) => ({ ...(row as object), session_id: undefined })),
     captures: rows('SELECT label, start_s, sample_rate_hz, samples_per_channel, roles, after_gap, started_at_ms, encoding, sha256, hex(data) AS data FROM captures WHERE session_id = ? ORDER BY id'),
     trims: rows('SELECT part, from_ohm, to_ohm, method, reason, at_ms FROM trims WHERE session_id = ? ORDER BY id'),
     linkEvents: rows('SELECT kind, detail, count, at_ms FROM link_events WHERE session_id = ? ORDER BY id'),
+    partMeasurements: rows('SELECT part, value, design_value, at_ms FROM part_measurements WHERE session_id = ? ORDER BY id'),
   };
 }
 
 function tableCounts(db: SqliteDatabase): Record<string, number> {
   const counts: Record<string, number> = {};
-  for (const table of ['board_designs', 'units', 'sessions', 'cycles', 'transfer_points', 'captures', 'trims', 'link_events']) {
+  for (const table of ['board_designs', 'units', 'sessions', 'cycles', 'transfer_points', 'captures', 'trims', 'link_events', 'part_measurements']) {
     counts[table] = (db.prepare(`SELECT count(*) AS n FROM ${table}`).get() as { n: number }).n;
   }
   return counts;
@@ -80,6 +81,7 @@ describe('session archive', () => {
       for (const table of Object.keys(before)) expect(after[table], table).toEqual(before[table]);
       expect(before.cycles.length).toBeGreaterThan(10);
       expect(before.captures.length).toBe(1);
+      expect(before.partMeasurements.length).toBe(2);
       // The logbook's own views agree too: the capture reads back with its hash checked.
       const capture = (await target.logbook.session(result.sessionId))!.captures[0];
       expect((await target.logbook.readCapture(capture.id))!.block.sync.length).toBeGreaterThan(1000);
@@ -162,5 +164,18 @@ describe('session archive', () => {
     expect(json.format).toBe('rampwright-session-archive');
     expect(json.version).toBe(1);
     expect(archiveContentHash(json.session)).toBe(json.contentSha256);
+    expect(json.session.partMeasurements.columns).toEqual(['part', 'value', 'design_value', 'at_ms']);
+    expect(json.session.partMeasurements.rows.map((row: unknown[]) => row.slice(0, 3))).toEqual([['rEmitter', 5490, 5600], ['cRamp', 4.42e-7, 4.7e-7]]);
+  });
+
+  it('leaves the measured parts out of a session that has none, so its content hash is what it always was', async () => {
+    const writer = await source.logbook.startSession({ unitSerial: 'RW-0002', design: chargerDesign(), operator: 'A. Tester', startedAt: new Date('2026-11-21T08:00:00Z') });
+    const row = await writer.close();
+    const path = folder.file('plain.rwsession');
+    await exportSessionFile(source, row.id, path, 'archive');
+    const json = JSON.parse(gunzipSync(readFileSync(path)).toString('utf8'));
+    expect(Object.keys(json.session)).not.toContain('partMeasurements');
+    expect(Object.keys(json.session.record)).not.toContain('stepsJson');
+    expect(Object.keys(json.session).sort()).toEqual(['captures', 'cycles', 'design', 'linkEvents', 'record', 'transferPoints', 'trims', 'unit']);
   });
 });

@@ -53,7 +53,12 @@ export async function recordSweepSession(logbook: Logbook, options: { unitSerial
   writer.setReadings(analyzer.finish());
   const capture = mergeBlocks(blocks.slice(0, Math.max(1, Math.floor(blocks.length / 3))));
   writer.addCapture(capture, 'ramp check');
+  // Measured before the trim (our scenario): the emitter resistor 2 % low, the ramp capacitor 6 % low.
+  writer.addPartMeasurement({ part: 'rEmitter', value: 5490, designValue: 5600 });
+  writer.addPartMeasurement({ part: 'cRamp', value: 4.42e-7, designValue: 4.7e-7 });
   writer.addTrim({ part: 'R14', fromOhm: 5600, toOhm: 6200, method: 'trim plan', reason: 'ramp peak 4 % high: emitter resistor one E24 step up' });
+  // One recorded step, as the session service stores them (the contract's StepReport[] as JSON).
+  writer.setStepsJson(JSON.stringify([{ step: 'sync', status: 'done', verdict: 'in-tolerance', readings: [], cycles: 12, note: null }]));
   writer.addLinkEvent('opened', 'virtual board', 1);
   writer.addLinkEvent('crc-failures', '3 lines failed their CRC', 3);
   const row = await writer.close();

@@ -68,6 +68,10 @@ describe('commissioning record', () => {
     expect(html).toContain('Ramp peak');
     expect(html).toMatch(/class="verdict (in-tolerance|marginal|out-of-tolerance)"><span aria-hidden="true">[\u2713\u26a0\u2717]<\/span> (in tolerance|marginal|out of tolerance)/);
     expect(html).toContain('does not certify');
+    // The measured parts beside their design values, in the units printed on parts: (5490 - 5600)/5600 = -2.0 %,
+    // (442 - 470)/470 = -6.0 % (hand values).
+    expect(html).toMatch(/<td>rEmitter<\/td><td class="number">5\.49 kohm<\/td><td class="number">5\.6 kohm<\/td><td class="number">-2\.0 %<\/td>/);
+    expect(html).toMatch(/<td>cRamp<\/td><td class="number">442 nF<\/td><td class="number">470 nF<\/td><td class="number">-6\.0 %<\/td>/);
     expect((await verifyRecordFile(sources, path)).matches).toBe(true);
   });
 
@@ -90,6 +94,8 @@ describe('commissioning record', () => {
     for (const check of record.checks) expect(text).toContain(check.label);
     expect(text).toMatch(/in tolerance|marginal|out of tolerance/);
     expect(text).toContain(record.capturesSha256 as string);
+    expect(text).toContain('Parts measured on the board');
+    expect(text).toMatch(/rEmitter\s+5\.49 kohm\s+5\.6 kohm\s+-2\.0 %/);
     expect((await verifyRecordFile(sources, path)).matches).toBe(true);
   });
 
@@ -119,5 +125,6 @@ describe('commissioning record', () => {
     expect(text).toContain('No readings were stored with this session.');
     expect(text).toContain('No capture was kept in this session');
     expect(text).toContain('No trims were applied.');
+    expect(text).toContain('No part values were measured in this session.');
   });
 });

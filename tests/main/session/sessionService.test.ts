@@ -140,6 +140,9 @@ describe('session service on the virtual board', () => {
     expect(Math.abs(kept.seconds - 1)).toBeLessThanOrEqual(120 / 25_000 + 1e-9);
     const row = await client.signOff({});
     const detail = await client.sessionDetail({ sessionId: row.id });
+    // Recall shows each step as it was recorded: the re-checked ramp exactly, not the readings of the last moment.
+    expect(detail.steps.find((step) => step.step === 'ramp')).toEqual(recheck);
+    expect(detail.steps.map((step) => step.step)).toEqual(['sync', 'ramp', 'trim', 'sign-off'].filter((step) => detail.steps.some((report) => report.step === step)));
     expect(detail.trims).toHaveLength(1);
     expect(detail.trims[0]).toMatchObject({ part: 'rEmitter', toOhm: first.toOhm });
     expect(detail.captures).toHaveLength(1);

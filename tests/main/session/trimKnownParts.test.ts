@@ -55,8 +55,9 @@ describe('trim plans for the board as built', () => {
     const first = plan.suggestions[0];
     expect(first.part).toBe('rEmitter');
     expect(first.fromOhm).toBe(actualOhm);
-    // Left out, the session keeps what it was told.
+    // Left out, the session keeps what it was told; told the same again, the logbook gets it once.
     expect((await client.trimPlan({})).knownParts).toHaveLength(1);
+    await client.trimPlan({ measuredParts: { rEmitter: actualOhm } });
 
     await client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason, alsoChange: null });
     // Issue 3's check of advice that works: within 5 % of the target once re-checked.
@@ -67,6 +68,11 @@ describe('trim plans for the board as built', () => {
     const after = await client.trimPlan({});
     expect(after.knownParts).toEqual([{ part: 'rEmitter', partRef: emitter.ref ?? null, value: first.toOhm, designValue: emitter.ohm, source: 'fitted' }]);
     for (const suggestion of after.suggestions.filter((row) => row.part === 'rEmitter')) expect(suggestion.fromOhm).toBe(first.toOhm);
+
+    // The logbook keeps the measurement beside the design value, for the record and the next technician.
+    const row = await client.signOff({});
+    const detail = await client.sessionDetail({ sessionId: row.id });
+    expect(detail.partMeasurements.map(({ part, value, designValue }) => ({ part, value, designValue }))).toEqual([{ part: 'rEmitter', value: actualOhm, designValue: emitter.ohm }]);
   });
 
   it('an empty set forgets measured values but keeps fitted ones; bad values are refused naming the field', async () => {

@@ -3,7 +3,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { InputError } from '../../../app/errors';
 import { openLogbookDatabase } from '../../../main/store/openDatabase';
-import { latestSchemaVersion, logbookApplicationId } from '../../../main/store/schema';
+import { latestSchemaVersion, logbookApplicationId, migrations } from '../../../main/store/schema';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
 import { chargerDesign, tempFolder, type TempFolder } from './storeFixtures';
 
@@ -32,7 +32,7 @@ describe('openLogbookDatabase', () => {
   it('creates every table of the schema, marks the file as ours and sets WAL with synchronous NORMAL', () => {
     const db = openLogbookDatabase(folder.file('new.sqlite'));
     const tables = (db.prepare("SELECT name FROM sqlite_master WHERE type = 'table' ORDER BY name").all() as Array<{ name: string }>).map((row) => row.name);
-    expect(tables).toEqual(['board_designs', 'captures', 'cycles', 'link_events', 'sessions', 'transfer_points', 'trims', 'units']);
+    expect(tables).toEqual(['board_designs', 'captures', 'cycles', 'link_events', 'part_measurements', 'sessions', 'transfer_points', 'trims', 'units']);
     expect(db.pragma('user_version', { simple: true })).toBe(latestSchemaVersion);
     expect(db.pragma('application_id', { simple: true })).toBe(logbookApplicationId);
     expect(db.pragma('journal_mode', { simple: true })).toBe('wal');
@@ -58,6 +58,26 @@ describe('openLogbookDatabase', () => {
     const sessions = await again.listSessions();
     expect(sessions.map((row) => [row.unit, row.status])).toEqual([['RW-0142', 'closed']]);
     await again.close();
+  });
+
+  it('brings a logbook of the first schema up to date, keeping its sessions, and then records what is new', async () => {
+    // A logbook as the first release wrote it: migration 1 only.
+    const path = folder.file('first.sqlite');
+    const old = new Database(path);
+    old.pragma(`application_id = ${logbookApplicationId}`);
+    old.exec(migrations[0]);
+    old.pragma('user_version = 1');
+    old.close();
+    const logbook = await openSqliteLogbook(path);
+    const writer = await logbook.startSession({ unitSerial: 'RW-0143', design: chargerDesign(), operator: 'bench 2' });
+    writer.addPartMeasurement({ part: 'rEmitter', value: 8200, designValue: 5600 });
+    const row = await writer.close();
+    const detail = await logbook.session(row.id);
+    expect(detail?.partMeasurements.map(({ part, value, designValue }) => ({ part, value, designValue }))).toEqual([{ part: 'rEmitter', value: 8200, designValue: 5600 }]);
+    await logbook.close();
+    const db = new Database(path);
+    expect(db.pragma('user_version', { simple: true })).toBe(latestSchemaVersion);
+    db.close();
   });
 
   it('accepts an empty file as a new logbook', () => {

@@ -1,0 +1,48 @@
+// Recall of a session's steps: as recorded when the logbook has them, recomputed from the stored readings for a
+// session recorded before steps were kept (or whose stored steps do not fit the contract).
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createBenchClient, type BenchClient } from '../../../app/contract';
+import { openBenchContext, type BenchContext } from '../../../main/session/benchContext';
+import { createBenchDispatch } from '../../../main/session/dispatch';
+import { openRecordSources } from '../../../main/record/openRecordSources';
+import { recordSweepSession } from '../record/recordFixture';
+import { tempFolder, type TempFolder } from '../store/storeFixtures';
+
+let folder: TempFolder;
+let context: BenchContext;
+let client: BenchClient;
+const ids: number[] = [];
+
+beforeAll(async () => {
+  folder = tempFolder('rampwright-views-');
+  const sources = openRecordSources(folder.file('logbook.sqlite'), { create: true });
+  for (const serial of ['RV-1', 'RV-2', 'RV-3']) ids.push((await recordSweepSession(sources.logbook, { unitSerial: serial, seconds: 0.6 })).sessionId);
+  // RV-2 as an older logbook holds it (no steps kept); RV-3 with steps a foreign tool mangled.
+  sources.db.prepare('UPDATE sessions SET steps_json = NULL WHERE id = ?').run(ids[1]);
+  sources.db.prepare('UPDATE sessions SET steps_json = ? WHERE id = ?').run('{"not":"steps"', ids[2]);
+  await sources.close();
+  context = await openBenchContext({ logbookPath: folder.file('logbook.sqlite'), virtualPaced: false });
+  client = createBenchClient({ invoke: createBenchDispatch(context.service.handlers, { checkResults: true }), subscribe: () => () => undefined });
+}, 60_000);
+
+afterAll(async () => {
+  await context.close();
+  folder.remove();
+});
+
+describe('session detail steps', () => {
+  it('shows the steps as recorded', async () => {
+    const detail = await client.sessionDetail({ sessionId: ids[0] });
+    expect(detail.steps).toEqual([{ step: 'sync', status: 'done', verdict: 'in-tolerance', readings: [], cycles: 12, note: null }]);
+  });
+
+  it('recomputes them from the stored readings when none were kept, or when what was kept does not parse', async () => {
+    for (const id of [ids[1], ids[2]]) {
+      const detail = await client.sessionDetail({ sessionId: id });
+      expect(detail.steps.map((step) => step.step)).toEqual(['sync', 'ramp', 'trim', 'transfer', 'limits', 'sign-off']);
+      const ramp = detail.steps.find((step) => step.step === 'ramp');
+      expect(ramp?.status).toBe('done');
+      expect(ramp?.readings.find((reading) => reading.key === 'rampPeakV')?.value).toBeGreaterThan(1);
+    }
+  });
+});

@@ -45,6 +45,22 @@ export const stepReportSchema = z.object({
 });
 export type StepReport = z.infer<typeof stepReportSchema>;
 
+/**
+ * Step reports as the logbook keeps them (JSON of StepReport[]), or null when none were kept or the text does not
+ * fit the contract (a foreign edit): the caller then recomputes from the stored readings.
+ */
+export function parseStepReports(json: string | null): StepReport[] | null {
+  if (json === null) return null;
+  let stored: unknown;
+  try {
+    stored = JSON.parse(json);
+  } catch {
+    return null;
+  }
+  const parsed = z.array(stepReportSchema).safeParse(stored);
+  return parsed.success ? parsed.data : null;
+}
+
 /** One signal of one folded cycle, after min-max decimation (each bucket keeps its minimum and maximum so peaks survive). */
 export const foldTraceSchema = z.object({
   /** Electrical degrees from the cycle's starting zero crossing, 0-360, non-decreasing. */

@@ -11,7 +11,7 @@
  */
 import type { ReadingCheck } from '../bench/judge';
 import { formatFarad, formatOhm, formatPercent } from '../board/formatValues';
-import type { FoldCycle, Verdict } from '../contract/readings';
+import type { FoldCycle, StepReport, Verdict } from '../contract/readings';
 import type { TransferSet } from './plots';
 
 export interface RecordCapture {
@@ -31,6 +31,11 @@ export interface CommissioningRecord {
   session: { id: number; operator: string; status: string; startedAt: string; endedAt: string | null; notes: string | null; cycles: number };
   /** Readings judged against the design version the session used (app/bench/judge.ts); empty without readings. */
   checks: ReadingCheck[];
+  /**
+   * The readings table: each step's readings as the technician recorded them when the logbook kept them
+   * (`source` 'recorded'), else the checks above from the session's stored readings ('judged').
+   */
+  readings: { source: 'recorded' | 'judged'; rows: RecordReadingRow[] };
   fold: FoldCycle[];
   transfer: TransferSet & { maxDeviationDeg: number | null };
   trims: Array<{ part: string; fromOhm: number; toOhm: number; method: string; reason: string; at: string }>;
@@ -62,12 +67,58 @@ export const verdictWords: Record<Verdict, { text: string; symbol: string; plain
 
 export const notMeasuredWords = { text: 'not measured', symbol: '\u2013', plain: '-' };
 
+/** A reading the design sets no tolerance for: measured and shown, not judged. */
+export const informationWords = { text: 'for information', symbol: 'i', plain: 'i' };
+
+/** The verdict words of a readings-table row: judged, for information (a value without a verdict), or not measured. */
+export function rowVerdictWords(row: RecordReadingRow): { text: string; symbol: string; plain: string } {
+  if (row.verdict) return verdictWords[row.verdict];
+  return row.measured === '-' ? notMeasuredWords : informationWords;
+}
+
 export function formatReading(value: number | boolean | null, unit: string): string {
   if (value === null) return '-';
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
   const size = Math.abs(value);
   const digits = size === 0 || Number.isInteger(value) ? 0 : size >= 100 ? 1 : size >= 10 ? 2 : 3;
   return `${value.toFixed(digits)}${unit ? ` ${unit}` : ''}`;
+}
+
+/** One line of the record's readings table, already in words. */
+export interface RecordReadingRow {
+  /** The commissioning step it was recorded at; null for readings judged after the session. */
+  step: string | null;
+  label: string;
+  measured: string;
+  design: string;
+  /** The tolerance band or limit, in words. */
+  band: string;
+  verdict: Verdict | null;
+  note: string;
+}
+
+const stepWords: Record<StepReport['step'], string> = { sync: 'Sync', ramp: 'Ramp', trim: 'Trim', transfer: 'Transfer', limits: 'Limits', 'sign-off': 'Sign-off' };
+
+export function readingRowsFromChecks(checks: readonly ReadingCheck[]): RecordReadingRow[] {
+  return checks.map((check) => ({
+    step: null,
+    label: check.label,
+    measured: formatReading(check.measured, check.unit),
+    design: formatReading(check.expected, check.unit),
+    band: formatTolerance(check),
+    verdict: check.verdict,
+    note: check.note ?? '',
+  }));
+}
+
+export function readingRowsFromSteps(steps: readonly StepReport[]): RecordReadingRow[] {
+  return steps.flatMap((report) =>
+    report.readings.map((reading) => {
+      const format = (value: number | null) => formatReading(value, reading.unit);
+      const band = reading.low !== null && reading.high !== null ? `${format(reading.low)} to ${format(reading.high)}` : reading.low !== null ? `at least ${format(reading.low)}` : reading.high !== null ? `at most ${format(reading.high)}` : '';
+      return { step: stepWords[report.step], label: reading.label, measured: format(reading.value), design: format(reading.expected), band, verdict: reading.verdict, note: reading.note ?? '' };
+    }),
+  );
 }
 
 /** A measured part as the record's table shows it: part, measured, design, how far off, when. */

@@ -4,7 +4,7 @@
  */
 import { escapeXml, figureToSvg } from './figure';
 import { foldFigure, transferFigure } from './plots';
-import { formatReading, formatTolerance, partMeasurementCells, notMeasuredWords, recordLimitsNote, verdictWords, type CommissioningRecord } from './recordModel';
+import { formatReading, partMeasurementCells, recordLimitsNote, rowVerdictWords, type CommissioningRecord } from './recordModel';
 
 const style = `
 body { font-family: Helvetica, Arial, sans-serif; color: #23262a; margin: 24px auto; max-width: 760px; line-height: 1.35; }
@@ -32,9 +32,10 @@ export function renderRecordHtml(record: CommissioningRecord): string {
     ['Cycles measured', String(record.session.cycles)],
     ['Record made', when(record.generatedAt)],
   ];
-  const readingRows = record.checks.map((check) => {
-    const words = check.verdict ? verdictWords[check.verdict] : notMeasuredWords;
-    return `<tr>${cell(check.label)}${cell(formatReading(check.measured, check.unit), 'number')}${cell(formatReading(check.expected, check.unit), 'number')}${cell(formatTolerance(check))}<td class="verdict ${check.verdict ?? ''}"><span aria-hidden="true">${words.symbol}</span> ${escapeXml(words.text)}</td>${cell(check.note ?? '')}</tr>`;
+  const recorded = record.readings.source === 'recorded';
+  const readingRows = record.readings.rows.map((row) => {
+    const words = rowVerdictWords(row);
+    return `<tr>${recorded ? cell(row.step ?? '') : ''}${cell(row.label)}${cell(row.measured, 'number')}${cell(row.design, 'number')}${cell(row.band)}<td class="verdict ${row.verdict ?? ''}"><span aria-hidden="true">${words.symbol}</span> ${escapeXml(words.text)}</td>${cell(row.note)}</tr>`;
   });
   const trimRows = record.trims.map((trim) => `<tr>${cell(trim.part)}${cell(formatReading(trim.fromOhm, 'ohm'), 'number')}${cell(formatReading(trim.toOhm, 'ohm'), 'number')}${cell(trim.method)}${cell(trim.reason)}${cell(when(trim.at))}</tr>`);
   const measurementRows = record.partMeasurements.map((measurement) => `<tr>${partMeasurementCells(measurement).map((text, index) => cell(text, index > 0 ? 'number' : '')).join('')}${cell(when(measurement.at))}</tr>`);
@@ -58,8 +59,8 @@ export function renderRecordHtml(record: CommissioningRecord): string {
 <h2>Unit and design</h2>
 <table class="identity"><tbody>${identity.map(([name, value, className]) => `<tr>${cell(name)}${cell(value, className ?? '')}</tr>`).join('\n')}</tbody></table>
 ${record.session.notes ? `<p>Notes: ${escapeXml(record.session.notes)}</p>` : ''}
-<h2>Readings against the design</h2>
-${table(['Reading', 'Measured', 'Design', 'Tolerance', 'Verdict', 'Note'], readingRows, 'No readings were stored with this session.')}
+<h2>${recorded ? 'Readings as recorded at each step' : 'Readings against the design'}</h2>
+${table([...(recorded ? ['Step'] : []), 'Reading', 'Measured', 'Design', recorded ? 'Band' : 'Tolerance', 'Verdict', 'Note'], readingRows, 'No readings were stored with this session.')}
 <h2>Cycle fold</h2>
 ${record.fold.length > 0 ? `<figure>${figureToSvg(foldFigure(record.fold))}<figcaption>The last ${record.fold.length} cycles of the stored capture drawn over one mains cycle; dashed lines mark the zero crossings, solid plum lines the firing point.</figcaption></figure>` : '<p>No capture was kept in this session, so there is no fold to draw.</p>'}
 <h2>Transfer curve</h2>

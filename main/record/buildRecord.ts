@@ -6,7 +6,8 @@
 import { judgeReadings } from '../../app/bench/judge';
 import { boardDesignSchema } from '../../app/board/design';
 import { InputError } from '../../app/errors';
-import { captureDigestText, orderCapturesForDigest, type CommissioningRecord } from '../../app/record/recordModel';
+import { parseStepReports } from '../../app/contract';
+import { captureDigestText, orderCapturesForDigest, readingRowsFromChecks, readingRowsFromSteps, type CommissioningRecord } from '../../app/record/recordModel';
 import type { Logbook } from '../store/logbookTypes';
 import { rawCaptureBytes, sha256Hex } from '../store/captureCodec';
 import { readDesignVersion } from '../store/recordQueries';
@@ -26,12 +27,15 @@ export async function buildRecord(sources: RecordSources, sessionId: number, opt
   const ordered = orderCapturesForDigest(detail.captures);
   const last = ordered[ordered.length - 1];
   const stored = last ? await sources.logbook.readCapture(last.id) : null;
+  const checks = detail.readings ? judgeReadings(detail.readings, design) : [];
+  const recorded = parseStepReports(detail.stepsJson);
   return {
     generatedAt: (options.now ?? new Date()).toISOString(),
     unit: { serial: detail.row.unit },
     design: { name: version.name, version: version.version, contentHash: version.contentHash },
     session: { id: detail.row.id, operator: detail.row.operator, status: detail.row.status, startedAt: detail.row.startedAt, endedAt: detail.row.endedAt, notes: detail.notes, cycles: detail.row.cycles },
-    checks: detail.readings ? judgeReadings(detail.readings, design) : [],
+    checks,
+    readings: recorded && recorded.length > 0 ? { source: 'recorded', rows: readingRowsFromSteps(recorded) } : { source: 'judged', rows: readingRowsFromChecks(checks) },
     fold: stored ? foldCapture(stored.block, { cycles: options.foldCycles }) : [],
     transfer: { label: `session ${sessionId}`, points: detail.transfer.points, fit: detail.transfer.fit, maxDeviationDeg: detail.transfer.fit?.maxDeviationDeg ?? null },
     trims: detail.trims.map(({ part, fromOhm, toOhm, method, reason, at }) => ({ part, fromOhm, toOhm, method, reason, at })),

@@ -5,7 +5,7 @@
  */
 import { PDFDocument, StandardFonts, type PDFFont, type PDFPage } from 'pdf-lib';
 import { foldFigure, transferFigure } from '../../app/record/plots';
-import { formatReading, formatTolerance, partMeasurementCells, notMeasuredWords, recordLimitsNote, verdictWords, type CommissioningRecord } from '../../app/record/recordModel';
+import { formatReading, partMeasurementCells, recordLimitsNote, rowVerdictWords, type CommissioningRecord } from '../../app/record/recordModel';
 import { drawFigure, hexColour } from './pdfFigure';
 import { wrapText } from './pdfText';
 
@@ -124,23 +124,25 @@ export async function renderRecordPdf(record: CommissioningRecord): Promise<Uint
   flow.table(['Item', 'Value'], identity.map(([name, value]) => [{ text: name }, { text: value }]), [0.28, 0.72]);
   if (record.session.notes) flow.text(`Notes: ${record.session.notes}`);
 
-  flow.heading('Readings against the design');
-  if (record.checks.length === 0) flow.text('No readings were stored with this session.');
+  const recorded = record.readings.source === 'recorded';
+  flow.heading(recorded ? 'Readings as recorded at each step' : 'Readings against the design');
+  if (record.readings.rows.length === 0) flow.text('No readings were stored with this session.');
   else {
     flow.table(
-      ['Reading', 'Measured', 'Design', 'Tolerance', 'Verdict', 'Note'],
-      record.checks.map((check) => {
-        const words = check.verdict ? verdictWords[check.verdict] : notMeasuredWords;
+      [...(recorded ? ['Step'] : []), 'Reading', 'Measured', 'Design', recorded ? 'Band' : 'Tolerance', 'Verdict', 'Note'],
+      record.readings.rows.map((row) => {
+        const words = rowVerdictWords(row);
         return [
-          { text: check.label },
-          { text: formatReading(check.measured, check.unit) },
-          { text: formatReading(check.expected, check.unit) },
-          { text: formatTolerance(check) },
-          { text: words.text, bold: true, colour: check.verdict ? verdictInk[check.verdict] : '#555555', icon: check.verdict },
-          { text: check.note ?? '' },
+          ...(recorded ? [{ text: row.step ?? '' }] : []),
+          { text: row.label },
+          { text: row.measured },
+          { text: row.design },
+          { text: row.band },
+          { text: words.text, bold: true, colour: row.verdict ? verdictInk[row.verdict] : '#555555', icon: row.verdict },
+          { text: row.note },
         ];
       }),
-      [0.3, 0.12, 0.12, 0.16, 0.17, 0.13],
+      recorded ? [0.09, 0.23, 0.11, 0.11, 0.14, 0.16, 0.16] : [0.3, 0.12, 0.12, 0.16, 0.17, 0.13],
     );
   }
 

@@ -3,10 +3,9 @@
  * for sessions stored before steps were kept, recomputed from the readings stored with it, against the design
  * version it used), comparisons and drift.
  */
-import { z } from 'zod';
 import type { CaptureReadings } from '../../app/bench/readings';
 import type { DriftPoint, SessionComparison, SessionDetail, SessionRow, StepReport } from '../../app/contract';
-import { BenchFault, stepReportSchema } from '../../app/contract';
+import { BenchFault, parseStepReports } from '../../app/contract';
 import type { Logbook, SessionDetail as StoredDetail, SessionRow as StoredRow } from '../store/logbookTypes';
 import type { DesignCatalog } from './designCatalog';
 import { stepReports } from './steps';
@@ -16,17 +15,8 @@ export function sessionRowView(row: StoredRow): SessionRow {
 }
 
 async function stepsOf(detail: StoredDetail, designs: DesignCatalog): Promise<StepReport[]> {
-  if (detail.stepsJson !== null) {
-    let stored: unknown = null;
-    try {
-      stored = JSON.parse(detail.stepsJson);
-    } catch {
-      stored = null;
-    }
-    const parsed = z.array(stepReportSchema).safeParse(stored);
-    // A stored value that does not fit the contract is a bug or a foreign edit: fall back to recomputing.
-    if (parsed.success) return parsed.data;
-  }
+  const recorded = parseStepReports(detail.stepsJson);
+  if (recorded !== null) return recorded;
   const readings: CaptureReadings | null = detail.readings;
   if (!readings) return [];
   const stored = await designs.get(detail.row.designName, detail.row.designVersion).catch(() => designs.get(detail.row.designName).catch(() => null));

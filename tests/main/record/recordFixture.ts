@@ -8,6 +8,7 @@ import type { SampleBlock } from '../../../app/capture/samples';
 import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import type { BoardDesign } from '../../../app/board/design';
 import { synthesiseCapture } from '../../../app/sim';
+import { stepReports } from '../../../main/session/steps';
 import type { Logbook } from '../../../main/store/logbookTypes';
 import { chargerDesign } from '../store/storeFixtures';
 
@@ -39,7 +40,7 @@ export interface RecordedSession {
   capture: SampleBlock;
 }
 
-export async function recordSweepSession(logbook: Logbook, options: { unitSerial?: string; startedAt?: Date; seconds?: number; seed?: number } = {}): Promise<RecordedSession> {
+export async function recordSweepSession(logbook: Logbook, options: { unitSerial?: string; startedAt?: Date; seconds?: number; seed?: number; steps?: boolean } = {}): Promise<RecordedSession> {
   const design = chargerDesign();
   const blocks = [...synthesiseCapture(design, { durationS: options.seconds ?? 1.2, sampleRateHz: 10_000, seed: options.seed ?? 7, controlSweep: { fromV: 2, toV: 6, periodS: 2.4 } })];
   const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: true });
@@ -50,15 +51,20 @@ export async function recordSweepSession(logbook: Logbook, options: { unitSerial
       if (cycle.alphaDeg !== null && cycle.controlV !== null) writer.addTransferPoint({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
     }
   }
-  writer.setReadings(analyzer.finish());
+  const readings = analyzer.finish();
+  writer.setReadings(readings);
   const capture = mergeBlocks(blocks.slice(0, Math.max(1, Math.floor(blocks.length / 3))));
   writer.addCapture(capture, 'ramp check');
   // Measured before the trim (our scenario): the emitter resistor 2 % low, the ramp capacitor 6 % low.
   writer.addPartMeasurement({ part: 'rEmitter', value: 5490, designValue: 5600 });
   writer.addPartMeasurement({ part: 'cRamp', value: 4.42e-7, designValue: 4.7e-7 });
   writer.addTrim({ part: 'R14', fromOhm: 5600, toOhm: 6200, method: 'trim plan', reason: 'ramp peak 4 % high: emitter resistor one E24 step up' });
-  // One recorded step, as the session service stores them (the contract's StepReport[] as JSON).
-  writer.setStepsJson(JSON.stringify([{ step: 'sync', status: 'done', verdict: 'in-tolerance', readings: [], cycles: 12, note: null }]));
+  // The steps as the session service records them (main/session/steps.ts), unless the caller wants a session from
+  // before steps were kept.
+  if (options.steps ?? true) {
+    const inputs = { design, window: readings, transferFit: readings.transfer, extremes: { alphaMinDeg: readings.pulse.alphaMinDeg, alphaMaxDeg: readings.pulse.alphaMaxDeg, cycles: readings.firingIntervals }, recorded: {}, recheckNeeded: false, trimsApplied: 1, signedOff: true };
+    writer.setStepsJson(JSON.stringify(stepReports(inputs).map((report) => ({ ...report, status: 'done' }))));
+  }
   writer.addLinkEvent('opened', 'virtual board', 1);
   writer.addLinkEvent('crc-failures', '3 lines failed their CRC', 3);
   const row = await writer.close();

@@ -91,12 +91,30 @@ describe('commissioning record', () => {
     const text = execFileSync('pdftotext', ['-layout', path, '-'], { encoding: 'utf8' });
     const record = await buildRecord(sources, session.sessionId, { now });
     expect(text).toContain('RW-7731');
-    for (const check of record.checks) expect(text).toContain(check.label);
+    // The readings as recorded at each step (the fixture records every step), every row's label in the text.
+    expect(record.readings.source).toBe('recorded');
+    expect(text).toContain('Readings as recorded at each step');
+    for (const row of record.readings.rows) expect(text.replace(/\s+/g, ' ')).toContain(row.label.split(' ')[0]);
+    for (const label of ['Mains frequency', 'Ramp peak', 'Largest alpha', 'Gate pulse width']) expect(text).toContain(label);
+    // A value the design sets no tolerance for is shown for information, not as unmeasured.
+    expect(text).toMatch(/Ramp slope\s+[\d.]+ V\/ms.*for information/);
     expect(text).toMatch(/in tolerance|marginal|out of tolerance/);
     expect(text).toContain(record.capturesSha256 as string);
     expect(text).toContain('Parts measured on the board');
     expect(text).toMatch(/rEmitter\s+5\.49 kohm\s+5\.6 kohm\s+-2\.0 %/);
     expect((await verifyRecordFile(sources, path)).matches).toBe(true);
+  });
+
+  it('a session from before steps were kept shows its readings judged against the design instead', async () => {
+    const older = await recordSweepSession(sources.logbook, { unitSerial: 'RW-7732', steps: false, seconds: 0.6 });
+    const record = await buildRecord(sources, older.sessionId, { now });
+    expect(record.readings.source).toBe('judged');
+    expect(record.readings.rows.map((row) => row.label)).toEqual(record.checks.map((check) => check.label));
+    const path = folder.file('older.html');
+    await writeRecordFile(sources, older.sessionId, path, { now });
+    const html = readFileSync(path, 'utf8');
+    expect(html).toContain('<h2>Readings against the design</h2>');
+    expect(html).not.toContain('Readings as recorded at each step');
   });
 
   it('a record whose digest was altered does not verify', async () => {

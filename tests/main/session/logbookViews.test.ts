@@ -33,7 +33,14 @@ afterAll(async () => {
 describe('session detail steps', () => {
   it('shows the steps as recorded', async () => {
     const detail = await client.sessionDetail({ sessionId: ids[0] });
-    expect(detail.steps).toEqual([{ step: 'sync', status: 'done', verdict: 'in-tolerance', readings: [], cycles: 12, note: null }]);
+    expect(detail.steps.map((step) => [step.step, step.status])).toEqual([['sync', 'done'], ['ramp', 'done'], ['trim', 'done'], ['transfer', 'done'], ['limits', 'done'], ['sign-off', 'done']]);
+    // Exactly what was stored, not recomputed: a stored reading changed by hand shows as changed.
+    const sources = openRecordSources(folder.file('logbook.sqlite'));
+    const stored = JSON.parse((sources.db.prepare('SELECT steps_json AS json FROM sessions WHERE id = ?').get(ids[0]) as { json: string }).json);
+    stored[0].note = 'recorded at the bench';
+    sources.db.prepare('UPDATE sessions SET steps_json = ? WHERE id = ?').run(JSON.stringify(stored), ids[0]);
+    await sources.close();
+    expect((await client.sessionDetail({ sessionId: ids[0] })).steps[0].note).toBe('recorded at the bench');
   });
 
   it('recomputes them from the stored readings when none were kept, or when what was kept does not parse', async () => {

@@ -1,12 +1,12 @@
 // The fleet call of the bench contract over a logbook of our own invented units: the same histograms as the
 // fleet report (main/record/recall.ts), the unit placed in them, and refusals that name what is wrong.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createBenchClient, BenchCallError, type BenchClient } from '../../../app/contract';
-import { openBenchContext, type BenchContext } from '../../../main/session/benchContext';
-import { createBenchDispatch } from '../../../main/session/dispatch';
+import { BenchCallError, type BenchClient } from '../../../app/contract';
+import type { BenchContext } from '../../../main/session/benchContext';
 import { openRecordSources } from '../../../main/record/openRecordSources';
 import { fleetReport } from '../../../main/record/recall';
 import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
+import { openTestBench } from './benchClientKit';
 
 let folder: TempFolder;
 let context: BenchContext;
@@ -25,8 +25,7 @@ beforeAll(async () => {
     await writer.close();
   }
   await sources.close();
-  context = await openBenchContext({ logbookPath: folder.file('logbook.sqlite'), virtualPaced: false });
-  client = createBenchClient({ invoke: createBenchDispatch(context.service.handlers, { checkResults: true }), subscribe: () => () => undefined });
+  ({ context, client } = await openTestBench(folder.file('logbook.sqlite')));
 }, 60_000);
 
 afterAll(async () => {

@@ -1,12 +1,12 @@
 // Recall of a session's steps: as recorded when the logbook has them, recomputed from the stored readings for a
 // session recorded before steps were kept (or whose stored steps do not fit the contract).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createBenchClient, type BenchClient } from '../../../app/contract';
-import { openBenchContext, type BenchContext } from '../../../main/session/benchContext';
-import { createBenchDispatch } from '../../../main/session/dispatch';
+import type { BenchClient } from '../../../app/contract';
+import type { BenchContext } from '../../../main/session/benchContext';
 import { openRecordSources } from '../../../main/record/openRecordSources';
 import { recordSweepSession } from '../record/recordFixture';
 import { tempFolder, type TempFolder } from '../store/storeFixtures';
+import { openTestBench } from './benchClientKit';
 
 let folder: TempFolder;
 let context: BenchContext;
@@ -21,8 +21,7 @@ beforeAll(async () => {
   sources.db.prepare('UPDATE sessions SET steps_json = NULL WHERE id = ?').run(ids[1]);
   sources.db.prepare('UPDATE sessions SET steps_json = ? WHERE id = ?').run('{"not":"steps"', ids[2]);
   await sources.close();
-  context = await openBenchContext({ logbookPath: folder.file('logbook.sqlite'), virtualPaced: false });
-  client = createBenchClient({ invoke: createBenchDispatch(context.service.handlers, { checkResults: true }), subscribe: () => () => undefined });
+  ({ context, client } = await openTestBench(folder.file('logbook.sqlite')));
 }, 60_000);
 
 afterAll(async () => {

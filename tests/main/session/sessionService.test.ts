@@ -6,10 +6,10 @@ import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { predictRamp } from '../../../app/board/rampModel';
 import { lowCapacitorFactor } from '../../../app/sim/fittedBoard';
-import { BenchCallError, createBenchClient, type BenchClient, type LiveFrame } from '../../../app/contract';
-import { openBenchContext, type BenchContext } from '../../../main/session/benchContext';
-import { createBenchDispatch } from '../../../main/session/dispatch';
+import { BenchCallError, type BenchClient, type LiveFrame } from '../../../app/contract';
+import type { BenchContext } from '../../../main/session/benchContext';
 import { demoDefaults } from '../../../main/session/commissioningDemo';
+import { openTestBench } from './benchClientKit';
 
 let folder = '';
 let context: BenchContext;
@@ -18,10 +18,8 @@ const liveFrames: LiveFrame[] = [];
 
 beforeEach(async () => {
   folder = mkdtempSync(join(tmpdir(), 'rampwright-session-'));
-  context = await openBenchContext({ logbookPath: join(folder, 'logbook.sqlite'), virtualPaced: false });
   // Every result is checked against the contract's schemas too: a mismatch comes back as a bug.
-  const dispatch = createBenchDispatch(context.service.handlers, { checkResults: true });
-  client = createBenchClient({ invoke: dispatch, subscribe: (event, handler) => context.service.events.onEvent((name, data) => name === event && handler(data)) });
+  ({ context, client } = await openTestBench(join(folder, 'logbook.sqlite')));
   liveFrames.length = 0;
   client.subscribe('live', (frame) => liveFrames.push(frame));
 });

@@ -6,28 +6,26 @@ import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { predictRamp } from '../../../app/board/rampModel';
 import { wrongEmitterFactor } from '../../../app/sim/fittedBoard';
-import { BenchCallError, createBenchClient, type BenchClient } from '../../../app/contract';
-import { openBenchContext, type BenchContext } from '../../../main/session/benchContext';
-import { createBenchDispatch } from '../../../main/session/dispatch';
+import { BenchCallError, type BenchClient } from '../../../app/contract';
 import { demoDefaults } from '../../../main/session/commissioningDemo';
+import { openTestBench, type TestBench } from './benchClientKit';
 
 let folder = '';
-let context: BenchContext;
+let bench: TestBench;
 let client: BenchClient;
 
 beforeEach(async () => {
   folder = mkdtempSync(join(tmpdir(), 'rampwright-known-'));
-  context = await openBenchContext({ logbookPath: join(folder, 'logbook.sqlite'), virtualPaced: false });
-  const dispatch = createBenchDispatch(context.service.handlers, { checkResults: true });
-  client = createBenchClient({ invoke: dispatch, subscribe: (event, handler) => context.service.events.onEvent((name, data) => name === event && handler(data)) });
+  bench = await openTestBench(join(folder, 'logbook.sqlite'));
+  client = bench.client;
 });
 
 afterEach(async () => {
-  await context.close();
+  await bench.context.close();
   rmSync(folder, { recursive: true, force: true });
 });
 
-const pump = (seconds: number) => context.service.virtual()!.pump(seconds);
+const pump = (seconds: number) => bench.pump(seconds);
 
 async function peakAfterRecheck(): Promise<number> {
   pump(1.5);

@@ -61,15 +61,15 @@ export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandl
         return name as ResistorRole;
       };
       const first = resistorPosition(part, 'part');
-      const second = alsoChange ? resistorPosition(alsoChange.part, 'alsoChange.part') : null;
-      if (second === first) throw new BenchFault('input', `the second change must be at another position than ${part}`, 'alsoChange.part');
+      const second = alsoChange ? { ...alsoChange, role: resistorPosition(alsoChange.part, 'alsoChange.part') } : null;
+      if (second?.role === first) throw new BenchFault('input', `the second change must be at another position than ${part}`, 'alsoChange.part');
       const methodWords = method === 'replace' ? 'replaced' : `${addOhm ?? '?'} ohm added in ${method}`;
       open.writer.addTrim({ part, fromOhm, toOhm, method: `trim plan: ${methodWords}`, reason });
-      if (alsoChange && second) open.writer.addTrim({ part: second, fromOhm: alsoChange.fromOhm, toOhm: alsoChange.toOhm, method: 'trim plan: replaced (with the change above)', reason });
+      if (second) open.writer.addTrim({ part: second.role, fromOhm: second.fromOhm, toOhm: second.toOhm, method: 'trim plan: replaced (with the change above)', reason });
       open.trimsApplied += 1;
       open.recheckNeeded = true;
       open.knownParts = withFitted(open.knownParts, first, toOhm);
-      if (alsoChange && second) open.knownParts = withFitted(open.knownParts, second, alsoChange.toOhm);
+      if (second) open.knownParts = withFitted(open.knownParts, second.role, second.toOhm);
       delete open.recorded.ramp;
       delete open.recorded.trim;
       // The logbook forgets them too: a ramp recorded before the change no longer describes the board.
@@ -77,12 +77,12 @@ export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandl
       // The virtual board gets the parts; a real board got them from the technician's soldering iron.
       const virtual = context.link()?.virtual;
       virtual?.fitResistor(first, { method, toOhm, addOhm });
-      if (alsoChange && second) virtual?.fitResistor(second, { method: 'replace', toOhm: alsoChange.toOhm, addOhm: null });
+      if (second) virtual?.fitResistor(second.role, { method: 'replace', toOhm: second.toOhm, addOhm: null });
       context.link()?.link.pipeline.restartReadings();
       await open.writer.flush();
       const detail = await logbook.session(open.open.id);
       // The first of the rows just written (the second change, when there is one, follows it).
-      const trim = detail?.trims[detail.trims.length - (alsoChange ? 2 : 1)];
+      const trim = detail?.trims[detail.trims.length - (second ? 2 : 1)];
       if (!trim) throw new Error('the fitted change did not reach the logbook');
       emitState();
       return { trim: { id: trim.id, part: trim.part, fromOhm: trim.fromOhm, toOhm: trim.toOhm, reason: trim.reason, at: trim.at }, recheckNeeded: true };

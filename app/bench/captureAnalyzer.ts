@@ -46,6 +46,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
   const rectifier = options.rectifier;
   const syncPhaseDeg = options.syncPhaseDeg ?? 0;
   const warmupS = options.warmupS ?? 0.2;
+  const minimumSyncAmplitudeV = options.minimumSyncAmplitudeV ?? 0.05;
   const summary = new ReadingsSummary({ keepPerCycle: options.keepPerCycle ?? true });
   const frequency = new MainsFrequencyTracker();
   const history = new SampleHistory();
@@ -240,7 +241,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
       if (lateSyncFill < windowSamples) break;
       const found = estimateSyncLevels(lateSync);
       lateSyncFill = 0;
-      if (found && found.amplitudeV >= (options.minimumSyncAmplitudeV ?? 0.05)) {
+      if (found && found.amplitudeV >= minimumSyncAmplitudeV) {
         crossingTracker = new ZeroCrossingTracker(found);
         for (const crossing of crossingTracker.push(sync.subarray(offset), firstIndex + offset)) onCrossing(crossing);
       }
@@ -251,7 +252,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
     const blocks = warmupBlocks ?? [];
     warmupBlocks = null;
     const maxSamples = blocks.length > 0 ? Math.round(warmupS * blocks[0].sampleRateHz) : 0;
-    levels = learnFirstLevels(blocks, { minimumSyncAmplitudeV: options.minimumSyncAmplitudeV ?? 0.05, maxSamples });
+    levels = learnFirstLevels(blocks, { minimumSyncAmplitudeV, maxSamples });
     crossingTracker = levels.sync ? new ZeroCrossingTracker(levels.sync) : null;
     pulseTracker = new GatePulseTracker(levels.gate);
     const readings: CycleReading[] = [];

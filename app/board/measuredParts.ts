@@ -17,7 +17,8 @@ const partRoles: readonly PartRole[] = ['rEmitter', 'rBiasTop', 'rBiasBottom', '
 /** Most a measured value may differ from the design value, as a ratio either way. */
 export const measuredRatioLimit = 10;
 
-function designValueOf(design: BoardDesign, role: PartRole): number | null {
+/** The design's value at a position: ohm, or farad for the ramp capacitor; null where the design has no part. */
+export function designValueOf(design: BoardDesign, role: PartRole): number | null {
   if (role === 'cRamp') return design.parts.cRamp.farad;
   return design.parts[role]?.ohm ?? null;
 }

@@ -4,6 +4,7 @@
  * fitted change, or a plan for a board with a wrong part, is made for the board on the bench.
  */
 import type { BoardDesign, PartRole } from '../../app/board/design';
+import { designValueOf } from '../../app/board/measuredParts';
 import type { PartOverrides } from '../../app/board/parts';
 import type { KnownPart } from '../../app/contract';
 
@@ -41,11 +42,6 @@ export function overridesOf(known: KnownParts): PartOverrides {
   const overrides: PartOverrides = {};
   for (const [role, entry] of Object.entries(known) as [PartRole, { value: number }][]) overrides[role] = entry.value;
   return overrides;
-}
-
-function designValueOf(design: BoardDesign, role: PartRole): number | null {
-  if (role === 'cRamp') return design.parts.cRamp.farad;
-  return design.parts[role]?.ohm ?? null;
 }
 
 /** For the screens: each known part beside its design value, in the design's part order. */

@@ -8,6 +8,7 @@ import type { KnownPart, TrimPlanView, TrimSuggestion } from '../../app/contract
 import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { h, fill, uniqueId } from '../dom/h';
 import { formatSi } from '../shaping/formatSi';
+import { designValueOf } from '../../app/board/measuredParts';
 import { measurableParts, partValueText, readMeasuredFields } from '../shaping/measuredPartsForm';
 import { foldTracePoints } from '../shaping/foldPoints';
 import { trimEstimateText } from '../shaping/trimEstimateText';
@@ -133,9 +134,8 @@ export class TrimScreen implements Screen {
   private buildPartFields(design: BoardDesign): void {
     this.partInputs.clear();
     const labels = measurableParts.map((role) => {
-      const part = role === 'cRamp' ? { value: design.parts.cRamp.farad, ref: design.parts.cRamp.ref } : { value: design.parts[role]?.ohm ?? Number.NaN, ref: design.parts[role]?.ref };
-      const designValue = part.value;
-      const ref = part.ref;
+      const designValue = designValueOf(design, role) ?? Number.NaN;
+      const ref = design.parts[role]?.ref;
       const id = uniqueId(`measured-${role}`);
       const input = h('input', { id, type: 'text', inputmode: 'decimal', autocomplete: 'off', spellcheck: 'false', placeholder: `as designed: ${partValueText(designValue)}`, 'data-testid': `measured-${role}` });
       const problem = h('span', { class: 'field-problem', 'aria-live': 'polite' });

@@ -37,6 +37,43 @@ export type UnitSummary = z.infer<typeof unitSummarySchema>;
 
 export const sessionStatusSchema = z.enum(['open', 'closed', 'interrupted']);
 
+/**
+ * How a session ended, as the logbook keeps it: signed off (every step recorded and within tolerance), signed off
+ * with exceptions (steps missing or failing, with the technician's written reason), closed without sign-off,
+ * interrupted (the recorder stopped), or still open.
+ */
+export const sessionOutcomes = ['signed-off', 'signed-off-with-exceptions', 'closed', 'interrupted', 'open'] as const;
+export const sessionOutcomeSchema = z.enum(sessionOutcomes);
+export type SessionOutcome = z.infer<typeof sessionOutcomeSchema>;
+
+/** Outcomes in words, for every screen, record and command: `text` starts a sentence, `phrase` sits inside one. */
+export const outcomeWords: Record<SessionOutcome, { text: string; phrase: string }> = {
+  'signed-off': { text: 'Signed off', phrase: 'signed off' },
+  'signed-off-with-exceptions': { text: 'Signed off with exceptions', phrase: 'signed off with exceptions' },
+  closed: { text: 'Closed without sign-off', phrase: 'closed without sign-off' },
+  interrupted: { text: 'Interrupted', phrase: 'interrupted' },
+  open: { text: 'Open', phrase: 'still open' },
+};
+
+/** A step the sign-off gate stopped at: not recorded, recorded without its measurement, or out of tolerance. */
+export const signOffExceptionSchema = z.object({
+  step: commissioningStepSchema,
+  problem: z.enum(['not-recorded', 'not-measured', 'out-of-tolerance']),
+  /** Labels of the readings behind it (the failing or unmeasured checks); empty for a step not recorded. */
+  readings: z.array(z.string()),
+});
+export type SignOffException = z.infer<typeof signOffExceptionSchema>;
+
+/** The sign-off gate as the bench sees it before signing: what stands in the way of a plain sign-off. */
+export const signOffGateSchema = z.object({
+  /** True when every step is recorded and within tolerance: "Sign off" needs nothing more. */
+  clear: z.boolean(),
+  exceptions: z.array(signOffExceptionSchema),
+  /** Shortest written reason accepted for signing off with exceptions (characters). */
+  reasonMinimumCharacters: z.number().int().positive(),
+});
+export type SignOffGate = z.infer<typeof signOffGateSchema>;
+
 export const openSessionSchema = z.object({
   id: z.number().int().positive(),
   unitSerial: z.string(),
@@ -47,17 +84,7 @@ export const openSessionSchema = z.object({
 });
 export type OpenSession = z.infer<typeof openSessionSchema>;
 
-export const benchStateSchema = z.object({
-  session: openSessionSchema.nullable(),
-  link: linkHealthSchema,
-  /** The screen's plot is frozen; data still flows into the session. */
-  held: z.boolean(),
-  steps: z.array(stepReportSchema),
-  currentStep: commissioningStepSchema,
-  /** True after "I fitted this" until the ramp has been checked again. */
-  recheckNeeded: z.boolean(),
-});
-export type BenchState = z.infer<typeof benchStateSchema>;
+
 
 export const trimSuggestionSchema = z.object({
   part: z.string(),
@@ -138,6 +165,11 @@ export const sessionRowSchema = z.object({
   designVersion: z.number().int().positive(),
   operator: z.string(),
   status: sessionStatusSchema,
+  outcome: sessionOutcomeSchema,
+  /** The technician's written reason for signing off with exceptions; null otherwise. */
+  signOffReason: z.string().nullable(),
+  /** What was excepted at sign-off; empty unless the outcome is signed-off-with-exceptions. */
+  signOffExceptions: z.array(signOffExceptionSchema),
   startedAt: isoTimeSchema,
   endedAt: isoTimeSchema.nullable(),
   cycles: z.number().int().nonnegative(),
@@ -146,6 +178,25 @@ export const sessionRowSchema = z.object({
   linkErrors: z.number().int().nonnegative(),
 });
 export type SessionRow = z.infer<typeof sessionRowSchema>;
+
+export const benchStateSchema = z.object({
+  session: openSessionSchema.nullable(),
+  link: linkHealthSchema,
+  /** The screen's plot is frozen; data still flows into the session. */
+  held: z.boolean(),
+  steps: z.array(stepReportSchema),
+  currentStep: commissioningStepSchema,
+  /** True after "I fitted this" until the ramp has been checked again. */
+  recheckNeeded: z.boolean(),
+  /** What stands between the open session and a plain sign-off (the service checks the same at sign-off). */
+  signOffGate: signOffGateSchema,
+  /**
+   * The session closed last at this bench (signed off or not), with its steps as recorded, until the next one
+   * starts: what the Bench screen shows instead of live verdicts once no session is open.
+   */
+  lastSession: z.object({ row: sessionRowSchema, steps: z.array(stepReportSchema) }).nullable(),
+});
+export type BenchState = z.infer<typeof benchStateSchema>;
 
 export const linkEventSchema = z.object({ at: isoTimeSchema, kind: z.string(), detail: z.string() });
 

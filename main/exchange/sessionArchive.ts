@@ -12,6 +12,7 @@ import { describeSchemaIssues } from '../../app/contract';
 import { InputError } from '../../app/errors';
 import { archiveFormatName, archiveFormatVersion, sessionArchiveSchema, type ArchiveSession, type SessionArchive } from '../../app/exchange/archiveSchema';
 import { decodeCapture } from '../store/captureCodec';
+import { legacySignOffOf } from '../../app/exchange/legacySignOff';
 import { insertArchiveSession, readArchiveSession, sessionsOfUnitAt } from '../store/exchangeRows';
 import type { SqliteDatabase } from '../store/openDatabase';
 import { canonicalJson } from '../store/sqliteLogbook';
@@ -82,13 +83,31 @@ export interface ImportResult {
   imported: boolean;
 }
 
+/**
+ * An archive written before sign-offs were kept, of a session that was signed off then: its sign-off as the
+ * upgraded logbook classifies it (app/exchange/legacySignOff.ts). Any other archive comes back as it is.
+ */
+export function withLegacySignOff(session: ArchiveSession): ArchiveSession {
+  if (session.record.status !== 'closed' || session.record.signOff !== undefined) return session;
+  const legacy = legacySignOffOf(session.record.stepsJson);
+  if (!legacy) return session;
+  const record = { ...session.record, signOff: legacy.kind };
+  return {
+    ...session,
+    record: legacy.kind === 'signed-off' ? record : { ...record, signOffReason: legacy.reason, signOffExceptionsJson: JSON.stringify(legacy.exceptions) },
+  };
+}
+
 export function importSessionArchive(db: SqliteDatabase, bytes: Uint8Array, where: string): ImportResult {
   const { archive, captureData } = decodeSessionArchive(bytes, where);
-  const { session } = archive;
+  const session = withLegacySignOff(archive.session);
+  // The same session already here: by the archive's own hash, or (an archive from before sign-offs were kept) by
+  // the hash of the session as the upgraded logbook holds it.
+  const sameContent = new Set([archive.contentSha256, archiveContentHash(session)]);
   return db.transaction((): ImportResult => {
     const candidates = sessionsOfUnitAt(db, session.unit.serial, session.record.startedAtMs);
     for (const candidate of candidates) {
-      if (sessionContentHash(db, candidate) === archive.contentSha256) return { sessionId: candidate, contentSha256: archive.contentSha256, imported: false };
+      if (sameContent.has(sessionContentHash(db, candidate))) return { sessionId: candidate, contentSha256: archive.contentSha256, imported: false };
     }
     // A closed session never changes, so the same unit and start with other content is a conflict, not a newer copy.
     if (candidates.length > 0) {

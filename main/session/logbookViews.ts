@@ -27,11 +27,11 @@ async function stepsOf(detail: StoredDetail, designs: DesignCatalog): Promise<St
     design: stored.design,
     window: readings,
     transferFit: fit,
-    extremes: { alphaMinDeg: readings.pulse.alphaMinDeg, alphaMaxDeg: readings.pulse.alphaMaxDeg, cycles: readings.firingIntervals },
+    extremes: { alphaMinDeg: readings.pulse.alphaMinDeg, alphaMaxDeg: readings.pulse.alphaMaxDeg, controlMinV: fit?.controlMinV ?? null, controlMaxV: fit?.controlMaxV ?? null, cycles: readings.firingIntervals, cyclesBelowRange: 0 },
     recorded: {},
     recheckNeeded: false,
     trimsApplied: detail.trims.length,
-    signedOff: detail.row.status === 'closed',
+    signedOff: detail.row.outcome === 'signed-off' || detail.row.outcome === 'signed-off-with-exceptions',
   };
   return stepReports(inputs).map((report) => ({ ...report, status: 'done' as const }));
 }

@@ -2,6 +2,7 @@
  * The trim and transfer calls of the session service: the trim plan from the last window's ramp, "I fitted this"
  * (recorded, fitted to the virtual board, re-check asked for), and the transfer curve so far.
  */
+import { controlRangeOf } from '../../app/board/controlRange';
 import type { BoardDesign } from '../../app/board/design';
 import { checkMeasuredParts } from '../../app/board/measuredParts';
 import type { ResistorRole } from '../../app/board/trimCandidates';
@@ -30,6 +31,11 @@ export interface TrimHandlerContext {
   requireSession(): BenchSession;
   requireLink(): CurrentLink;
   emitState(): void;
+}
+
+function rangeView(design: BoardDesign): { lowV: number; highV: number; alphaAtLowDeg: number | null; alphaAtHighDeg: number | null } {
+  const { lowV, highV, alphaAtLowDeg, alphaAtHighDeg } = controlRangeOf(design);
+  return { lowV, highV, alphaAtLowDeg, alphaAtHighDeg };
 }
 
 export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandlers, 'trimPlan' | 'applyTrim' | 'transferPoints' | 'clearTransfer'> {
@@ -94,10 +100,10 @@ export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandl
         const detail = await logbook.session(sessionId);
         if (!detail) throw new BenchFault('not-found', `there is no session ${sessionId} in the logbook`, 'sessionId');
         const stored = await designs.get(detail.row.designName, detail.row.designVersion).catch(() => null);
-        return { points: detail.transfer.points, fit: detail.transfer.fit, ideal: stored ? idealTransfer(stored.design) : [] };
+        return { points: detail.transfer.points, fit: detail.transfer.fit, ideal: stored ? idealTransfer(stored.design) : [], controlRange: stored ? rangeView(stored.design) : null };
       }
       const pipeline = requireLink().link.pipeline;
-      return { points: pipeline.transferPoints(), fit: pipeline.transferFit(), ideal: design ? idealTransfer(design) : [] };
+      return { points: pipeline.transferPoints(), fit: pipeline.transferFit(), ideal: design ? idealTransfer(design) : [], controlRange: design ? rangeView(design) : null };
     },
     async clearTransfer() {
       const pipeline = requireLink().link.pipeline;

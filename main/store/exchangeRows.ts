@@ -17,7 +17,7 @@ function table(db: SqliteDatabase, name: string, columns: readonly string[], ses
 export function readArchiveSession(db: SqliteDatabase, sessionId: number): { session: ArchiveSession; captureData: Buffer[] } {
   const head = db
     .prepare(
-      `SELECT s.operator, s.started_at_ms, s.ended_at_ms, s.status, s.notes, s.readings_json, s.steps_json, s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v,
+      `SELECT s.operator, s.started_at_ms, s.ended_at_ms, s.status, s.notes, s.readings_json, s.steps_json, s.sign_off, s.sign_off_reason, s.sign_off_exceptions_json, s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v,
          u.serial, u.design_name, u.created_at_ms AS unit_created_at_ms, d.name AS design_name_version, d.content_hash, d.design_json, d.saved_at_ms
        FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id WHERE s.id = ?`,
     )
@@ -41,6 +41,10 @@ export function readArchiveSession(db: SqliteDatabase, sessionId: number): { ses
       alphaMeanDeg: (head.alpha_mean_deg as number | null) ?? null,
       rampPeakMedianV: (head.ramp_peak_median_v as number | null) ?? null,
       ...(head.steps_json === null || head.steps_json === undefined ? {} : { stepsJson: String(head.steps_json) }),
+      // Only when signed off: a session closed without sign-off (or exported before sign-offs were kept) hashes as before.
+      ...(head.sign_off === null || head.sign_off === undefined ? {} : { signOff: head.sign_off as 'signed-off' | 'signed-off-with-exceptions' }),
+      ...(head.sign_off_reason === null || head.sign_off_reason === undefined ? {} : { signOffReason: String(head.sign_off_reason) }),
+      ...(head.sign_off_exceptions_json === null || head.sign_off_exceptions_json === undefined ? {} : { signOffExceptionsJson: String(head.sign_off_exceptions_json) }),
     },
     cycles: table(db, 'cycles', archiveColumns.cycles, sessionId, 'seq'),
     transferPoints: table(db, 'transfer_points', archiveColumns.transferPoints, sessionId, 'seq'),
@@ -91,10 +95,14 @@ export function insertArchiveSession(db: SqliteDatabase, session: ArchiveSession
   const sessionId = Number(
     db
       .prepare(
-        `INSERT INTO sessions (unit_id, design_id, operator, started_at_ms, ended_at_ms, status, notes, readings_json, steps_json, cycle_count, alpha_mean_deg, ramp_peak_median_v)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+        `INSERT INTO sessions (unit_id, design_id, operator, started_at_ms, ended_at_ms, status, notes, readings_json, steps_json, cycle_count, alpha_mean_deg, ramp_peak_median_v,
+           sign_off, sign_off_reason, sign_off_exceptions_json)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
       )
-      .run(unitId, designId, record.operator, record.startedAtMs, record.endedAtMs, record.status, record.notes, record.readingsJson, record.stepsJson ?? null, record.cycleCount, record.alphaMeanDeg, record.rampPeakMedianV).lastInsertRowid,
+      .run(
+        unitId, designId, record.operator, record.startedAtMs, record.endedAtMs, record.status, record.notes, record.readingsJson, record.stepsJson ?? null, record.cycleCount, record.alphaMeanDeg, record.rampPeakMedianV,
+        record.signOff ?? null, record.signOffReason ?? null, record.signOffExceptionsJson ?? null,
+      ).lastInsertRowid,
   );
   insertTable(db, 'cycles', sessionId, session.cycles);
   insertTable(db, 'transfer_points', sessionId, session.transferPoints);

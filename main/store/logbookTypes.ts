@@ -8,8 +8,17 @@
 import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
 import type { BoardDesign } from '../../app/board/design';
 import type { SampleBlock, SignalRole } from '../../app/capture/samples';
+import type { SessionOutcome, SignOffException } from '../../app/contract/records';
 
 export type SessionStatus = 'open' | 'closed' | 'interrupted';
+
+/** How a session ended (app/contract/records.ts): its status, or for a closed one whether and how it was signed off. */
+export type { SessionOutcome, SignOffException } from '../../app/contract/records';
+
+/** What `close` records with a sign-off (app/bench/signOffGate.ts decides which kind). */
+export type SessionSignOff =
+  | { kind: 'signed-off' }
+  | { kind: 'signed-off-with-exceptions'; reason: string; exceptions: SignOffException[] };
 
 export interface DesignVersion {
   id: number;
@@ -35,6 +44,12 @@ export interface SessionRow {
   designVersion: number;
   operator: string;
   status: SessionStatus;
+  /** The status, or for a closed session whether it was signed off, plainly or with exceptions. */
+  outcome: SessionOutcome;
+  /** The written reason of a sign-off with exceptions; null otherwise. */
+  signOffReason: string | null;
+  /** The steps excepted at sign-off; empty unless signed off with exceptions. */
+  signOffExceptions: SignOffException[];
   startedAt: string;
   endedAt: string | null;
   cycles: number;
@@ -254,8 +269,11 @@ export interface LogbookWriter {
   stats(): LogbookWriterStats;
   /** Writes everything queued now. */
   flush(): Promise<void>;
-  /** Writes everything queued, then ends the session with this status (default 'closed'). */
-  close(status?: Exclude<SessionStatus, 'open'>): Promise<SessionRow>;
+  /**
+   * Writes everything queued, then ends the session with this status (default 'closed'); a sign-off goes with a
+   * closed session only, in the same transaction as its end.
+   */
+  close(status?: Exclude<SessionStatus, 'open'>, signOff?: SessionSignOff): Promise<SessionRow>;
 }
 
 export interface Logbook {

@@ -10,9 +10,9 @@ import { performance } from 'node:perf_hooks';
 import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
 import type { SampleBlock } from '../../app/capture/samples';
 import { captureEncoding, encodeCapture } from './captureCodec';
-import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionRow, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
+import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionRow, SessionSignOff, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
 import type { SqliteDatabase } from './openDatabase';
-import { storeSessionSummary } from './sessionSummary';
+import { storeSessionSummary, storeSignOff } from './sessionSummary';
 
 type QueueItem =
   | { kind: 'cycle'; reading: CycleReading; atMs: number }
@@ -167,13 +167,17 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
       flushNow();
       if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
     },
-    async close(status: Exclude<SessionStatus, 'open'> = 'closed') {
+    async close(status: Exclude<SessionStatus, 'open'> = 'closed', signOff?: SessionSignOff) {
       if (closed) return options.readRow(sessionId);
+      if (signOff && status !== 'closed') throw new Error(`a sign-off ends a session as closed, not ${status}`);
       flushNow();
       if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
       closed = true;
       clearInterval(timer);
-      storeSessionSummary(db, sessionId, status, Date.now());
+      db.transaction(() => {
+        storeSessionSummary(db, sessionId, status, Date.now());
+        if (signOff) storeSignOff(db, sessionId, signOff);
+      })();
       return options.readRow(sessionId);
     },
   };

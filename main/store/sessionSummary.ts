@@ -4,7 +4,7 @@
  * Definitions follow the analysis summary (app/bench/readings.ts): ramp peak is the median of the per-cycle peaks,
  * alpha the mean; alpha gain and offset are the least-squares line of alpha against control voltage.
  */
-import type { SessionFigures, SessionStatus, TransferFitRecord } from './logbookTypes';
+import type { SessionFigures, SessionSignOff, SessionStatus, TransferFitRecord } from './logbookTypes';
 import type { SqliteDatabase } from './openDatabase';
 
 export interface SessionTotals {
@@ -37,6 +37,14 @@ export function storeSessionSummary(db: SqliteDatabase, sessionId: number, statu
     `UPDATE sessions SET status = ?, ended_at_ms = ?, cycle_count = ?, alpha_mean_deg = ?, ramp_peak_median_v = ?,
        writer_host = NULL, writer_pid = NULL WHERE id = ?`,
   ).run(status, endedAtMs, totals.cycles, totals.alphaDeg, totals.rampPeakV, sessionId);
+}
+
+/** A closed session's sign-off: plain, or with the written reason and the steps excepted (schema migration 3). */
+export function storeSignOff(db: SqliteDatabase, sessionId: number, signOff: SessionSignOff): void {
+  const excepted = signOff.kind === 'signed-off-with-exceptions';
+  db.prepare('UPDATE sessions SET sign_off = ?, sign_off_reason = ?, sign_off_exceptions_json = ? WHERE id = ?').run(
+    signOff.kind, excepted ? signOff.reason : null, excepted ? JSON.stringify(signOff.exceptions) : null, sessionId,
+  );
 }
 
 interface LineSums {

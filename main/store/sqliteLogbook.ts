@@ -5,7 +5,9 @@
 import { createHash } from 'node:crypto';
 import { boardDesignSchema, type BoardDesign } from '../../app/board/design';
 import type { SignalRole } from '../../app/capture/samples';
+import { signOffExceptionSchema, type SignOffException } from '../../app/contract/records';
 import { InputError } from '../../app/errors';
+import { z } from 'zod';
 import { decodeCapture } from './captureCodec';
 import { driftTrend } from './driftTrend';
 import type {
@@ -44,6 +46,9 @@ interface SessionJoinRow {
   designVersion: number;
   operator: string;
   status: SessionRow['status'];
+  signOff: 'signed-off' | 'signed-off-with-exceptions' | null;
+  signOffReason: string | null;
+  signOffExceptionsJson: string | null;
   startedAtMs: number;
   endedAtMs: number | null;
   cycleCount: number | null;
@@ -55,6 +60,7 @@ interface SessionJoinRow {
 const errorKindsSql = linkErrorKinds.map((kind) => `'${kind}'`).join(', ');
 const sessionSelect = `
   SELECT s.id, u.serial AS unit, d.name AS designName, d.version AS designVersion, s.operator, s.status,
+    s.sign_off AS signOff, s.sign_off_reason AS signOffReason, s.sign_off_exceptions_json AS signOffExceptionsJson,
     s.started_at_ms AS startedAtMs, s.ended_at_ms AS endedAtMs, s.cycle_count AS cycleCount,
     s.alpha_mean_deg AS alphaMean, s.ramp_peak_median_v AS rampPeakMedian,
     (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind IN (${errorKindsSql})) AS linkErrors
@@ -72,6 +78,8 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
     const totals = row.cycleCount === null ? computeSessionTotals(db, row.id) : { cycles: row.cycleCount, alphaDeg: row.alphaMean, rampPeakV: row.rampPeakMedian };
     return {
       id: row.id, unit: row.unit, designName: row.designName, designVersion: row.designVersion, operator: row.operator, status: row.status,
+      outcome: row.status === 'closed' && row.signOff !== null ? row.signOff : row.status,
+      signOffReason: row.signOffReason, signOffExceptions: parseSignOffExceptions(row.signOffExceptionsJson),
       startedAt: iso(row.startedAtMs), endedAt: row.endedAtMs === null ? null : iso(row.endedAtMs),
       cycles: totals.cycles, alphaDeg: totals.alphaDeg, rampPeakV: totals.rampPeakV, linkErrors: row.linkErrors,
     };
@@ -260,6 +268,19 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
       if (db.open) db.close();
     },
   };
+}
+
+/** The stored exceptions of a sign-off; a list that does not read (a foreign edit) is shown as one unknown step. */
+function parseSignOffExceptions(json: string | null): SignOffException[] {
+  if (json === null) return [];
+  let stored: unknown;
+  try {
+    stored = JSON.parse(json);
+  } catch {
+    stored = null;
+  }
+  const parsed = z.array(signOffExceptionSchema).safeParse(stored);
+  return parsed.success ? parsed.data : [{ step: 'sign-off', problem: 'not-recorded', readings: [`the stored list of exceptions does not read: ${json.slice(0, 200)}`] }];
 }
 
 function captureInfos(db: SqliteDatabase, where: string, value: number): CaptureInfo[] {

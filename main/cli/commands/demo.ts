@@ -6,7 +6,8 @@
 import { homedir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { Command } from 'commander';
-import type { StepReport, Verdict } from '../../../app/contract';
+import { signOffExceptionText } from '../../../app/bench/signOffGate';
+import { outcomeWords, verdictWords, type StepReport, type Verdict } from '../../../app/contract';
 import { faultDescriptions, type FaultName } from '../../../app/sim';
 import { openBenchContext } from '../../session/benchContext';
 import { runCommissioningDemo, type DemoReport } from '../../session/commissioningDemo';
@@ -22,7 +23,8 @@ export function defaultLogbookPath(): string {
   return join(userDataFolder({ platform: process.platform, env: process.env, home: homedir() }), defaultLogbookFileName);
 }
 
-const verdictWords: Record<Verdict, string> = { 'in-tolerance': '[ok] in tolerance', marginal: '[~] marginal', 'out-of-tolerance': '[x] out of tolerance' };
+const verdictMarks: Record<Verdict, string> = { 'in-tolerance': '[ok]', marginal: '[~]', 'out-of-tolerance': '[x]', 'not-measured': '[ ]' };
+const verdictLine = (verdict: Verdict): string => `${verdictMarks[verdict]} ${verdictWords[verdict].phrase}`;
 const stepTitles: Record<StepReport['step'], string> = { sync: '1 Sync', ramp: '2 Ramp', trim: '3 Trim', transfer: '4 Transfer', limits: '5 Limits', 'sign-off': '6 Sign-off' };
 
 function value(report: StepReport | undefined, key: string, digits: number): string {
@@ -30,8 +32,15 @@ function value(report: StepReport | undefined, key: string, digits: number): str
   return reading?.value === null || reading?.value === undefined ? '-' : reading.value.toFixed(digits);
 }
 
-function verdictText(verdict: Verdict | null): string {
-  return verdict ? verdictWords[verdict] : '(nothing measured)';
+function verdictText(verdict: Verdict | null | undefined): string {
+  return verdictLine(verdict ?? 'not-measured');
+}
+
+/** The sign-off line: the outcome, or the gate's refusal with what stood in the way. */
+function signOffLine(report: DemoReport): [string, string] {
+  if (report.session.outcome === 'signed-off') return ['[ok] signed off', `every step recorded and within tolerance; session ${report.session.id}, ${report.session.cycles} cycles recorded`];
+  const refused = report.signOffGate.exceptions.map(signOffExceptionText).join('; ');
+  return ['[x] sign-off refused', `${refused}: closed without sign-off (${outcomeWords[report.session.outcome].phrase}); a failing step is never signed off without a written reason`];
 }
 
 export function demoSummaryLines(report: DemoReport, logbookPath: string, elapsedS: number): string[] {
@@ -43,11 +52,11 @@ export function demoSummaryLines(report: DemoReport, logbookPath: string, elapse
   const limits = steps.get('limits');
   const rows: Array<[string, string, string]> = [
     [stepTitles.sync, verdictText(sync?.verdict ?? null), `mains ${value(sync, 'frequencyHz', 2)} Hz`],
-    [stepTitles.ramp, verdictText(ramp?.verdict ?? null), `peak ${report.rampPeakBeforeV?.toFixed(2) ?? '-'} V before the trim (${report.rampVerdictBefore ? verdictWords[report.rampVerdictBefore] : 'not measured'}), ${report.rampPeakAfterV?.toFixed(2) ?? '-'} V after (target ${ramp?.readings.find((reading) => reading.key === 'rampPeakV')?.expected?.toFixed(2) ?? '-'} V)`],
+    [stepTitles.ramp, verdictText(ramp?.verdict ?? null), `peak ${report.rampPeakBeforeV?.toFixed(2) ?? '-'} V before the trim (${verdictLine(report.rampVerdictBefore)}), ${report.rampPeakAfterV?.toFixed(2) ?? '-'} V after (target ${ramp?.readings.find((reading) => reading.key === 'rampPeakV')?.expected?.toFixed(2) ?? '-'} V)`],
     [stepTitles.trim, verdictText(steps.get('trim')?.verdict ?? null), first ? `fitted: ${first.reason}` : 'no trim needed'],
     [stepTitles.transfer, verdictText(transfer?.verdict ?? null), report.transferFit ? `gain ${report.transferFit.gainDegPerV.toFixed(2)} deg/V, offset ${report.transferFit.offsetDeg.toFixed(2)} deg, ${report.transferFit.points} points` : 'no sweep'],
     [stepTitles.limits, verdictText(limits?.verdict ?? null), `alpha ${value(limits, 'alphaMinDeg', 1)} to ${value(limits, 'alphaMaxDeg', 1)} deg, gate pulse ${value(limits, 'pulseWidthUs', 0)} us`],
-    [stepTitles['sign-off'], report.session.status === 'closed' ? '[ok] signed off' : report.session.status, `session ${report.session.id} ${report.session.status}, ${report.session.cycles} cycles recorded`],
+    [stepTitles['sign-off'], ...signOffLine(report)],
   ];
   const width = Math.max(...rows.map((row) => row[1].length));
   return [
@@ -56,7 +65,7 @@ export function demoSummaryLines(report: DemoReport, logbookPath: string, elapse
     '',
     ...rows.map(([title, verdict, detail]) => `${title.padEnd(11)} ${verdict.padEnd(width)}  ${detail}`),
     '',
-    `Logbook: ${logbookPath} (session ${report.session.id}, ${report.session.status})`,
+    `Logbook: ${logbookPath} (session ${report.session.id}, ${outcomeWords[report.session.outcome].phrase})`,
     `Simulated ${report.signalSeconds.toFixed(1)} s of board signal in ${elapsedS.toFixed(1)} s.`,
     'Next: rampwright log --db <logbook> to list sessions, rampwright serve --demo for the screens in a browser.',
   ];
@@ -87,6 +96,7 @@ export function registerDemoCommand(program: Command): void {
             {
               logbook: logbookPath,
               session: report.session,
+              signOffGate: report.signOffGate,
               design: report.designName,
               faults: report.faults,
               steps,

@@ -6,6 +6,7 @@ import type { Command } from 'commander';
 import { existsSync } from 'node:fs';
 import { homedir } from 'node:os';
 import { join } from 'node:path';
+import { outcomeWords } from '../../../app/contract/records';
 import { InputError } from '../../../app/errors';
 import { defaultLogbookFileName, userDataFolder } from '../../session/dataFolder';
 import type { SessionRow } from '../../store/logbookTypes';
@@ -41,9 +42,9 @@ const shortTime = (iso: string | null): string => (iso === null ? '-' : iso.repl
 
 export function formatLogbookTable(sessions: SessionRow[]): string {
   if (sessions.length === 0) return 'No sessions.\n';
-  const header = ['session', 'unit', 'status', 'started (UTC)', 'ended (UTC)', 'cycles', 'alpha deg', 'ramp peak V', 'link errors'];
+  const header = ['session', 'unit', 'outcome', 'started (UTC)', 'ended (UTC)', 'cycles', 'alpha deg', 'ramp peak V', 'link errors'];
   const rows = sessions.map((row) => [
-    String(row.id), row.unit, row.status, shortTime(row.startedAt), shortTime(row.endedAt), String(row.cycles), number(row.alphaDeg, 1), number(row.rampPeakV, 3), String(row.linkErrors),
+    String(row.id), row.unit, outcomeWords[row.outcome].phrase, shortTime(row.startedAt), shortTime(row.endedAt), String(row.cycles), number(row.alphaDeg, 1), number(row.rampPeakV, 3), String(row.linkErrors),
   ]);
   const widths = header.map((title, column) => Math.max(title.length, ...rows.map((row) => row[column].length)));
   const line = (cells: string[]): string => cells.map((cell, column) => (column >= 5 ? cell.padStart(widths[column]) : cell.padEnd(widths[column]))).join('  ').trimEnd();

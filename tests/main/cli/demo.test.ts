@@ -5,6 +5,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
+import { demoSummaryLines } from '../../../main/cli/commands/demo';
+import { openBenchContext } from '../../../main/session/benchContext';
+import { runCommissioningDemo, type DemoReport } from '../../../main/session/commissioningDemo';
 import { runCli as runInProcess } from './cliRun';
 
 const folder = mkdtempSync(join(tmpdir(), 'rampwright-demo-'));
@@ -27,12 +30,14 @@ describe('rampwright demo', () => {
     for (const step of ['1 Sync', '2 Ramp', '3 Trim', '4 Transfer', '5 Limits', '6 Sign-off']) expect(stdout).toContain(step);
     expect(stdout).toMatch(/before the trim \(\[x\] out of tolerance\)/);
     expect(stdout).toMatch(/fitted: .*rEmitter \(R14\)/);
+    expect(stdout).toMatch(/6 Sign-off\s+\[ok\] signed off\s+every step recorded and within tolerance/);
 
     const logbook = await openSqliteLogbook(logbookPath);
     try {
       const sessions = await logbook.listSessions();
       expect(sessions).toHaveLength(1);
-      expect(sessions[0]).toMatchObject({ unit: 'CH50H-0042', status: 'closed' });
+      // Every step recorded and in tolerance after the trim: the gate clears and the unit is signed off.
+      expect(sessions[0]).toMatchObject({ unit: 'CH50H-0042', status: 'closed', outcome: 'signed-off' });
       const detail = await logbook.session(sessions[0].id);
       expect(detail?.trims).toHaveLength(1);
       expect(detail?.transfer.points.length).toBeGreaterThan(100);
@@ -77,4 +82,21 @@ describe('rampwright demo', () => {
       await logbook.close();
     }
   });
+
+  it('a unit that fails a step is never signed off silently: the demo shows the refusal and closes without sign-off', async () => {
+    const context = await openBenchContext({ logbookPath: join(folder, 'gate', 'bench.sqlite'), virtualPaced: false });
+    let report: DemoReport;
+    try {
+      // Our scenario: the pulse stage drops pulses, so the limits step finds missing pulses whatever the trim does.
+      report = await runCommissioningDemo(context, { faults: ['capacitor-low', 'missing-pulses'] });
+    } finally {
+      await context.close();
+    }
+    expect(report.signOffGate.clear).toBe(false);
+    expect(report.signOffGate.exceptions.map((exception) => exception.step)).toContain('limits');
+    expect(report.session).toMatchObject({ status: 'closed', outcome: 'closed', signOffReason: null });
+    const lines = demoSummaryLines(report, 'bench.sqlite', 1).join('\n');
+    expect(lines).toMatch(/6 Sign-off\s+\[x\] sign-off refused\s+.*Check limits and pulses: out of tolerance \(.*Missing pulses.*\)/);
+    expect(lines).toMatch(/closed without sign-off/);
+  }, 60_000);
 });

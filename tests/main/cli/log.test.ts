@@ -20,6 +20,14 @@ beforeAll(async () => {
   await first.close();
   const second = await logbook.startSession({ unitSerial: 'RW-0207', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-02T09:00:00Z') });
   await second.close('interrupted');
+  // Two sign-offs: plain, and with exceptions (the reason and the step excepted travel with the row).
+  const third = await logbook.startSession({ unitSerial: 'RW-0311', design: chargerDesign(), operator: 'bench 2', startedAt: new Date('2026-03-03T09:00:00Z') });
+  await third.close('closed', { kind: 'signed-off' });
+  const fourth = await logbook.startSession({ unitSerial: 'RW-0312', design: chargerDesign(), operator: 'bench 2', startedAt: new Date('2026-03-04T09:00:00Z') });
+  await fourth.close('closed', { kind: 'signed-off-with-exceptions', reason: 'limits checked on the customer controller instead', exceptions: [{ step: 'limits', problem: 'not-recorded', readings: [] }] });
+  const fifth = await logbook.startSession({ unitSerial: 'RW-0313', design: chargerDesign(), operator: 'bench 2', startedAt: new Date('2026-03-05T09:00:00Z') });
+  fifth.addCycle(cycleReading(0, { alphaDeg: 45, rampPeakV: 7.3 }));
+  await fifth.flush();
   await logbook.close();
 });
 afterAll(() => folder.remove());
@@ -29,13 +37,20 @@ describe('rampwright log', () => {
     const { code, stdout } = await run(['log', '--db', dbPath, '--json']);
     expect(code).toBe(0);
     const listing = JSON.parse(stdout) as { sessions: Array<Record<string, unknown>> };
-    expect(listing.sessions).toHaveLength(2);
-    const [first, second] = listing.sessions;
-    expect(Object.keys(first)).toEqual(expect.arrayContaining(['id', 'unit', 'status', 'startedAt', 'endedAt', 'cycles', 'alphaDeg', 'rampPeakV', 'linkErrors']));
-    expect(first).toMatchObject({ unit: 'RW-0142', status: 'closed', startedAt: '2026-03-01T09:00:00.000Z', cycles: 3, linkErrors: 4 });
+    expect(listing.sessions).toHaveLength(5);
+    const [first, second, third, fourth, fifth] = listing.sessions;
+    expect(Object.keys(first)).toEqual(expect.arrayContaining(['id', 'unit', 'status', 'outcome', 'startedAt', 'endedAt', 'cycles', 'alphaDeg', 'rampPeakV', 'linkErrors']));
+    expect(first).toMatchObject({ unit: 'RW-0142', status: 'closed', outcome: 'closed', signOffReason: null, signOffExceptions: [], startedAt: '2026-03-01T09:00:00.000Z', cycles: 3, linkErrors: 4 });
     expect(first.alphaDeg).toBeCloseTo(90, 12);
     expect(first.rampPeakV).toBeCloseTo(7.32, 12);
-    expect(second).toMatchObject({ unit: 'RW-0207', status: 'interrupted', cycles: 0, alphaDeg: null, rampPeakV: null, linkErrors: 0 });
+    expect(second).toMatchObject({ unit: 'RW-0207', status: 'interrupted', outcome: 'interrupted', cycles: 0, alphaDeg: null, rampPeakV: null, linkErrors: 0 });
+    // Every outcome the issue names: signed-off, signed-off-with-exceptions, closed, interrupted, open.
+    expect(third).toMatchObject({ unit: 'RW-0311', status: 'closed', outcome: 'signed-off', signOffReason: null, signOffExceptions: [] });
+    expect(fourth).toMatchObject({
+      unit: 'RW-0312', status: 'closed', outcome: 'signed-off-with-exceptions', signOffReason: 'limits checked on the customer controller instead',
+      signOffExceptions: [{ step: 'limits', problem: 'not-recorded', readings: [] }],
+    });
+    expect(fifth).toMatchObject({ unit: 'RW-0313', status: 'open', outcome: 'open', cycles: 1 });
   });
 
   it('filters by unit', async () => {
@@ -47,9 +62,11 @@ describe('rampwright log', () => {
     const { code, stdout } = await run(['log', '--db', dbPath]);
     expect(code).toBe(0);
     const lines = stdout.trimEnd().split('\n');
-    expect(lines[0]).toMatch(/^session\s+unit\s+status/);
-    expect(lines[1]).toMatch(/RW-0142\s+closed\s+2026-03-01 09:00:00Z .*\s3\s+90\.0\s+7\.320\s+4$/);
+    expect(lines[0]).toMatch(/^session\s+unit\s+outcome/);
+    expect(lines[1]).toMatch(/RW-0142\s+closed without sign-off\s+2026-03-01 09:00:00Z .*\s3\s+90\.0\s+7\.320\s+4$/);
     expect(lines[2]).toMatch(/RW-0207\s+interrupted/);
+    expect(lines[3]).toMatch(/RW-0311\s+signed off\s/);
+    expect(lines[4]).toMatch(/RW-0312\s+signed off with exceptions\s/);
   });
 
   it('exits 2 naming the file when there is no logbook or it is not one, and leaves the file alone', async () => {

@@ -24,10 +24,11 @@ const virtualFaults: readonly { id: string; label: string }[] = [
   ...boardFaultNames.map((id) => ({ id, label: faultLabels[id] })),
 ];
 
-function field(label: string, control: HTMLElement, hint?: string): HTMLElement {
+function field(label: string, control: HTMLElement, hint?: string, wide = false): HTMLElement {
   const id = uniqueId('setup');
   control.id = id;
-  return h('label', { class: 'field', for: id }, label, control, hint ? h('span', { class: 'muted' }, hint) : null);
+  // Choices with long names (a design and its version, a port with its maker) get two columns, so they show whole.
+  return h('label', { class: wide ? 'field wide' : 'field', for: id }, label, control, hint ? h('span', { class: 'muted' }, hint) : null);
 }
 
 export class BenchSetup {
@@ -47,7 +48,7 @@ export class BenchSetup {
     const form = h(
       'form',
       { class: 'stack', 'aria-label': 'Start a session', onsubmit: (event: Event) => { event.preventDefault(); void this.start(); } },
-      h('div', { class: 'form-grid wide-fields' }, field('Board design', this.designSelect), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect)),
+      h('div', { class: 'form-grid wide-fields setup-fields' }, field('Board design', this.designSelect, undefined, true), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect, undefined, true)),
       this.faultField,
       this.problem,
       h('div', { class: 'row' }, this.startButton, h('button', { class: 'secondary', type: 'button', onclick: () => context.go('board') }, 'Edit board designs')),

@@ -2,14 +2,15 @@
  * Logbook: units and sessions with filters; one session's readings, transfer curve, per-cycle plot, trims and link
  * events; two sessions side by side; a unit's drift across its sessions, and its board design's fleet.
  */
-import type { SessionComparison, SessionDetail, SessionRow } from '../../app/contract/records';
+import { signOffExceptionText } from '../../app/bench/signOffGate';
+import { outcomeWords, type SessionComparison, type SessionDetail, type SessionOutcome, type SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
 import { base64ToBytes, downloadBytes } from '../dom/download';
 import { h, fill, uniqueId } from '../dom/h';
 import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
 import { readingsCsv } from '../shaping/readingsCsv';
-import { stepTitles } from '../shaping/stepView';
+import { stepTitles, wordedValue } from '../shaping/stepView';
 import { fitLinePoints, toPoints } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 import { FleetPanel } from './fleetPanel';
@@ -39,6 +40,7 @@ export class LogbookScreen implements Screen {
 
   constructor(private readonly context: ScreenContext) {
     this.fleet = new FleetPanel(context);
+    context.store.on('open-session', (sessionId) => void this.showDetail(sessionId as number).then(() => this.detail.scrollIntoView({ block: 'start' })));
     for (const control of [this.unitSelect, this.designSelect, this.fromInput, this.toInput]) control.addEventListener('change', () => void this.loadSessions());
     this.compareButton.addEventListener('click', () => void this.compare());
     const field = (label: string, control: HTMLElement) => {
@@ -124,13 +126,12 @@ export class LogbookScreen implements Screen {
       fill(this.sessionsTable, h('p', { class: 'empty' }, 'No sessions match these filters.'));
       return;
     }
-    const statusWords = { open: 'Open', closed: 'Closed', interrupted: 'Interrupted' } as const;
     fill(
       this.sessionsTable,
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Design', 'Operator', 'Status', 'Started', 'Cycles', 'α', 'Ramp peak', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Design', 'Operator', 'Outcome', 'Started', 'Cycles', 'α', 'Ramp peak', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
         h(
           'tbody',
           {},
@@ -151,7 +152,7 @@ export class LogbookScreen implements Screen {
               h('td', {}, session.unit),
               h('td', {}, `${session.designName} v${session.designVersion}`),
               h('td', {}, session.operator),
-              h('td', {}, statusWords[session.status]),
+              h('td', { 'data-outcome': session.outcome }, outcomeBadge(session.outcome)),
               h('td', {}, new Date(session.startedAt).toLocaleString()),
               h('td', { class: 'number' }, session.cycles),
               h('td', { class: 'number' }, formatFixed(session.alphaDeg, '°')),
@@ -199,13 +200,14 @@ export class LogbookScreen implements Screen {
     );
     const readingRows = detail.steps.flatMap((step) =>
       step.readings.map((reading) =>
-        h('tr', {}, h('td', {}, stepTitles[step.step]), h('td', {}, reading.label), h('td', { class: 'number', 'data-reading': reading.key }, formatReading(reading.value, reading.unit)), h('td', { class: 'number' }, formatReading(reading.expected, reading.unit)), h('td', {}, reading.verdict ? verdictBadge(reading.verdict) : h('span', { class: 'muted' }, 'for information'))),
+        h('tr', {}, h('td', {}, stepTitles[step.step]), h('td', {}, reading.label), h('td', { class: 'number', 'data-reading': reading.key }, wordedValue(reading) ?? formatReading(reading.value, reading.unit)), h('td', { class: 'number' }, formatReading(reading.expected, reading.unit)), h('td', {}, reading.verdict ? verdictBadge(reading.verdict) : h('span', { class: 'muted' }, 'for information'))),
       ),
     );
     fill(
       this.detail,
       h('h2', {}, `Session ${row.id}: unit ${row.unit}`),
-      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.status} · ${row.cycles} cycles`),
+      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.cycles} cycles`),
+      outcomePanel(row),
       detail.notes ? h('p', {}, detail.notes) : null,
       h('h3', {}, 'Readings'),
       readingRows.length > 0 ? h('table', { class: 'data', 'data-testid': 'detail-readings' }, h('thead', {}, h('tr', {}, ['Step', 'Reading', 'Value', 'Design', 'Verdict'].map((title) => h('th', { scope: 'col' }, title)))), h('tbody', {}, readingRows)) : h('p', { class: 'empty' }, 'No step was recorded in this session.'),
@@ -321,6 +323,23 @@ export class LogbookScreen implements Screen {
       }
     }
   }
+}
+
+/** A session's outcome in words with an icon; a sign-off with exceptions stands out (never colour alone). */
+function outcomeBadge(outcome: SessionOutcome): HTMLElement {
+  const icon = outcome === 'signed-off' ? '✓' : outcome === 'signed-off-with-exceptions' ? '⚠' : '–';
+  return h('span', { class: `outcome ${outcome}` }, h('span', { 'aria-hidden': 'true' }, `${icon} `), outcomeWords[outcome].text);
+}
+
+/** The outcome of one session, with the reason and the steps excepted when it was signed off with exceptions. */
+function outcomePanel(row: SessionRow): HTMLElement {
+  return h(
+    'div',
+    { class: `outcome-panel ${row.outcome}`, 'data-testid': 'detail-outcome' },
+    h('p', {}, h('strong', {}, outcomeBadge(row.outcome))),
+    row.signOffReason !== null ? h('p', {}, 'Reason written at sign-off: ', h('q', { 'data-testid': 'detail-sign-off-reason' }, row.signOffReason)) : null,
+    row.signOffExceptions.length > 0 ? h('ul', { 'data-testid': 'detail-sign-off-exceptions' }, row.signOffExceptions.map((exception) => h('li', {}, signOffExceptionText(exception)))) : null,
+  );
 }
 
 /** The trend warnings in words with an icon (never colour alone); a plain line when no trend heads for a limit. */

@@ -29,7 +29,9 @@ export class TransferScreen implements Screen {
   private fit: TransferFit | null = null;
   private ideal: TransferPoint[] = [];
   private lastLoadMs = 0;
-  private sweepDefaultsSet = false;
+  /** The range the sweep fields were last filled from: a session on another design fills them again. */
+  private sweepDefaultsFor = '';
+  private range: { lowV: number; highV: number; alphaAtLowDeg: number | null; alphaAtHighDeg: number | null } | null = null;
 
   constructor(private readonly context: ScreenContext) {
     this.chart = createXyChart(this.canvas, { xTitle: 'Control voltage', yTitle: 'Firing angle α', yMin: 0, yMax: 180, xTick: (value) => formatSi(value, 'V'), yTick: (value) => `${value}°`, tooltip: true });
@@ -117,12 +119,15 @@ export class TransferScreen implements Screen {
     this.lastLoadMs = performance.now();
     const result = await this.context.client.transferPoints({});
     this.points = result.points;
-    if (!this.sweepDefaultsSet && result.ideal.length > 1) {
-      // Sweep the design's own control range by default.
-      this.fromInput.value = String(Number(Math.min(...result.ideal.map((point) => point.controlV)).toFixed(2)));
-      this.toInput.value = String(Number(Math.max(...result.ideal.map((point) => point.controlV)).toFixed(2)));
-      this.sweepDefaultsSet = true;
+    const rangeKey = result.controlRange ? `${result.controlRange.lowV}/${result.controlRange.highV}` : '';
+    if (result.controlRange && rangeKey !== this.sweepDefaultsFor) {
+      // Sweep the control range the design allows by default: the same range the Transfer and Limits steps judge,
+      // so following the defaults never makes the Limits step fail (rounded inwards, never past an end).
+      this.fromInput.value = String(Math.ceil(result.controlRange.lowV * 100) / 100);
+      this.toInput.value = String(Math.floor(result.controlRange.highV * 100) / 100);
+      this.sweepDefaultsFor = rangeKey;
     }
+    this.range = result.controlRange;
     this.fit = result.fit;
     this.ideal = result.ideal;
     this.draw();
@@ -172,6 +177,7 @@ export class TransferScreen implements Screen {
       entry('Offset', fit ? formatFixed(fit.offsetDeg, '°', 1) : '–'),
       entry('Largest deviation from the line', fit ? formatFixed(fit.maxDeviationDeg, '°', 2) : '–'),
       entry('Control range covered', fit ? `${formatSi(fit.controlMinV, 'V')} to ${formatSi(fit.controlMaxV, 'V')}` : '–'),
+      entry('The design’s control range', this.range ? `${formatSi(this.range.lowV, 'V')} to ${formatSi(this.range.highV, 'V')}` : '–'),
     );
     this.canvas.setAttribute('aria-label', `Transfer curve: ${this.points.length} points${fit ? `, gain ${fit.gainDegPerV.toFixed(2)} degrees per volt` : ''}`);
     this.canvas.dataset.points = String(this.points.length);

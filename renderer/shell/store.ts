@@ -7,7 +7,8 @@ import type { LiveFrame } from '../../app/contract/bench-events';
 import type { CommissioningStep, LinkHealth, TransferPoint } from '../../app/contract/readings';
 import type { BenchState } from '../../app/contract/records';
 
-export type StoreTopic = 'state' | 'live' | 'health' | 'transfer' | 'step';
+/** `open-session`: a screen asks the Logbook to show one session (its id). */
+export type StoreTopic = 'state' | 'live' | 'health' | 'transfer' | 'step' | 'open-session';
 
 export class BenchStore {
   state: BenchState | null = null;

@@ -13,6 +13,8 @@ export const screensFolder = join(repoRoot, 'test-output', 'screens');
 
 export interface DemoServer {
   url: string;
+  /** The server's own temporary folder (the logbook, the data folder); removed by `stop`. */
+  folder: string;
   logbookPath: string;
   output(): string;
   stop(): Promise<void>;
@@ -45,6 +47,7 @@ export async function startDemoServer(options: { speed?: number } = {}): Promise
   });
   return {
     url,
+    folder,
     logbookPath,
     output: () => output,
     stop: async () => {

@@ -77,7 +77,12 @@ export const benchCalls = {
   listDesigns: call(empty, z.object({ designs: z.array(designSummarySchema) }), 'Stored board designs, latest version of each.'),
   getDesign: call(z.object({ name: nonEmpty('the design name'), version: z.number().int().positive().optional() }).strict(), storedDesignSchema, 'One stored design (latest version unless one is named).'),
   /** `design` is checked by the schema and then by the board physics; a design that fails either is not saved. */
-  saveDesign: call(z.object({ design: boardDesignSchema }).strict(), storedDesignSchema, 'Save a design as a new version (unchanged designs keep their version).'),
+  saveDesign: call(
+    z.object({ design: boardDesignSchema }).strict(),
+    /** `saved` is false when the design equals a stored version of its name: nothing was saved. */
+    storedDesignSchema.extend({ saved: z.boolean() }),
+    'Save a design as a new version; an unchanged design saves nothing and says so.',
+  ),
   validateDesign: call(z.object({ design: z.unknown() }).strict(), z.object({ ok: z.boolean(), problems: z.array(designProblemSchema) }), 'Check a design as typed, field by field, without saving.'),
 
   // Units

@@ -69,6 +69,8 @@ export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandl
       const first = resistorPosition(part, 'part');
       const second = alsoChange ? { ...alsoChange, role: resistorPosition(alsoChange.part, 'alsoChange.part') } : null;
       if (second?.role === first) throw new BenchFault('input', `the second change must be at another position than ${part}`, 'alsoChange.part');
+      // "I fitted this" once per plan: the next change is planned from the ramp as the last one left it.
+      if (open.recheckNeeded) throw new BenchFault('not-ready', 'a change was already recorded and the ramp not checked since: record the ramp step again, then plan the next change from the ramp as it is', 'part');
       const methodWords = method === 'replace' ? 'replaced' : `${addOhm ?? '?'} ohm added in ${method}`;
       open.writer.addTrim({ part, fromOhm, toOhm, method: `trim plan: ${methodWords}`, reason });
       if (second) open.writer.addTrim({ part: second.role, fromOhm: second.fromOhm, toOhm: second.toOhm, method: 'trim plan: replaced (with the change above)', reason });

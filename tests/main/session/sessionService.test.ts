@@ -124,6 +124,10 @@ describe('session service on the virtual board', () => {
     const applied = await client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason });
     expect(applied.recheckNeeded).toBe(true);
     expect((await client.benchState()).currentStep).toBe('ramp');
+    // "I fitted this" once per plan: a second record before the ramp is checked again is refused, nothing written.
+    const twice = await refusal(client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason }));
+    expect(twice.code).toBe('not-ready');
+    expect(twice.message).toMatch(/already recorded and the ramp not checked since/);
     pump(1.5);
     const recheck = await client.checkStep({ step: 'ramp' });
     const peak = recheck.readings.find((reading) => reading.key === 'rampPeakV')!;
@@ -238,6 +242,10 @@ describe('session service on the virtual board', () => {
     const changed = { ...design, name: 'Bench copy CH-50H', rampTargetV: 7.0 };
     const saved = await client.saveDesign({ design: changed });
     expect(saved.summary).toMatchObject({ name: 'Bench copy CH-50H', version: 1, rampTargetV: 7 });
+    expect(saved.saved).toBe(true);
+    // Saved again unchanged: nothing is saved and the answer says so.
+    const unchanged = await client.saveDesign({ design: changed });
+    expect(unchanged).toMatchObject({ saved: false, summary: { version: 1 } });
     const again = await client.saveDesign({ design: { ...changed, rampTargetV: 7.2 } });
     expect(again.summary.version).toBe(2);
     expect((await client.getDesign({ name: 'Bench copy CH-50H', version: 1 })).design.rampTargetV).toBe(7);

@@ -6,6 +6,7 @@ import type { TransferFit, TransferPoint } from '../../app/contract/readings';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { downloadBytes } from '../dom/download';
 import { h, fill, uniqueId } from '../dom/h';
+import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatSi } from '../shaping/formatSi';
 import { fitLinePoints, toPoints, transferPointsCsv, transferRangeV } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
@@ -25,6 +26,9 @@ export class TransferScreen implements Screen {
   private readonly recordButton = h('button', { class: 'primary', type: 'button', 'data-testid': 'record-transfer' }, 'Record transfer curve');
   private readonly exportButton = h('button', { class: 'secondary', type: 'button', 'data-testid': 'export-transfer' }, 'Export points (CSV)');
   private readonly sweepPanel: HTMLElement;
+  /** The Transfer step as the bench judges it now: its verdict, and what is still missing (both ends of the range). */
+  private readonly stepStatus = h('p', { class: 'step-status', 'data-testid': 'transfer-step-status', 'aria-live': 'polite' });
+  private lastStatusKey = '';
   private points: TransferPoint[] = [];
   private fit: TransferFit | null = null;
   private ideal: TransferPoint[] = [];
@@ -87,9 +91,11 @@ export class TransferScreen implements Screen {
             h('span', {}, h('span', { class: 'swatch ramp', 'aria-hidden': 'true' }), 'α limits (dotted)'),
           ),
         ),
-        h('section', { class: 'panel stack', 'aria-label': 'Fit and actions' }, h('h2', {}, 'Fit'), this.stats, this.sweepPanel, h('div', { class: 'row' }, this.recordButton, this.exportButton, this.clearButton)),
+        h('section', { class: 'panel stack', 'aria-label': 'Fit and actions' }, h('h2', {}, 'Fit'), this.stats, this.sweepPanel, this.stepStatus, h('div', { class: 'row' }, this.recordButton, this.exportButton, this.clearButton)),
       ),
     );
+    context.store.on('live', () => this.renderStepStatus());
+    context.store.on('state', () => this.renderStepStatus());
     context.store.on('transfer', (points) => {
       this.points.push(...(points as TransferPoint[]));
       if (this.element.hidden) return;
@@ -97,6 +103,19 @@ export class TransferScreen implements Screen {
       if (performance.now() - this.lastLoadMs > 1500) void this.load().catch((error) => this.context.notices.fromError(error));
       else this.draw();
     });
+  }
+
+  /** The step's verdict and note, redrawn only when they change (a live frame arrives twenty times a second). */
+  private renderStepStatus(): void {
+    const report = this.context.store.live?.steps.find((step) => step.step === 'transfer') ?? this.context.store.state?.steps.find((step) => step.step === 'transfer');
+    const key = report ? `${report.status}/${report.verdict}/${report.note ?? ''}` : '';
+    if (key === this.lastStatusKey) return;
+    this.lastStatusKey = key;
+    this.stepStatus.dataset.verdict = report?.verdict ?? 'not-measured';
+    fill(
+      this.stepStatus,
+      report ? [h('strong', {}, 'Transfer step: '), verdictBadge(report.verdict), report.status === 'done' ? ' recorded' : '', report.note ? h('span', { class: 'muted' }, ` · ${report.note}`) : null] : null,
+    );
   }
 
   shown(): void {

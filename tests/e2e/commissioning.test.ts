@@ -163,7 +163,8 @@ describe('browser mode with the virtual board', () => {
     await expect.poll(async () => Number(await page.getByTestId('transfer-canvas').getAttribute('data-points')), { timeout: 40_000, interval: 1000 }).toBeGreaterThanOrEqual(40);
     await expect.poll(() => page.getByTestId('transfer-stats').textContent(), { timeout: 20_000 }).toMatch(/Gain\s*-?[\d.]+° per volt/);
     expect(await canvasInk(page, '[data-testid="transfer-canvas"]')).toBeGreaterThan(0.02);
-    await page.waitForTimeout(6500); // let the sweep reach both ends so the limits step sees the whole range
+    // The step has its verdict once the sweep reached both ends of the design's control range (then so has limits).
+    await expect.poll(() => page.getByTestId('transfer-step-status').getAttribute('data-verdict'), { timeout: 40_000, interval: 500 }).not.toBe('not-measured');
     await page.getByTestId('record-transfer').click();
     await page.locator('body').press('Alt+2');
     await page.locator('[data-step="transfer"][data-status="done"]').waitFor({ timeout: 20_000 });

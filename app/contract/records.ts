@@ -172,9 +172,15 @@ export const sessionRowSchema = z.object({
   signOffExceptions: z.array(signOffExceptionSchema),
   startedAt: isoTimeSchema,
   endedAt: isoTimeSchema.nullable(),
+  /** Cycles measured over the whole session: a count, never judged. */
   cycles: z.number().int().nonnegative(),
-  alphaDeg: z.number().nullable(),
+  /** Ramp peak as recorded at the ramp step (after any trim and its re-check). */
   rampPeakV: z.number().nullable(),
+  /** Smallest and largest alpha as recorded at the limits step. */
+  alphaMinDeg: z.number().nullable(),
+  alphaMaxDeg: z.number().nullable(),
+  /** Over every cycle of the session (before and after a trim, a whole sweep): shown only labelled as such. */
+  wholeSession: z.object({ rampPeakMedianV: z.number().nullable(), alphaMeanDeg: z.number().nullable() }),
   linkErrors: z.number().int().nonnegative(),
 });
 export type SessionRow = z.infer<typeof sessionRowSchema>;
@@ -227,6 +233,10 @@ export const sessionComparisonSchema = z.object({
       a: z.number().nullable(),
       b: z.number().nullable(),
       difference: z.number().nullable(),
+      /** 'recorded': as recorded at the steps; 'whole-session': over every cycle, shown labelled as such. */
+      scope: z.enum(['recorded', 'whole-session']),
+      /** True when the design gives the figure a tolerance; a count or a whole-session figure is never judged. */
+      judged: z.boolean(),
       /** True when the difference is larger than the design's tolerance for that reading. */
       beyondTolerance: z.boolean(),
     }),
@@ -236,6 +246,7 @@ export const sessionComparisonSchema = z.object({
 });
 export type SessionComparison = z.infer<typeof sessionComparisonSchema>;
 
+/** A unit's figures at one session, as recorded at its steps (the board as signed for). */
 export const driftPointSchema = z.object({
   sessionId: z.number().int().positive(),
   startedAt: isoTimeSchema,
@@ -243,7 +254,8 @@ export const driftPointSchema = z.object({
   slopeVPerMs: z.number().nullable(),
   alphaGainDegPerV: z.number().nullable(),
   alphaOffsetDeg: z.number().nullable(),
-  alphaStdDeg: z.number().nullable(),
+  /** Firing jitter at a held control, as recorded at the ramp step. */
+  alphaJitterDeg: z.number().nullable(),
 });
 export type DriftPoint = z.infer<typeof driftPointSchema>;
 

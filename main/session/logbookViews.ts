@@ -77,7 +77,7 @@ export async function driftView(logbook: Logbook, unitSerial: string): Promise<{
       slopeVPerMs: point.slopeVPerMs,
       alphaGainDegPerV: point.alphaGainDegPerV,
       alphaOffsetDeg: point.alphaOffsetDeg,
-      alphaStdDeg: point.alphaStdDeg,
+      alphaJitterDeg: point.alphaJitterDeg,
     })),
   };
 }

@@ -54,6 +54,9 @@ export function measureSteps(inputs: StepInputs): Record<CommissioningStep, Step
     infoReading('slopeVPerMs', 'Ramp slope', 'V/ms', window?.ramp.slopeVPerMs ?? null, prediction.slopeVPerS / 1000),
     infoReading('rampFloorV', 'Ramp floor', 'V', window?.ramp.floorV ?? null, prediction.floorV),
     infoReading('nonlinearityPct', 'Ramp nonlinearity', '%', window?.ramp.nonlinearityPct ?? null),
+    // Jitter only while the control is held: a window whose control moved has a transfer line, and its alpha spread
+    // is the sweep's, not jitter.
+    infoReading('alphaJitterDeg', 'Firing jitter at a held control', 'deg', window && window.transfer === null ? window.pulse.alphaStdDeg : null, null, window?.transfer ? 'the control is moving: no jitter reading while it does' : null),
   ];
   const ramp = stepReport('ramp', rampReadings, cycles, inputs.recheckNeeded ? 'a part was changed: check the ramp again' : null, waiting || window?.ramp.chargingIntervals === 0);
 

@@ -5,6 +5,7 @@
  * alpha the mean; alpha gain and offset are the least-squares line of alpha against control voltage.
  */
 import type { SessionFigures, SessionSignOff, SessionStatus, TransferFitRecord } from './logbookTypes';
+import { recordedFiguresOf } from './recordedFigures';
 import type { SqliteDatabase } from './openDatabase';
 
 export interface SessionTotals {
@@ -66,29 +67,31 @@ function lineFromSums(sums: LineSums): { gain: number; offset: number } | null {
   return { gain, offset: (sums.sy - gain * sums.sx) / sums.n };
 }
 
-/** Transfer fit of a session's transfer points; falls back to its cycles' (control V, alpha) pairs when it has none. */
-export function transferFit(db: SqliteDatabase, sessionId: number): TransferFitRecord | null {
-  const fromTable = (table: 'transfer_points' | 'cycles'): TransferFitRecord | null => {
-    const where = `session_id = ? AND control_v IS NOT NULL AND alpha_deg IS NOT NULL`;
-    const sums = db
-      .prepare(
-        `SELECT count(*) AS n, sum(control_v) AS sx, sum(alpha_deg) AS sy, sum(control_v * control_v) AS sxx,
-           sum(control_v * alpha_deg) AS sxy, min(control_v) AS minX, max(control_v) AS maxX FROM ${table} WHERE ${where}`,
-      )
-      .get(sessionId) as LineSums;
-    const line = lineFromSums(sums);
-    if (!line) return null;
-    const deviation = db
-      .prepare(`SELECT max(abs(alpha_deg - (? * control_v + ?))) AS d FROM ${table} WHERE ${where}`)
-      .get(line.gain, line.offset, sessionId) as { d: number };
-    return { gainDegPerV: line.gain, offsetDeg: line.offset, maxDeviationDeg: deviation.d, controlMinV: sums.minX ?? 0, controlMaxV: sums.maxX ?? 0, points: sums.n };
-  };
-  const hasPoints = db.prepare('SELECT 1 FROM transfer_points WHERE session_id = ? LIMIT 1').get(sessionId) !== undefined;
-  return fromTable(hasPoints ? 'transfer_points' : 'cycles');
+/**
+ * Least-squares line of a session's transfer points, which are only recorded during the sweep steps (the settled
+ * board, benchSession.ts); null without them. `wholeSession` takes every cycle's (control, alpha) pair instead.
+ */
+export function transferFit(db: SqliteDatabase, sessionId: number, options: { wholeSession?: boolean } = {}): TransferFitRecord | null {
+  const table = options.wholeSession ? 'cycles' : 'transfer_points';
+  const where = `session_id = ? AND control_v IS NOT NULL AND alpha_deg IS NOT NULL`;
+  const sums = db
+    .prepare(
+      `SELECT count(*) AS n, sum(control_v) AS sx, sum(alpha_deg) AS sy, sum(control_v * control_v) AS sxx,
+         sum(control_v * alpha_deg) AS sxy, min(control_v) AS minX, max(control_v) AS maxX FROM ${table} WHERE ${where}`,
+    )
+    .get(sessionId) as LineSums;
+  const line = lineFromSums(sums);
+  if (!line) return null;
+  const deviation = db
+    .prepare(`SELECT max(abs(alpha_deg - (? * control_v + ?))) AS d FROM ${table} WHERE ${where}`)
+    .get(line.gain, line.offset, sessionId) as { d: number };
+  return { gainDegPerV: line.gain, offsetDeg: line.offset, maxDeviationDeg: deviation.d, controlMinV: sums.minX ?? 0, controlMaxV: sums.maxX ?? 0, points: sums.n };
 }
 
 export function sessionFigures(db: SqliteDatabase, sessionId: number): SessionFigures | null {
-  const session = db.prepare('SELECT started_at_ms AS startedAtMs FROM sessions WHERE id = ?').get(sessionId) as { startedAtMs: number } | undefined;
+  const session = db.prepare('SELECT started_at_ms AS startedAtMs, steps_json AS stepsJson, readings_json AS readingsJson FROM sessions WHERE id = ?').get(sessionId) as
+    | { startedAtMs: number; stepsJson: string | null; readingsJson: string | null }
+    | undefined;
   if (!session) return null;
   const row = db
     .prepare(
@@ -97,21 +100,22 @@ export function sessionFigures(db: SqliteDatabase, sessionId: number): SessionFi
     )
     .get(sessionId) as { cycles: number; slope: number | null; alpha: number | null; alphaCount: number; alphaSquares: number | null };
   // Sample standard deviation (n - 1), from the sums.
-  let alphaStdDeg: number | null = null;
+  let alphaSpreadDeg: number | null = null;
   if (row.alpha !== null && row.alphaSquares !== null && row.alphaCount > 1) {
     const variance = (row.alphaSquares - row.alphaCount * row.alpha * row.alpha) / (row.alphaCount - 1);
-    alphaStdDeg = Math.sqrt(Math.max(0, variance));
+    alphaSpreadDeg = Math.sqrt(Math.max(0, variance));
   }
-  const fit = transferFit(db, sessionId);
+  const recorded = recordedFiguresOf(session);
+  // The transfer line as recorded: the transfer step's, else (sessions from before steps were kept) the line through
+  // the transfer points, which are of the settled board too.
+  const fit = recorded.alphaGainDegPerV === null ? transferFit(db, sessionId) : null;
   return {
     sessionId,
     startedAt: new Date(session.startedAtMs).toISOString(),
     cycles: row.cycles,
-    rampPeakV: medianRampPeak(db, sessionId),
-    slopeVPerMs: row.slope,
-    alphaDeg: row.alpha,
-    alphaStdDeg,
-    alphaGainDegPerV: fit ? fit.gainDegPerV : null,
-    alphaOffsetDeg: fit ? fit.offsetDeg : null,
+    ...recorded,
+    alphaGainDegPerV: recorded.alphaGainDegPerV ?? fit?.gainDegPerV ?? null,
+    alphaOffsetDeg: recorded.alphaOffsetDeg ?? fit?.offsetDeg ?? null,
+    wholeSession: { rampPeakMedianV: medianRampPeak(db, sessionId), slopeMeanVPerMs: row.slope, alphaMeanDeg: row.alpha, alphaSpreadDeg },
   };
 }

@@ -8,11 +8,13 @@ import { signOffExceptionSchema, type SignOffException } from '../../app/contrac
 import { InputError } from '../../app/errors';
 import { z } from 'zod';
 import { decideImport } from './archiveImport';
+import { comparisonRows } from './comparisonRows';
+import { recordedFiguresOf } from './recordedFigures';
 import { archiveContentHash, canonicalJson, sha256OfText } from './canonicalJson';
 import { decodeCapture } from './captureCodec';
 import { driftTrend } from './driftTrend';
 import type {
-  CaptureInfo, ComparisonRow, DesignVersion, LinkEventKind, Logbook, SessionComparison, SessionDetail, SessionFigures, SessionFilter, SessionRow,
+  CaptureInfo, DesignVersion, LinkEventKind, Logbook, SessionComparison, SessionDetail, SessionFigures, SessionFilter, SessionRow,
   CycleRecord, TransferPointRecord, UnitRecord,
 } from './logbookTypes';
 import { linkErrorKinds } from './logbookTypes';
@@ -46,6 +48,8 @@ interface SessionJoinRow {
   cycleCount: number | null;
   alphaMean: number | null;
   rampPeakMedian: number | null;
+  stepsJson: string | null;
+  readingsJson: string | null;
   linkErrors: number;
 }
 
@@ -54,7 +58,7 @@ const sessionSelect = `
   SELECT s.id, u.serial AS unit, d.name AS designName, d.version AS designVersion, s.operator, s.status,
     s.sign_off AS signOff, s.sign_off_reason AS signOffReason, s.sign_off_exceptions_json AS signOffExceptionsJson,
     s.started_at_ms AS startedAtMs, s.ended_at_ms AS endedAtMs, s.cycle_count AS cycleCount,
-    s.alpha_mean_deg AS alphaMean, s.ramp_peak_median_v AS rampPeakMedian,
+    s.alpha_mean_deg AS alphaMean, s.ramp_peak_median_v AS rampPeakMedian, s.steps_json AS stepsJson, s.readings_json AS readingsJson,
     (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind IN (${errorKindsSql})) AS linkErrors
   FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id`;
 
@@ -68,12 +72,15 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
   const toRow = (row: SessionJoinRow): SessionRow => {
     // Ended sessions carry cached totals; an open one is counted now.
     const totals = row.cycleCount === null ? computeSessionTotals(db, row.id) : { cycles: row.cycleCount, alphaDeg: row.alphaMean, rampPeakV: row.rampPeakMedian };
+    // The row's figures are the board as recorded at its steps; the whole session's are kept apart.
+    const recorded = recordedFiguresOf(row);
     return {
       id: row.id, unit: row.unit, designName: row.designName, designVersion: row.designVersion, operator: row.operator, status: row.status,
       outcome: row.status === 'closed' && row.signOff !== null ? row.signOff : row.status,
       signOffReason: row.signOffReason, signOffExceptions: parseSignOffExceptions(row.signOffExceptionsJson),
       startedAt: iso(row.startedAtMs), endedAt: row.endedAtMs === null ? null : iso(row.endedAtMs),
-      cycles: totals.cycles, alphaDeg: totals.alphaDeg, rampPeakV: totals.rampPeakV, linkErrors: row.linkErrors,
+      cycles: totals.cycles, rampPeakV: recorded.rampPeakV, alphaMinDeg: recorded.alphaMinDeg, alphaMaxDeg: recorded.alphaMaxDeg,
+      wholeSession: { rampPeakMedianV: totals.rampPeakV, alphaMeanDeg: totals.alphaDeg }, linkErrors: row.linkErrors,
     };
   };
   const readRow = (id: number): SessionRow => {
@@ -218,23 +225,10 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
       const b = sessionFigures(db, bId) as SessionFigures;
       const designJson = (db.prepare('SELECT d.design_json AS json FROM sessions s JOIN board_designs d ON d.id = s.design_id WHERE s.id = ?').get(aId) as { json: string }).json;
       const design = boardDesignSchema.parse(JSON.parse(designJson));
-      const rampToleranceV = (design.tolerances.rampPeakPct / 100) * design.rampTargetV;
-      const row = (key: ComparisonRow['key'], label: string, unit: string, toleranceAbs: number | null): ComparisonRow => {
-        const difference = a[key] !== null && b[key] !== null ? (b[key] as number) - (a[key] as number) : null;
-        return { key, label, unit, a: a[key], b: b[key], difference, beyondTolerance: toleranceAbs !== null && difference !== null && Math.abs(difference) > toleranceAbs };
-      };
       const result: SessionComparison = {
         a: readRow(aId),
         b: readRow(bId),
-        rows: [
-          row('rampPeakV', 'Ramp peak', 'V', rampToleranceV),
-          row('slopeVPerMs', 'Ramp slope', 'V/ms', null),
-          row('alphaDeg', 'Firing angle (mean)', 'deg', design.tolerances.alphaDeg),
-          row('alphaStdDeg', 'Firing jitter', 'deg', null),
-          row('alphaGainDegPerV', 'Alpha gain', 'deg/V', null),
-          row('alphaOffsetDeg', 'Alpha offset', 'deg', design.tolerances.alphaDeg),
-          row('cycles', 'Cycles', '', null),
-        ],
+        rows: comparisonRows(a, b, design),
         transferA: await this.transferCurve(aId),
         transferB: await this.transferCurve(bId),
       };

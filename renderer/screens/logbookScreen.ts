@@ -9,7 +9,7 @@ import { base64ToBytes, downloadBytes } from '../dom/download';
 import { h, fill, uniqueId } from '../dom/h';
 import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
-import { readingsCsv } from '../shaping/readingsCsv';
+import { stepReadingsCsv } from '../../app/exchange/recordCsv';
 import { stepTitles, wordedValue } from '../shaping/stepView';
 import { fitLinePoints, toPoints } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
@@ -131,7 +131,7 @@ export class LogbookScreen implements Screen {
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Design', 'Operator', 'Outcome', 'Started', 'Cycles', 'α', 'Ramp peak', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Design', 'Operator', 'Outcome', 'Started', 'Ramp peak (as recorded)', 'α range (as recorded)', 'Cycles', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
         h(
           'tbody',
           {},
@@ -154,9 +154,9 @@ export class LogbookScreen implements Screen {
               h('td', {}, session.operator),
               h('td', { 'data-outcome': session.outcome }, outcomeBadge(session.outcome)),
               h('td', {}, new Date(session.startedAt).toLocaleString()),
+              h('td', { class: 'number', 'data-column': 'ramp-peak' }, formatSi(session.rampPeakV, 'V')),
+              h('td', { class: 'number' }, session.alphaMinDeg === null && session.alphaMaxDeg === null ? '–' : `${formatFixed(session.alphaMinDeg, '°')} to ${formatFixed(session.alphaMaxDeg, '°')}`),
               h('td', { class: 'number' }, session.cycles),
-              h('td', { class: 'number' }, formatFixed(session.alphaDeg, '°')),
-              h('td', { class: 'number' }, formatSi(session.rampPeakV, 'V')),
               h('td', { class: 'number' }, session.linkErrors),
             );
           }),
@@ -179,11 +179,11 @@ export class LogbookScreen implements Screen {
     const peaks = detail.perCycle.filter((cycle) => cycle.rampPeakV !== null).map((cycle) => ({ x: cycle.t, y: cycle.rampPeakV as number }));
     const alphas = detail.perCycle.filter((cycle) => cycle.alphaDeg !== null).map((cycle) => ({ x: cycle.t, y: cycle.alphaDeg as number }));
     // Ramp peak when the session kept it per cycle, otherwise the firing angle.
-    const perCycleTitle = peaks.length > 0 ? 'Ramp peak per cycle' : 'Firing angle per cycle';
+    const perCycleTitle = peaks.length > 0 ? 'Ramp peak per cycle, whole session' : 'Firing angle per cycle, whole session';
     const cycleCanvas = h('canvas', { role: 'img', 'aria-label': `${perCycleTitle} over session ${row.id}`, 'data-testid': 'detail-cycles-canvas', 'data-points': String(peaks.length > 0 ? peaks.length : alphas.length) });
     const exportArea = h('div', { class: 'row' });
     const csv = h('button', { class: 'secondary', type: 'button', 'data-testid': 'export-readings' }, 'Export readings (CSV)');
-    csv.addEventListener('click', () => downloadBytes(`${row.unit}-session-${row.id}-readings.csv`, 'text/csv', readingsCsv(detail.steps)));
+    csv.addEventListener('click', () => downloadBytes(`${row.unit}-session-${row.id}-readings.csv`, 'text/csv', stepReadingsCsv(detail.steps)));
     exportArea.appendChild(csv);
     void this.context.client.exportFormats().then(
       (result) => {
@@ -211,7 +211,7 @@ export class LogbookScreen implements Screen {
       detail.notes ? h('p', {}, detail.notes) : null,
       h('h3', {}, 'Readings'),
       readingRows.length > 0 ? h('table', { class: 'data', 'data-testid': 'detail-readings' }, h('thead', {}, h('tr', {}, ['Step', 'Reading', 'Value', 'Design', 'Verdict'].map((title) => h('th', { scope: 'col' }, title)))), h('tbody', {}, readingRows)) : h('p', { class: 'empty' }, 'No step was recorded in this session.'),
-      h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), h('div', { class: 'plot small' }, transferCanvas)), h('div', {}, h('h3', {}, perCycleTitle), peaks.length + alphas.length > 0 ? h('div', { class: 'plot small' }, cycleCanvas) : h('p', { class: 'empty' }, 'No per-cycle readings were kept.'))),
+      h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), detail.transfer.points.length > 0 ? h('div', { class: 'plot small' }, transferCanvas) : h('p', { class: 'empty', 'data-testid': 'detail-no-transfer' }, 'No transfer curve was recorded in this session.')), h('div', {}, h('h3', {}, perCycleTitle), peaks.length + alphas.length > 0 ? h('div', { class: 'plot small' }, cycleCanvas) : h('p', { class: 'empty' }, 'No per-cycle readings were kept.'))),
       detail.partMeasurements.length > 0 ? h('h3', {}, 'Parts measured on the board') : null,
       detail.partMeasurements.length > 0
         ? h('ul', { 'data-testid': 'detail-measured' }, detail.partMeasurements.map((measured) => {
@@ -226,7 +226,7 @@ export class LogbookScreen implements Screen {
       exportArea,
     );
     this.detail.hidden = false;
-    const transfer = this.chart(transferCanvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${value}°`);
+    const transfer = this.chart(transferCanvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${Number(value.toPrecision(4))}°`);
     const fit = detail.transfer.fit;
     transfer.data.datasets = [
       pointsDataset('Points', cssColour('gate'), toPoints(detail.transfer.points), { pointRadius: 2 }),
@@ -258,11 +258,23 @@ export class LogbookScreen implements Screen {
         'table',
         { class: 'data', 'data-testid': 'comparison-table' },
         h('thead', {}, h('tr', {}, ['Reading', `#${comparison.a.id} (${comparison.a.unit})`, `#${comparison.b.id} (${comparison.b.unit})`, 'Difference', ''].map((title) => h('th', { scope: 'col' }, title)))),
-        h(
-          'tbody',
-          {},
-          comparison.rows.map((row) =>
-            h('tr', {}, h('td', {}, row.label), h('td', { class: 'number' }, formatReading(row.a, row.unit)), h('td', { class: 'number' }, formatReading(row.b, row.unit)), h('td', { class: 'number' }, formatReading(row.difference, row.unit)), h('td', {}, row.beyondTolerance ? h('span', { class: 'flag' }, '✕ beyond tolerance') : h('span', { class: 'muted' }, 'within tolerance'))),
+        (['recorded', 'whole-session'] as const).map((scope) =>
+          h(
+            'tbody',
+            { 'data-scope': scope },
+            h('tr', { class: 'group' }, h('th', { scope: 'colgroup', colspan: '5' }, scope === 'recorded' ? 'As recorded at each step (the board as signed for)' : 'Over the whole session (before and after any trim, the whole sweep): not judged')),
+            comparison.rows.filter((row) => row.scope === scope).map((row) =>
+              h(
+                'tr',
+                {},
+                h('td', {}, row.label),
+                h('td', { class: 'number' }, formatReading(row.a, row.unit)),
+                h('td', { class: 'number' }, formatReading(row.b, row.unit)),
+                h('td', { class: 'number' }, formatReading(row.difference, row.unit)),
+                // A difference is judged only where the design gives the figure a tolerance; never a count.
+                h('td', {}, !row.judged ? null : row.beyondTolerance ? h('span', { class: 'flag' }, '✕ beyond tolerance') : h('span', { class: 'muted' }, 'within tolerance')),
+              ),
+            ),
           ),
         ),
       ),
@@ -283,12 +295,13 @@ export class LogbookScreen implements Screen {
     fill(
       this.drift,
       h('h2', {}, `Drift of unit ${unitSerial}`),
+      h('p', { class: 'muted' }, 'Each session\'s figures as recorded at its steps: the board as it was signed for, after any trim.'),
       driftForecast(result.warnings, result.points.length),
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Session', 'Date', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'α jitter'].map((title) => h('th', { scope: 'col' }, title)))),
-        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaStdDeg, '°', 2))))),
+        h('thead', {}, h('tr', {}, ['Session', 'Date', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'Firing jitter (held control)'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaJitterDeg, '°', 2))))),
       ),
       h('div', { class: 'plot small' }, canvas),
     );

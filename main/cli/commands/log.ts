@@ -39,9 +39,11 @@ const shortTime = (iso: string | null): string => (iso === null ? '-' : iso.repl
 
 export function formatLogbookTable(sessions: SessionRow[]): string {
   if (sessions.length === 0) return 'No sessions.\n';
-  const header = ['session', 'unit', 'outcome', 'started (UTC)', 'ended (UTC)', 'cycles', 'alpha deg', 'ramp peak V', 'link errors'];
+  // Figures as recorded at the steps (the board as signed for); a count of cycles, judged by nothing.
+  const header = ['session', 'unit', 'outcome', 'started (UTC)', 'ended (UTC)', 'cycles', 'ramp peak V (recorded)', 'alpha deg (recorded range)', 'link errors'];
+  const range = (row: SessionRow) => (row.alphaMinDeg === null && row.alphaMaxDeg === null ? '-' : `${number(row.alphaMinDeg, 1)} to ${number(row.alphaMaxDeg, 1)}`);
   const rows = sessions.map((row) => [
-    String(row.id), row.unit, outcomeWords[row.outcome].phrase, shortTime(row.startedAt), shortTime(row.endedAt), String(row.cycles), number(row.alphaDeg, 1), number(row.rampPeakV, 3), String(row.linkErrors),
+    String(row.id), row.unit, outcomeWords[row.outcome].phrase, shortTime(row.startedAt), shortTime(row.endedAt), String(row.cycles), number(row.rampPeakV, 3), range(row), String(row.linkErrors),
   ]);
   const widths = header.map((title, column) => Math.max(title.length, ...rows.map((row) => row[column].length)));
   const line = (cells: string[]): string => cells.map((cell, column) => (column >= 5 ? cell.padStart(widths[column]) : cell.padEnd(widths[column]))).join('  ').trimEnd();

@@ -202,7 +202,7 @@ export function registerRecordCommand(program: Command): void {
         if (interactive) process.stderr.write('\n');
         const row = result.session;
         process.stdout.write(
-          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, alpha ${fixed(row.alphaDeg, 1)} deg, ramp peak ${fixed(row.rampPeakV, 3)} V, ${row.linkErrors} link errors. Logbook: ${options.db}\n`,
+          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, ramp peak ${fixed(row.rampPeakV, 3)} V, alpha ${fixed(row.wholeSession.alphaMeanDeg, 1)} deg mean over the recording, ${row.linkErrors} link errors. Logbook: ${options.db}\n`,
         );
       } finally {
         process.removeListener('SIGINT', onInterrupt);

@@ -6,6 +6,8 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
 import { demoSummaryLines } from '../../../main/cli/commands/demo';
+import { openRecordSources } from '../../../main/record/openRecordSources';
+import { fleetReport } from '../../../main/record/recall';
 import { openBenchContext } from '../../../main/session/benchContext';
 import { runCommissioningDemo, type DemoReport } from '../../../main/session/commissioningDemo';
 import { runCli as runInProcess } from './cliRun';
@@ -80,6 +82,26 @@ describe('rampwright demo', () => {
       expect((await logbook.cycleReadings(stored[0].id)).length).toBe(result.session.cycles);
     } finally {
       await logbook.close();
+    }
+
+    // `log --json`: the ramp peak as recorded after the trim (within the 3 % tolerance of 7.3 V), not the whole
+    // session's median, which the cycles before the trim (about 1/0.7 of the target) pull up.
+    const listing = await runInProcess(['log', '--db', dbPath, '--json'], {});
+    const [row] = (JSON.parse(listing.stdout) as { sessions: Array<{ outcome: string; rampPeakV: number; wholeSession: { rampPeakMedianV: number } }> }).sessions;
+    expect(row.outcome).toBe('signed-off');
+    expect(Math.abs(row.rampPeakV - 7.3) / 7.3).toBeLessThan(0.03);
+    expect(row.rampPeakV).toBeCloseTo(result.rampPeakAfterV, 12);
+    // The fleet places the unit by its recorded ramp, inside the board model's prediction: no outlier.
+    const sources = await openRecordSources(dbPath);
+    try {
+      const fleet = await fleetReport(sources, 'Charger firing board CH-50H (demo)', { unitSerial: 'CH50H-0042', runs: 200 });
+      const peak = fleet.figures.find((figure) => figure.key === 'rampPeakV')!;
+      expect(peak.values).toEqual([row.rampPeakV]);
+      expect(peak.outliers).toBe(0);
+      // Within 3 standard deviations of the Monte Carlo prediction (the outlier rule of app/record/fleet.ts).
+      expect(Math.abs(peak.marked!.predictionZ!)).toBeLessThan(3);
+    } finally {
+      await sources.close();
     }
   });
 

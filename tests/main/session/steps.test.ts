@@ -71,7 +71,9 @@ describe('measureSteps', () => {
   it('puts each reading in its step and judges against the design (3 % ramp tolerance: 6.15 V in, 6.25 V out)', () => {
     const onTarget = measureSteps(inputs({ window: readings({ peakV: 6.05 }) }));
     expect(onTarget.sync.readings.map((reading) => reading.key)).toContain('frequencyHz');
-    expect(onTarget.ramp.readings.map((reading) => reading.key)).toEqual(['rampPeakV', 'rampStartDelayDeg', 'rampClipped', 'slopeVPerMs', 'rampFloorV', 'nonlinearityPct']);
+    expect(onTarget.ramp.readings.map((reading) => reading.key)).toEqual(['rampPeakV', 'rampStartDelayDeg', 'rampClipped', 'slopeVPerMs', 'rampFloorV', 'nonlinearityPct', 'alphaJitterDeg']);
+    // The control held (no transfer line in the window): its alpha spread is firing jitter, for information.
+    expect(onTarget.ramp.readings.find((reading) => reading.key === 'alphaJitterDeg')).toMatchObject({ value: 0.1, verdict: null });
     expect(onTarget.ramp.verdict).toBe('in-tolerance');
     expect(onTarget.trim.note).toMatch(/no trim needed/);
     const peak = onTarget.ramp.readings[0];

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { FoldCycle, Reading, StepReport } from '../../../app/contract/readings';
 import { FoldPointsCache, foldCyclesPoints, growScale } from '../../../renderer/shaping/foldPoints';
-import { readingsCsv } from '../../../renderer/shaping/readingsCsv';
+import { stepReadingsCsv } from '../../../app/exchange/recordCsv';
 import { designText, mergeSteps, pickReading } from '../../../renderer/shaping/stepView';
 import { fitLinePoints, transferPointsCsv, transferRangeV } from '../../../renderer/shaping/transferView';
 import { verdictView } from '../../../renderer/shaping/verdictView';
@@ -126,8 +126,11 @@ describe('transfer helpers', () => {
     expect(transferPointsCsv([{ t: 0.5, controlV: 1.25, alphaDeg: 52.5 }])).toBe('t_s,control_V,alpha_deg\r\n0.5,1.25,52.5\r\n');
   });
 
-  it('quotes readings that hold commas or quotes (RFC 4180)', () => {
-    const csv = readingsCsv([report('ramp', 'done', [reading('rampPeakV', 6, { label: 'Ramp peak, end of "half"', verdict: 'in-tolerance' })])]);
-    expect(csv.split('\r\n')[1]).toBe('ramp,rampPeakV,"Ramp peak, end of ""half""",V,6,,,,in-tolerance');
+  it('writes the readings as recorded, quoting those that hold commas or quotes (RFC 4180); information has no verdict', () => {
+    const csv = stepReadingsCsv([report('ramp', 'done', [reading('rampPeakV', 6, { label: 'Ramp peak, end of "half"', verdict: 'in-tolerance' }), reading('slopeVPerMs', 0.75)])]);
+    const lines = csv.split('\n');
+    expect(lines[0]).toBe('step,reading,label,value,design,low,high,unit,verdict,note');
+    expect(lines[1]).toBe('ramp,rampPeakV,"Ramp peak, end of ""half""",6,,,,V,in-tolerance,');
+    expect(lines[2]).toBe('ramp,slopeVPerMs,slopeVPerMs,0.75,,,,V,,');
   });
 });

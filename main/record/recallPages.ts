@@ -10,10 +10,16 @@ export function comparisonPage(report: ComparisonReport, options: { now?: Date }
   const section: RecallSection = {
     heading: `Unit ${comparison.a.unit}: session ${comparison.a.id} (${comparison.a.startedAt.slice(0, 10)}) against session ${comparison.b.id} (${comparison.b.startedAt.slice(0, 10)})`,
     warnings: report.flagged.length > 0 ? [`differences beyond the design tolerance: ${report.flagged.join(', ')}.`] : [],
-    paragraphs: report.flagged.length === 0 ? ['No difference goes beyond the design tolerance.'] : [],
+    paragraphs: [
+      ...(report.flagged.length === 0 ? ['No difference goes beyond the design tolerance.'] : []),
+      'Figures are as recorded at each step (the board as signed for, after any trim); those marked "whole session" are over every cycle, before and after a trim and through the whole sweep, and are not judged. A count is never judged.',
+    ],
     table: {
-      head: ['Reading', `Session ${comparison.a.id}`, `Session ${comparison.b.id}`, 'Difference', 'Beyond tolerance'],
-      rows: comparison.rows.map((row) => [row.label, number(row.a, row.unit), number(row.b, row.unit), number(row.difference, row.unit), row.beyondTolerance ? 'yes (flagged)' : 'no']),
+      head: ['Reading', 'Taken', `Session ${comparison.a.id}`, `Session ${comparison.b.id}`, 'Difference', 'Beyond tolerance'],
+      rows: comparison.rows.map((row) => [
+        row.label, row.scope === 'recorded' ? 'as recorded' : 'whole session', number(row.a, row.unit), number(row.b, row.unit), number(row.difference, row.unit),
+        !row.judged || row.difference === null ? 'not judged' : row.beyondTolerance ? 'yes (flagged)' : 'no',
+      ]),
       flaggedRows: comparison.rows.flatMap((row, index) => (row.beyondTolerance ? [index] : [])),
     },
     svgs: [report.transferSvg],

@@ -11,7 +11,7 @@ import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
 import { stepReadingsCsv } from '../../app/exchange/recordCsv';
 import { stepTitles, wordedValue } from '../shaping/stepView';
-import { fitLinePoints, toPoints } from '../shaping/transferView';
+import { fitLinePoints, toPoints, transferRangeV } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 import { FleetPanel } from './fleetPanel';
 
@@ -227,6 +227,7 @@ export class LogbookScreen implements Screen {
     );
     this.detail.hidden = false;
     const transfer = this.chart(transferCanvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${Number(value.toPrecision(4))}°`);
+    fixTransferAxis(transfer, detail.transfer.points);
     const fit = detail.transfer.fit;
     transfer.data.datasets = [
       pointsDataset('Points', cssColour('gate'), toPoints(detail.transfer.points), { pointRadius: 2 }),
@@ -272,7 +273,7 @@ export class LogbookScreen implements Screen {
                 h('td', { class: 'number' }, formatReading(row.b, row.unit)),
                 h('td', { class: 'number' }, formatReading(row.difference, row.unit)),
                 // A difference is judged only where the design gives the figure a tolerance; never a count.
-                h('td', {}, !row.judged ? null : row.beyondTolerance ? h('span', { class: 'flag' }, '✕ beyond tolerance') : h('span', { class: 'muted' }, 'within tolerance')),
+                h('td', {}, !row.judged || row.difference === null ? null : row.beyondTolerance ? h('span', { class: 'flag' }, '✕ beyond tolerance') : h('span', { class: 'muted' }, 'within tolerance')),
               ),
             ),
           ),
@@ -284,6 +285,9 @@ export class LogbookScreen implements Screen {
     this.comparison.hidden = false;
     this.comparison.scrollIntoView({ block: 'start' });
     const chart = this.chart(canvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${value}°`);
+    // The charts take their data as sorted in x (chartSetup: normalized); a sweep goes up and down, so the axis
+    // spans every point explicitly rather than the first and last.
+    fixTransferAxis(chart, [...comparison.transferA, ...comparison.transferB]);
     chart.data.datasets = [pointsDataset(`Session ${comparison.a.id}`, cssColour('gate'), toPoints(comparison.transferA), { pointRadius: 2 }), pointsDataset(`Session ${comparison.b.id}`, cssColour('control'), toPoints(comparison.transferB), { pointRadius: 2, pointStyle: 'triangle' })];
     chart.update('none');
   }
@@ -336,6 +340,15 @@ export class LogbookScreen implements Screen {
       }
     }
   }
+}
+
+/** A transfer plot's control axis over all its points (see renderComparison), half a volt either side rounded. */
+function fixTransferAxis(chart: LineChart, points: readonly { controlV: number }[]): void {
+  const x = chart.options.scales?.x;
+  if (!x || points.length === 0) return;
+  const range = transferRangeV(points, { fromV: Math.min(...points.map((point) => point.controlV)), toV: Math.max(...points.map((point) => point.controlV)) });
+  x.min = range.fromV;
+  x.max = range.toV;
 }
 
 /** A session's outcome in words with an icon; a sign-off with exceptions stands out (never colour alone). */

@@ -81,6 +81,15 @@ describe('browser mode with the virtual board', () => {
     await page.getByTestId('size-emitter').click();
     await expect(page.getByTestId('sizing-result').textContent()).resolves.toMatch(/Nearest E24\s*[\d.]+ k?Ω/);
     await screenshot(page, '2-board');
+    // Saved unchanged: nothing is saved, and the screen says so.
+    await page.getByTestId('save-design').click();
+    await expect.poll(() => page.getByTestId('design-status').textContent(), { timeout: 10_000 }).toMatch(/Nothing changed: .* stays version 1/);
+    // The sizing result belongs to the design it was worked out for: another design clears it.
+    await page.locator('[data-design*="HT-60F"]').click();
+    await expect.poll(() => name.inputValue(), { timeout: 10_000 }).toMatch(/HT-60F/);
+    await expect.poll(() => page.getByTestId('sizing-result').textContent()).toBe('');
+    await page.locator('[data-design*="CH-50H"]').click();
+    await expect.poll(() => name.inputValue(), { timeout: 10_000 }).toMatch(/CH-50H/);
   });
 
   it('commissions a unit through every step, fitting a trim and checking the ramp again', async () => {

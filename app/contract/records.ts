@@ -55,6 +55,12 @@ export const outcomeWords: Record<SessionOutcome, { text: string; phrase: string
   open: { text: 'Open', phrase: 'still open' },
 };
 
+/** "2 signed off, 1 closed without sign-off": the outcomes that occur, in these words. */
+export function outcomeCounts(outcomes: Record<SessionOutcome, number>): string {
+  const present = sessionOutcomes.filter((outcome) => outcomes[outcome] > 0).map((outcome) => `${outcomes[outcome]} ${outcomeWords[outcome].phrase}`);
+  return present.length > 0 ? present.join(', ') : 'no sessions';
+}
+
 /** A step the sign-off gate stopped at: not recorded, recorded without its measurement, or out of tolerance. */
 export const signOffExceptionSchema = z.object({
   step: commissioningStepSchema,
@@ -250,6 +256,8 @@ export type SessionComparison = z.infer<typeof sessionComparisonSchema>;
 export const driftPointSchema = z.object({
   sessionId: z.number().int().positive(),
   startedAt: isoTimeSchema,
+  /** How the session ended: a trend read across signed and abandoned sessions alike must say which is which. */
+  outcome: sessionOutcomeSchema,
   rampPeakV: z.number().nullable(),
   slopeVPerMs: z.number().nullable(),
   alphaGainDegPerV: z.number().nullable(),
@@ -281,6 +289,8 @@ export const fleetViewSchema = z.object({
   designName: z.string(),
   designVersion: z.number().int().positive(),
   units: z.number().int().nonnegative(),
+  /** How each unit's latest session ended, counted by outcome. */
+  outcomes: z.record(sessionOutcomeSchema, z.number().int().nonnegative()),
   figures: z.array(fleetFigureSchema),
 });
 export type FleetView = z.infer<typeof fleetViewSchema>;

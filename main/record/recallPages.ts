@@ -1,4 +1,5 @@
 /** Recall reports (recall.ts) as HTML pages: comparison, drift and fleet, for the report command and the screens. */
+import { outcomeCounts } from '../../app/contract/records';
 import { formatReading } from '../../app/record/recordModel';
 import { renderRecallHtml, type RecallSection } from '../../app/record/renderRecallHtml';
 import type { ComparisonReport, DriftReport, FleetReport } from './recall';
@@ -59,6 +60,7 @@ export function fleetPage(report: FleetReport, options: { now?: Date } = {}): st
     heading: `${figure.label} over ${figure.values.length} units`,
     warnings: figure.outliers > 0 ? [`${figure.outliers} unit(s) lie beyond three standard deviations of the prediction.`] : [],
     paragraphs: [
+      `Each unit's latest session, as recorded at its steps; how they ended: ${outcomeCounts(report.outcomes)}.`,
       figure.prediction
         ? `Monte Carlo prediction of the board model (version ${report.designVersion}): mean ${number(figure.prediction.mean, figure.unit)}, standard deviation ${number(figure.prediction.standardDeviation, figure.unit)}, design ${number(figure.prediction.nominal, figure.unit)}.`
         : 'No prediction for this figure.',

@@ -68,11 +68,13 @@ export async function compareView(logbook: Logbook, aId: number, bId: number): P
 
 export async function driftView(logbook: Logbook, unitSerial: string): Promise<{ unitSerial: string; points: DriftPoint[] }> {
   const drift = await logbook.unitDrift(unitSerial);
+  const outcomeOf = new Map((await logbook.listSessions({ unitSerial })).map((row) => [row.id, row.outcome]));
   return {
     unitSerial,
     points: drift.points.map((point) => ({
       sessionId: point.sessionId,
       startedAt: point.startedAt,
+      outcome: outcomeOf.get(point.sessionId) ?? 'open',
       rampPeakV: point.rampPeakV,
       slopeVPerMs: point.slopeVPerMs,
       alphaGainDegPerV: point.alphaGainDegPerV,

@@ -2,7 +2,7 @@
  * The fleet of the chosen unit's board design, in the Logbook screen: a histogram per figure (ramp peak, alpha
  * gain) of every unit's latest session, the board model's Monte Carlo prediction over it, and the unit marked.
  */
-import type { FleetView } from '../../app/contract/records';
+import { outcomeCounts, type FleetView } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { h, fill } from '../dom/h';
 import { fleetPlacementText, histogramOutline, predictedPoints } from '../shaping/fleetShapes';
@@ -40,7 +40,7 @@ export class FleetPanel {
     fill(
       this.element,
       h('h2', {}, `Fleet of ${view.designName}: ${view.units} unit${view.units === 1 ? '' : 's'}`),
-      h('p', { class: 'muted' }, 'Each unit\'s latest session. The line is what the board model expects from the parts\' tolerances (Monte Carlo), as units per bin.'),
+      h('p', { class: 'muted', 'data-testid': 'fleet-outcomes' }, `Each unit's latest session, as recorded at its steps (${outcomeCounts(view.outcomes)}). The line is what the board model expects from the parts' tolerances (Monte Carlo), as units per bin.`),
       h('div', { class: 'fleet-plots' }, plots.map((plot) => plot.block)),
       h(
         'div',

@@ -304,8 +304,8 @@ export class LogbookScreen implements Screen {
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Session', 'Date', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'Firing jitter (held control)'].map((title) => h('th', { scope: 'col' }, title)))),
-        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaJitterDeg, '°', 2))))),
+        h('thead', {}, h('tr', {}, ['Session', 'Date', 'Outcome', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'Firing jitter (held control)'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', {}, outcomeBadge(point.outcome)), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaJitterDeg, '°', 2))))),
       ),
       h('div', { class: 'plot small' }, canvas),
     );

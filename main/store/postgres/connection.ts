@@ -80,3 +80,8 @@ export function postgresTarget(location: string, env: Record<string, string | un
   };
   return { display, config, scrub };
 }
+
+/** A location as messages and a bench's record of its pushes show it: a file as given, an address without password. */
+export function logbookDisplayLocation(location: string, env: Record<string, string | undefined> = process.env): string {
+  return isPostgresLocation(location) ? postgresTarget(location, env).display : location;
+}

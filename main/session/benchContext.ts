@@ -6,6 +6,7 @@
 import { homedir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { InputError } from '../../app/errors';
+import type { PushReport } from '../share/pushSessions';
 import { startSharePusher, type SharePusher } from '../share/sharePusher';
 import { isPostgresLocation, openLogbook } from '../store/index';
 import { userDataFolder } from './dataFolder';
@@ -21,6 +22,8 @@ export interface BenchContext {
   designs: DesignCatalog;
   service: SessionService;
   dispatch: BenchDispatch;
+  /** The background pusher, when the bench pushes to a shared logbook. */
+  sharing: SharePusher | null;
   close(): Promise<void>;
 }
 
@@ -35,6 +38,8 @@ export interface BenchContextOptions {
   pushTo?: string;
   /** How often the bench pushes (default 10 s). */
   pushIntervalMs?: number;
+  /** Told each background push's report (what was pushed, what was retried). */
+  onPushReport?: (report: PushReport) => void;
   serial?: SerialAccess | null;
   virtualPaced?: boolean;
   pipeline?: SessionServiceOptions['pipeline'];
@@ -51,7 +56,7 @@ export async function openBenchContext(options: BenchContextOptions): Promise<Be
   const logbook = await openLogbook(options.logbookPath);
   const dataFolder = shared ? userDataFolder({ platform: process.platform, env: process.env, home: homedir() }) : dirname(options.logbookPath);
   const designs = createDesignCatalog({ logbook, exampleFolders: [exampleDesignsFolder()], saveFolder: options.designsFolder ?? join(dataFolder, 'designs') });
-  const sharing: SharePusher | null = options.pushTo === undefined ? null : startSharePusher(logbook, options.pushTo, { intervalMs: options.pushIntervalMs });
+  const sharing: SharePusher | null = options.pushTo === undefined ? null : startSharePusher(logbook, options.pushTo, { intervalMs: options.pushIntervalMs, onReport: options.onPushReport });
   const service = createSessionService({
     logbook, designs, serial: options.serial ?? null, exporters: [sessionJsonExporter, ...(options.exporters ?? [])], virtualPaced: options.virtualPaced, pipeline: options.pipeline,
     bench: options.bench, sharing,
@@ -62,6 +67,7 @@ export async function openBenchContext(options: BenchContextOptions): Promise<Be
     designs,
     service,
     dispatch,
+    sharing,
     async close() {
       await service.close();
       await sharing?.stop();

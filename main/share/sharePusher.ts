@@ -26,7 +26,7 @@ export interface SharePusher {
   stop(): Promise<void>;
 }
 
-export function startSharePusher(local: Logbook, sharedLocation: string, options: { intervalMs?: number } = {}): SharePusher {
+export function startSharePusher(local: Logbook, sharedLocation: string, options: { intervalMs?: number; onReport?: (report: PushReport) => void } = {}): SharePusher {
   const target = logbookDisplayLocation(sharedLocation);
   let running: Promise<PushReport> | null = null;
   let lastAttemptAt: string | null = null;
@@ -43,6 +43,7 @@ export function startSharePusher(local: Logbook, sharedLocation: string, options
         const lastRetry = report.retried[report.retried.length - 1];
         problem = report.gaveUp ? `the shared logbook is out of reach (${lastRetry?.reasons[lastRetry.reasons.length - 1] ?? 'no answer'})` : refused ? `session ${refused.sessionId} was refused: ${refused.reason}` : null;
         if (!report.gaveUp) lastReachedAt = new Date().toISOString();
+        options.onReport?.(report);
         return report;
       })
       .catch((error: unknown) => {

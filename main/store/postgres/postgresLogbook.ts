@@ -94,15 +94,20 @@ export async function openPostgresLogbook(location: string, options: OpenPostgre
     } catch (error) {
       throw describePostgresError(error, target);
     }
-    let broken = false;
+    // The server may end a connection between two of our queries (a restart): the error arrives as an event,
+    // which must not end the process; the next query on it fails and says so.
+    let lost: unknown = null;
+    const onLost = (error: unknown) => (lost = error);
+    client.on('error', onLost);
     try {
       return await work(client);
     } catch (error) {
-      broken = (error as { code?: unknown }).code === undefined && !(error instanceof InputError);
+      lost ??= (error as { code?: unknown }).code === undefined && !(error instanceof InputError) ? error : null;
       throw describePostgresError(error, target);
     } finally {
+      client.off('error', onLost);
       // A client whose connection failed is thrown away, not handed to the next caller.
-      client.release(broken);
+      client.release(lost !== null);
     }
   };
 

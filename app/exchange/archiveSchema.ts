@@ -67,6 +67,8 @@ export const archiveSessionSchema = z
         rampPeakMedianV: z.number().nullable(),
         /** The step reports as recorded; left out when the session has none (older sessions keep their hash). */
         stepsJson: z.string().optional(),
+        /** The bench that recorded it; left out when unknown (sessions from before benches were named keep their hash). */
+        bench: z.string().min(1).optional(),
         /**
          * How a closed session was signed off; left out for one closed without sign-off (and for interrupted ones),
          * so sessions exported before sign-offs were kept keep their hash. The reason and the exceptions (JSON of

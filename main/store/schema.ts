@@ -126,12 +126,32 @@ export const migrations: readonly string[] = [
   );
   CREATE INDEX part_measurements_by_session ON part_measurements (session_id);
   `,
-  // 3: how a closed session ended. `sign_off` is null for a session closed without sign-off; a signed-off session
+  // 3: a line of benches sharing one logbook. Which bench recorded a session (`bench`, carried in its archive);
+  // the content hash of a session that arrived as an archive (`content_sha256`, so a second push of it is found
+  // without reading its cycles); and, in a bench's own logbook, which finished sessions it has pushed to which
+  // shared logbook (`shared_copies`; `target` is the shared logbook's address without any password).
+  // The PostgreSQL store mirrors every migration (postgres/pgSchema.ts).
+  `
+  ALTER TABLE sessions ADD COLUMN bench TEXT;
+  ALTER TABLE sessions ADD COLUMN content_sha256 TEXT;
+  CREATE UNIQUE INDEX sessions_by_content ON sessions (content_sha256) WHERE content_sha256 IS NOT NULL;
+  CREATE TABLE shared_copies (
+    session_id INTEGER NOT NULL REFERENCES sessions(id),
+    target TEXT NOT NULL,
+    content_sha256 TEXT NOT NULL,
+    remote_session_id INTEGER NOT NULL,
+    shared_at_ms INTEGER NOT NULL,
+    PRIMARY KEY (session_id, target)
+  );
+  `,
+  // 4: how a closed session ended. `sign_off` is null for a session closed without sign-off; a signed-off session
   // says whether every step was recorded and within tolerance ('signed-off') or not ('signed-off-with-exceptions',
   // with the technician's written reason and the steps excepted, JSON of the contract's SignOffException[]).
   // Sessions signed off before this schema (their recorded steps include the sign-off step) are classified from
   // their recorded steps: any step missing, unmeasured or out of tolerance makes them "with exceptions", with a
-  // reason saying that no reason was asked for then. Nothing already stored changes.
+  // reason saying that no reason was asked for then. Nothing already stored changes; an arrived session so classified
+  // forgets its archive hash (its content now holds the sign-off), so it is hashed from its rows again. Mirrored in
+  // postgres/pgSchema.ts.
   `
   ALTER TABLE sessions ADD COLUMN sign_off TEXT CHECK (sign_off IN ('signed-off', 'signed-off-with-exceptions'));
   ALTER TABLE sessions ADD COLUMN sign_off_reason TEXT;
@@ -158,7 +178,8 @@ export const migrations: readonly string[] = [
     sign_off_reason = CASE WHEN (SELECT json_array_length(exceptions) FROM signed_before b WHERE b.id = sessions.id) = 0 THEN NULL
       ELSE 'No reason was written: this session was signed off before Rampwright checked the steps at sign-off; the exceptions were found from its recorded steps when the logbook was upgraded.' END,
     sign_off_exceptions_json = CASE WHEN (SELECT json_array_length(exceptions) FROM signed_before b WHERE b.id = sessions.id) = 0 THEN NULL
-      ELSE (SELECT exceptions FROM signed_before b WHERE b.id = sessions.id) END
+      ELSE (SELECT exceptions FROM signed_before b WHERE b.id = sessions.id) END,
+    content_sha256 = NULL
   WHERE id IN (SELECT id FROM signed_before);
   DROP TABLE signed_before;
   `,

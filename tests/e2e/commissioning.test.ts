@@ -30,6 +30,8 @@ async function stepVerdict(step: string): Promise<string | null> {
 
 /** Record the selected step with its button and wait until the step list shows it recorded. */
 async function recordStep(step: string): Promise<void> {
+  // A step is recorded only once it is measured (the bench refuses it before): wait for its verdict.
+  await expect.poll(() => stepVerdict(step), { timeout: 30_000, interval: 250 }).not.toBe('not-measured');
   await page.locator(`[data-testid="check-${step}"]`).click();
   try {
     await page.locator(`[data-step="${step}"][data-status="done"]`).waitFor({ timeout: 20_000 });

@@ -2,6 +2,8 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
 import { chargerDesign, cycleReading, recordedStepsJson, tempFolder, type TempFolder } from '../store/storeFixtures';
+import { formatLogbookTable } from '../../../main/cli/commands/log';
+import type { SessionRow } from '../../../main/store/logbookTypes';
 import { runCli as run } from './cliRun';
 
 let folder: TempFolder;
@@ -14,13 +16,13 @@ beforeAll(async () => {
   // Unit RW-0142, trimmed from a high ramp (our scenario): three cycles at 10.4 V before the trim (alpha 89, 90,
   // 91), three after it at 7.28, 7.32, 7.36 V; the ramp step recorded 7.32 V after the re-check, the limits 10.2 and
   // 156.4 deg. Whole session: median peak (7.36 + 10.4) / 2 = 8.88 V, mean alpha 90 deg (by hand). One CRC burst of 4.
-  const first = await logbook.startSession({ unitSerial: 'RW-0142', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-01T09:00:00Z') });
+  const first = await logbook.startSession({ unitSerial: 'RW-0142', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-01T09:00:00Z'), bench: 'bench A' });
   [89, 90, 91].forEach((alphaDeg, index) => first.addCycle(cycleReading(index * 0.02, { alphaDeg, rampPeakV: 10.4 })));
   [7.28, 7.32, 7.36].forEach((rampPeakV, index) => first.addCycle(cycleReading(0.06 + index * 0.02, { alphaDeg: null, rampPeakV })));
   first.setStepsJson(recordedStepsJson({ rampPeakV: 7.32, alphaMinDeg: 10.2, alphaMaxDeg: 156.4 }));
   first.addLinkEvent('crc-failures', '4 lines failed their CRC', 4);
   await first.close();
-  const second = await logbook.startSession({ unitSerial: 'RW-0207', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-02T09:00:00Z') });
+  const second = await logbook.startSession({ unitSerial: 'RW-0207', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-02T09:00:00Z'), bench: 'bench A' });
   await second.close('interrupted');
   // Two sign-offs: plain, and with exceptions (the reason and the step excepted travel with the row).
   const third = await logbook.startSession({ unitSerial: 'RW-0311', design: chargerDesign(), operator: 'bench 2', startedAt: new Date('2026-03-03T09:00:00Z') });
@@ -66,12 +68,21 @@ describe('rampwright log', () => {
     const { code, stdout } = await run(['log', '--db', dbPath]);
     expect(code).toBe(0);
     const lines = stdout.trimEnd().split('\n');
-    expect(lines[0]).toMatch(/^session\s+unit\s+outcome/);
+    expect(lines[0]).toMatch(/^session\s+unit\s+bench\s+outcome\s+started\s+ended\s+cycles/);
     expect(lines[0]).toMatch(/ramp peak V \(recorded\)\s+alpha deg \(recorded range\)/);
-    expect(lines[1]).toMatch(/RW-0142\s+closed without sign-off\s+2026-03-01 09:00:00Z .*\s6\s+7\.320\s+10\.2 to 156\.4\s+4$/);
-    expect(lines[2]).toMatch(/RW-0207\s+interrupted/);
-    expect(lines[3]).toMatch(/RW-0311\s+signed off\s/);
-    expect(lines[4]).toMatch(/RW-0312\s+signed off with exceptions\s/);
+    // In the machine's local time with its offset (stored in UTC).
+    expect(lines[1]).toMatch(/RW-0142\s+bench A\s+closed without sign-off\s+2026-03-0[12] \d\d:\d\d:00 [+-]\d\d:\d\d .*\s6\s+7\.320\s+10\.2 to 156\.4\s+4$/);
+    expect(lines[2]).toMatch(/RW-0207\s+bench A\s+interrupted/);
+    expect(lines[3]).toMatch(/RW-0311\s+\S+\s+signed off\s/);
+    expect(lines[4]).toMatch(/RW-0312\s+\S+\s+signed off with exceptions\s/);
+  });
+
+  it('shows times stored in UTC in the reader\'s local time, offset written out', async () => {
+    const { stdout } = await run(['log', '--db', dbPath, '--json']);
+    const { sessions } = JSON.parse(stdout) as { sessions: SessionRow[] };
+    // 09:00 UTC on 1 March: 10:00 in Berlin (CET, UTC+1), 04:00 in New York (EST, UTC-5); IANA zone rules, from memory.
+    expect(formatLogbookTable(sessions, { timeZone: 'Europe/Berlin' })).toContain('2026-03-01 10:00:00 +01:00');
+    expect(formatLogbookTable(sessions, { timeZone: 'America/New_York' })).toContain('2026-03-01 04:00:00 -05:00');
   });
 
   it('exits 2 naming the file when there is no logbook or it is not one, and leaves the file alone', async () => {

@@ -1,3 +1,4 @@
+import { legacySignOffOf, legacySignOffReason } from '../../../app/exchange/legacySignOff';
 import Database from 'better-sqlite3';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
@@ -5,7 +6,6 @@ import { InputError } from '../../../app/errors';
 import { openLogbookDatabase } from '../../../main/store/openDatabase';
 import { latestSchemaVersion, logbookApplicationId, migrations } from '../../../main/store/schema';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
-import { legacySignOffOf, legacySignOffReason } from '../../../app/exchange/legacySignOff';
 import { chargerDesign, tempFolder, type TempFolder } from './storeFixtures';
 
 let folder: TempFolder;
@@ -33,7 +33,7 @@ describe('openLogbookDatabase', () => {
   it('creates every table of the schema, marks the file as ours and sets WAL with synchronous NORMAL', () => {
     const db = openLogbookDatabase(folder.file('new.sqlite'));
     const tables = (db.prepare("SELECT name FROM sqlite_master WHERE type = 'table' ORDER BY name").all() as Array<{ name: string }>).map((row) => row.name);
-    expect(tables).toEqual(['board_designs', 'captures', 'cycles', 'link_events', 'part_measurements', 'sessions', 'transfer_points', 'trims', 'units']);
+    expect(tables).toEqual(['board_designs', 'captures', 'cycles', 'link_events', 'part_measurements', 'sessions', 'shared_copies', 'transfer_points', 'trims', 'units']);
     expect(db.pragma('user_version', { simple: true })).toBe(latestSchemaVersion);
     expect(db.pragma('application_id', { simple: true })).toBe(logbookApplicationId);
     expect(db.pragma('journal_mode', { simple: true })).toBe('wal');
@@ -81,15 +81,49 @@ describe('openLogbookDatabase', () => {
     db.close();
   });
 
-  it('brings a logbook of the second schema up to date, telling sign-offs from sessions closed without one', async () => {
-    // A logbook as schema 2 wrote it: a sign-off was a plain "closed" with the sign-off step among the recorded
-    // steps, whatever their verdicts, and a summary line in the notes.
+  it('brings a logbook of schema 2 up to date, and a new session names its bench, in the logbook and in its archive', async () => {
     const path = folder.file('second.sqlite');
     const old = new Database(path);
     old.pragma(`application_id = ${logbookApplicationId}`);
     old.exec(migrations[0]);
     old.exec(migrations[1]);
     old.pragma('user_version = 2');
+    old.close();
+    const logbook = await openSqliteLogbook(path);
+    const writer = await logbook.startSession({ unitSerial: 'RW-0144', design: chargerDesign(), operator: 'bench 3', bench: 'bench 3 at the window' });
+    const row = await writer.close();
+    expect(row.bench).toBe('bench 3 at the window');
+    expect(row.sharedAt).toBeNull();
+    expect((await logbook.archiveSession(row.id)).session.record.bench).toBe('bench 3 at the window');
+    await logbook.close();
+  });
+
+  it('leaves the bench out of the archive of a session recorded before benches were named (its hash stays)', async () => {
+    const path = folder.file('unnamed.sqlite');
+    const logbook = await openSqliteLogbook(path);
+    const writer = await logbook.startSession({ unitSerial: 'RW-0145', design: chargerDesign(), operator: 'bench 3' });
+    const row = await writer.close();
+    const before = await logbook.sessionContentHash(row.id);
+    await logbook.close();
+    const db = openLogbookDatabase(path);
+    db.prepare('UPDATE sessions SET bench = NULL WHERE id = ?').run(row.id);
+    db.close();
+    const again = await openSqliteLogbook(path);
+    const archived = await again.archiveSession(row.id);
+    expect(Object.keys(archived.session.record)).not.toContain('bench');
+    expect(await again.sessionContentHash(row.id)).not.toBe(before);
+    expect((await again.listSessions())[0].bench).toBeNull();
+    await again.close();
+  });
+
+  it('brings a logbook of the schema before (3) up to date, telling sign-offs from sessions closed without one', async () => {
+    // A logbook as schema 3 wrote it: a sign-off was a plain "closed" with the sign-off step among the recorded
+    // steps, whatever their verdicts, and a summary line in the notes.
+    const path = folder.file('third.sqlite');
+    const old = new Database(path);
+    old.pragma(`application_id = ${logbookApplicationId}`);
+    for (const migration of migrations.slice(0, 3)) old.exec(migration);
+    old.pragma('user_version = 3');
     const step = (name: string, verdict: string | null, readings: Array<[string, string | null]> = []) => ({
       step: name, status: 'done', verdict, cycles: 50, note: null,
       readings: readings.map(([label, readingVerdict]) => ({ key: label, label, unit: 'deg', value: 9, expected: 10, low: 8, high: null, verdict: readingVerdict, note: null })),

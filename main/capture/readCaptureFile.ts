@@ -12,6 +12,8 @@ import type { ComtradeConfig } from '../../app/formats/comtradeConfig';
 import { createComtradeDataReader } from '../../app/formats/comtradeDataReader';
 import { createComtradeCffReader } from '../../app/formats/comtradeCffReader';
 import { assertFileExists, captureKindOf, comtradePartner } from './captureFiles';
+import { CaptureCancelled, type OpenedCapture } from './openedCapture';
+import { openParallelCsv } from './parallelCsv';
 
 export interface ReadCaptureOptions extends CsvDialectOptions {
   /** Sample rate for a CSV without a time column (the command line's --rate). */
@@ -27,24 +29,20 @@ export interface ReadCaptureOptions extends CsvDialectOptions {
   onProgress?: (bytesRead: number, totalBytes: number) => void;
   /** Stops the reading: the blocks end with a CaptureCancelled error. */
   signal?: AbortSignal;
+  /**
+   * Parse a CSV on parser threads (main/capture/parallelCsv.ts): true, false, or by size (default: files of
+   * 32 MiB and more, where starting the threads pays).
+   */
+  parallel?: boolean;
+  /** Parser threads and bytes per run of lines, for the parallel path (tests use small runs). */
+  threads?: number;
+  parallelChunkBytes?: number;
 }
 
-/** The reading was stopped on purpose (a Cancel button, a closed screen): not a fault of the file. */
-export class CaptureCancelled extends Error {
-  constructor(path: string) {
-    super(`reading ${path} was cancelled`);
-    this.name = 'CaptureCancelled';
-  }
-}
+export { CaptureCancelled, type OpenedCapture } from './openedCapture';
 
-/** A capture opened for reading: its blocks, and how it is read once that is known. */
-export interface OpenedCapture {
-  blocks: AsyncGenerator<SampleBlock>;
-  /** One line: columns or channels, units, timing, roles (null before the first lines are read). */
-  readAs(): string | null;
-  /** Bytes of the data file (the .dat of a COMTRADE pair). */
-  totalBytes: number;
-}
+/** CSV files from this size on are parsed on threads unless told otherwise. */
+export const parallelCsvFromBytes = 32 << 20;
 
 /** A .cfg is a few kilobytes; anything far bigger is the wrong file. */
 const maxConfigBytes = 4 << 20;
@@ -102,6 +100,10 @@ export async function openCaptureFile(path: string, options: ReadCaptureOptions 
   let reader: CaptureReader;
   let dataPath = path;
   if (kind === 'csv') {
+    const totalBytes = await byteSize(path);
+    if (options.parallel ?? totalBytes >= parallelCsvFromBytes) {
+      return openParallelCsv(path, totalBytes, { ...options, chunkBytes: options.parallelChunkBytes });
+    }
     reader = createCsvReader({ ...options, source: path });
   } else if (kind === 'comtrade-single') {
     reader = createComtradeCffReader({ channelMap: options.channelMap, defaultMap: options.defaultMap, blockSamples: options.blockSamples, source: path });

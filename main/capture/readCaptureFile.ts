@@ -1,16 +1,17 @@
 import { createReadStream } from 'node:fs';
-import { readFile, stat } from 'node:fs/promises';
+import { open, readFile, stat } from 'node:fs/promises';
 import { extname } from 'node:path';
 import { InputError } from '../../app/errors';
 import type { SampleBlock } from '../../app/capture/samples';
 import type { ChannelMap } from '../../app/capture/channelMap';
 import type { CsvDialectOptions } from '../../app/formats/csvSniff';
 import type { CaptureReader } from '../../app/formats/captureReader';
-import { createCsvReader } from '../../app/formats/csvReader';
+import { createCsvReader, csvSniffBytes, layoutFromStart } from '../../app/formats/csvReader';
+import { mapComtradeChannels } from '../../app/formats/comtradeChannelMap';
 import { parseComtradeConfig } from '../../app/formats/comtradeConfigParse';
 import type { ComtradeConfig } from '../../app/formats/comtradeConfig';
 import { createComtradeDataReader } from '../../app/formats/comtradeDataReader';
-import { createComtradeCffReader } from '../../app/formats/comtradeCffReader';
+import { comtradeCffSections, createComtradeCffReader } from '../../app/formats/comtradeCffReader';
 import { assertFileExists, captureKindOf, comtradePartner } from './captureFiles';
 import { CaptureCancelled, type OpenedCapture } from './openedCapture';
 import { openParallelCsv } from './parallelCsv';
@@ -119,6 +120,30 @@ export async function openCaptureFile(path: string, options: ReadCaptureOptions 
   }
   const totalBytes = await byteSize(dataPath);
   return { blocks: streamThrough(dataPath, reader, options, totalBytes), readAs: () => reader.readAs(), totalBytes };
+}
+
+/**
+ * Checks that a capture can be read as asked (its layout, its channels for the roles) from its start, without
+ * reading it through: a refusal comes before anything is measured. Throws the reader's InputError.
+ */
+export async function checkCaptureFile(path: string, options: ReadCaptureOptions = {}): Promise<void> {
+  const kind = captureKindOf(path);
+  await assertFileExists(path);
+  if (kind === 'comtrade') return void (await openCaptureFile(path, options));
+  const handle = await open(path, 'r');
+  try {
+    const { size } = await handle.stat();
+    const head = new Uint8Array(Math.min(size, kind === 'csv' ? csvSniffBytes : 1 << 20));
+    const { bytesRead } = await handle.read(head, 0, head.length, 0);
+    if (kind === 'csv') {
+      layoutFromStart(head.subarray(0, bytesRead), bytesRead >= size, options, path);
+    } else {
+      const sections = comtradeCffSections(head.subarray(0, bytesRead), path);
+      mapComtradeChannels(parseComtradeConfig(sections.configText, `${path} (CFG section)`), options.channelMap, path, options.defaultMap);
+    }
+  } finally {
+    await handle.close();
+  }
 }
 
 /** The blocks of a capture file (see openCaptureFile). */

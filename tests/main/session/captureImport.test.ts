@@ -15,6 +15,7 @@ import { synthesiseCapture } from '../../../app/sim/virtualBoard';
 import type { BenchContext } from '../../../main/session/benchContext';
 import { demoDefaults } from '../../../main/session/commissioningDemo';
 import { openTestBench } from './benchClientKit';
+import { fixtureBytes } from '../../app/formats/fixtureBytes';
 
 let folder = '';
 let context: BenchContext;
@@ -124,6 +125,38 @@ describe('a capture file on the Bench, through the contract', () => {
     await until(() => progress.some((event) => event.state === 'cancelled'));
     expect(progress.some((event) => event.state === 'done')).toBe(false);
     expect((await client.benchState()).link.state).toBe('disconnected');
+  });
+
+  it('looks at COMTRADE records (a .cff, a .cfg with its .dat), digital channels included', async () => {
+    const cff = await upload('recorder-rw0388-multirate-2013.cff', fixtureBytes('recorder-rw0388-multirate-2013.cff'));
+    const single = await client.inspectCapture({ uploadId: cff, fields: { channelMap: 'sync=VA,ramp=IB,gate=ST_1' } });
+    expect(single.format).toBe('comtrade');
+    expect(single.channels.map((channel) => channel.reference)).toEqual(['A1', 'A2', 'A3', 'D1', 'D2', 'D3']);
+    // VA: a = 0.01 V on 100..400 then -100..-300 (fixtures/captures/README.md); ST_1 is 0/1.
+    expect(single.channels[0].minV).toBeCloseTo(-3, 9);
+    expect(single.channels[0].maxV).toBeCloseTo(4, 9);
+    expect(single.channels[3]).toMatchObject({ kind: 'digital', minV: 0, maxV: 1 });
+    expect(single.roles).toEqual({ sync: { reference: 'A1', scale: 1, invert: false }, ramp: { reference: 'A2', scale: 1, invert: false }, gate: { reference: 'D1', scale: 1, invert: false }, control: null });
+    expect(single.readAs).toContain('2 rates (4 kS/s to sample 4, 2 kS/s to the end)');
+
+    const { uploadId, pieceBytes } = await client.captureUploadStart({
+      files: [
+        { name: 'rw0391.dat', sizeBytes: fixtureBytes('recorder-rw0391-binary-multirate.dat').length },
+        { name: 'rw0391.cfg', sizeBytes: fixtureBytes('recorder-rw0391-binary-multirate.cfg').length },
+      ],
+    });
+    expect(pieceBytes).toBeGreaterThan(0);
+    for (const [fileIndex, name] of ['recorder-rw0391-binary-multirate.dat', 'recorder-rw0391-binary-multirate.cfg'].entries()) {
+      await client.captureUploadChunk({ uploadId, fileIndex, offset: 0, contentBase64: Buffer.from(fixtureBytes(name)).toString('base64') });
+    }
+    const pair = await client.inspectCapture({ uploadId, fields: { channelMap: 'sync=U1,ramp=U2:x10,gate=ST_1:invert' } });
+    expect(pair.problem).toBeNull();
+    expect(pair.fileNames).toEqual(['rw0391.dat', 'rw0391.cfg']);
+    expect(pair.roles?.ramp).toEqual({ reference: 'A2', scale: 10, invert: false });
+    expect(pair.channelMap).toBe('sync=U1,ramp=U2:x10,gate=ST_1:invert');
+    const unmapped = await client.inspectCapture({ uploadId });
+    expect(unmapped.problem?.field).toBe('channelMap');
+    expect(unmapped.problem?.message).toContain('no channel for sync, ramp, gate; the record has analog 1 "U1", analog 2 "U2", digital 1 "ST_1"');
   });
 
   it('refuses what cannot be a capture, naming what is wrong', async () => {

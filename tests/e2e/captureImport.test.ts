@@ -12,7 +12,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseBoardDesign } from '../../app/board/parseBoardDesign';
 import { synthesiseCapture } from '../../app/sim/virtualBoard';
-import { collectPageErrors, launchChromium, repoRoot, screenshot, startDemoServer, type DemoServer } from './browserMode';
+import { openScreens, repoRoot, screenshot, type DemoServer } from './browserMode';
 
 let server: DemoServer;
 let browser: Browser;
@@ -37,12 +37,7 @@ beforeAll(async () => {
   folder = mkdtempSync(join(tmpdir(), 'rampwright-e2e-capture-'));
   capturePath = join(folder, 'bench3-unit42.csv');
   writeFileSync(capturePath, instrumentCsv(4, 21));
-  server = await startDemoServer({ speed: 1 });
-  browser = await launchChromium();
-  page = await browser.newPage({ viewport: { width: 1440, height: 1000 }, deviceScaleFactor: 1 });
-  pageErrors = collectPageErrors(page);
-  await page.goto(server.url);
-  await page.locator('[data-testid="setup-design"] option').first().waitFor({ state: 'attached' });
+  ({ server, browser, page, pageErrors } = await openScreens({ viewport: { width: 1440, height: 1000 } }));
 }, 90_000);
 
 afterAll(async () => {

@@ -7,7 +7,7 @@
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { predictRamp } from '../../../app/board/rampModel';
 import { BenchCallError, type BenchClient, type CaptureProgress } from '../../../app/contract';
 import { lowCapacitorFactor } from '../../../app/sim/fittedBoard';
@@ -61,13 +61,11 @@ async function refusal(promise: Promise<unknown>): Promise<BenchCallError> {
   return error as BenchCallError;
 }
 
-async function until(condition: () => boolean, timeoutMs = 30_000): Promise<void> {
-  const started = Date.now();
-  while (!condition()) {
-    if (Date.now() - started > timeoutMs) throw new Error('timed out');
-    await new Promise((done) => setTimeout(done, 20));
-  }
-}
+/** Waits for a condition the service's events make true (vitest's waitFor, polled every 20 ms). */
+const until = (condition: () => boolean, timeout = 30_000): Promise<void> =>
+  vi.waitFor(() => {
+    if (!condition()) throw new Error('not yet');
+  }, { timeout, interval: 20 });
 
 describe('a capture file on the Bench, through the contract', () => {
   it('is looked at, read with the roles given through the steps, and its roles remembered with the design', async () => {

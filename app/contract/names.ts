@@ -32,6 +32,7 @@ export const benchCallNames = [
   'compareSessions',
   'drift',
   'fleet',
+  'sharing',
   'exportFormats',
   'exportSession',
 ] as const;

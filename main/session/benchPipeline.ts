@@ -53,6 +53,8 @@ export const noExtremes: AlphaExtremes = { alphaMinDeg: null, alphaMaxDeg: null,
 
 export interface BenchPipeline {
   pushLines(lines: readonly string[]): PipelineStep;
+  /** Blocks from a capture file, measured as the decoder's would be. */
+  pushBlocks(blocks: readonly SampleBlock[]): PipelineStep;
   fold(): FoldCycle[];
   /** Readings of the last complete window, null before the first. */
   lastWindow(): CaptureReadings | null;
@@ -197,6 +199,14 @@ export function createBenchPipeline(initialDesign: BoardDesign, options: BenchPi
             step.greeting = event.greeting;
           }
         }
+      }
+      return step;
+    },
+    pushBlocks(blocks) {
+      const step: PipelineStep = { blocks: [], cycles: [], problems: [], window: null, greeting: null };
+      for (const block of blocks) {
+        step.blocks.push(block);
+        pushBlock(block, step);
       }
       return step;
     },

@@ -211,6 +211,11 @@ export const benchStateSchema = z.object({
    * starts: what the Bench screen shows instead of live verdicts once no session is open.
    */
   lastSession: z.object({ row: sessionRowSchema, steps: z.array(stepReportSchema) }).nullable(),
+  /**
+   * Counts the service's state changes (a step recorded, a session opened or closed...). A live frame carries the
+   * count it was made under: a screen lays a frame's step reports over this state only when its count is not older.
+   */
+  stateSerial: z.number().int().nonnegative(),
 });
 export type BenchState = z.infer<typeof benchStateSchema>;
 

@@ -70,6 +70,8 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
   let current: Current | null = null;
   let session: BenchSession | null = null;
   let held = false;
+  /** Counts state changes; live frames carry it so a screen can tell a frame from before a change (see the contract). */
+  let stateSerial = 0;
   let lastSession: BenchState['lastSession'] = null;
   /** Keeps the session just closed, with its steps as recorded, for the Bench screen's summary. */
   const keepClosed = (closed: BenchSession, row: SessionRow): void => {
@@ -89,9 +91,13 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       recheckNeeded: session?.recheckNeeded ?? false,
       signOffGate: signOffGateOf(session?.recorded ?? {}),
       lastSession,
+      stateSerial,
     };
   };
-  const emitState = () => hub.emit('state', stateOf());
+  const emitState = () => {
+    stateSerial += 1;
+    hub.emit('state', stateOf());
+  };
 
   /** Transfer points since the last live frame: sent in one batch with it (also while the plot is held). */
   let pendingTransfer: TransferPoint[] = [];
@@ -103,7 +109,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       }
       if (!current || held) return;
       const inputs = stepInputsOf(session, session?.design ?? current.design, current.link.pipeline);
-      const frame: EventData<'live'> = { sessionId: session?.open.id ?? null, t: current.link.pipeline.newestS(), fold: current.link.pipeline.fold(), steps: stepReports(inputs), link: current.link.health() };
+      const frame: EventData<'live'> = { sessionId: session?.open.id ?? null, t: current.link.pipeline.newestS(), fold: current.link.pipeline.fold(), steps: stepReports(inputs), link: current.link.health(), stateSerial };
       hub.emit('live', frame);
     },
     options.liveIntervalMs ?? 50,

@@ -51,11 +51,6 @@ export class BenchScreen implements Screen {
   private readonly lastSession: LastSessionPanel;
   private readonly noSession = h('section', { class: 'panel muted', 'data-testid': 'no-session-steps' }, 'No session open: the commissioning steps and their verdicts appear once a session is started for a unit.');
   private lastFrame: LiveFrame | null = null;
-  /**
-   * False from a state change (a step recorded, a session opened or closed) until the next live frame: a frame from
-   * before it must not lay older step reports over the newer state, even for the moment until the next one.
-   */
-  private frameAfterState = false;
   /** Readings text is redrawn a few times a second, the fold every frame: numbers that flicker cannot be read. */
   private lastTextRenderMs = 0;
   private hadSession = false;
@@ -102,10 +97,7 @@ export class BenchScreen implements Screen {
       ),
     );
     this.element = h('div', {}, h('h1', { class: 'screen-title visually-hidden' }, 'Bench'), this.setup.element, this.sessionArea);
-    context.store.on('state', () => {
-      this.frameAfterState = false;
-      this.render();
-    });
+    context.store.on('state', () => this.render());
     context.store.on('step', () => this.render());
     context.store.on('live', (frame) => this.onLive(frame as LiveFrame));
     context.store.on('health', (health) => this.renderLink(health as LinkHealth));
@@ -225,7 +217,6 @@ export class BenchScreen implements Screen {
 
   private onLive(frame: LiveFrame): void {
     this.lastFrame = frame;
-    this.frameAfterState = true;
     if (this.element.hidden) return; // not on screen: keep the frame, skip the drawing
     this.drawFold(frame);
     const nowMs = performance.now();
@@ -281,7 +272,7 @@ export class BenchScreen implements Screen {
 
   private renderSteps(): void {
     const state = this.context.store.state;
-    const rows = mergeSteps(state?.steps ?? [], this.frameAfterState ? (this.lastFrame?.steps ?? []) : []);
+    const rows = mergeSteps(state?.steps ?? [], this.context.store.liveSteps());
     this.steps.render(rows, this.context.store.selectedStep, !!state?.session, state?.recheckNeeded ?? false);
   }
 

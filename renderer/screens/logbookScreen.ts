@@ -26,7 +26,7 @@ export class LogbookScreen implements Screen {
   private readonly fromInput = h('input', { type: 'date', 'data-testid': 'filter-from' });
   private readonly toInput = h('input', { type: 'date', 'data-testid': 'filter-to' });
   private readonly unitsList = h('ul', { class: 'stack plain-list', 'data-testid': 'units-list' });
-  private readonly sessionsTable = h('div', { 'data-testid': 'sessions' });
+  private readonly sessionsTable = h('div', { class: 'table-scroll', 'data-testid': 'sessions' });
   private readonly compareButton = h('button', { class: 'primary', type: 'button', disabled: true, 'data-testid': 'compare' }, 'Compare the two ticked sessions');
   private readonly detail = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Session', 'data-testid': 'session-detail' });
   private readonly comparison = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Two sessions side by side', 'data-testid': 'comparison' });

@@ -107,7 +107,7 @@ export class TransferScreen implements Screen {
 
   /** The step's verdict and note, redrawn only when they change (a live frame arrives twenty times a second). */
   private renderStepStatus(): void {
-    const report = this.context.store.live?.steps.find((step) => step.step === 'transfer') ?? this.context.store.state?.steps.find((step) => step.step === 'transfer');
+    const report = this.context.store.liveSteps().find((step) => step.step === 'transfer') ?? this.context.store.state?.steps.find((step) => step.step === 'transfer');
     const key = report ? `${report.status}/${report.verdict}/${report.note ?? ''}` : '';
     if (key === this.lastStatusKey) return;
     this.lastStatusKey = key;
@@ -174,7 +174,7 @@ export class TransferScreen implements Screen {
       x.min = range.fromV;
       x.max = range.toV;
     }
-    const limits = this.context.store.live?.steps.find((step) => step.step === 'limits')?.readings ?? [];
+    const limits = this.context.store.liveSteps().find((step) => step.step === 'limits')?.readings ?? [];
     const alphaLimit = (key: string) => limits.find((reading) => reading.key === key)?.expected ?? null;
     const minDeg = alphaLimit('alphaMinDeg');
     const maxDeg = alphaLimit('alphaMaxDeg');

@@ -4,7 +4,7 @@
  */
 import type { BenchClient } from '../../app/contract/index';
 import type { LiveFrame } from '../../app/contract/bench-events';
-import type { CommissioningStep, LinkHealth, TransferPoint } from '../../app/contract/readings';
+import type { CommissioningStep, LinkHealth, StepReport, TransferPoint } from '../../app/contract/readings';
 import type { BenchState } from '../../app/contract/records';
 import type { CaptureProgress } from '../../app/contract/captureImport';
 
@@ -62,6 +62,16 @@ export class BenchStore {
       this.captureProgress = progress;
       this.emit('captureProgress', progress);
     });
+  }
+
+  /**
+   * The newest live frame's step reports, or none when that frame was made before the newest state change (a step
+   * recorded, a session opened or closed): frames and state travel apart and may arrive in either order, and an
+   * older frame must not lay its step reports over the newer state.
+   */
+  liveSteps(): StepReport[] {
+    const live = this.live;
+    return live && this.state && live.stateSerial >= this.state.stateSerial ? live.steps : [];
   }
 
   selectStep(step: CommissioningStep): void {

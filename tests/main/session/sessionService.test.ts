@@ -109,6 +109,37 @@ describe('session service on the virtual board', () => {
     expect(frame.fold[0].sync.deg.length).toBeLessThanOrEqual(480);
   });
 
+  it('numbers its state changes so a screen can tell a live frame made before a recorded step from one made after', async () => {
+    const { design } = await client.getDesign({ name: demoDefaults.designName });
+    await client.startSession({ unitSerial: 'TEST-0009', designName: design.name, operator: 'Tess' });
+    await client.connect({ kind: 'virtual', designName: design.name, faults: [], seed: 5 });
+    pump(1.5);
+    await new Promise((resolve) => setTimeout(resolve, 100));
+    const before = await client.benchState();
+    const framesBefore = liveFrames.length;
+    expect(framesBefore).toBeGreaterThan(0);
+    expect(liveFrames[framesBefore - 1].stateSerial).toBe(before.stateSerial);
+    const signOffCard = (steps: LiveFrame['steps']) => steps.find((step) => step.step === 'sign-off')!.readings.find((reading) => reading.key === 'syncVerdict')!.note;
+    expect(signOffCard(liveFrames[framesBefore - 1].steps)).toBe('not recorded');
+
+    await client.checkStep({ step: 'sync' });
+    const after = await client.benchState();
+    // The recording is a state change: a frame carrying the older count is older than this state and shows the
+    // sync step not recorded on the sign-off card, which the screen must not lay over the state.
+    expect(after.stateSerial).toBeGreaterThan(before.stateSerial);
+    expect(signOffCard(after.steps)).toBe('recorded');
+    pump(0.5);
+    await new Promise((resolve) => setTimeout(resolve, 100));
+    const newer = liveFrames.slice(framesBefore);
+    expect(newer.length).toBeGreaterThan(0);
+    for (const frame of newer) {
+      expect(frame.stateSerial).toBe(after.stateSerial);
+      expect(signOffCard(frame.steps)).toBe('recorded');
+    }
+    // Asking for the state changes nothing.
+    expect((await client.benchState()).stateSerial).toBe(after.stateSerial);
+  });
+
   it('fits the first trim suggestion to the virtual board and the re-checked ramp lands on target', async () => {
     const { design } = await client.getDesign({ name: demoDefaults.designName });
     await client.startSession({ unitSerial: 'TEST-0002', designName: design.name, operator: 'Tess' });

@@ -26,7 +26,7 @@ export function pushReportLines(report: PushReport): string[] {
   if (already.length > 0) lines.push(`Already in the shared logbook (noted, not copied again): ${already.map((session) => session.sessionId).join(', ')}.`);
   for (const retry of report.retried) {
     const what = retry.sessionId === null ? 'opening the shared logbook' : `session ${retry.sessionId}`;
-    lines.push(`Retried ${what} ${retry.attempts} time${retry.attempts === 1 ? '' : 's'} after a lost connection: ${retry.reasons.join('; ')}`);
+    lines.push(`Retried ${what} ${retry.attempts} time${retry.attempts === 1 ? '' : 's'} after the connection was lost or refused (${retry.reasons.join('; ')}).`);
   }
   for (const session of refused) lines.push(`Refused: session ${session.sessionId}: ${session.reason}`);
   if (report.gaveUp) lines.push('The shared logbook stayed out of reach: the sessions not shared stay in this logbook for the next push.');

@@ -10,22 +10,33 @@ import { createLogbookOverEngine, type LogbookEngine } from './logbookOverEngine
 import { createBatchingWriter } from './logbookWriter';
 import { openLogbookDatabase, type OpenLogbookDatabaseOptions, type SqliteDatabase } from './openDatabase';
 import { recoverInterruptedSessions } from './sessionRecovery';
-import { runSync, type SqlProgram, type SqlStep } from './sqlProgram';
+import { runSync, type SqlProgram, type SqlStep, type SqlValue } from './sqlProgram';
 
-/** Prepared statements by SQL text; cleared when it grows past this (multi-row inserts come in many sizes). */
+const bindable = (value: SqlValue) => (value instanceof Uint8Array && !Buffer.isBuffer(value) ? Buffer.from(value.buffer, value.byteOffset, value.byteLength) : value);
+
+/** Prepared statements by SQL text; cleared when it grows past this (a safety bound: the logbook's SQL is a few dozen). */
 const statementCacheLimit = 400;
 
 export function sqliteExecutor(db: SqliteDatabase): (step: SqlStep) => unknown {
   const statements = new Map<string, Database.Statement>();
-  return (step) => {
-    if (step.mode === 'lock') return undefined; // SQLite's write transactions are serial already
-    let statement = statements.get(step.sql);
+  const prepared = (sql: string): Database.Statement => {
+    let statement = statements.get(sql);
     if (!statement) {
       if (statements.size >= statementCacheLimit) statements.clear();
-      statement = db.prepare(step.sql);
-      statements.set(step.sql, statement);
+      statement = db.prepare(sql);
+      statements.set(sql, statement);
     }
-    const parameters = step.parameters.map((value) => (value instanceof Uint8Array && !Buffer.isBuffer(value) ? Buffer.from(value.buffer, value.byteOffset, value.byteLength) : value));
+    return statement;
+  };
+  return (step) => {
+    if (step.mode === 'lock') return undefined; // SQLite's write transactions are serial already
+    if (step.mode === 'insert') {
+      const insert = prepared(`INSERT INTO ${step.table} (${step.columns.join(', ')}) VALUES (${step.columns.map(() => '?').join(', ')})`);
+      for (const row of step.rows) insert.run(...row.map(bindable));
+      return undefined;
+    }
+    const statement = prepared(step.sql);
+    const parameters = step.parameters.map(bindable);
     if (step.mode === 'all') return statement.all(...parameters);
     if (step.mode === 'get') return statement.get(...parameters);
     statement.run(...parameters);

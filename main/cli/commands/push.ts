@@ -34,6 +34,30 @@ export function pushReportLines(report: PushReport): string[] {
   return lines;
 }
 
+/**
+ * Where a session-recording command (record, demo) writes and pushes: always a logbook file on this bench; given a
+ * shared logbook's address as --db, the file in the data folder, pushed to that address afterwards.
+ */
+export function localFirst(db: string | undefined, pushTo: string | undefined, defaultPath: string): { db: string; pushTo: string | undefined } {
+  if (db !== undefined && isPostgresLocation(db)) {
+    if (pushTo !== undefined) throw new InputError('give this bench\'s logbook file with --db and the shared logbook with --push-to', '--db');
+    process.stderr.write(`Recording into this bench's logbook ${defaultPath}, then pushing to the shared logbook.\n`);
+    return { db: defaultPath, pushTo: db };
+  }
+  if (pushTo !== undefined && !isPostgresLocation(pushTo)) throw new InputError('give the shared logbook as a postgres:// address', '--push-to');
+  return { db: db ?? defaultPath, pushTo };
+}
+
+/** Pushes right after a session, trying for a few seconds only: the session is safe in the file already. */
+export async function pushAfterSession(db: string, pushTo: string): Promise<string[]> {
+  const local = await openLogbook(db);
+  try {
+    return pushReportLines(await pushSessions(local, pushTo, () => openLogbook(pushTo), { retryForMs: 10_000 }));
+  } finally {
+    await local.close();
+  }
+}
+
 export function registerPushCommand(program: Command): void {
   program
     .command('push')

@@ -6,6 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { benchSummary } from '../../../app/record/benchSummary';
+import { openBenchContext } from '../../../main/session/benchContext';
 import { pushSessions } from '../../../main/share/pushSessions';
 import { openLogbook } from '../../../main/store/openLogbook';
 import { startStoreKit, type StoreKit } from '../../helpers/logbookStores';
@@ -74,6 +75,22 @@ describe('the shared logbook across benches', () => {
     // LN-4001 counts by its latest session (bench 2), so bench 2 has both units.
     expect(html).toMatch(/<tr><td>bench 2<\/td><td>2<\/td>/);
     expect(html).not.toMatch(/<tr><td>bench 1<\/td><td>1<\/td>/);
+  });
+});
+
+describe('the screens on the shared logbook', () => {
+  it('show it, and refuse to record into it: a live session goes to a bench\'s own logbook first', async () => {
+    const context = await openBenchContext({ logbookPath: shared, virtualPaced: false });
+    try {
+      const listed = await context.dispatch('listSessions', {});
+      expect(listed.ok && (listed.result as { sessions: Array<{ bench: string }> }).sessions.map((row) => row.bench)).toEqual(['bench 1', 'bench 2', 'bench 2']);
+      const started = await context.dispatch('startSession', { unitSerial: 'LN-4003', designName: 'Charger firing board CH-50H (demo)', operator: 'reviewer' });
+      expect(started.ok).toBe(false);
+      expect(!started.ok && started.error.code).toBe('not-available');
+      expect(!started.ok && started.error.message).toMatch(/records sessions into its own logbook file and pushes them/);
+    } finally {
+      await context.close();
+    }
   });
 });
 

@@ -41,7 +41,7 @@ export function registerServeCommand(program: Command): void {
     .option('--speed <factor>', 'how much faster than real time the demo board runs', '1')
     .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address (default: logbook.sqlite in your data folder)')
     .option('--bench <name>', 'this bench\'s name on its sessions (default: RAMPWRIGHT_BENCH or the computer\'s name)')
-    .option('--push-to <address>', 'push finished sessions to this shared logbook (postgres://...) as the bench goes')
+    .option('--push-to <address>', 'push finished sessions to this shared logbook (postgres://...) as the bench goes (default: the RAMPWRIGHT_PUSH_TO setting)', process.env.RAMPWRIGHT_PUSH_TO?.trim() || undefined)
     .option('--push-every <seconds>', 'how often to push with --push-to', '10')
     .action(async (options: ServeOptions) => {
       const pushEveryS = Number(options.pushEvery);

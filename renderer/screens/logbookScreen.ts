@@ -1,7 +1,10 @@
 /**
  * Logbook: units and sessions with filters; one session's readings, transfer curve, per-cycle plot, trims and link
- * events; two sessions side by side; a unit's drift across its sessions, and its board design's fleet.
+ * events; two sessions side by side; a unit's drift across its sessions, and its board design's fleet. Each session
+ * names the bench that did it (a shared logbook holds a whole line's); a bench that pushes to a shared logbook shows
+ * which of its sessions are not yet shared. Times are shown in local time; the logbook keeps UTC.
  */
+import type { CallResult } from '../../app/contract';
 import { signOffExceptionText } from '../../app/bench/signOffGate';
 import { outcomeWords, type SessionComparison, type SessionDetail, type SessionOutcome, type SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
@@ -14,6 +17,7 @@ import { stepTitles, wordedValue } from '../shaping/stepView';
 import { fitLinePoints, toPoints, transferRangeV } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 import { FleetPanel } from './fleetPanel';
+import { localTimeNote, sharedCell, sharingStatus } from './sharingView';
 
 type LineChart = Chart<'line', { x: number; y: number }[]>;
 
@@ -27,6 +31,8 @@ export class LogbookScreen implements Screen {
   private readonly toInput = h('input', { type: 'date', 'data-testid': 'filter-to' });
   private readonly unitsList = h('ul', { class: 'stack plain-list', 'data-testid': 'units-list' });
   private readonly sessionsTable = h('div', { class: 'table-scroll', 'data-testid': 'sessions' });
+  private readonly sharingLine = h('div', { class: 'sharing', 'data-testid': 'sharing', hidden: true });
+  private sharing: CallResult<'sharing'> | null = null;
   private readonly compareButton = h('button', { class: 'primary', type: 'button', disabled: true, 'data-testid': 'compare' }, 'Compare the two ticked sessions');
   private readonly detail = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Session', 'data-testid': 'session-detail' });
   private readonly comparison = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Two sessions side by side', 'data-testid': 'comparison' });
@@ -61,7 +67,7 @@ export class LogbookScreen implements Screen {
           h('section', { class: 'panel stack', 'aria-labelledby': 'filters-title' }, h('h2', { id: 'filters-title' }, 'Filters'), field('Unit', this.unitSelect), field('Board design', this.designSelect), field('From', this.fromInput), field('To', this.toInput)),
           h('section', { class: 'panel stack', 'aria-labelledby': 'units-title' }, h('h2', { id: 'units-title' }, 'Units'), this.unitsList),
         ),
-        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sessionsTable, h('div', { class: 'row' }, this.compareButton, h('span', { class: 'muted' }, 'Tick two sessions to compare them.'))), this.detail, this.comparison, this.drift, this.fleet.element),
+        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sharingLine, this.sessionsTable, h('div', { class: 'row' }, this.compareButton, h('span', { class: 'muted' }, 'Tick two sessions to compare them.')), h('p', { class: 'muted', 'data-testid': 'time-note' }, localTimeNote())), this.detail, this.comparison, this.drift, this.fleet.element),
       ),
     );
   }
@@ -107,6 +113,8 @@ export class LogbookScreen implements Screen {
     );
     if (!result) return;
     this.sessions = result.sessions;
+    this.sharing = await this.context.client.sharing().catch(() => null);
+    this.renderSharing();
     this.ticked = this.ticked.filter((id) => this.sessions.some((session) => session.id === id));
     this.renderSessions();
     const unitSerial = this.unitSelect.value;
@@ -120,18 +128,25 @@ export class LogbookScreen implements Screen {
     }
   }
 
+  private renderSharing(): void {
+    const parts = sharingStatus(this.sharing);
+    this.sharingLine.hidden = parts === null;
+    if (parts) fill(this.sharingLine, parts);
+  }
+
   private renderSessions(): void {
     this.compareButton.disabled = this.ticked.length !== 2;
     if (this.sessions.length === 0) {
       fill(this.sessionsTable, h('p', { class: 'empty' }, 'No sessions match these filters.'));
       return;
     }
+    const pushing = this.sharing?.target != null;
     fill(
       this.sessionsTable,
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Design', 'Operator', 'Outcome', 'Started', 'Ramp peak (as recorded)', 'α range (as recorded)', 'Cycles', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Bench', 'Design', 'Operator', 'Outcome', 'Started', ...(pushing ? ['Shared'] : []), 'Ramp peak (as recorded)', 'α range (as recorded)', 'Cycles', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
         h(
           'tbody',
           {},
@@ -150,10 +165,12 @@ export class LogbookScreen implements Screen {
               h('td', {}, tick),
               h('td', {}, open),
               h('td', {}, session.unit),
+              h('td', { class: 'nowrap', 'data-testid': `bench-${session.id}` }, session.bench ?? '–'),
               h('td', {}, `${session.designName} v${session.designVersion}`),
               h('td', {}, session.operator),
               h('td', { 'data-outcome': session.outcome }, outcomeBadge(session.outcome)),
               h('td', {}, new Date(session.startedAt).toLocaleString()),
+              pushing ? h('td', { class: 'nowrap', 'data-testid': `shared-${session.id}` }, sharedCell(session)) : null,
               h('td', { class: 'number', 'data-column': 'ramp-peak' }, formatSi(session.rampPeakV, 'V')),
               h('td', { class: 'number' }, session.alphaMinDeg === null && session.alphaMaxDeg === null ? '–' : `${formatFixed(session.alphaMinDeg, '°')} to ${formatFixed(session.alphaMaxDeg, '°')}`),
               h('td', { class: 'number' }, session.cycles),
@@ -206,7 +223,8 @@ export class LogbookScreen implements Screen {
     fill(
       this.detail,
       h('h2', {}, `Session ${row.id}: unit ${row.unit}`),
-      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.cycles} cycles`),
+      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.cycles} cycles`),
+      this.sharing?.target != null ? h('p', { 'data-testid': 'detail-shared' }, sharedCell(row)) : null,
       outcomePanel(row),
       detail.notes ? h('p', {}, detail.notes) : null,
       h('h3', {}, 'Readings'),
@@ -304,8 +322,8 @@ export class LogbookScreen implements Screen {
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Session', 'Date', 'Outcome', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'Firing jitter (held control)'].map((title) => h('th', { scope: 'col' }, title)))),
-        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', {}, outcomeBadge(point.outcome)), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaJitterDeg, '°', 2))))),
+        h('thead', {}, h('tr', {}, ['Session', 'Bench', 'Date', 'Outcome', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'Firing jitter (held control)'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, this.sessions.find((session) => session.id === point.sessionId)?.bench ?? '–'), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', {}, outcomeBadge(point.outcome)), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaJitterDeg, '°', 2))))),
       ),
       h('div', { class: 'plot small' }, canvas),
     );

@@ -26,11 +26,11 @@ const virtualFaults: readonly { id: string; label: string }[] = [
   ...boardFaultNames.map((id) => ({ id, label: faultLabels[id] })),
 ];
 
-function field(label: string, control: HTMLElement, hint?: string, wide = false): HTMLElement {
+function field(label: string, control: HTMLElement, hint?: string, width: 'normal' | 'wide' | 'full' = 'normal'): HTMLElement {
   const id = uniqueId('setup');
   control.id = id;
   // Choices with long names (a design and its version, a port with its maker) get two columns, so they show whole.
-  return h('label', { class: wide ? 'field wide' : 'field', for: id }, label, control, hint ? h('span', { class: 'muted' }, hint) : null);
+  return h('label', { class: width === 'normal' ? 'field' : `field ${width}`, for: id }, label, control, hint ? h('span', { class: 'muted' }, hint) : null);
 }
 
 export class BenchSetup {
@@ -53,7 +53,7 @@ export class BenchSetup {
     const form = h(
       'form',
       { class: 'stack', 'aria-label': 'Start a session', onsubmit: (event: Event) => { event.preventDefault(); void this.start(); } },
-      h('div', { class: 'form-grid wide-fields setup-fields' }, field('Board design', this.designSelect, undefined, true), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect, undefined, true)),
+      h('div', { class: 'form-grid wide-fields setup-fields' }, field('Board design', this.designSelect, undefined, 'wide'), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect, undefined, 'full')),
       this.faultField,
       this.capture.element,
       this.problem,

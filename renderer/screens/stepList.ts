@@ -119,7 +119,8 @@ function readingRow(reading: Reading): HTMLElement[] {
   const worded = wordedValue(reading);
   return [
     h('dt', {}, reading.label),
-    h('dd', { 'data-reading': reading.key }, h('strong', {}, worded ?? format(reading.value)), ' ', reading.verdict ? verdictBadge(reading.verdict) : null),
+    // Words that already say the measurement is missing ("not recorded") stand alone, without a second badge.
+    h('dd', { 'data-reading': reading.key }, h('strong', {}, worded ?? format(reading.value)), ' ', reading.verdict && !(worded !== null && reading.verdict === 'not-measured') ? verdictBadge(reading.verdict) : null),
     design ? h('div', { class: 'design' }, design) : null,
     // A diagnosis or what a limit is for, in words, when the reading is off or needs explaining; marked as an alarm
     // only for a reading beyond or near its limit, never for one not measured yet.

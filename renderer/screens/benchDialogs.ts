@@ -3,7 +3,7 @@
  * are missing or failing (the service refused the plain sign-off; the technician may sign off with exceptions and a
  * written reason, which the record prints), and closing a session without sign-off.
  */
-import { reasonMinimumCharacters, reasonProblem, signOffExceptionText } from '../../app/bench/signOffGate';
+import { reasonMinimumCharacters, reasonMinimumWords, reasonProblem, signOffExceptionText } from '../../app/bench/signOffGate';
 import type { SignOffException } from '../../app/contract/records';
 import { h, fill, uniqueId } from '../dom/h';
 
@@ -31,7 +31,7 @@ export function askExceptionsReason(exceptions: readonly SignOffException[], ref
     h('p', {}, 'This unit cannot be signed off as it stands. These steps stand in the way:'),
     h('ul', { class: 'exceptions', 'data-testid': 'sign-off-exceptions' }, exceptions.length > 0 ? exceptions.map((exception) => h('li', {}, signOffExceptionText(exception))) : h('li', {}, refusal)),
     h('p', { class: 'muted' }, 'Record the missing steps, or sign off with exceptions: the record then says "signed off with exceptions" in capitals, with these steps and your reason, for whoever reviews it.'),
-    h('label', { class: 'field', for: reasonId }, `Why is this unit signed off with these exceptions? (at least ${reasonMinimumCharacters} characters)`, reason),
+    h('label', { class: 'field', for: reasonId }, `Why is this unit signed off with these exceptions? (at least ${reasonMinimumWords} words and ${reasonMinimumCharacters} characters)`, reason),
     problem,
     h('div', { class: 'row' }, confirm, back),
   );

@@ -4,7 +4,7 @@
  * names the bench that did it (a shared logbook holds a whole line's); a bench that pushes to a shared logbook shows
  * which of its sessions are not yet shared. Times are shown in local time; the logbook keeps UTC.
  */
-import type { CallResult } from '../../app/contract';
+import type { CallPayload, CallResult } from '../../app/contract';
 import { signOffExceptionText } from '../../app/bench/signOffGate';
 import { outcomeWords, type SessionComparison, type SessionDetail, type SessionOutcome, type SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
@@ -33,6 +33,7 @@ export class LogbookScreen implements Screen {
   private readonly sessionsTable = h('div', { class: 'table-scroll', 'data-testid': 'sessions' });
   private readonly sharingLine = h('div', { class: 'sharing', 'data-testid': 'sharing', hidden: true });
   private sharing: CallResult<'sharing'> | null = null;
+  private sharingTimer: ReturnType<typeof setTimeout> | null = null;
   private readonly compareButton = h('button', { class: 'primary', type: 'button', disabled: true, 'data-testid': 'compare' }, 'Compare the two ticked sessions');
   private readonly detail = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Session', 'data-testid': 'session-detail' });
   private readonly comparison = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Two sessions side by side', 'data-testid': 'comparison' });
@@ -106,15 +107,18 @@ export class LogbookScreen implements Screen {
     );
   }
 
-  private async loadSessions(): Promise<void> {
+  private sessionFilters(): CallPayload<'listSessions'> {
     const dayStart = (value: string, end: boolean) => (value ? `${value}T${end ? '23:59:59' : '00:00:00'}Z` : undefined);
-    const result = await runAction(this.context, null, () =>
-      this.context.client.listSessions({ unitSerial: this.unitSelect.value || undefined, designName: this.designSelect.value || undefined, from: dayStart(this.fromInput.value, false), to: dayStart(this.toInput.value, true) }),
-    );
+    return { unitSerial: this.unitSelect.value || undefined, designName: this.designSelect.value || undefined, from: dayStart(this.fromInput.value, false), to: dayStart(this.toInput.value, true) };
+  }
+
+  private async loadSessions(): Promise<void> {
+    const result = await runAction(this.context, null, () => this.context.client.listSessions(this.sessionFilters()));
     if (!result) return;
     this.sessions = result.sessions;
     this.sharing = await this.context.client.sharing().catch(() => null);
     this.renderSharing();
+    this.followSharing();
     this.ticked = this.ticked.filter((id) => this.sessions.some((session) => session.id === id));
     this.renderSessions();
     const unitSerial = this.unitSelect.value;
@@ -126,6 +130,32 @@ export class LogbookScreen implements Screen {
       this.drift.hidden = true;
       this.fleet.hide();
     }
+  }
+
+  /**
+   * While finished sessions wait to be shared, the sharing line and the Shared column follow the bench's pushes
+   * (a few seconds apart, while the screen is shown), so "not yet shared" does not stay on screen once they are.
+   */
+  private followSharing(): void {
+    if (this.sharingTimer !== null) clearTimeout(this.sharingTimer);
+    this.sharingTimer = null;
+    if (this.sharing?.target == null || this.sharing.waiting === 0) return;
+    this.sharingTimer = setTimeout(() => {
+      this.sharingTimer = null;
+      if (this.element.hidden) return; // shown again later, the screen loads afresh
+      void this.refreshSharing();
+    }, 2000);
+  }
+
+  private async refreshSharing(): Promise<void> {
+    const [sharing, listed] = await Promise.all([this.context.client.sharing(), this.context.client.listSessions(this.sessionFilters())]).catch(() => [null, null] as const);
+    if (!sharing || !listed) return;
+    this.sharing = sharing;
+    this.renderSharing();
+    const sharedAt = new Map(listed.sessions.map((session) => [session.id, session.sharedAt]));
+    this.sessions = this.sessions.map((session) => ({ ...session, sharedAt: sharedAt.get(session.id) ?? session.sharedAt }));
+    this.renderSessions();
+    this.followSharing();
   }
 
   private renderSharing(): void {

@@ -4,7 +4,7 @@
  * names the bench that did it (a shared logbook holds a whole line's); a bench that pushes to a shared logbook shows
  * which of its sessions are not yet shared. Times are shown in local time; the logbook keeps UTC.
  */
-import type { CallPayload, CallResult } from '../../app/contract';
+import type { CallResult } from '../../app/contract';
 import { signOffExceptionText } from '../../app/bench/signOffGate';
 import { outcomeWords, type SessionComparison, type SessionDetail, type SessionOutcome, type SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
@@ -14,10 +14,11 @@ import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
 import { stepReadingsCsv } from '../../app/exchange/recordCsv';
 import { stepTitles, wordedValue } from '../shaping/stepView';
+import { localSpanText } from '../shaping/timeSpan';
 import { fitLinePoints, toPoints, transferRangeV } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 import { FleetPanel } from './fleetPanel';
-import { localTimeNote, sharedCell, sharingStatus } from './sharingView';
+import { localTimeNote, sharedCell, sharingMoved, sharingPollMs, sharingStatus } from './sharingView';
 
 type LineChart = Chart<'line', { x: number; y: number }[]>;
 
@@ -33,7 +34,6 @@ export class LogbookScreen implements Screen {
   private readonly sessionsTable = h('div', { class: 'table-scroll', 'data-testid': 'sessions' });
   private readonly sharingLine = h('div', { class: 'sharing', 'data-testid': 'sharing', hidden: true });
   private sharing: CallResult<'sharing'> | null = null;
-  private sharingTimer: ReturnType<typeof setTimeout> | null = null;
   private readonly compareButton = h('button', { class: 'primary', type: 'button', disabled: true, 'data-testid': 'compare' }, 'Compare the two ticked sessions');
   private readonly detail = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Session', 'data-testid': 'session-detail' });
   private readonly comparison = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Two sessions side by side', 'data-testid': 'comparison' });
@@ -50,6 +50,8 @@ export class LogbookScreen implements Screen {
     context.store.on('open-session', (sessionId) => void this.showDetail(sessionId as number).then(() => this.detail.scrollIntoView({ block: 'start' })));
     for (const control of [this.unitSelect, this.designSelect, this.fromInput, this.toInput]) control.addEventListener('change', () => void this.loadSessions());
     this.compareButton.addEventListener('click', () => void this.compare());
+    // A bench pushing as it goes: the sharing line and the Shared column follow without the screen being reopened.
+    window.setInterval(() => void this.followSharing(), sharingPollMs);
     const field = (label: string, control: HTMLElement) => {
       const id = uniqueId('filter');
       control.id = id;
@@ -107,20 +109,35 @@ export class LogbookScreen implements Screen {
     );
   }
 
-  private sessionFilters(): CallPayload<'listSessions'> {
+  /** The sessions matching the filters and the sharing state, read again and shown; false when the list failed. */
+  private async readSessions(): Promise<boolean> {
     const dayStart = (value: string, end: boolean) => (value ? `${value}T${end ? '23:59:59' : '00:00:00'}Z` : undefined);
-    return { unitSerial: this.unitSelect.value || undefined, designName: this.designSelect.value || undefined, from: dayStart(this.fromInput.value, false), to: dayStart(this.toInput.value, true) };
-  }
-
-  private async loadSessions(): Promise<void> {
-    const result = await runAction(this.context, null, () => this.context.client.listSessions(this.sessionFilters()));
-    if (!result) return;
+    const result = await runAction(this.context, null, () =>
+      this.context.client.listSessions({ unitSerial: this.unitSelect.value || undefined, designName: this.designSelect.value || undefined, from: dayStart(this.fromInput.value, false), to: dayStart(this.toInput.value, true) }),
+    );
+    if (!result) return false;
     this.sessions = result.sessions;
     this.sharing = await this.context.client.sharing().catch(() => null);
     this.renderSharing();
-    this.followSharing();
     this.ticked = this.ticked.filter((id) => this.sessions.some((session) => session.id === id));
     this.renderSessions();
+    return true;
+  }
+
+  private async followSharing(): Promise<void> {
+    if (this.element.hidden || document.hidden || this.sharing?.target == null) return;
+    const now = await this.context.client.sharing().catch(() => null);
+    if (!now) return;
+    if (sharingMoved(this.sharing, now)) {
+      await this.readSessions();
+      return;
+    }
+    this.sharing = now;
+    this.renderSharing();
+  }
+
+  private async loadSessions(): Promise<void> {
+    if (!(await this.readSessions())) return;
     const unitSerial = this.unitSelect.value;
     if (unitSerial) {
       void this.showDrift(unitSerial);
@@ -130,32 +147,6 @@ export class LogbookScreen implements Screen {
       this.drift.hidden = true;
       this.fleet.hide();
     }
-  }
-
-  /**
-   * While finished sessions wait to be shared, the sharing line and the Shared column follow the bench's pushes
-   * (a few seconds apart, while the screen is shown), so "not yet shared" does not stay on screen once they are.
-   */
-  private followSharing(): void {
-    if (this.sharingTimer !== null) clearTimeout(this.sharingTimer);
-    this.sharingTimer = null;
-    if (this.sharing?.target == null || this.sharing.waiting === 0) return;
-    this.sharingTimer = setTimeout(() => {
-      this.sharingTimer = null;
-      if (this.element.hidden) return; // shown again later, the screen loads afresh
-      void this.refreshSharing();
-    }, 2000);
-  }
-
-  private async refreshSharing(): Promise<void> {
-    const [sharing, listed] = await Promise.all([this.context.client.sharing(), this.context.client.listSessions(this.sessionFilters())]).catch(() => [null, null] as const);
-    if (!sharing || !listed) return;
-    this.sharing = sharing;
-    this.renderSharing();
-    const sharedAt = new Map(listed.sessions.map((session) => [session.id, session.sharedAt]));
-    this.sessions = this.sessions.map((session) => ({ ...session, sharedAt: sharedAt.get(session.id) ?? session.sharedAt }));
-    this.renderSessions();
-    this.followSharing();
   }
 
   private renderSharing(): void {
@@ -194,7 +185,7 @@ export class LogbookScreen implements Screen {
               { 'aria-selected': String(session.id === this.selectedId), 'data-session': session.id },
               h('td', {}, tick),
               h('td', {}, open),
-              h('td', {}, session.unit),
+              h('td', { class: 'nowrap' }, session.unit),
               h('td', { class: 'nowrap', 'data-testid': `bench-${session.id}` }, session.bench ?? '–'),
               h('td', {}, `${session.designName} v${session.designVersion}`),
               h('td', {}, session.operator),
@@ -253,7 +244,7 @@ export class LogbookScreen implements Screen {
     fill(
       this.detail,
       h('h2', {}, `Session ${row.id}: unit ${row.unit}`),
-      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.cycles} cycles`),
+      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${localSpanText(row.startedAt, row.endedAt)} · ${row.cycles} cycles`),
       this.sharing?.target != null ? h('p', { 'data-testid': 'detail-shared' }, sharedCell(row)) : null,
       outcomePanel(row),
       detail.notes ? h('p', {}, detail.notes) : null,

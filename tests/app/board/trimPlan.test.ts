@@ -83,10 +83,10 @@ describe('trim plan', () => {
   });
 
   it('proposes the control-limit resistor when alpha max is off, rounded so alpha stays short of the limit', () => {
-    const withControl = boardDesignSchema.parse({ ...board, parts: { ...board.parts, rControlTop: { ohm: 4700, ref: 'R9' }, potControl: { ohm: 4700, ref: 'RV1' } } });
+    const withControl = boardDesignSchema.parse({ ...board, parts: { ...board.parts, rControlTop: { ohm: 9100, ref: 'R9' }, potControl: { ohm: 10000, ref: 'RV1' } } });
     const plan = planTrim(withControl, readingsOf(predictRamp(withControl), { alphaMaxDeg: 178 }));
     expect(plan.controlLimit).not.toBeNull();
-    expect(plan.controlLimit?.toOhm).toBeGreaterThan(4700);
+    expect(plan.controlLimit?.toOhm).toBeGreaterThan(9100);
     expect(plan.controlLimit?.predictedAlphaMaxDeg ?? 999).toBeLessThanOrEqual(withControl.alphaMaxDeg);
     expect(plan.controlLimit?.predictedAlphaMaxDeg ?? 0).toBeGreaterThan(withControl.alphaMaxDeg - 10);
     expect(plan.controlLimit?.reason).toContain('R9');

@@ -117,17 +117,17 @@ describe('browser mode with the virtual board', () => {
     await expect(page.getByTestId('trim-message').textContent()).resolves.not.toBe('');
     expect(await canvasInk(page, '[data-testid="trim-canvas"]')).toBeGreaterThan(0.02);
     // The technician measured the ramp capacitor: a slipped prefix is named beside the field and nothing is sent;
-    // the value as measured (470 nF design, 30 % low on the demo board) reaches the plan.
+    // the value as measured (390 nF design, 30 % low on the demo board) reaches the plan.
     const capacitor = page.getByTestId('measured-cRamp');
     await capacitor.fill('330');
     await page.getByTestId('trim-parts-plan').click();
     await expect.poll(() => capacitor.getAttribute('aria-invalid')).toBe('true');
-    await expect(page.locator('label.field', { has: capacitor }).locator('.field-problem').textContent()).resolves.toMatch(/more than 10 times off its design value 470 nF/);
-    await capacitor.fill('330n');
+    await expect(page.locator('label.field', { has: capacitor }).locator('.field-problem').textContent()).resolves.toMatch(/more than 10 times off its design value 390 nF/);
+    await capacitor.fill('273n');
     await page.getByTestId('trim-parts-plan').click();
-    await expect.poll(() => page.getByTestId('trim-known').textContent(), { timeout: 15_000 }).toMatch(/Planned for the board as built: C6 330 nF measured \(design 470 nF\)/);
+    await expect.poll(() => page.getByTestId('trim-known').textContent(), { timeout: 15_000 }).toMatch(/Planned for the board as built: C6 273 nF measured \(design 390 nF\)/);
     expect(await capacitor.getAttribute('aria-invalid')).toBe('false');
-    await expect(capacitor.inputValue()).resolves.toBe('330n');
+    await expect(capacitor.inputValue()).resolves.toBe('273n');
     await screenshot(page, '4-trim-plan');
     await page.getByTestId('fitted-0').click();
     await page.getByTestId('trim-recheck').waitFor({ state: 'visible' });
@@ -183,7 +183,7 @@ describe('browser mode with the virtual board', () => {
     expect(await canvasInk(page, '[data-testid="detail-transfer-canvas"]')).toBeGreaterThan(0.02);
     await expect(page.getByTestId('session-detail').textContent()).resolves.toMatch(/Trims applied.*→/s);
     // The ramp capacitor measured on the Trim screen is in the logbook beside its design value.
-    await expect(page.getByTestId('detail-measured').textContent()).resolves.toMatch(/cRamp: 330 nF measured, design 470 nF/);
+    await expect(page.getByTestId('detail-measured').textContent()).resolves.toMatch(/cRamp: 273 nF measured, design 390 nF/);
     await screenshot(page, '8-logbook-session');
   });
 

@@ -227,7 +227,7 @@ const isCapacitance = (part: BoardPart): boolean => part === 'cRamp';
 function measureFirstSentence(design: BoardDesign, suspects: readonly Suspect[]): string | null {
   const [first, second] = suspects;
   if (!first || !second || first.measured || second.measured || isCapacitance(first.part) === isCapacitance(second.part)) return null;
-  const odds = `${first.tolerances.toFixed(1)} times its tolerance off against ${second.tolerances.toFixed(1)}`;
+  const odds = `${first.tolerances.toFixed(1)} times its tolerance off, the ${partName(design, second.part)} ${second.tolerances.toFixed(1)} times its`;
   const why =
     checkEffort[first.part] < checkEffort[second.part] && unlikeliness(first) > unlikeliness(second)
       ? `it reads in circuit with the power off in a minute, while the ${partName(design, second.part)} must be lifted at one end to be measured`

@@ -9,7 +9,7 @@ import type { Command } from 'commander';
 import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import type { CaptureReadings } from '../../../app/bench/readings';
 import { InputError } from '../../../app/errors';
-import { createLoggerDecoder, encodeCommand, linkErrorCount, type LinkHealth, type LinkProblemCode } from '../../../app/logger';
+import { createLoggerDecoder, edgeRequestAfter, encodeCommand, linkErrorCount, type LinkHealth, type LinkProblemCode } from '../../../app/logger';
 import { loadBoardDesign } from '../../board/loadBoardDesign';
 import { openLoggerLink, type LinkEvent } from '../../serial/loggerLink';
 import type { LinkEventKind, LogbookWriter, SessionRow } from '../../store/logbookTypes';
@@ -121,6 +121,8 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
           if (item.kind !== 'opened' && item.kind !== 'closed' && item.kind !== 'reopened') linkProblems += item.kind === 'lines-dropped' ? item.count : 1;
           continue;
         }
+        const request = edgeRequestAfter(item.text);
+        if (request) void link.write(request).catch(() => undefined);
         for (const event of decoder.pushLine(item.text)) {
           if (event.kind === 'problem') {
             const entry = problemCounts.get(event.problem.code) ?? { count: 0, message: event.problem.message };

@@ -6,7 +6,8 @@
  * user's data folder.
  */
 import { homedir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
+import { logbookDisplayLocation, resolveLogbookLocation } from '../../store/index';
 import type { Command } from 'commander';
 import type { StepReport, Verdict } from '../../../app/contract';
 import { faultDescriptions, type FaultName } from '../../../app/sim';
@@ -85,10 +86,10 @@ export function registerDemoCommand(program: Command): void {
   program
     .command('demo')
     .description('Commission two units on the virtual board from start to sign-off and log them (no hardware needed)')
-    .option('--db <file>', 'logbook file (default: logbook.sqlite in your data folder)')
+    .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address (default: logbook.sqlite in your data folder)')
     .option('--json', 'print the result as JSON')
     .action(async (options: DemoOptions) => {
-      const logbookPath = resolve(options.db ?? defaultLogbookPath());
+      const logbookPath = resolveLogbookLocation(options.db ?? defaultLogbookPath());
       const startedMs = Date.now();
       const context = await openBenchContext({ logbookPath, virtualPaced: false });
       let reports: DemoReport[];
@@ -111,9 +112,9 @@ export function registerDemoCommand(program: Command): void {
           rampPeakAfterV: report.rampPeakAfterV,
           transfer: report.transferFit,
         }));
-        process.stdout.write(`${JSON.stringify({ logbook: logbookPath, design: reports[0]?.designName ?? null, units, safety: safetyNoteLines }, null, 2)}\n`);
+        process.stdout.write(`${JSON.stringify({ logbook: logbookDisplayLocation(logbookPath), design: reports[0]?.designName ?? null, units, safety: safetyNoteLines }, null, 2)}\n`);
         return;
       }
-      process.stdout.write(`${[...safetyNoteLines, '', ...demoSummaryLines(reports, logbookPath, elapsedS)].join('\n')}\n`);
+      process.stdout.write(`${[...safetyNoteLines, '', ...demoSummaryLines(reports, logbookDisplayLocation(logbookPath), elapsedS)].join('\n')}\n`);
     });
 }

@@ -22,6 +22,7 @@ import { describeMeasuredParts } from './measuredParts';
 import { diagnoseRamp, type PartDiagnosis } from './partDiagnosis';
 import { partName, type BoardPart } from './partNames';
 import type { PartOverrides } from './parts';
+import { predictRamp } from './rampModel';
 import type { RampReadings } from './rampReadings';
 import { controlLimitSuggestion, type ControlLimitSuggestion } from './controlLimitAdvice';
 import { type CandidateContext, predictWith } from './trimCandidates';
@@ -100,7 +101,8 @@ export function planTrim(design: BoardDesign, measured: RampReadings, options: T
   // A ramp that starts late has a shorter charging interval: its peak is low for a reason no resistor of the
   // current source should fix (commissioning rule: the ramp starts within a few degrees, REFERENCES.md).
   if (measured.startDelayDeg !== undefined) {
-    const designStartDeg = alphaRangeOf(design, estimate.prediction).startDeg - design.syncPhaseDeg;
+    // Both counted from the mains zero crossing: the analyzer adds the sync lag (syncPhaseDeg), and so does startDeg.
+    const designStartDeg = alphaRangeOf(design, estimate.prediction).startDeg;
     if (Math.abs(measured.startDelayDeg - designStartDeg) > design.tolerances.startDelayDeg) {
       notes.push(
         `The ramp starts ${measured.startDelayDeg.toFixed(1)} deg after the zero crossing, the design ${designStartDeg.toFixed(1)} deg: check the sync and reset circuit first, the charging time (and so the peak) depends on it.`,
@@ -164,8 +166,13 @@ export function planTrim(design: BoardDesign, measured: RampReadings, options: T
         ? `${head}, ${diagnosis.consistent ? 'within what parts in tolerance allow' : 'more than the parts as measured explain (check the transistor and the readings)'}: ${firstAction(trims[0])}.`
         : `${head}: no change of one resistor in ${series} brings the ramp to ${formatVolt(targetV)} with ${formatVolt(minHeadroomV)} headroom to clipping; the supply or the target must change.`;
   const first = suggestions[0];
-  const afterChange = first && first.kind === 'trim' ? { ...fitted, ...changesOf(first) } : fitted;
-  const afterPrediction = first && first.kind === 'trim' ? predictWith(context, changesOf(first)) : estimate.prediction;
+  const afterChange = first ? { ...fitted, ...changesOf(first) } : fitted;
+  // After a repair the board is back to its design (the fault, not the bias, was the shift): its control limit is
+  // judged on that board, and an alpha max measured with the faulty part says nothing about it.
+  const afterPrediction =
+    first?.kind === 'repair' ? predictRamp(design, { partOverrides: afterChange }) : first?.kind === 'trim' ? predictWith(context, changesOf(first)) : estimate.prediction;
+  const limitContext = first?.kind === 'repair' ? { ...context, vebShiftV: 0, fitted: afterChange } : { ...context, fitted: { ...context.fitted, ...afterChange } };
+  const limitReadings = first?.kind === 'repair' ? { ...measured, alphaMaxDeg: null } : measured;
   return {
     status,
     summary,
@@ -173,7 +180,7 @@ export function planTrim(design: BoardDesign, measured: RampReadings, options: T
     estimate: estimateOut,
     diagnosis,
     suggestions,
-    controlLimit: controlLimitSuggestion(design, measured, afterPrediction, { ...context, fitted: { ...context.fitted, ...afterChange } }),
+    controlLimit: controlLimitSuggestion(design, limitReadings, afterPrediction, limitContext),
     notes,
   };
 }
@@ -181,6 +188,7 @@ export function planTrim(design: BoardDesign, measured: RampReadings, options: T
 function changesOf(suggestion: TrimSuggestion): PartOverrides {
   const changes: PartOverrides = {};
   if (suggestion.part !== 'transistor' && suggestion.toOhm !== null) changes[suggestion.part] = suggestion.toOhm;
+  if (suggestion.part === 'cRamp' && suggestion.toFarad !== null) changes.cRamp = suggestion.toFarad;
   if (suggestion.alsoChange) changes[suggestion.alsoChange.part] = suggestion.alsoChange.toOhm;
   return changes;
 }

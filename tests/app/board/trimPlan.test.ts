@@ -173,6 +173,21 @@ describe('trim plan', () => {
     expect(late.notes.join(' ')).toContain('check the sync and reset circuit');
     const onTime = planTrim(board, readingsOf(predictRamp(board), { startDelayDeg: 3 }));
     expect(onTime.notes.join(' ')).not.toContain('sync and reset');
+    // A sync network that lags the mains by design: the analysis counts the start from the mains zero crossing
+    // (sync crossing + syncPhaseDeg), so a ramp on time reads 6 + 2.7 deg and is no fault.
+    const lagging = boardDesignSchema.parse({ ...board, syncPhaseDeg: 6 });
+    expect(planTrim(lagging, readingsOf(predictRamp(lagging), { startDelayDeg: 8.7 })).notes.join(' ')).not.toContain('sync and reset');
+    expect(planTrim(lagging, readingsOf(predictRamp(lagging), { startDelayDeg: 14 })).notes.join(' ')).toContain('check the sync and reset circuit');
+  });
+
+  it('a part to replace: the control limit is judged on the board after the repair, not on the faulty ramp', () => {
+    const withControl = boardDesignSchema.parse({ ...board, parts: { ...board.parts, rControlTop: { ohm: 9100, ref: 'R9' }, potControl: { ohm: 10000, ref: 'RV1' } } });
+    const designLimit = planTrim(withControl, readingsOf(predictRamp(withControl))).controlLimit;
+    // The capacitor 30 % low: the ramp is tall, the pot's end fires early and was measured so.
+    const plan = planTrim(withControl, readingsOf(predictRamp(withControl, { partOverrides: { cRamp: 4.7e-7 * 0.7 } }), { alphaMaxDeg: 130 }));
+    expect(plan.suggestions[0]).toMatchObject({ kind: 'repair', part: 'cRamp' });
+    // The same advice as for the board as designed (none, or the one its design needs), not a resistor that hides the fault.
+    expect(plan.controlLimit?.toOhm ?? null).toBe(designLimit?.toOhm ?? null);
   });
 
   it('property: any readings give a plan with finite numbers or an InputError, never a crash', () => {

@@ -126,7 +126,7 @@ describe('rampwright trim', () => {
 
   it.skipIf(!ngspiceAvailable())('a held-out board with its ramp capacitor 30 % low: trim --json names the capacitor first, to be replaced', async () => {
     // Sized here from targets of our own: 60 Hz full-wave, 18 V, 330 nF, E24; every part as designed but C.
-    const heldOut = { ...sizeBoard(sizingTargetsSchema.parse({ name: 'Held-out board H (60 Hz full-wave)', mainsHz: 60, rectifier: 'full-wave', supplyV: 18, rampTargetV: 7.5, cRampFarad: 3.3e-7 })).design };
+    const heldOut = { ...sizeBoard(sizingTargetsSchema.parse({ name: 'Held-out board H (60 Hz full-wave)', mainsHz: 60, rectifier: 'full-wave', supplyV: 18, rampTargetV: 7.5, cRampFarad: 3.3e-7, syncPhaseDeg: 5 })).design };
     heldOut.parts = { ...heldOut.parts, cRamp: { ...heldOut.parts.cRamp, ref: 'C9' }, rEmitter: { ...heldOut.parts.rEmitter, ref: 'R21' } };
     writeFileSync(join(folder, 'held-out.board.json'), JSON.stringify(heldOut));
     const fitted = { cRamp: heldOut.parts.cRamp.farad * 0.7 };
@@ -145,5 +145,9 @@ describe('rampwright trim', () => {
     const human = await runCli(['trim', '--design', join(folder, 'held-out.board.json'), '--capture', join(folder, 'held-out.csv')]);
     expect(human.stdout).toContain('measure the ramp capacitor C9 and replace it with 330n');
     expect(human.stdout).toMatch(/Note: Measure the ramp capacitor C9 first \(.*emitter resistor R21.*\): capacitors drift and fail far more often than resistors/);
+    // Its sync lags the mains 5 deg by design and its ramp starts on time: no false alarm about the sync circuit.
+    expect(human.stdout).not.toContain('sync and reset');
+    // After the capacitor is replaced the control limit is the design's own: no resistor change to hide the fault.
+    expect(plan.controlLimit).toBeNull();
   });
 });

@@ -42,8 +42,12 @@ function verdictText(verdict: Verdict | null): string {
 function trimDetail(report: DemoReport): string {
   const change = report.change;
   if (!change) return 'no change needed';
-  const measured = Object.entries(report.measuredParts).map(([part, partValue]) => `measured the ${recordedPartName(null, part)}: ${recordedPartValue(part, partValue as number)}; `).join('');
-  return `${measured}${change.kind === 'repair' ? 'replaced' : 'trimmed'}: ${change.reason}`;
+  // A replaced part's reading is in the repair's own words ("measured 273n"): said once.
+  const measured = Object.entries(report.measuredParts)
+    .filter(([part]) => !(change.kind === 'repair' && part === change.part))
+    .map(([part, partValue]) => `measured the ${recordedPartName(null, part)}: ${recordedPartValue(part, partValue as number)}; `)
+    .join('');
+  return `${measured}${change.kind === 'repair' ? 'repaired' : 'trimmed'}: ${change.reason}`;
 }
 
 /** One unit's story: its steps, verdicts and the change made. */

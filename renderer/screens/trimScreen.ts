@@ -8,7 +8,7 @@ import type { KnownPart, TrimPlanView, TrimSuggestion } from '../../app/contract
 import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { h, fill, uniqueId } from '../dom/h';
 import { formatSi } from '../shaping/formatSi';
-import { formatFarad, formatOhm, formatPartValue } from '../../app/board/formatValues';
+import { formatFarad, formatOhm, formatPartValue, formatVolt } from '../../app/board/formatValues';
 import { designValueOf } from '../../app/board/measuredParts';
 import { isBoardPart, partNameCapitalised, recordedPartName, recordedPartValue } from '../../app/board/partNames';
 import { measurableParts, partValueText, readMeasuredFields } from '../shaping/measuredPartsForm';
@@ -228,8 +228,9 @@ export class TrimScreen implements Screen {
               h('td', {}, partText(this.design, suggestion.part)),
               h('td', {}, suggestion.kind === 'repair' ? (measuredParts.has(suggestion.part) || suggestion.part === 'transistor' ? 'Replace' : 'Measure, replace') : methodWords[suggestion.method]),
               h('td', { class: 'number' }, changeValueText(suggestion)),
-              h('td', { class: 'number' }, formatSi(suggestion.predictedPeakV, 'V'), suggestion.withinTolerance ? null : h('div', { class: 'field-problem' }, 'outside the band')),
-              h('td', { class: 'number' }, formatSi(suggestion.headroomV, 'V')),
+              // Volts as the reason beside them says them (7.40 V, not 7.4 V): one column reads evenly.
+              h('td', { class: 'number' }, formatVolt(suggestion.predictedPeakV), suggestion.withinTolerance ? null : h('div', { class: 'field-problem' }, 'outside the band')),
+              h('td', { class: 'number' }, suggestion.headroomV === null ? '–' : formatVolt(suggestion.headroomV)),
               h('td', {}, suggestion.reason),
               h('td', {}, fitted),
             );

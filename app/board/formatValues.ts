@@ -2,7 +2,7 @@
  * Part values in one notation everywhere a person reads them (Board, Trim and Logbook screens, command line text,
  * records in HTML and PDF): the IEC 60062 letter-and-digit code printed on drawings and parts, where the
  * multiplier letter stands for the decimal point (REFERENCES.md): 6k8 = 6.8 kohm, 4R7 = 4.7 ohm, 1M5, 390n = 390 nF,
- * 4u7, 220p. ASCII only ("u" for micro, as parts are marked when the font has no mu), so every output carries it.
+ * 4u7, 220p, and a single digit keeps its zero: 3k0, 1u0. ASCII only ("u" for micro, as parts are marked when the font has no mu), so every output carries it.
  * Readings that are not part values keep SI with units (7.30 V, +1.2 %).
  */
 
@@ -37,7 +37,10 @@ function letterCode(value: number, letters: readonly { scale: number; letter: st
   const text = mantissa.toString();
   const [whole, fraction] = text.split('.');
   const letter = letters[index].letter;
-  return fraction === undefined ? `${sign}${whole}${letter}` : `${sign}${whole === '0' ? '' : whole}${letter}${fraction}`;
+  // Two significant digits at least, as the code's own table writes them (1R0, 1k0, 1M0, 1u0; from memory of
+  // IEC 60062): "3k" is read as a value cut short, "3k0" as three kilohm exactly.
+  if (fraction === undefined) return `${sign}${whole}${letter}${whole.length === 1 ? '0' : ''}`;
+  return `${sign}${whole === '0' ? '' : whole}${letter}${fraction}`;
 }
 
 /** A resistance as marked: 6k8, 470R, 4R7, 1M5 (three significant digits; `digits` for more). */

@@ -16,14 +16,17 @@ describe('part values in the IEC 60062 letter-and-digit code (REFERENCES.md)', (
     expect(formatOhm(6650)).toBe('6k65');
     expect(formatFarad(4.7e-6)).toBe('4u7');
     expect(formatFarad(220e-12)).toBe('220p');
-    expect(formatFarad(1e-6)).toBe('1u');
+    expect(formatFarad(1e-6)).toBe('1u0');
+    expect(formatOhm(3000)).toBe('3k0');
+    expect(formatOhm(1e6)).toBe('1M0');
+    expect(formatOhm(5)).toBe('5R0');
     expect(formatPartValue('cRamp', 3.9e-7)).toBe('390n');
     expect(formatPartValue('rEmitter', 6800)).toBe('6k8');
   });
 
-  it('rounding that carries moves to the next letter: 999.7 ohm at three digits is 1k, not 1000R', () => {
-    expect(formatOhm(999.7)).toBe('1k');
-    expect(formatFarad(999.8e-9)).toBe('1u');
+  it('rounding that carries moves to the next letter: 999.7 ohm at three digits is 1k0, not 1000R', () => {
+    expect(formatOhm(999.7)).toBe('1k0');
+    expect(formatFarad(999.8e-9)).toBe('1u0');
   });
 
   it('more digits on request (the Board screen keeps what was typed)', () => {

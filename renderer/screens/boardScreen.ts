@@ -97,7 +97,7 @@ export class BoardScreen implements Screen {
         input.addEventListener('input', () => this.onEdit(field, input));
         input.addEventListener('change', () => this.onEdit(field, input));
         this.inputs.set(field.path, { input, problem, field });
-        grid.appendChild(h('label', { class: 'field', for: id }, field.label, input, problem));
+        grid.appendChild(h('label', { class: field.wide ? 'field wide' : 'field', for: id }, field.label, input, problem));
       }
       this.form.appendChild(h('fieldset', {}, h('legend', {}, group.title), grid));
     }

@@ -19,6 +19,8 @@ export interface DesignField {
   kind: 'number' | 'text' | 'choice' | 'part';
   choices?: readonly string[];
   optional?: boolean;
+  /** Takes two columns: a name read whole, not cut off. */
+  wide?: boolean;
 }
 
 export interface DesignFieldGroup {
@@ -26,16 +28,22 @@ export interface DesignFieldGroup {
   fields: readonly DesignField[];
 }
 
+// Each part on one row: its value, its designator and its tolerance. The tolerance is what the trim planner weighs
+// a reading against (a part far outside its own tolerance is replaced, not compensated), so it is the design's to say;
+// left empty, the schema's default (5 % for a resistor, 10 % for the ramp capacitor) applies.
+const tolerance = (role: string, label: string): DesignField => ({ path: `parts.${role}.tolerancePct`, label: `${label} ± (%)`, unit: '%', kind: 'number', optional: true });
+
 const resistor = (role: string, label: string, optional = false): DesignField[] => [
   { path: `parts.${role}.ohm`, label, unit: 'ohm', kind: 'part', optional },
   { path: `parts.${role}.ref`, label: `${label}, ref`, unit: '', kind: 'text', optional: true },
+  tolerance(role, label),
 ];
 
 export const designFieldGroups: readonly DesignFieldGroup[] = [
   {
     title: 'Board',
     fields: [
-      { path: 'name', label: 'Design name', unit: '', kind: 'text' },
+      { path: 'name', label: 'Design name', unit: '', kind: 'text', wide: true },
       { path: 'mainsHz', label: 'Mains (Hz)', unit: 'Hz', kind: 'number' },
       { path: 'rectifier', label: 'Rectifier', unit: '', kind: 'choice', choices: ['half-wave', 'full-wave'] },
       { path: 'supplyV', label: 'Source supply (V)', unit: 'V', kind: 'number' },
@@ -55,6 +63,7 @@ export const designFieldGroups: readonly DesignFieldGroup[] = [
       ...resistor('rBiasBottom', partNameCapitalised(null, 'rBiasBottom')),
       { path: 'parts.cRamp.farad', label: partNameCapitalised(null, 'cRamp'), unit: 'F', kind: 'part' },
       { path: 'parts.cRamp.ref', label: `${partNameCapitalised(null, 'cRamp')}, ref`, unit: '', kind: 'text', optional: true },
+      tolerance('cRamp', partNameCapitalised(null, 'cRamp')),
       ...resistor('rDischarge', partNameCapitalised(null, 'rDischarge'), true),
     ],
   },

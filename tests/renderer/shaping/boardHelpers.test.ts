@@ -45,6 +45,21 @@ describe('design form', () => {
     expect(problem?.message).toBe('"0.68" is not a capacitance: write it as marked, with its letter (390n, 4u7, 220p)');
   });
 
+  it("shows and takes each part's tolerance, which the trim planner weighs readings against; an impossible one is refused beside it", () => {
+    const draft = structuredClone(designInput) as Record<string, unknown>;
+    expect(fieldValueText(draft, field('parts.cRamp.tolerancePct'))).toBe('10');
+    expect(field('parts.rEmitter.tolerancePct').label).toBe('Emitter resistor ± (%)');
+    setFieldText(draft, field('parts.rEmitter.tolerancePct'), '1');
+    expect(checkDesign(draft).design?.parts.rEmitter.tolerancePct).toBe(1);
+    // Left empty: the design's default for a resistor (5 %).
+    setFieldText(draft, field('parts.rEmitter.tolerancePct'), '');
+    expect(checkDesign(draft).design?.parts.rEmitter.tolerancePct).toBe(5);
+    setFieldText(draft, field('parts.cRamp.tolerancePct'), '95');
+    const check = checkDesign(draft);
+    expect(check.design).toBeNull();
+    expect(problemForField(check.problems, field('parts.cRamp.tolerancePct'))?.severity).toBe('error');
+  });
+
   it('names the field and the physics when the target is above the supply', () => {
     const draft = structuredClone(designInput) as Record<string, unknown>;
     setFieldText(draft, field('rampTargetV'), '16');

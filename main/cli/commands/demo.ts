@@ -8,6 +8,7 @@
 import { homedir } from 'node:os';
 import { join } from 'node:path';
 import { logbookDisplayLocation, resolveLogbookLocation } from '../../store/index';
+import { localFirst, pushAfterSession } from './push';
 import type { Command } from 'commander';
 import type { StepReport, Verdict } from '../../../app/contract';
 import { faultDescriptions, type FaultName } from '../../../app/sim';
@@ -19,6 +20,7 @@ import { safetyNoteLines } from '../../session/safetyNote';
 
 interface DemoOptions {
   db?: string;
+  pushTo?: string;
   json?: boolean;
 }
 
@@ -90,10 +92,12 @@ export function registerDemoCommand(program: Command): void {
   program
     .command('demo')
     .description('Commission two units on the virtual board from start to sign-off and log them (no hardware needed)')
-    .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address (default: logbook.sqlite in your data folder)')
+    .option('--db <file|address>', 'logbook file (default: logbook.sqlite in your data folder); given a shared logbook\'s postgres:// address, the sessions are recorded into that default file and pushed there')
+    .option('--push-to <address>', 'push the sessions to a shared logbook (postgres://...) afterwards')
     .option('--json', 'print the result as JSON')
     .action(async (options: DemoOptions) => {
-      const logbookPath = resolveLogbookLocation(options.db ?? defaultLogbookPath());
+      const target = localFirst(options.db, options.pushTo, defaultLogbookPath());
+      const logbookPath = resolveLogbookLocation(target.db);
       const startedMs = Date.now();
       const context = await openBenchContext({ logbookPath, virtualPaced: false });
       let reports: DemoReport[];
@@ -103,6 +107,7 @@ export function registerDemoCommand(program: Command): void {
         await context.close();
       }
       const elapsedS = (Date.now() - startedMs) / 1000;
+      const pushLines = target.pushTo === undefined ? [] : await pushAfterSession(logbookPath, target.pushTo);
       if (options.json) {
         const units = reports.map((report, index) => ({
           story: demoStories[index]?.story ?? null,
@@ -116,9 +121,9 @@ export function registerDemoCommand(program: Command): void {
           rampPeakAfterV: report.rampPeakAfterV,
           transfer: report.transferFit,
         }));
-        process.stdout.write(`${JSON.stringify({ logbook: logbookDisplayLocation(logbookPath), design: reports[0]?.designName ?? null, units, safety: safetyNoteLines }, null, 2)}\n`);
+        process.stdout.write(`${JSON.stringify({ logbook: logbookDisplayLocation(logbookPath), design: reports[0]?.designName ?? null, units, safety: safetyNoteLines, ...(target.pushTo === undefined ? {} : { pushed: pushLines }) }, null, 2)}\n`);
         return;
       }
-      process.stdout.write(`${[...safetyNoteLines, '', ...demoSummaryLines(reports, logbookDisplayLocation(logbookPath), elapsedS)].join('\n')}\n`);
+      process.stdout.write(`${[...safetyNoteLines, '', ...demoSummaryLines(reports, logbookDisplayLocation(logbookPath), elapsedS), ...pushLines].join('\n')}\n`);
     });
 }

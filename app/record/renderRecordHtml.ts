@@ -67,8 +67,8 @@ ${record.fold.length > 0 ? `<figure>${figureToSvg(foldFigure(record.fold))}<figc
 ${record.transfer.points.length > 0 ? `<figure>${figureToSvg(transferFigure([record.transfer]))}<figcaption>${escapeXml(fitText)}</figcaption></figure>` : `<p>${escapeXml(fitText)}</p>`}
 <h2>Parts measured on the board</h2>
 ${table(['Part', 'Measured', 'Design', 'Off by', 'When'], measurementRows, 'No part values were measured in this session.')}
-<h2>Trims applied</h2>
-${table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], trimRows, 'No trims were applied.')}
+<h2>Changes made to the board</h2>
+${table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], trimRows, 'No part was changed.')}
 <h2>Link health</h2>
 <p>${record.link.errors === 0 ? 'No link errors were recorded.' : `${record.link.errors} link errors were recorded (see the events).`}</p>
 ${table(['Event', 'Detail', 'Count', 'When'], eventRows, 'No link events were recorded.')}

@@ -221,7 +221,8 @@ export class LogbookScreen implements Screen {
     const trimList = h('ul', { 'data-testid': 'detail-trims' });
     const fillParts = (design: BoardDesign | null): void => {
       fill(measuredList, detail.partMeasurements.map((measured) => h('li', {}, `${capitalised(recordedPartName(design, measured.part))}: ${recordedPartValue(measured.part, measured.value)} measured, design ${recordedPartValue(measured.part, measured.designValue)}, ${new Date(measured.at).toLocaleTimeString()}`)));
-      fill(trimList, detail.trims.map((trim) => h('li', {}, `${capitalised(recordedPartName(design, trim.part))}: ${trim.part === 'transistor' ? 'replaced' : `${recordedPartValue(trim.part, trim.fromOhm)} → ${recordedPartValue(trim.part, trim.toOhm)}`} (${trim.reason || 'no reason given'}), ${new Date(trim.at).toLocaleTimeString()}`)));
+      // What changed and when first; the plan's reason (its own sentence) after it.
+      fill(trimList, detail.trims.map((trim) => h('li', {}, `${capitalised(recordedPartName(design, trim.part))}: ${trim.part === 'transistor' ? 'replaced' : `${recordedPartValue(trim.part, trim.fromOhm)} → ${recordedPartValue(trim.part, trim.toOhm)}`} at ${new Date(trim.at).toLocaleTimeString()}. ${trim.reason || 'No reason given.'}`)));
     };
     fillParts(null);
     if (detail.partMeasurements.length + detail.trims.length > 0) {
@@ -243,7 +244,8 @@ export class LogbookScreen implements Screen {
       h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), h('div', { class: 'plot small' }, transferCanvas)), h('div', {}, h('h3', {}, perCycleTitle), peaks.length + alphas.length > 0 ? h('div', { class: 'plot small' }, cycleCanvas) : h('p', { class: 'empty' }, 'No per-cycle readings were kept.'))),
       detail.partMeasurements.length > 0 ? h('h3', {}, 'Parts measured on the board') : null,
       detail.partMeasurements.length > 0 ? measuredList : null,
-      h('h3', {}, 'Trims applied'),
+      // A part replaced is no trim: the heading covers both kinds of change.
+      h('h3', {}, 'Changes made to the board'),
       detail.trims.length > 0 ? trimList : h('p', { class: 'empty' }, 'None.'),
       h('h3', {}, 'Link events'),
       detail.linkEvents.length > 0 ? h('ul', {}, detail.linkEvents.slice(0, 20).map((event) => h('li', {}, `${new Date(event.at).toLocaleTimeString()} ${event.kind}: ${event.detail}`))) : h('p', { class: 'empty' }, 'None: the link was clean.'),

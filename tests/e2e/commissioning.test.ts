@@ -198,7 +198,7 @@ describe('browser mode with the virtual board', () => {
     expect(text).toMatch(/In tolerance/);
     expect(Number(await page.getByTestId('detail-transfer-canvas').getAttribute('data-points'))).toBeGreaterThan(20);
     expect(await canvasInk(page, '[data-testid="detail-transfer-canvas"]')).toBeGreaterThan(0.02);
-    await expect(page.getByTestId('session-detail').textContent()).resolves.toMatch(/Trims applied.*→/s);
+    await expect(page.getByTestId('session-detail').textContent()).resolves.toMatch(/Changes made to the board.*→/s);
     // The ramp capacitor measured on the Trim screen is in the logbook beside its design value.
     await expect.poll(() => page.getByTestId('detail-measured').textContent(), { timeout: 10_000 }).toMatch(/Ramp capacitor C6: 273n measured, design 390n/);
     await expect.poll(() => page.getByTestId('detail-trims').textContent(), { timeout: 10_000 }).toMatch(/Ramp capacitor C6: 273n → 390n/);

@@ -145,7 +145,7 @@ describe('commissioning record', () => {
     const text = execFileSync('pdftotext', [folder.file('bare.pdf'), '-'], { encoding: 'utf8' });
     expect(text).toContain('No readings were stored with this session.');
     expect(text).toContain('No capture was kept in this session');
-    expect(text).toContain('No trims were applied.');
+    expect(text).toContain('No part was changed.');
     expect(text).toContain('No part values were measured in this session.');
   });
 });

@@ -89,7 +89,7 @@ export const designFieldGroups: readonly DesignFieldGroup[] = [
     ],
   },
   {
-    title: 'Tolerances',
+    title: 'Reading tolerances (a reading inside passes)',
     fields: [
       { path: 'tolerances.rampPeakPct', label: 'Ramp peak (%)', unit: '%', kind: 'number', optional: true },
       { path: 'tolerances.alphaDeg', label: 'Firing angle (°)', unit: 'deg', kind: 'number', optional: true },

@@ -194,9 +194,17 @@ function inferredSuspects(design: BoardDesign, readings: RampReadings, basis: 'p
   return found;
 }
 
-/** Tolerances off, weighed by how often such a part is the one found off: smaller is likelier. */
+/**
+ * Tolerances off, weighed by how often such a part is the one found off: smaller is likelier. A capacitor ages by
+ * losing capacitance (dried or cracked dielectric, common practice); one that would have to read high did not drift
+ * there, it is a wrong value fitted, as likely as a wrong resistor, so its weight is a resistor's.
+ */
 function unlikeliness(suspect: Suspect): number {
-  return suspect.tolerances / failureWeight[suspect.part];
+  return suspect.tolerances / weightOf(suspect);
+}
+
+function weightOf(suspect: Suspect): number {
+  return isCapacitance(suspect.part) && suspect.explainingValue > suspect.designValue ? 1 : failureWeight[suspect.part];
 }
 
 /**
@@ -231,7 +239,7 @@ function measureFirstSentence(design: BoardDesign, suspects: readonly Suspect[])
   const why =
     checkEffort[first.part] < checkEffort[second.part] && unlikeliness(first) > unlikeliness(second)
       ? `it reads in circuit with the power off in a minute, while the ${partName(design, second.part)} must be lifted at one end to be measured`
-      : isCapacitance(first.part)
+      : isCapacitance(first.part) && weightOf(first) > 1
         ? `capacitors drift and fail far more often than resistors, and it would be ${odds}`
         : `it is the likelier of the two (${odds})`;
   return (

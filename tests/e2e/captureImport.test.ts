@@ -134,6 +134,7 @@ describe('a capture file on the Bench screen', () => {
     await expect(page.getByTestId('big-frequencyHz').textContent()).resolves.toMatch(/(49|50)\.\d+ Hz|50 Hz/);
     await screenshot(page, 'capture-6-stopped');
     await page.getByTestId('stop-session').click();
+    await page.getByTestId('confirm-close-confirm').click();
     await page.getByTestId('setup-source').waitFor({ state: 'visible', timeout: 20_000 });
     expect(pageErrors).toEqual([]);
   });

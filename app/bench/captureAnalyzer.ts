@@ -189,7 +189,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
       t: timeOf(window.startIndex),
       halfCycle: window.direction === 'rising' ? 'positive' : 'negative',
       periodS: timed ? timed.periodS : periodSamples / sampleRateHz,
-      alphaDeg: timed?.alphaDeg ?? (firstPulse ? toDeg(firstPulse.riseIndex - window.startIndex) : null),
+      alphaDeg: timed?.alphaDeg != null ? timed.alphaDeg : firstPulse ? toDeg(firstPulse.riseIndex - window.startIndex) : null,
       controlV: firstPulse ? firstPulse.controlV : null,
       pulses: rightHalf,
       wrongHalfCyclePulses: wrongHalf,

@@ -64,7 +64,13 @@ export class BenchSetup {
     const link = this.context.store.health;
     const linkUp = link !== null && link.source !== null && (link.state === 'streaming' || link.state === 'connecting' || link.state === 'stalled');
     const current = linkUp && link.source ? (link.source.kind === 'serial' ? `logger on ${link.source.path}` : `virtual board${link.source.faults.length ? ` with fault ${link.source.faults.join(', ')}` : ''}`) : '';
-    fill(this.sourceSelect, linkUp ? h('option', { value: 'keep' }, `The link as it is (${current})`) : null, h('option', { value: 'virtual' }, 'Virtual board (no hardware)'), ports.ports.map((port) => h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.manufacturer ? ` (${port.manufacturer})` : ''}`)));
+    // A port on a USB-serial bridge loggers are built on is offered first (before the virtual board): it is most
+    // likely the logger plugged in for this session.
+    const portOption = (port: (typeof ports.ports)[number]): HTMLElement =>
+      h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.loggerBridge ? ` (${port.loggerBridge})` : port.manufacturer ? ` (${port.manufacturer})` : ''}`);
+    const likely = ports.ports.filter((port) => port.loggerBridge);
+    const others = ports.ports.filter((port) => !port.loggerBridge);
+    fill(this.sourceSelect, linkUp ? h('option', { value: 'keep' }, `The link as it is (${current})`) : null, likely.map(portOption), h('option', { value: 'virtual' }, 'Virtual board (no hardware)'), others.map(portOption));
     if (previousSource && [...this.sourceSelect.options].some((option) => option.value === previousSource)) this.sourceSelect.value = previousSource;
     this.updateSource();
   }

@@ -90,6 +90,8 @@ describe('rampwright sim --firmware with record on a socat pair', () => {
     // One ADC code at the ramp test point (firmware/README.md) plus 0.5 %.
     const peakV = predictRamp(design).peakV;
     expect(Math.abs(readings.ramp.peakV! - peakV)).toBeLessThanOrEqual(0.02492 + 0.005 * peakV);
-    expect(Math.abs(readings.pulse.widthUs! - design.gatePulseUs)).toBeLessThan(1);
+    // Timed pulses to a microsecond; the few read from samples before the edges came, within a sample (160 us).
+    const untimedShare = (readings.firingIntervals - readings.timedIntervals!) / readings.firingIntervals;
+    expect(Math.abs(readings.pulse.widthUs! - design.gatePulseUs)).toBeLessThan(1 + untimedShare * 160);
   });
 });

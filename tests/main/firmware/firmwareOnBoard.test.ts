@@ -25,7 +25,7 @@ import { runScript, type SessionRun, type TimedLine } from './sessionScript';
 const design = halfWaveBoard();
 const maxRateHz = 6250;
 /** Signal times of the script (s since power-up). */
-const at = { edgesOn: 0.01, start: 0.02, identify: 0.6, unknown: 0.62, badCrc: 0.64, rateTooHigh: 1.1, rateInexact: 1.11, rate: 1.12, end: 1.2 };
+const at = { edgesOn: 0.01, start: 0.02, identify: 0.6, unknown: 0.62, badCrc: 0.64, rateTooHigh: 1.1, rateInexact: 1.11, rate: 1.12, stop: 1.16, end: 1.2 };
 
 let build: FirmwareBuild;
 let logger: FirmwareLogger;
@@ -74,6 +74,7 @@ beforeAll(() => {
       { atS: at.rateTooHigh, send: encodeCommand({ command: 'rate', sampleRateHz: 8000 }) },
       { atS: at.rateInexact, send: encodeCommand({ command: 'rate', sampleRateHz: 3000 }) },
       { atS: at.rate, send: encodeCommand({ command: 'rate', sampleRateHz: 5000 }) },
+      { atS: at.stop, send: encodeCommand({ command: 'stop' }) },
     ],
     at.end,
   );
@@ -166,6 +167,15 @@ describe('logger firmware on the simulated chip: protocol', () => {
     expect(lines.some((line) => line.startsWith('E ? command failed its CRC check*'))).toBe(true);
     // A refused `stop` (bad CRC) did not stop the data.
     expect(lines.filter((line) => line.startsWith('D ')).length).toBeGreaterThan(5);
+  });
+
+  it('stops sending data on stop', () => {
+    const lines = linesBetween(at.stop - 0.01, at.end).map((entry) => entry.line);
+    const stopped = lines.findIndex((line) => line.startsWith('A stop*'));
+    expect(stopped).toBeGreaterThanOrEqual(0);
+    expect(lines.slice(stopped + 1).filter((line) => /^[DTS] /.test(line))).toEqual([]);
+    // The data ran on up to the stop.
+    expect(lines.slice(0, stopped).some((line) => line.startsWith('D '))).toBe(true);
   });
 
   it('refuses a rate above its highest, and one its clock cannot make exactly, and restarts the sequence on a rate it can', () => {

@@ -144,6 +144,10 @@ export const sessionRowSchema = z.object({
   alphaDeg: z.number().nullable(),
   rampPeakV: z.number().nullable(),
   linkErrors: z.number().int().nonnegative(),
+  /** The bench that recorded it (null for sessions from before benches were named). */
+  bench: z.string().nullable(),
+  /** When this bench pushed it to the shared logbook; null when not yet (or when this is the shared logbook). */
+  sharedAt: isoTimeSchema.nullable(),
 });
 export type SessionRow = z.infer<typeof sessionRowSchema>;
 

@@ -8,6 +8,7 @@ import { controlForAlpha } from '../../app/board/firingAngle';
 import { InputError } from '../../app/errors';
 import { createAccessToken, isLoopbackAddress } from '../server/access';
 import { startBenchServer, type BenchServer } from '../server/benchServer';
+import { logbookDisplayLocation } from '../store/index';
 import { openBenchContext, type BenchContext } from './benchContext';
 import { demoDefaults } from './commissioningDemo';
 import { rendererFolder } from './packagePaths';
@@ -15,7 +16,12 @@ import { recordExporters } from './recordExporters';
 import type { SerialAccess } from './sessionService';
 
 export interface BenchServeOptions {
+  /** A logbook file, or a shared logbook's postgres:// address. */
   logbookPath: string;
+  /** The bench's name on its sessions. */
+  bench?: string;
+  /** A shared logbook to push finished sessions to, as the bench goes. */
+  pushTo?: string;
   host?: string;
   port?: number;
   /** Serve on a non-loopback interface with an access token. */
@@ -51,7 +57,7 @@ export async function startBenchServe(options: BenchServeOptions): Promise<Runni
   if (!loopback && !options.tokenRequired) {
     throw new InputError(`serving on ${host} lets other computers reach the bench: add --token-required (an access token is printed) or leave --host out for this computer only`, '--host');
   }
-  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters });
+  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters, bench: options.bench, pushTo: options.pushTo });
   try {
     if (options.demo) {
       const { design } = await context.designs.get(demoDefaults.designName);
@@ -70,7 +76,8 @@ export async function startBenchServe(options: BenchServeOptions): Promise<Runni
     }).catch((error: unknown) => {
       throw listenFault(error, host, options.port ?? 0);
     });
-    const banner = [`Rampwright bench at ${server.url}`, `Logbook: ${options.logbookPath}`];
+    const banner = [`Rampwright bench at ${server.url}`, `Logbook: ${context.logbook.location}`];
+    if (options.pushTo !== undefined) banner.push(`Pushing finished sessions to the shared logbook ${logbookDisplayLocation(options.pushTo)}`);
     if (server.token) banner.push(`Access token: ${server.token} (every request needs it; the address above carries it)`);
     if (!staticRoot || !existsSync(staticRoot)) banner.push('The screens are not built (npm run build); the API is served alone.');
     if (options.demo) banner.push(`Virtual board connected: ${demoDefaults.designName}, fault ${demoDefaults.faults.join(', ')}`);

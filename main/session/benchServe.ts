@@ -20,8 +20,9 @@ export interface BenchServeOptions {
   logbookPath: string;
   /** The bench's name on its sessions. */
   bench?: string;
-  /** A shared logbook to push finished sessions to, as the bench goes. */
+  /** A shared logbook to push finished sessions to, as the bench goes, every `pushIntervalMs`. */
   pushTo?: string;
+  pushIntervalMs?: number;
   host?: string;
   port?: number;
   /** Serve on a non-loopback interface with an access token. */
@@ -57,7 +58,7 @@ export async function startBenchServe(options: BenchServeOptions): Promise<Runni
   if (!loopback && !options.tokenRequired) {
     throw new InputError(`serving on ${host} lets other computers reach the bench: add --token-required (an access token is printed) or leave --host out for this computer only`, '--host');
   }
-  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters, bench: options.bench, pushTo: options.pushTo });
+  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters, bench: options.bench, pushTo: options.pushTo, pushIntervalMs: options.pushIntervalMs });
   try {
     if (options.demo) {
       const { design } = await context.designs.get(demoDefaults.designName);

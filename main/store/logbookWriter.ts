@@ -15,7 +15,7 @@ import { insertRows } from './exchangeRows';
 import type { SessionWriterOptions } from './logbookOverEngine';
 import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
 import { storeSessionSummary } from './sessionSummary';
-import { run, type SqlProgram, type SqlValue } from './sqlProgram';
+import { get, run, type SqlProgram, type SqlValue } from './sqlProgram';
 
 type QueueItem =
   | { kind: 'cycle'; reading: CycleReading; atMs: number }
@@ -36,8 +36,14 @@ export interface BatchingWriterOptions extends SessionWriterOptions {
 const cycleColumns = ['seq', 't_s', 'half_cycle', 'period_s', 'alpha_deg', 'control_v', 'pulses', 'wrong_half_cycle_pulses', 'ramp_peak_v', 'ramp_floor_v', 'slope_v_per_ms', 'start_delay_deg', 'nonlinearity_pct', 'clipped', 'reset_us', 'recorded_at_ms'];
 const captureColumns = ['label', 'start_s', 'sample_rate_hz', 'samples_per_channel', 'roles', 'after_gap', 'started_at_ms', 'encoding', 'sha256', 'data'];
 
-/** One batch as rows per table, in queue order within each table; the last readings, steps and notes win. */
-function* writeBatch(sessionId: number, batch: readonly QueueItem[], firstSeq: { cycle: number; transfer: number }): SqlProgram<void> {
+/**
+ * One batch as rows per table, in queue order within each table; the last readings, steps and notes win. The batch
+ * sets the session's heartbeat to its own stamp, so a batch tried again after a connection lost at COMMIT (did it
+ * commit or not?) finds its stamp there when it did, and writes nothing twice.
+ */
+function* writeBatch(sessionId: number, batch: readonly QueueItem[], firstSeq: { cycle: number; transfer: number }, stamp: number): SqlProgram<void> {
+  const current = yield* get<{ stamp: number | null }>('SELECT heartbeat_at_ms AS "stamp" FROM sessions WHERE id = ?', [sessionId]);
+  if (current?.stamp === stamp) return;
   const rows: Record<'cycles' | 'transfers' | 'links' | 'trims' | 'measurements' | 'captures', SqlValue[][]> = { cycles: [], transfers: [], links: [], trims: [], measurements: [], captures: [] };
   const updates = new Map<'readings_json' | 'steps_json' | 'notes', string>();
   for (const item of batch) {
@@ -85,7 +91,7 @@ function* writeBatch(sessionId: number, batch: readonly QueueItem[], firstSeq: {
   yield* insertRows('part_measurements', sessionId, ['part', 'value', 'design_value', 'at_ms'], rows.measurements);
   yield* insertRows('captures', sessionId, captureColumns, rows.captures);
   for (const [column, value] of updates) yield* run(`UPDATE sessions SET ${column} = ? WHERE id = ?`, [value, sessionId]);
-  yield* run('UPDATE sessions SET heartbeat_at_ms = ? WHERE id = ?', [Date.now(), sessionId]);
+  yield* run('UPDATE sessions SET heartbeat_at_ms = ? WHERE id = ?', [stamp, sessionId]);
 }
 
 export function createBatchingWriter(sessionId: number, options: BatchingWriterOptions): LogbookWriter {
@@ -94,20 +100,29 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
   // A writer is opened for a session just started: its sequences begin at 0.
   const seq = { cycle: 0, transfer: 0 };
   let queue: QueueItem[] = [];
+  /** A batch the store refused, tried again alone with its stamp before anything newer. */
+  let refused: { items: QueueItem[]; stamp: number } | null = null;
+  // Later than the heartbeat the session was started with, so no stamp can match that one.
+  let lastStamp = Date.now();
   let closed = false;
   let inFlight: Promise<void> | null = null;
   let lastHeartbeatMs = 0;
   const stats: LogbookWriterStats = { queued: 0, cyclesWritten: 0, batches: 0, cyclesDropped: 0, lastBatchMs: 0, longestBatchMs: 0, lastError: null };
 
   async function flushOnce(): Promise<void> {
-    if (queue.length === 0 && Date.now() - lastHeartbeatMs < 5000) return;
-    const batch = queue;
-    queue = [];
+    if (refused === null && queue.length === 0 && Date.now() - lastHeartbeatMs < 5000) return;
+    if (refused === null) {
+      lastStamp = Math.max(Date.now(), lastStamp + 1);
+      refused = { items: queue, stamp: lastStamp };
+      queue = [];
+    }
+    const { items: batch, stamp } = refused;
     const started = performance.now();
     const cycles = batch.reduce((count, item) => count + (item.kind === 'cycle' ? 1 : 0), 0);
     const transfers = batch.reduce((count, item) => count + (item.kind === 'transfer' ? 1 : 0), 0);
     try {
-      await options.write(writeBatch(sessionId, batch, seq));
+      await options.write(writeBatch(sessionId, batch, seq, stamp));
+      refused = null;
       seq.cycle += cycles;
       seq.transfer += transfers;
       lastHeartbeatMs = Date.now();
@@ -115,8 +130,7 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
       stats.cyclesWritten += cycles;
       stats.lastError = null;
     } catch (error) {
-      // The transaction rolled back: put the batch back in front and try again on the next tick.
-      queue = batch.concat(queue);
+      // Rolled back (or cut off at COMMIT): the same batch, same stamp, is tried again on the next tick.
       stats.lastError = error instanceof Error ? error.message : String(error);
     }
     stats.lastBatchMs = performance.now() - started;
@@ -134,17 +148,20 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
 
   const enqueue = (item: QueueItem): void => {
     if (closed) throw new Error(`session ${sessionId} is closed: nothing more can be added`);
-    if (item.kind === 'cycle' && queue.length >= maxQueuedItems) {
+    if (item.kind === 'cycle' && queue.length + (refused?.items.length ?? 0) >= maxQueuedItems) {
       stats.cyclesDropped += 1;
       return;
     }
     queue.push(item);
   };
 
+  /** Writes everything queued now: a refused batch first, then the rest (a batch at a time). */
   async function flushAll(): Promise<void> {
     if (inFlight) await inFlight;
-    await flushNow();
-    if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
+    do {
+      await flushNow();
+      if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
+    } while (refused !== null || queue.length > 0);
   }
 
   return {
@@ -158,7 +175,7 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
     setReadings: (readings: CaptureReadings) => enqueue({ kind: 'readings', json: JSON.stringify(readings) }),
     setStepsJson: (json) => enqueue({ kind: 'steps', json }),
     setNotes: (notes) => enqueue({ kind: 'notes', notes }),
-    stats: () => ({ ...stats, queued: queue.length }),
+    stats: () => ({ ...stats, queued: queue.length + (refused?.items.length ?? 0) }),
     flush: flushAll,
     async close(status: Exclude<SessionStatus, 'open'> = 'closed') {
       if (closed) return options.readRow(sessionId);
@@ -166,7 +183,7 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
       closed = true;
       clearInterval(timer);
       // Anything added while the last batch was on its way.
-      if (queue.length > 0) await flushAll();
+      await flushAll();
       await options.write(storeSessionSummary(sessionId, status, Date.now()));
       return options.readRow(sessionId);
     },

@@ -6,6 +6,7 @@
 import { z } from 'zod';
 import { eSeriesNames } from './eSeries';
 import { transistorSchema } from './design';
+import { defaultControlPotOhm } from './parts';
 
 export const sizingTargetsSchema = z.object({
   name: z.string().min(1).default('Sized board'),
@@ -28,7 +29,8 @@ export const sizingTargetsSchema = z.object({
   syncPhaseDeg: z.number().min(-90).max(90).default(0),
   syncResetUs: z.number().min(0).max(5000).default(300),
   gatePulseUs: z.number().positive().max(10000).default(200),
-  potControlOhm: z.number().positive().default(4700),
+  /** Control potentiometer (ohm). Default: the same pot a design without one is taken to have (parts.ts). */
+  potControlOhm: z.number().positive().default(defaultControlPotOhm),
   transistor: transistorSchema,
 });
 

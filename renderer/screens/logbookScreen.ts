@@ -4,6 +4,8 @@
  * names the bench that did it (a shared logbook holds a whole line's); a bench that pushes to a shared logbook shows
  * which of its sessions are not yet shared. Times are shown in local time; the logbook keeps UTC.
  */
+import type { BoardDesign } from '../../app/board/design';
+import { recordedPartName, recordedPartValue } from '../../app/board/partNames';
 import type { CallResult } from '../../app/contract';
 import type { SessionComparison, SessionDetail, SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
@@ -13,10 +15,11 @@ import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
 import { readingsCsv } from '../shaping/readingsCsv';
 import { stepTitles } from '../shaping/stepView';
+import { localSpanText } from '../shaping/timeSpan';
 import { fitLinePoints, toPoints } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 import { FleetPanel } from './fleetPanel';
-import { localTimeNote, sharedCell, sharingStatus } from './sharingView';
+import { localTimeNote, sharedCell, sharingMoved, sharingPollMs, sharingStatus } from './sharingView';
 
 type LineChart = Chart<'line', { x: number; y: number }[]>;
 
@@ -47,6 +50,8 @@ export class LogbookScreen implements Screen {
     this.fleet = new FleetPanel(context);
     for (const control of [this.unitSelect, this.designSelect, this.fromInput, this.toInput]) control.addEventListener('change', () => void this.loadSessions());
     this.compareButton.addEventListener('click', () => void this.compare());
+    // A bench pushing as it goes: the sharing line and the Shared column follow without the screen being reopened.
+    window.setInterval(() => void this.followSharing(), sharingPollMs);
     const field = (label: string, control: HTMLElement) => {
       const id = uniqueId('filter');
       control.id = id;
@@ -104,17 +109,35 @@ export class LogbookScreen implements Screen {
     );
   }
 
-  private async loadSessions(): Promise<void> {
+  /** The sessions matching the filters and the sharing state, read again and shown; false when the list failed. */
+  private async readSessions(): Promise<boolean> {
     const dayStart = (value: string, end: boolean) => (value ? `${value}T${end ? '23:59:59' : '00:00:00'}Z` : undefined);
     const result = await runAction(this.context, null, () =>
       this.context.client.listSessions({ unitSerial: this.unitSelect.value || undefined, designName: this.designSelect.value || undefined, from: dayStart(this.fromInput.value, false), to: dayStart(this.toInput.value, true) }),
     );
-    if (!result) return;
+    if (!result) return false;
     this.sessions = result.sessions;
     this.sharing = await this.context.client.sharing().catch(() => null);
     this.renderSharing();
     this.ticked = this.ticked.filter((id) => this.sessions.some((session) => session.id === id));
     this.renderSessions();
+    return true;
+  }
+
+  private async followSharing(): Promise<void> {
+    if (this.element.hidden || document.hidden || this.sharing?.target == null) return;
+    const now = await this.context.client.sharing().catch(() => null);
+    if (!now) return;
+    if (sharingMoved(this.sharing, now)) {
+      await this.readSessions();
+      return;
+    }
+    this.sharing = now;
+    this.renderSharing();
+  }
+
+  private async loadSessions(): Promise<void> {
+    if (!(await this.readSessions())) return;
     const unitSerial = this.unitSelect.value;
     if (unitSerial) {
       void this.showDrift(unitSerial);
@@ -163,7 +186,7 @@ export class LogbookScreen implements Screen {
               { 'aria-selected': String(session.id === this.selectedId), 'data-session': session.id },
               h('td', {}, tick),
               h('td', {}, open),
-              h('td', {}, session.unit),
+              h('td', { class: 'nowrap' }, session.unit),
               h('td', { class: 'nowrap', 'data-testid': `bench-${session.id}` }, session.bench ?? '–'),
               h('td', {}, `${session.designName} v${session.designVersion}`),
               h('td', {}, session.operator),
@@ -214,6 +237,18 @@ export class LogbookScreen implements Screen {
       },
       () => undefined, // no registered formats: the CSV button stays
     );
+    // Parts in words, with the designators once the session's design version is at hand.
+    const measuredList = h('ul', { 'data-testid': 'detail-measured' });
+    const trimList = h('ul', { 'data-testid': 'detail-trims' });
+    const fillParts = (design: BoardDesign | null): void => {
+      fill(measuredList, detail.partMeasurements.map((measured) => h('li', {}, `${capitalised(recordedPartName(design, measured.part))}: ${recordedPartValue(measured.part, measured.value)} measured, design ${recordedPartValue(measured.part, measured.designValue)}, ${new Date(measured.at).toLocaleTimeString()}`)));
+      // What changed and when first; the plan's reason (its own sentence) after it.
+      fill(trimList, detail.trims.map((trim) => h('li', {}, `${capitalised(recordedPartName(design, trim.part))}: ${trim.part === 'transistor' ? 'replaced' : `${recordedPartValue(trim.part, trim.fromOhm)} → ${recordedPartValue(trim.part, trim.toOhm)}`} at ${new Date(trim.at).toLocaleTimeString()}. ${trim.reason || 'No reason given.'}`)));
+    };
+    fillParts(null);
+    if (detail.partMeasurements.length + detail.trims.length > 0) {
+      void this.context.client.getDesign({ name: row.designName, version: row.designVersion }).then((stored) => fillParts(stored.design), () => undefined);
+    }
     const readingRows = detail.steps.flatMap((step) =>
       step.readings.map((reading) =>
         h('tr', {}, h('td', {}, stepTitles[step.step]), h('td', {}, reading.label), h('td', { class: 'number', 'data-reading': reading.key }, formatReading(reading.value, reading.unit)), h('td', { class: 'number' }, formatReading(reading.expected, reading.unit)), h('td', {}, reading.verdict ? verdictBadge(reading.verdict) : h('span', { class: 'muted' }, 'for information'))),
@@ -222,21 +257,17 @@ export class LogbookScreen implements Screen {
     fill(
       this.detail,
       h('h2', {}, `Session ${row.id}: unit ${row.unit}`),
-      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.status} · ${row.cycles} cycles`),
+      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${localSpanText(row.startedAt, row.endedAt)} · ${row.status} · ${row.cycles} cycles`),
       this.sharing?.target != null ? h('p', { 'data-testid': 'detail-shared' }, sharedCell(row)) : null,
       detail.notes ? h('p', {}, detail.notes) : null,
       h('h3', {}, 'Readings'),
       readingRows.length > 0 ? h('table', { class: 'data', 'data-testid': 'detail-readings' }, h('thead', {}, h('tr', {}, ['Step', 'Reading', 'Value', 'Design', 'Verdict'].map((title) => h('th', { scope: 'col' }, title)))), h('tbody', {}, readingRows)) : h('p', { class: 'empty' }, 'No step was recorded in this session.'),
       h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), h('div', { class: 'plot small' }, transferCanvas)), h('div', {}, h('h3', {}, perCycleTitle), peaks.length + alphas.length > 0 ? h('div', { class: 'plot small' }, cycleCanvas) : h('p', { class: 'empty' }, 'No per-cycle readings were kept.'))),
       detail.partMeasurements.length > 0 ? h('h3', {}, 'Parts measured on the board') : null,
-      detail.partMeasurements.length > 0
-        ? h('ul', { 'data-testid': 'detail-measured' }, detail.partMeasurements.map((measured) => {
-          const unit = measured.part === 'cRamp' ? 'F' : 'Ω';
-          return h('li', {}, `${measured.part}: ${formatSi(measured.value, unit)} measured, design ${formatSi(measured.designValue, unit)}, ${new Date(measured.at).toLocaleTimeString()}`);
-        }))
-        : null,
-      h('h3', {}, 'Trims applied'),
-      detail.trims.length > 0 ? h('ul', {}, detail.trims.map((trim) => h('li', {}, `${trim.part}: ${formatSi(trim.fromOhm, 'Ω')} → ${formatSi(trim.toOhm, 'Ω')} (${trim.reason || 'no reason given'}), ${new Date(trim.at).toLocaleTimeString()}`))) : h('p', { class: 'empty' }, 'None.'),
+      detail.partMeasurements.length > 0 ? measuredList : null,
+      // A part replaced is no trim: the heading covers both kinds of change.
+      h('h3', {}, 'Changes made to the board'),
+      detail.trims.length > 0 ? trimList : h('p', { class: 'empty' }, 'None.'),
       h('h3', {}, 'Link events'),
       detail.linkEvents.length > 0 ? h('ul', {}, detail.linkEvents.slice(0, 20).map((event) => h('li', {}, `${new Date(event.at).toLocaleTimeString()} ${event.kind}: ${event.detail}`))) : h('p', { class: 'empty' }, 'None: the link was clean.'),
       exportArea,
@@ -353,4 +384,8 @@ function driftForecast(warnings: readonly string[], sessions: number): HTMLEleme
     { class: 'drift-warnings', role: 'alert', 'data-testid': 'drift-forecast' },
     warnings.map((warning) => h('p', {}, h('span', { 'aria-hidden': 'true' }, '⚠ '), h('strong', {}, 'Trend warning: '), warning)),
   );
+}
+
+function capitalised(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
 }

@@ -70,6 +70,8 @@ export const portInfoSchema = z.object({
   serialNumber: z.string().nullable(),
   vendorId: z.string().nullable(),
   productId: z.string().nullable(),
+  /** The port is on a USB-serial bridge loggers are commonly built on (listed first): what the bridge is. */
+  loggerBridge: z.string().nullable().default(null),
 });
 export type PortInfo = z.infer<typeof portInfoSchema>;
 

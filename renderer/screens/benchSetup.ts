@@ -72,11 +72,16 @@ export class BenchSetup {
     const link = this.context.store.health;
     const linkUp = link !== null && link.source !== null && (link.state === 'streaming' || link.state === 'connecting' || link.state === 'stalled');
     const current = linkUp && link.source ? describeLinkSource(link.source) : '';
+    // A port on a USB-serial bridge loggers are built on is offered first (before the virtual board): it is most
+    // likely the logger plugged in for this session.
+    const portOption = (port: (typeof ports.ports)[number]): HTMLElement =>
+      h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.loggerBridge ? ` (${port.loggerBridge})` : port.manufacturer ? ` (${port.manufacturer})` : ''}`);
     fill(
       this.sourceSelect,
       linkUp ? h('option', { value: 'keep' }, `The link as it is (${current})`) : null,
+      ports.ports.filter((port) => port.loggerBridge).map(portOption),
       h('option', { value: 'virtual' }, 'Virtual board (no hardware)'),
-      ports.ports.map((port) => h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.manufacturer ? ` (${port.manufacturer})` : ''}`)),
+      ports.ports.filter((port) => !port.loggerBridge).map(portOption),
       h('option', { value: 'capture' }, 'A capture file (CSV or COMTRADE)'),
     );
     if (previousSource && [...this.sourceSelect.options].some((option) => option.value === previousSource)) this.sourceSelect.value = previousSource;

@@ -153,9 +153,10 @@ export class BenchScreen implements Screen {
       const report = await this.context.client.checkStep({ step });
       this.context.notices.show(report.verdict === 'out-of-tolerance' ? 'warning' : 'info', `${stepTitles[step]}: recorded, ${verdictWords[report.verdict].phrase}.`);
       await this.context.store.refresh();
-      // On to the step the bench suggests next (the first not recorded), so the next Record button is at hand.
+      // On to the step the bench suggests next (the first not recorded), so the next Record button is at hand,
+      // unless the technician chose another step while this one was being recorded: their choice stands.
       const next = this.context.store.state?.currentStep;
-      if (next && next !== step) this.context.store.selectStep(next);
+      if (next && next !== step && this.context.store.selectedStep === step) this.context.store.selectStep(next);
     });
   }
 

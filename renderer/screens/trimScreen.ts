@@ -89,7 +89,7 @@ export class TrimScreen implements Screen {
         'section',
         { class: 'panel stack trim-parts', 'aria-labelledby': 'trim-parts-title' },
         h('h2', { id: 'trim-parts-title' }, 'Parts on the board'),
-        h('p', { class: 'muted' }, 'If the ramp is far off, measure the parts that set it (board powered down, part lifted at one end) and type what you found; leave a field blank for a part you did not measure. The plan then starts from the board as built.'),
+        h('p', { class: 'muted' }, 'If the ramp is far off, measure the parts that set it with the board powered down and type what you found; leave a field blank for a part you did not measure. A resistor reads in circuit: a reading above its marking is sure, one below may be another path in parallel, so lift one end to be sure; lift the ramp capacitor at one end to measure it. The plan then starts from the board as built.'),
         this.partsForm,
         h('div', { class: 'row' }, this.partsButton, this.partsForget),
       ),

@@ -177,8 +177,12 @@ export const benchCalls = {
   // Logbook
   listSessions: call(
     z.object({ unitSerial: z.string().optional(), designName: z.string().optional(), from: isoTimeSchema.optional(), to: isoTimeSchema.optional(), limit: z.number().int().positive().max(10000).default(200) }).strict(),
-    z.object({ sessions: z.array(sessionRowSchema) }),
-    'Sessions by unit, design and date, newest first.',
+    z.object({
+      sessions: z.array(sessionRowSchema),
+      /** True when older sessions match too: only the newest `limit` are given (a shared logbook holds a line's). */
+      more: z.boolean(),
+    }),
+    'Sessions by unit, design and date: the newest `limit` of them, oldest first.',
   ),
   sessionDetail: call(z.object({ sessionId }).strict(), sessionDetailSchema, 'One session: readings, transfer curve, trims, link events.'),
   compareSessions: call(z.object({ sessionIdA: sessionId, sessionIdB: sessionId }).strict(), sessionComparisonSchema, 'Two sessions side by side.'),

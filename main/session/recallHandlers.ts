@@ -25,7 +25,11 @@ export function createRecallHandlers(options: { logbook: Logbook; designs: Desig
       const units = await logbook.listUnits();
       return { units: units.filter((unit) => designName === undefined || unit.designName === designName) };
     },
-    listSessions: async ({ unitSerial, designName, from, to, limit }) => ({ sessions: (await logbook.listSessions({ unitSerial, designName, from, to })).slice(0, limit).map(sessionRowView) }),
+    async listSessions({ unitSerial, designName, from, to, limit }) {
+      // One more than asked for says whether older sessions match too.
+      const rows = await logbook.listSessions({ unitSerial, designName, from, to, newest: limit + 1 });
+      return { sessions: rows.slice(-limit).map(sessionRowView), more: rows.length > limit };
+    },
     sessionDetail: async ({ sessionId }) => sessionDetailView(logbook, designs, sessionId),
     compareSessions: async ({ sessionIdA, sessionIdB }) => compareView(logbook, sessionIdA, sessionIdB),
     drift: async ({ unitSerial }) => ({ ...(await driftView(logbook, unitSerial)), warnings: await driftWarnings({ logbook, designs }, unitSerial) }),

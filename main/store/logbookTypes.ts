@@ -208,6 +208,8 @@ export interface SessionFilter {
   from?: string;
   /** Sessions started before this instant (ISO 8601). */
   to?: string;
+  /** Only the newest this many of the matching sessions (still given oldest first): a shared logbook holds a line's. */
+  newest?: number;
 }
 
 /**

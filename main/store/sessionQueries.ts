@@ -123,7 +123,10 @@ export function* listSessions(filter: SessionFilter = {}): SqlProgram<SessionRow
     parameters.push(parseInstant(filter.to, 'to'));
   }
   const where = clauses.length > 0 ? ` WHERE ${clauses.join(' AND ')}` : '';
-  const rows = yield* all<SessionJoinRow>(`${sessionSelect}${where} ORDER BY s.started_at_ms, s.id`, parameters);
+  const rows =
+    filter.newest === undefined
+      ? yield* all<SessionJoinRow>(`${sessionSelect}${where} ORDER BY s.started_at_ms, s.id`, parameters)
+      : yield* all<SessionJoinRow>(`SELECT * FROM (${sessionSelect}${where} ORDER BY s.started_at_ms DESC, s.id DESC LIMIT ?) newest ORDER BY "startedAtMs", id`, [...parameters, filter.newest]);
   const result: SessionRow[] = [];
   for (const row of rows) result.push(yield* toRow(row));
   return result;

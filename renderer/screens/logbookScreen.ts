@@ -44,6 +44,8 @@ export class LogbookScreen implements Screen {
   private readonly charts: LineChart[] = [];
   private unitDesigns = new Map<string, string>();
   private sessions: SessionRow[] = [];
+  /** Older sessions match the filters too (only the newest are listed). */
+  private olderMatch = false;
   private ticked: number[] = [];
   private selectedId: number | null = null;
 
@@ -119,6 +121,7 @@ export class LogbookScreen implements Screen {
     );
     if (!result) return false;
     this.sessions = result.sessions;
+    this.olderMatch = result.more;
     this.sharing = await this.context.client.sharing().catch(() => null);
     this.renderSharing();
     this.ticked = this.ticked.filter((id) => this.sessions.some((session) => session.id === id));
@@ -202,6 +205,7 @@ export class LogbookScreen implements Screen {
           }),
         ),
       ),
+      this.olderMatch ? h('p', { class: 'muted', 'data-testid': 'older-sessions' }, `The newest ${this.sessions.length} sessions are shown; older ones match too: choose a unit, a board design or dates to see them.`) : null,
     );
   }
 

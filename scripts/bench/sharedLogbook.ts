@@ -118,9 +118,14 @@ export async function run(): Promise<void> {
     const all = performance.now();
     const everything = await logbook.listSessions();
     const listAllMs = performance.now() - all;
+    // What the Logbook screen asks for with no filter: the newest 200 (and one more, to know older ones match).
+    const screen = performance.now();
+    const newest = await logbook.listSessions({ newest: 201 });
+    const screenMs = performance.now() - screen;
+    if (newest.length !== 201) throw new Error(`the newest 201 sessions came back as ${newest.length}`);
     await logbook.close();
     console.log(`  recall of a unit's history (5 sessions) from ${everything.length.toLocaleString('en')}: list ${median(list).toFixed(1)} ms, drift ${median(drift).toFixed(1)} ms, list + drift + every session's detail ${median(whole).toFixed(1)} ms (medians of 25 units)`);
-    console.log(`  listing all ${everything.length.toLocaleString('en')} sessions: ${listAllMs.toFixed(0)} ms`);
+    console.log(`  listing all ${everything.length.toLocaleString('en')} sessions: ${listAllMs.toFixed(0)} ms; the Logbook screen's newest 200: ${screenMs.toFixed(0)} ms`);
   } finally {
     await cluster.stop();
     rmSync(folder, { recursive: true, force: true });

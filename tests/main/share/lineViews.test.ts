@@ -85,6 +85,11 @@ describe('the screens on the shared logbook', () => {
     try {
       const listed = await context.dispatch('listSessions', {});
       expect(listed.ok && (listed.result as { sessions: Array<{ bench: string }> }).sessions.map((row) => row.bench)).toEqual(['bench 1', 'bench 2', 'bench 2']);
+      expect(listed.ok && (listed.result as { more: boolean }).more).toBe(false);
+      // Asked for fewer than the line holds: the newest, and word that older ones match too.
+      const newest = await context.dispatch('listSessions', { limit: 2 });
+      expect(newest.ok && (newest.result as { sessions: Array<{ bench: string }> }).sessions.map((row) => row.bench)).toEqual(['bench 2', 'bench 2']);
+      expect(newest.ok && (newest.result as { more: boolean }).more).toBe(true);
       const started = await context.dispatch('startSession', { unitSerial: 'LN-4003', designName: 'Charger firing board CH-50H (demo)', operator: 'reviewer' });
       expect(started.ok).toBe(false);
       expect(!started.ok && started.error.code).toBe('not-available');

@@ -77,6 +77,10 @@ describe.each(storeKinds)('%s logbook', (kind) => {
       expect((await logbook.listSessions({ designName: other.name })).map((row) => row.id)).toEqual([c]);
       expect((await logbook.listSessions({ from: '2026-03-03', to: '2026-03-11T09:00:00Z' })).map((row) => row.id)).toEqual([c]);
       expect((await logbook.listSessions()).map((row) => row.id)).toEqual([a, c, b]);
+      // The newest of them only, still oldest first; with a filter, the newest of those that match.
+      expect((await logbook.listSessions({ newest: 2 })).map((row) => row.id)).toEqual([c, b]);
+      expect((await logbook.listSessions({ newest: 1, unitSerial: 'RW-0142' })).map((row) => row.id)).toEqual([b]);
+      expect((await logbook.listSessions({ newest: 5 })).map((row) => row.id)).toEqual([a, c, b]);
       await expect(logbook.listSessions({ from: 'last tuesday' })).rejects.toThrow(InputError);
       const units = await logbook.listUnits();
       expect(units.map((unit) => [unit.serial, unit.sessions, unit.lastSessionAt])).toEqual([

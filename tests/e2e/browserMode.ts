@@ -12,13 +12,21 @@ export const repoRoot = resolve(__dirname, '..', '..');
 export const screensFolder = join(repoRoot, 'test-output', 'screens');
 
 export interface DemoServer {
+  /** The address the server printed, carrying this run's access token: open this one. */
   url: string;
+  /** `http://127.0.0.1:<port>`, for building other addresses (which need `token` too). */
+  origin: string;
+  /** This run's access token. */
+  token: string;
   logbookPath: string;
   output(): string;
   stop(): Promise<void>;
 }
 
-/** Starts `node dist/rampwright.js serve --demo --port 0 --db <fresh file>` and waits for the address it prints. */
+/**
+ * Starts `node dist/rampwright.js serve --demo --port 0 --db <fresh file>` and waits for the address it prints,
+ * which carries the run's access token (the server refuses every request without it).
+ */
 export async function startDemoServer(options: { speed?: number } = {}): Promise<DemoServer> {
   const cli = join(repoRoot, 'dist', 'rampwright.js');
   if (!existsSync(cli) || !existsSync(join(repoRoot, 'dist', 'renderer', 'index.js'))) throw new Error('build first: npm run build (dist/rampwright.js and dist/renderer are missing)');
@@ -28,13 +36,13 @@ export async function startDemoServer(options: { speed?: number } = {}): Promise
   let output = '';
   child.stdout?.on('data', (chunk: Buffer) => (output += chunk.toString('utf8')));
   child.stderr?.on('data', (chunk: Buffer) => (output += chunk.toString('utf8')));
-  const url = await new Promise<string>((resolveUrl, reject) => {
+  const [url, origin, token] = await new Promise<[string, string, string]>((resolveUrl, reject) => {
     const timer = setTimeout(() => reject(new Error(`the server printed no address within 30 s:\n${output}`)), 30_000);
     const look = () => {
-      const match = /(http:\/\/127\.0\.0\.1:\d+)\/?\S*/.exec(output);
+      const match = /((http:\/\/127\.0\.0\.1:\d+)\/\?token=([A-Za-z0-9_-]+))\s/.exec(output);
       if (match) {
         clearTimeout(timer);
-        resolveUrl(match[1]);
+        resolveUrl([match[1], match[2], match[3]]);
       }
     };
     child.stdout?.on('data', look);
@@ -45,6 +53,8 @@ export async function startDemoServer(options: { speed?: number } = {}): Promise
   });
   return {
     url,
+    origin,
+    token,
     logbookPath,
     output: () => output,
     stop: async () => {

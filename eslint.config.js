@@ -39,6 +39,18 @@ export default tseslint.config(
     },
   },
   {
+    // The logbook is reached through its interface only (main/store/logbookTypes.ts), so a store can be SQLite or
+    // PostgreSQL without its callers knowing: no database driver or store internals outside main/store.
+    files: ['main/**/*.ts'],
+    ignores: ['main/electron/**', 'main/store/**'],
+    rules: {
+      'no-restricted-imports': forbid(
+        ['electron', '**/renderer/**', 'chart.js', 'chart.js/*', 'better-sqlite3', 'pg', 'pg-*', '**/store/openDatabase', '**/store/exchangeRows', '**/store/recordQueries', '**/store/sqliteLogbook', '**/store/postgres/*'],
+        'main/ outside main/store reaches the logbook through the Logbook interface (main/store/index.ts), never a database driver or a store\'s internals; and it never imports electron or renderer code (ARCHITECTURE.md).',
+      ),
+    },
+  },
+  {
     files: ['main/electron/**/*.ts'],
     rules: {
       'no-restricted-imports': forbid(['**/renderer/**', 'chart.js', 'chart.js/*'], 'main/electron/ never imports renderer code (ARCHITECTURE.md).'),

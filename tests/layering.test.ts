@@ -26,6 +26,8 @@ describe('import rule by runtime folder', () => {
     ['renderer/probe.ts', "import { ipcRenderer } from 'electron';\nexport const x = ipcRenderer;\n"],
     ['renderer/probe.ts', "import { join } from 'path';\nexport const x = join;\n"],
     ['main/probe.ts', "import { app } from 'electron';\nexport const x = app;\n"],
+    ['main/session/probe.ts', "import Database from 'better-sqlite3';\nexport const x = Database;\n"],
+    ['main/record/probe.ts', "import { openLogbookDatabase } from '../store/openDatabase';\nexport const x = openLogbookDatabase;\n"],
   ])('%s may not import %j', async (filePath, source) => {
     const errors = await restrictedImportErrors(filePath, source);
     expect(errors.length).toBe(1);
@@ -34,6 +36,8 @@ describe('import rule by runtime folder', () => {
   it.each([
     ['app/probe.ts', "import { z } from 'zod';\nexport const x = z;\n"],
     ['main/probe.ts', "import { readFileSync } from 'node:fs';\nexport const x = readFileSync;\n"],
+    ['main/store/probe.ts', "import Database from 'better-sqlite3';\nexport const x = Database;\n"],
+    ['main/record/probe.ts', "import { openLogbook } from '../store/openLogbook';\nexport const x = openLogbook;\n"],
     ['main/electron/probe.ts', "import { app } from 'electron';\nexport const x = app;\n"],
     ['renderer/probe.ts', "import { Chart } from 'chart.js';\nexport const x = Chart;\n"],
   ])('%s may import %j', async (filePath, source) => {

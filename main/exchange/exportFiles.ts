@@ -11,7 +11,6 @@ import { InputError } from '../../app/errors';
 import { readingsCsv, transferPointsCsv } from '../../app/exchange/recordCsv';
 import { writeCaptureFile, type CaptureWriteFormat } from '../capture/writeCaptureFile';
 import type { RecordSources } from '../record/buildRecord';
-import { readDesignVersion } from '../store/recordQueries';
 import { buildSessionArchive, encodeSessionArchive } from './sessionArchive';
 
 export const exportKinds = ['archive', 'captures-csv', 'captures-comtrade', 'captures-comtrade-ascii', 'transfer-csv', 'readings-csv'] as const;
@@ -27,7 +26,7 @@ async function sessionDetail(sources: RecordSources, sessionId: number) {
 export async function exportCaptures(sources: RecordSources, sessionId: number, outPath: string, format: CaptureWriteFormat): Promise<string[]> {
   const detail = await sessionDetail(sources, sessionId);
   if (detail.captures.length === 0) throw new InputError(`session ${sessionId} kept no capture to export`, outPath);
-  const design = boardDesignSchema.parse(JSON.parse(readDesignVersion(sources.db, detail.designId).designJson));
+  const design = boardDesignSchema.parse(JSON.parse((await sources.logbook.designVersion(detail.designId)).designJson));
   const extension = extname(outPath);
   const stem = join(dirname(outPath), basename(outPath, extension));
   const written: string[] = [];
@@ -49,7 +48,7 @@ export async function exportCaptures(sources: RecordSources, sessionId: number, 
 export async function exportSessionFile(sources: RecordSources, sessionId: number, outPath: string, kind: ExportKind): Promise<string[]> {
   switch (kind) {
     case 'archive':
-      await writeWholeFile(outPath, encodeSessionArchive(buildSessionArchive(sources.db, sessionId)));
+      await writeWholeFile(outPath, encodeSessionArchive(await buildSessionArchive(sources.logbook, sessionId)));
       return [outPath];
     case 'captures-csv':
       return exportCaptures(sources, sessionId, outPath, 'csv');
@@ -65,7 +64,7 @@ export async function exportSessionFile(sources: RecordSources, sessionId: numbe
     case 'readings-csv': {
       const detail = await sessionDetail(sources, sessionId);
       if (!detail.readings) throw new InputError(`session ${sessionId} has no stored readings to export`, outPath);
-      const design = boardDesignSchema.parse(JSON.parse(readDesignVersion(sources.db, detail.designId).designJson));
+      const design = boardDesignSchema.parse(JSON.parse((await sources.logbook.designVersion(detail.designId)).designJson));
       await writeWholeFile(outPath, readingsCsv(judgeReadings(detail.readings, design)));
       return [outPath];
     }

@@ -1,34 +1,26 @@
 /**
  * Exporting a session as a portable archive and importing one into another logbook (app/exchange/ARCHIVE.md).
  * Identity is the content hash: the sha-256 of the canonical JSON of the archive's `session` section, the same
- * canonical form the logbook hashes designs with (main/store/sqliteLogbook.ts: keys sorted, no spaces). Importing
+ * canonical form the logbook hashes designs with (main/store/canonicalJson.ts: keys sorted, no spaces). Importing
  * an archive whose session is already in the logbook changes nothing; anything wrong with an archive (not gzip, not
- * JSON, not our format, a hash that does not match, a damaged capture) is an InputError found before the single
+ * JSON, not our format, a hash that does not match, a damaged capture) is an InputError found before the store's single
  * transaction that writes it, so a refused archive leaves the logbook exactly as it was.
  */
 import { createHash } from 'node:crypto';
 import { gunzipSync, gzipSync } from 'node:zlib';
 import { describeSchemaIssues } from '../../app/contract';
 import { InputError } from '../../app/errors';
-import { archiveFormatName, archiveFormatVersion, sessionArchiveSchema, type ArchiveSession, type SessionArchive } from '../../app/exchange/archiveSchema';
+import { archiveFormatName, archiveFormatVersion, sessionArchiveSchema, type SessionArchive } from '../../app/exchange/archiveSchema';
+import { archiveContentHash } from '../store/canonicalJson';
 import { decodeCapture } from '../store/captureCodec';
-import { insertArchiveSession, readArchiveSession, sessionsOfUnitAt } from '../store/exchangeRows';
-import type { SqliteDatabase } from '../store/openDatabase';
-import { canonicalJson } from '../store/sqliteLogbook';
+import type { ArchiveImportResult, Logbook } from '../store/logbookTypes';
+
+export { archiveContentHash };
 
 const sha256 = (text: string | Uint8Array) => createHash('sha256').update(text).digest('hex');
 
-export function archiveContentHash(session: ArchiveSession): string {
-  return sha256(canonicalJson(session));
-}
-
-/** The content hash of a session already in the logbook (what its archive would carry). */
-export function sessionContentHash(db: SqliteDatabase, sessionId: number): string {
-  return archiveContentHash(readArchiveSession(db, sessionId).session);
-}
-
-export function buildSessionArchive(db: SqliteDatabase, sessionId: number, options: { now?: Date } = {}): SessionArchive {
-  const { session, captureData } = readArchiveSession(db, sessionId);
+export async function buildSessionArchive(logbook: Logbook, sessionId: number, options: { now?: Date } = {}): Promise<SessionArchive> {
+  const { session, captureData } = await logbook.archiveSession(sessionId);
   return {
     format: archiveFormatName,
     version: archiveFormatVersion,
@@ -75,25 +67,9 @@ export function decodeSessionArchive(bytes: Uint8Array, where: string): { archiv
   return { archive, captureData };
 }
 
-export interface ImportResult {
-  sessionId: number;
-  contentSha256: string;
-  /** False when the session was already in the logbook (nothing changed). */
-  imported: boolean;
-}
+export type ImportResult = ArchiveImportResult;
 
-export function importSessionArchive(db: SqliteDatabase, bytes: Uint8Array, where: string): ImportResult {
+export async function importSessionArchive(logbook: Logbook, bytes: Uint8Array, where: string): Promise<ImportResult> {
   const { archive, captureData } = decodeSessionArchive(bytes, where);
-  const { session } = archive;
-  return db.transaction((): ImportResult => {
-    const candidates = sessionsOfUnitAt(db, session.unit.serial, session.record.startedAtMs);
-    for (const candidate of candidates) {
-      if (sessionContentHash(db, candidate) === archive.contentSha256) return { sessionId: candidate, contentSha256: archive.contentSha256, imported: false };
-    }
-    // A closed session never changes, so the same unit and start with other content is a conflict, not a newer copy.
-    if (candidates.length > 0) {
-      throw new InputError(`this logbook already has a different session of unit ${session.unit.serial} started at ${new Date(session.record.startedAtMs).toISOString()} (session ${candidates[0]}); nothing was imported`, where);
-    }
-    return { sessionId: insertArchiveSession(db, session, captureData), contentSha256: archive.contentSha256, imported: true };
-  }).immediate();
+  return logbook.importArchiveSession({ session: archive.session, captureData, contentSha256: archive.contentSha256, where });
 }

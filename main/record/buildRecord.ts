@@ -10,19 +10,16 @@ import { parseStepReports } from '../../app/contract';
 import { captureDigestText, orderCapturesForDigest, readingRowsFromChecks, readingRowsFromSteps, type CommissioningRecord } from '../../app/record/recordModel';
 import type { Logbook } from '../store/logbookTypes';
 import { rawCaptureBytes, sha256Hex } from '../store/captureCodec';
-import { readDesignVersion } from '../store/recordQueries';
-import type { SqliteDatabase } from '../store/openDatabase';
 import { foldCapture } from './foldCapture';
 
 export interface RecordSources {
   logbook: Logbook;
-  db: SqliteDatabase;
 }
 
 export async function buildRecord(sources: RecordSources, sessionId: number, options: { now?: Date; foldCycles?: number } = {}): Promise<CommissioningRecord> {
   const detail = await sources.logbook.session(sessionId);
   if (!detail) throw new InputError(`there is no session ${sessionId} in this logbook`, sources.logbook.location);
-  const version = readDesignVersion(sources.db, detail.designId);
+  const version = await sources.logbook.designVersion(detail.designId);
   const design = boardDesignSchema.parse(JSON.parse(version.designJson));
   const ordered = orderCapturesForDigest(detail.captures);
   const last = ordered[ordered.length - 1];

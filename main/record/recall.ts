@@ -12,7 +12,6 @@ import { figureToSvg } from '../../app/record/figure';
 import { fleetFigure, gainPredictionFromPeak, type FleetFigure } from '../../app/record/fleet';
 import { driftFigure, fleetHistogramFigure, transferFigure } from '../../app/record/plots';
 import type { SessionComparison } from '../store/logbookTypes';
-import { latestDesignVersion, latestSessionPerUnit, readDesignVersion } from '../store/recordQueries';
 import type { RecordSources } from './buildRecord';
 
 const designOf = (json: string): BoardDesign => boardDesignSchema.parse(JSON.parse(json));
@@ -62,7 +61,7 @@ export async function driftReport(sources: RecordSources, unitSerial: string, op
   const last = drift.points[drift.points.length - 1];
   if (!last) throw new InputError(`unit "${unitSerial}" has no sessions yet`, sources.logbook.location);
   const detail = await sources.logbook.session(last.sessionId);
-  const version = readDesignVersion(sources.db, detail!.designId);
+  const version = await sources.logbook.designVersion(detail!.designId);
   const expected = designFigures(designOf(version.designJson));
   const figures = trendedFigures.map(({ key, label, unit }) => {
     const analysis = analyseDrift(drift.points.map((point) => ({ sessionId: point.sessionId, startedAt: point.startedAt, value: point[key] })), expected[key].limits, options);
@@ -92,10 +91,10 @@ export interface FleetReport {
  * With `unitSerial`, that unit is marked on each histogram and placed against the fleet and the prediction.
  */
 export async function fleetReport(sources: RecordSources, designName: string, options: { runs?: number; seed?: number; binCount?: number; unitSerial?: string } = {}): Promise<FleetReport> {
-  const version = latestDesignVersion(sources.db, designName);
+  const version = await sources.logbook.latestDesignVersion(designName);
   if (!version) throw new InputError(`there is no board design "${designName}" in this logbook`, sources.logbook.location);
   const design = designOf(version.designJson);
-  const latest = latestSessionPerUnit(sources.db, designName);
+  const latest = await sources.logbook.latestSessionPerUnit(designName);
   if (options.unitSerial !== undefined && !latest.some((entry) => entry.unit === options.unitSerial)) {
     throw new InputError(`unit "${options.unitSerial}" has no session of board design "${designName}"`, sources.logbook.location);
   }

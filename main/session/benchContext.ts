@@ -3,9 +3,8 @@
  * technician's own in the data folder) and the session service over them. Shared by `serve`, `demo` and the
  * desktop shell.
  */
-import { mkdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
-import { openSqliteLogbook } from '../store/index';
+import { openLogbook } from '../store/openLogbook';
 import type { Logbook } from '../store/logbookTypes';
 import { createDesignCatalog, type DesignCatalog } from './designCatalog';
 import { createBenchDispatch, type BenchDispatch } from './dispatch';
@@ -22,7 +21,7 @@ export interface BenchContext {
 }
 
 export interface BenchContextOptions {
-  /** The logbook file; its folder is created when missing. */
+  /** The logbook's location: a file (its folder is created when missing). */
   logbookPath: string;
   /** Where the technician's designs are saved (default: `designs` beside the logbook). */
   designsFolder?: string;
@@ -35,8 +34,7 @@ export interface BenchContextOptions {
 }
 
 export async function openBenchContext(options: BenchContextOptions): Promise<BenchContext> {
-  mkdirSync(dirname(options.logbookPath), { recursive: true });
-  const logbook = await openSqliteLogbook(options.logbookPath);
+  const logbook = await openLogbook(options.logbookPath);
   const designs = createDesignCatalog({ logbook, exampleFolders: [exampleDesignsFolder()], saveFolder: options.designsFolder ?? join(dirname(options.logbookPath), 'designs') });
   const service = createSessionService({ logbook, designs, serial: options.serial ?? null, exporters: [sessionJsonExporter, ...(options.exporters ?? [])], virtualPaced: options.virtualPaced, pipeline: options.pipeline });
   const dispatch = createBenchDispatch(service.handlers, { onBug: options.onBug });

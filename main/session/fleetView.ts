@@ -1,18 +1,16 @@
 /**
  * The fleet of a board design for the Logbook screen: main/record/recall.ts fleetReport (each unit's latest session
  * against the board model's Monte Carlo prediction) without its drawn SVG, which the screen draws itself.
- * Reads beside the session writer through its own connection (WAL).
  */
 import type { FleetView } from '../../app/contract';
 import { fleetReport } from '../record/recall';
 import type { ExportContext } from './exporters';
-import { withSources } from './recordExporters';
 
 /** Monte Carlo runs for the prediction: 500 puts the predicted sd within about 3 % (1/sqrt(2n), common practice). */
 const predictionRuns = 500;
 
 export async function fleetView(context: ExportContext, designName: string, unitSerial: string | undefined): Promise<FleetView> {
-  const report = await withSources(context, (sources) => fleetReport(sources, designName, { unitSerial, runs: predictionRuns }));
+  const report = await fleetReport(context, designName, { unitSerial, runs: predictionRuns });
   return {
     designName: report.designName,
     designVersion: report.designVersion,

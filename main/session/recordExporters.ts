@@ -1,7 +1,6 @@
 /**
  * The sign-off and recall exports for the bench API's export hook (exporters.ts): the commissioning record as PDF
- * or HTML, the session archive, transfer points and readings as CSV. Each export opens its own connection to the
- * logbook file (WAL lets it read beside the session writer) for the queries the Logbook interface does not carry.
+ * or HTML, the session archive, transfer points and readings as CSV, read through the bench's logbook.
  * Registration: pass `exporters: recordExporters` to openBenchContext (benchContext.ts).
  */
 import { readFile, rm } from 'node:fs/promises';
@@ -10,20 +9,8 @@ import { join } from 'node:path';
 import { BenchFault, type ExportFormat } from '../../app/contract';
 import { exportSessionFile, type ExportKind } from '../exchange/exportFiles';
 import { buildSessionArchive, encodeSessionArchive } from '../exchange/sessionArchive';
-import type { RecordSources } from '../record/buildRecord';
 import { renderRecordFile } from '../record/writeReport';
-import { openLogbookDatabase } from '../store/openDatabase';
 import type { ExportContext, SessionExporter } from './exporters';
-
-export async function withSources<T>(context: ExportContext, work: (sources: RecordSources) => Promise<T>): Promise<T> {
-  const db = openLogbookDatabase(context.logbook.location);
-  // InputErrors (nothing to export, an unwritable file) reach the screen as expected faults via toBenchError.
-  try {
-    return await work({ logbook: context.logbook, db });
-  } finally {
-    db.close();
-  }
-}
 
 const slug = (text: string) => text.replace(/[^A-Za-z0-9_-]+/g, '_');
 
@@ -41,7 +28,7 @@ function recordExporter(format: 'pdf' | 'html'): SessionExporter {
     format: descriptor,
     async write(context, sessionId) {
       const unit = await unitOf(context, sessionId);
-      const bytes = await withSources(context, (sources) => renderRecordFile(sources, sessionId, format));
+      const bytes = await renderRecordFile(context, sessionId, format);
       return { fileName: `record-${unit}-session-${sessionId}.${format}`, bytes };
     },
   };
@@ -55,7 +42,7 @@ function csvExporter(kind: Extract<ExportKind, 'transfer-csv' | 'readings-csv'>,
       const unit = await unitOf(context, sessionId);
       const path = join(tmpdir(), `rampwright-${process.pid}-${Date.now()}-${kind}.csv`);
       try {
-        await withSources(context, (sources) => exportSessionFile(sources, sessionId, path, kind));
+        await exportSessionFile(context, sessionId, path, kind);
         return { fileName: `${kind.replace('-csv', '')}-${unit}-session-${sessionId}.csv`, bytes: await readFile(path) };
       } finally {
         await rm(path, { force: true });
@@ -68,7 +55,7 @@ export const sessionArchiveExporter: SessionExporter = {
   format: { id: 'session-archive', label: 'Session archive (for another bench)', mediaType: 'application/gzip', extension: 'rwsession' },
   async write(context, sessionId) {
     const unit = await unitOf(context, sessionId);
-    const bytes = await withSources(context, async (sources) => encodeSessionArchive(buildSessionArchive(sources.db, sessionId)));
+    const bytes = encodeSessionArchive(await buildSessionArchive(context.logbook, sessionId));
     return { fileName: `session-${unit}-${sessionId}.rwsession`, bytes };
   },
 };

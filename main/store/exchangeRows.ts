@@ -1,7 +1,7 @@
 /**
  * A session's rows in the archive's shape (app/exchange/archiveSchema.ts), read from and written to the logbook.
  * Local ids never travel: the unit is its serial, the design version its content hash, the session its content.
- * Writing assumes the caller holds a transaction (main/exchange/importArchive.ts).
+ * Writing assumes the caller holds a transaction (importArchiveSession in sqliteLogbook.ts).
  */
 import { archiveColumns, fromArchiveCell, toArchiveCell, type ArchiveSession } from '../../app/exchange/archiveSchema';
 import { InputError } from '../../app/errors';

@@ -1,6 +1,8 @@
 /** The logbook: the `Logbook` interface and its SQLite implementation. */
 export * from './logbookTypes';
-export { openSqliteLogbook, createSqliteLogbook, canonicalJson } from './sqliteLogbook';
+export { openSqliteLogbook, createSqliteLogbook } from './sqliteLogbook';
+export { canonicalJson, archiveContentHash } from './canonicalJson';
+export { openLogbook, resolveLogbookLocation, type OpenLogbookOptions } from './openLogbook';
 export { openLogbookDatabase, type OpenLogbookDatabaseOptions } from './openDatabase';
 export { latestSchemaVersion } from './schema';
 export { driftTrend } from './driftTrend';

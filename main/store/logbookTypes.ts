@@ -1,13 +1,16 @@
 /**
- * The logbook as the rest of Rampwright sees it. The bench keeps it in SQLite (sqliteLogbook.ts); a workshop that
- * shares one logbook between benches can implement the same interface over PostgreSQL (ARCHITECTURE.md, "Growth
- * beyond one bench") and nothing above main/store changes. Every query is async for that reason, even though the
- * SQLite one answers synchronously. Field names follow the bench API contract's records (app/contract/records.ts).
+ * The logbook as the rest of Rampwright sees it: the only way in, for the screens, the commands, the commissioning
+ * record, recall and exchange (no caller outside main/store touches a database). The bench keeps it in SQLite
+ * (sqliteLogbook.ts); a workshop that shares one logbook between benches implements the same interface over
+ * PostgreSQL (ARCHITECTURE.md, "Growth beyond one bench"), so nothing above main/store changes. Every query is async
+ * for that reason, even though the SQLite one answers synchronously; the session writer's add* calls only queue in
+ * memory, so the live recording path never waits on either. Field names follow the bench API contract's records (app/contract/records.ts).
  * Times cross this interface as ISO 8601 strings (UTC).
  */
 import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
 import type { BoardDesign } from '../../app/board/design';
 import type { SampleBlock, SignalRole } from '../../app/capture/samples';
+import type { ArchiveSession } from '../../app/exchange/archiveSchema';
 
 export type SessionStatus = 'open' | 'closed' | 'interrupted';
 
@@ -19,6 +22,16 @@ export interface DesignVersion {
   /** sha-256 of the design's canonical JSON (keys sorted): the identity of this exact version. */
   contentHash: string;
   savedAt: string;
+}
+
+/** A design version as stored: its canonical JSON (the commissioning record, recall and exchange read it). */
+export interface StoredDesignVersion {
+  id: number;
+  name: string;
+  version: number;
+  contentHash: string;
+  designJson: string;
+  savedAtMs: number;
 }
 
 export interface UnitRecord {
@@ -258,10 +271,36 @@ export interface LogbookWriter {
   close(status?: Exclude<SessionStatus, 'open'>): Promise<SessionRow>;
 }
 
+/** A finished session in the archive's shape (app/exchange/ARCHIVE.md): rows without local ids, captures' stored bytes. */
+export interface ArchiveSessionContent {
+  session: ArchiveSession;
+  captureData: Buffer[];
+}
+
+/** A checked archive to import (main/exchange/sessionArchive.ts checks it before the store sees it). */
+export interface ArchiveImportRequest extends ArchiveSessionContent {
+  contentSha256: string;
+  /** Where the archive came from, for messages. */
+  where: string;
+}
+
+export interface ArchiveImportResult {
+  sessionId: number;
+  contentSha256: string;
+  /** False when the session was already in the logbook (nothing changed). */
+  imported: boolean;
+}
+
 export interface Logbook {
-  /** The file or address of the store, for messages. */
+  /** The file or address of the store, for messages (never with a password in it). */
   readonly location: string;
   saveDesign(design: BoardDesign): Promise<DesignVersion>;
+  /** A design version by id; InputError when this logbook has none. */
+  designVersion(designId: number): Promise<StoredDesignVersion>;
+  /** The newest version of a design name, or null. */
+  latestDesignVersion(designName: string): Promise<StoredDesignVersion | null>;
+  /** Each unit's latest session among those that used any version of the design (a fleet view's units). */
+  latestSessionPerUnit(designName: string): Promise<Array<{ unit: string; sessionId: number }>>;
   listUnits(): Promise<UnitRecord[]>;
   startSession(request: StartSessionRequest, options?: { flushIntervalMs?: number; maxQueuedItems?: number }): Promise<LogbookWriter>;
   listSessions(filter?: SessionFilter): Promise<SessionRow[]>;
@@ -273,6 +312,15 @@ export interface Logbook {
   sessionFigures(sessionId: number): Promise<SessionFigures | null>;
   compareSessions(aId: number, bId: number): Promise<SessionComparison>;
   unitDrift(unitSerial: string): Promise<UnitDrift>;
+  /** A finished session as its archive carries it; InputError for an unknown or still open session. */
+  archiveSession(sessionId: number): Promise<ArchiveSessionContent>;
+  /** The content hash of a finished session (what its archive would carry). */
+  sessionContentHash(sessionId: number): Promise<string>;
+  /**
+   * Adds an archived session unless it is here already (same unit, start and content hash: nothing changes), in
+   * one transaction; the same unit and start with other content is refused (ARCHIVE.md, import rules).
+   */
+  importArchiveSession(request: ArchiveImportRequest): Promise<ArchiveImportResult>;
   /** Marks 'open' sessions whose writer is gone as 'interrupted'; returns their ids. Runs on every open too. */
   recoverInterruptedSessions(): Promise<number[]>;
   close(): Promise<void>;

@@ -1,18 +1,10 @@
 /**
- * Queries the commissioning record, recall and exchange need beyond the Logbook interface: a design version's
- * stored JSON by id, the sessions of a board design with their figures. Read-only.
+ * The SQLite store's queries for the commissioning record, recall and exchange: a design version's stored JSON by
+ * id, the newest version of a name, each unit's latest session of a design. Read-only.
  */
 import { InputError } from '../../app/errors';
+import type { StoredDesignVersion } from './logbookTypes';
 import type { SqliteDatabase } from './openDatabase';
-
-export interface StoredDesignVersion {
-  id: number;
-  name: string;
-  version: number;
-  contentHash: string;
-  designJson: string;
-  savedAtMs: number;
-}
 
 export function readDesignVersion(db: SqliteDatabase, designId: number): StoredDesignVersion {
   const row = db

@@ -2,10 +2,11 @@
  * The logbook on the bench PC: one SQLite file (better-sqlite3), the embedded default behind the `Logbook` interface.
  * Opening it marks sessions whose writer is gone as interrupted (sessionRecovery.ts).
  */
-import { createHash } from 'node:crypto';
 import { boardDesignSchema, type BoardDesign } from '../../app/board/design';
 import type { SignalRole } from '../../app/capture/samples';
 import { InputError } from '../../app/errors';
+import { decideImport } from './archiveImport';
+import { archiveContentHash, canonicalJson, sha256OfText } from './canonicalJson';
 import { decodeCapture } from './captureCodec';
 import { driftTrend } from './driftTrend';
 import type {
@@ -13,23 +14,14 @@ import type {
   CycleRecord, TransferPointRecord, UnitRecord,
 } from './logbookTypes';
 import { linkErrorKinds } from './logbookTypes';
+import { insertArchiveSession, readArchiveSession, sessionsOfUnitAt } from './exchangeRows';
 import { createSqliteLogbookWriter, writerIdentity } from './logbookWriter';
 import { openLogbookDatabase, type OpenLogbookDatabaseOptions, type SqliteDatabase } from './openDatabase';
+import { latestDesignVersion, latestSessionPerUnit, readDesignVersion } from './recordQueries';
 import { recoverInterruptedSessions } from './sessionRecovery';
 import { computeSessionTotals, sessionFigures, transferFit } from './sessionSummary';
 
 const iso = (ms: number): string => new Date(ms).toISOString();
-
-/** JSON with object keys sorted at every level, so equal designs hash equal whatever order their file used. */
-export function canonicalJson(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(',')}]`;
-  if (value !== null && typeof value === 'object') {
-    const entries = Object.entries(value as Record<string, unknown>).filter(([, v]) => v !== undefined);
-    entries.sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(',')}}`;
-  }
-  return JSON.stringify(value);
-}
 
 function parseInstant(text: string, field: string): number {
   const ms = Date.parse(text);
@@ -84,7 +76,7 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
 
   function saveDesignNow(design: BoardDesign): DesignVersion {
     const json = canonicalJson(design);
-    const contentHash = createHash('sha256').update(json).digest('hex');
+    const contentHash = sha256OfText(json);
     const select = db.prepare('SELECT id, name, version, content_hash AS contentHash, saved_at_ms AS savedAtMs FROM board_designs WHERE content_hash = ?');
     const found = (): DesignVersion | null => {
       const row = select.get(contentHash) as { id: number; name: string; version: number; contentHash: string; savedAtMs: number } | undefined;
@@ -252,6 +244,31 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
         rampPeakV: driftTrend(series((point) => point.rampPeakV)),
         alphaGainDegPerV: driftTrend(series((point) => point.alphaGainDegPerV)),
       };
+    },
+    async designVersion(designId) {
+      return readDesignVersion(db, designId);
+    },
+    async latestDesignVersion(designName) {
+      return latestDesignVersion(db, designName);
+    },
+    async latestSessionPerUnit(designName) {
+      return latestSessionPerUnit(db, designName);
+    },
+    async archiveSession(sessionId) {
+      return readArchiveSession(db, sessionId);
+    },
+    async sessionContentHash(sessionId) {
+      return archiveContentHash(readArchiveSession(db, sessionId).session);
+    },
+    async importArchiveSession(request) {
+      const { session, captureData, contentSha256 } = request;
+      return db.transaction(() => {
+        const candidates = sessionsOfUnitAt(db, session.unit.serial, session.record.startedAtMs)
+          .map((sessionId) => ({ sessionId, contentSha256: archiveContentHash(readArchiveSession(db, sessionId).session) }));
+        const decision = decideImport(request, candidates);
+        if (decision.kind === 'present') return { sessionId: decision.sessionId, contentSha256, imported: false };
+        return { sessionId: insertArchiveSession(db, session, captureData), contentSha256, imported: true };
+      }).immediate();
     },
     async recoverInterruptedSessions() {
       return recoverInterruptedSessions(db);

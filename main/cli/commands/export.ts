@@ -30,7 +30,7 @@ export function registerExportCommand(program: Command): void {
       const kind = options.format ?? 'archive';
       if (!(exportKinds as readonly string[]).includes(kind)) throw new InputError(`"${kind}" is not an export kind (use ${exportKinds.join(', ')})`, '--format');
       const sessionId = parseSessionId(options.session, true) as number;
-      const sources = openRecordSources(options.db);
+      const sources = await openRecordSources(options.db);
       try {
         const written = await exportSessionFile(sources, sessionId, options.out, kind as ExportKind);
         process.stdout.write(`Wrote ${written.join(', ')}\n`);

@@ -22,9 +22,9 @@ export function registerImportCommand(program: Command): void {
       } catch {
         throw new InputError('cannot read the archive', archivePath);
       }
-      const sources = openRecordSources(options.db, { create: true });
+      const sources = await openRecordSources(options.db, { create: true });
       try {
-        const result = importSessionArchive(sources.db, bytes, archivePath);
+        const result = await importSessionArchive(sources.logbook, bytes, archivePath);
         process.stdout.write(
           result.imported
             ? `Imported as session ${result.sessionId} (content sha-256 ${result.contentSha256})\n`

@@ -3,13 +3,11 @@
  * logbook marks sessions whose recorder is gone as interrupted. Without --db, the logbook in the user's data folder.
  */
 import type { Command } from 'commander';
-import { existsSync } from 'node:fs';
 import { homedir } from 'node:os';
 import { join } from 'node:path';
-import { InputError } from '../../../app/errors';
 import { defaultLogbookFileName, userDataFolder } from '../../session/dataFolder';
 import type { SessionRow } from '../../store/logbookTypes';
-import { openSqliteLogbook } from '../../store/sqliteLogbook';
+import { openLogbook } from '../../store/openLogbook';
 
 interface LogCommandOptions {
   db?: string;
@@ -26,8 +24,7 @@ export function defaultLogbookPath(): string {
 
 /** The work of the command without printing. */
 export async function listLogbook(path: string, filter: { unit?: string; design?: string; from?: string; to?: string } = {}): Promise<{ sessions: SessionRow[] }> {
-  if (!existsSync(path)) throw new InputError('there is no logbook here (give --db the file a session was recorded to)', path);
-  const logbook = await openSqliteLogbook(path);
+  const logbook = await openLogbook(path, { mustExist: true });
   try {
     const sessions = await logbook.listSessions({ unitSerial: filter.unit, designName: filter.design, from: filter.from, to: filter.to });
     return { sessions };

@@ -13,7 +13,7 @@ import { createLoggerDecoder, encodeCommand, linkErrorCount, type LinkHealth, ty
 import { loadBoardDesign } from '../../board/loadBoardDesign';
 import { openLoggerLink, type LinkEvent } from '../../serial/loggerLink';
 import type { LinkEventKind, LogbookWriter, SessionRow } from '../../store/logbookTypes';
-import { openSqliteLogbook } from '../../store/sqliteLogbook';
+import { openLogbook } from '../../store/openLogbook';
 
 export interface RecordOptions {
   port: string;
@@ -75,7 +75,7 @@ function linkEventRow(event: LinkEvent): { kind: LinkEventKind; detail: string; 
 export async function recordSession(options: RecordOptions): Promise<RecordResult> {
   if (options.seconds !== undefined && !(options.seconds > 0)) throw new InputError(`must be a number of seconds above 0 (got ${options.seconds})`, '--seconds');
   const design = await loadBoardDesign(options.designPath);
-  const logbook = await openSqliteLogbook(options.db);
+  const logbook = await openLogbook(options.db);
   let writer: LogbookWriter | null = null;
   try {
     const link = await openLoggerLink({ path: options.port, reopen: true });

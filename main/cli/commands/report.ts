@@ -8,7 +8,7 @@
  */
 import type { Command } from 'commander';
 import { InputError } from '../../../app/errors';
-import { openRecordSources } from '../../record/openRecordSources';
+import { openRecordSources, type OpenedRecordSources } from '../../record/openRecordSources';
 import { compareReport, driftReport, fleetReport } from '../../record/recall';
 import { comparisonPage, driftPage, fleetPage } from '../../record/recallPages';
 import { writeWholeFile } from '../../files/writeWholeFile';
@@ -24,7 +24,7 @@ interface ReportOptions {
   design?: string;
 }
 
-async function writeRecallPage(options: ReportOptions, sources: ReturnType<typeof openRecordSources>): Promise<boolean> {
+async function writeRecallPage(options: ReportOptions, sources: OpenedRecordSources): Promise<boolean> {
   const chosen = [options.compare, options.unit, options.design].filter((value) => value !== undefined).length;
   if (chosen === 0) return false;
   // --design with --unit: that unit against its design's fleet; otherwise one page kind at a time.
@@ -66,7 +66,7 @@ export function registerReportCommand(program: Command): void {
     .action(async (options: ReportOptions) => {
       if (!options.db) throw new InputError('give the logbook with --db <file>', '--db');
       if (options.compare !== undefined || options.unit !== undefined || options.design !== undefined) {
-        const sources = openRecordSources(options.db);
+        const sources = await openRecordSources(options.db);
         try {
           await writeRecallPage(options, sources);
         } finally {
@@ -75,7 +75,7 @@ export function registerReportCommand(program: Command): void {
         return;
       }
       if (!options.out && !options.verify) throw new InputError('give --out <file.pdf|.html> to write a record, or --verify <record> to check one', '--out');
-      const sources = openRecordSources(options.db);
+      const sources = await openRecordSources(options.db);
       try {
         if (options.verify) {
           const result = await verifyRecordFile(sources, options.verify, parseSessionId(options.session, false));

@@ -13,7 +13,7 @@ let sessionId = 0;
 beforeAll(async () => {
   folder = tempFolder('rampwright-report-cli-');
   dbPath = folder.file('logbook.sqlite');
-  const sources = openRecordSources(dbPath, { create: true });
+  const sources = await openRecordSources(dbPath, { create: true });
   sessionId = (await recordSweepSession(sources.logbook, { seconds: 0.6 })).sessionId;
   await sources.close();
 }, 60_000);

@@ -8,12 +8,12 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { SampleBlock } from '../../../app/capture/samples';
 import { readCaptureFile, readComtradeConfigFile } from '../../../main/capture';
 import { exportSessionFile } from '../../../main/exchange/exportFiles';
-import { openRecordSources } from '../../../main/record/openRecordSources';
+import { openRecordSources, type OpenedRecordSources } from '../../../main/record/openRecordSources';
 import { mergeBlocks, recordSweepSession, type RecordedSession } from '../record/recordFixture';
 import { tempFolder, type TempFolder } from '../store/storeFixtures';
 
 let folder: TempFolder;
-let sources: ReturnType<typeof openRecordSources>;
+let sources: OpenedRecordSources;
 let session: RecordedSession;
 
 async function readAll(path: string): Promise<SampleBlock> {
@@ -24,7 +24,7 @@ async function readAll(path: string): Promise<SampleBlock> {
 
 beforeAll(async () => {
   folder = tempFolder('rampwright-export-');
-  sources = openRecordSources(folder.file('logbook.sqlite'), { create: true });
+  sources = await openRecordSources(folder.file('logbook.sqlite'), { create: true });
   session = await recordSweepSession(sources.logbook);
 }, 60_000);
 

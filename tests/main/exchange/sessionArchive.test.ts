@@ -10,13 +10,15 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputError } from '../../../app/errors';
 import { exportSessionFile } from '../../../main/exchange/exportFiles';
 import { archiveContentHash, decodeSessionArchive, importSessionArchive } from '../../../main/exchange/sessionArchive';
-import { openRecordSources } from '../../../main/record/openRecordSources';
-import type { SqliteDatabase } from '../../../main/store/openDatabase';
+import { openRecordSources, type OpenedRecordSources } from '../../../main/record/openRecordSources';
+import { openLogbookDatabase, type SqliteDatabase } from '../../../main/store/openDatabase';
 import { recordSweepSession } from '../record/recordFixture';
 import { chargerDesign, tempFolder, type TempFolder } from '../store/storeFixtures';
 
 let folder: TempFolder;
-let source: ReturnType<typeof openRecordSources>;
+let source: OpenedRecordSources;
+/** A second connection to the source logbook file, for looking at its rows directly. */
+let sourceDb: SqliteDatabase;
 let sessionId = 0;
 let archivePath = '';
 
@@ -56,28 +58,31 @@ function rewriteArchive(mutate: (archive: Record<string, any>) => void, options:
 
 beforeAll(async () => {
   folder = tempFolder('rampwright-archive-');
-  source = openRecordSources(folder.file('bench-a.sqlite'), { create: true });
+  source = await openRecordSources(folder.file('bench-a.sqlite'), { create: true });
+  sourceDb = openLogbookDatabase(folder.file('bench-a.sqlite'));
   sessionId = (await recordSweepSession(source.logbook)).sessionId;
   archivePath = folder.file('session.rwsession');
   await exportSessionFile(source, sessionId, archivePath, 'archive');
 }, 60_000);
 
 afterAll(async () => {
+  sourceDb.close();
   await source.close();
   folder.remove();
 });
 
 describe('session archive', () => {
   it('export then import into another logbook gives an identical session, table by table', async () => {
-    const target = openRecordSources(folder.file('bench-b.sqlite'), { create: true });
+    const target = await openRecordSources(folder.file('bench-b.sqlite'), { create: true });
+    const targetDb = openLogbookDatabase(folder.file('bench-b.sqlite'));
     try {
       // The other bench already knows another unit, so its local ids differ from the source's.
       await recordSweepSession(target.logbook, { unitSerial: 'RW-0001', startedAt: new Date('2026-10-01T07:00:00Z'), seconds: 0.3 });
-      const result = importSessionArchive(target.db, readFileSync(archivePath), archivePath);
+      const result = await importSessionArchive(target.logbook, readFileSync(archivePath), archivePath);
       expect(result.imported).toBe(true);
       expect(result.sessionId).not.toBe(sessionId);
-      const before = sessionTables(source.db, sessionId);
-      const after = sessionTables(target.db, result.sessionId);
+      const before = sessionTables(sourceDb, sessionId);
+      const after = sessionTables(targetDb, result.sessionId);
       for (const table of Object.keys(before)) expect(after[table], table).toEqual(before[table]);
       expect(before.cycles.length).toBeGreaterThan(10);
       expect(before.captures.length).toBe(1);
@@ -86,22 +91,25 @@ describe('session archive', () => {
       const capture = (await target.logbook.session(result.sessionId))!.captures[0];
       expect((await target.logbook.readCapture(capture.id))!.block.sync.length).toBeGreaterThan(1000);
     } finally {
+      targetDb.close();
       await target.close();
     }
   });
 
   it('importing the same archive twice changes nothing', async () => {
-    const target = openRecordSources(folder.file('bench-c.sqlite'), { create: true });
+    const target = await openRecordSources(folder.file('bench-c.sqlite'), { create: true });
+    const targetDb = openLogbookDatabase(folder.file('bench-c.sqlite'));
     try {
-      const first = importSessionArchive(target.db, readFileSync(archivePath), archivePath);
-      const counts = tableCounts(target.db);
-      const second = importSessionArchive(target.db, readFileSync(archivePath), archivePath);
+      const first = await importSessionArchive(target.logbook, readFileSync(archivePath), archivePath);
+      const counts = tableCounts(targetDb);
+      const second = await importSessionArchive(target.logbook, readFileSync(archivePath), archivePath);
       expect(second).toEqual({ ...first, imported: false });
-      expect(tableCounts(target.db)).toEqual(counts);
+      expect(tableCounts(targetDb)).toEqual(counts);
       // Importing a session back into the logbook it came from is also a no-op.
-      const home = importSessionArchive(source.db, readFileSync(archivePath), archivePath);
+      const home = await importSessionArchive(source.logbook, readFileSync(archivePath), archivePath);
       expect(home).toMatchObject({ sessionId, imported: false });
     } finally {
+      targetDb.close();
       await target.close();
     }
   });
@@ -116,28 +124,28 @@ describe('session archive', () => {
     ['a design that does not match its hash', () => rewriteArchive((archive) => { archive.session.design.designJson = archive.session.design.designJson.replace('"mainsHz":50', '"mainsHz":60'); }, { rehash: true }), /board design in the archive does not match/],
   ];
   for (const [what, make, message] of damaged) {
-    it(`refuses an archive with ${what}, and the logbook stays exactly as it was`, () => {
-      const db = source.db;
-      const counts = tableCounts(db);
-      const changes = (db.prepare('SELECT total_changes() AS n').get() as { n: number }).n;
+    it(`refuses an archive with ${what}, and the logbook stays exactly as it was`, async () => {
+      const counts = tableCounts(sourceDb);
+      const version = sourceDb.pragma('data_version', { simple: true });
       let error: unknown;
       try {
-        importSessionArchive(db, make(), 'damaged.rwsession');
+        await importSessionArchive(source.logbook, make(), 'damaged.rwsession');
       } catch (caught) {
         error = caught;
       }
       expect(error).toBeInstanceOf(InputError);
       expect((error as Error).message).toMatch(message);
-      expect(tableCounts(db)).toEqual(counts);
-      expect((db.prepare('SELECT total_changes() AS n').get() as { n: number }).n).toBe(changes);
+      expect(tableCounts(sourceDb)).toEqual(counts);
+      // data_version changes when another connection commits to the file (sqlite.org, "PRAGMA data_version").
+      expect(sourceDb.pragma('data_version', { simple: true })).toBe(version);
     });
   }
 
   it('refuses a different session of the same unit at the same start (a conflict, not a copy)', async () => {
     const conflicting = rewriteArchive((archive) => { archive.session.record.notes = 'edited elsewhere'; }, { rehash: true });
-    const counts = tableCounts(source.db);
-    expect(() => importSessionArchive(source.db, conflicting, 'conflict.rwsession')).toThrow(/already has a different session of unit RW-7731/);
-    expect(tableCounts(source.db)).toEqual(counts);
+    const counts = tableCounts(sourceDb);
+    await expect(importSessionArchive(source.logbook, conflicting, 'conflict.rwsession')).rejects.toThrow(/already has a different session of unit RW-7731/);
+    expect(tableCounts(sourceDb)).toEqual(counts);
   });
 
   it('any bytes at all give an archive or an InputError, never a crash (fast-check)', () => {

@@ -5,13 +5,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { analyseTolerances } from '../../../app/board/toleranceAnalysis';
 import { designFigures } from '../../../app/record/designFigures';
-import { openRecordSources } from '../../../main/record/openRecordSources';
+import { openRecordSources, type OpenedRecordSources } from '../../../main/record/openRecordSources';
 import { compareReport, driftReport, fleetReport } from '../../../main/record/recall';
 import { comparisonPage, driftPage, fleetPage } from '../../../main/record/recallPages';
 import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
 
 let folder: TempFolder;
-let sources: ReturnType<typeof openRecordSources>;
+let sources: OpenedRecordSources;
 const sessionIds: number[] = [];
 const day = (n: number) => new Date(Date.UTC(2026, 0, 5, 9) + n * 86_400_000);
 
@@ -28,7 +28,7 @@ async function session(serial: string, startedAt: Date, peakV: number, gainDegPe
 
 beforeAll(async () => {
   folder = tempFolder('rampwright-recall-');
-  sources = openRecordSources(folder.file('logbook.sqlite'), { create: true });
+  sources = await openRecordSources(folder.file('logbook.sqlite'), { create: true });
   // Unit RW-0500 drifts: its ramp peak climbs 0.6 mV a day (a capacitor losing value, our scenario).
   for (let index = 0; index < 7; index++) sessionIds.push(await session('RW-0500', day(index * 30), 7.3 + 0.0006 * index * 30 + (index % 2 ? 0.0015 : -0.0015), 24));
   // A fleet of twelve more units, one session each, spread around the design.

@@ -2,7 +2,7 @@
 import { gunzipSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BenchFault } from '../../../app/contract';
-import { openRecordSources } from '../../../main/record/openRecordSources';
+import { openRecordSources, type OpenedRecordSources } from '../../../main/record/openRecordSources';
 import { createDesignCatalog } from '../../../main/session/designCatalog';
 import { exportSessionWith, sessionJsonExporter } from '../../../main/session/exporters';
 import { recordExporters } from '../../../main/session/recordExporters';
@@ -10,12 +10,12 @@ import { recordSweepSession } from './recordFixture';
 import { tempFolder, type TempFolder } from '../store/storeFixtures';
 
 let folder: TempFolder;
-let sources: ReturnType<typeof openRecordSources>;
+let sources: OpenedRecordSources;
 let sessionId = 0;
 
 beforeAll(async () => {
   folder = tempFolder('rampwright-exporters-');
-  sources = openRecordSources(folder.file('logbook.sqlite'), { create: true });
+  sources = await openRecordSources(folder.file('logbook.sqlite'), { create: true });
   sessionId = (await recordSweepSession(sources.logbook, { seconds: 0.6 })).sessionId;
 }, 60_000);
 

@@ -7,19 +7,19 @@ import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildRecord, recomputeCaptureDigest } from '../../../main/record/buildRecord';
-import { openRecordSources } from '../../../main/record/openRecordSources';
+import { openRecordSources, type OpenedRecordSources } from '../../../main/record/openRecordSources';
 import { verifyRecordFile, writeRecordFile } from '../../../main/record/writeReport';
 import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
 import { recordSweepSession, type RecordedSession } from './recordFixture';
 
 let folder: TempFolder;
-let sources: ReturnType<typeof openRecordSources>;
+let sources: OpenedRecordSources;
 let session: RecordedSession;
 const now = new Date('2026-11-20T10:00:00Z');
 
 beforeAll(async () => {
   folder = tempFolder('rampwright-report-');
-  sources = openRecordSources(folder.file('logbook.sqlite'), { create: true });
+  sources = await openRecordSources(folder.file('logbook.sqlite'), { create: true });
   session = await recordSweepSession(sources.logbook);
 }, 60_000);
 

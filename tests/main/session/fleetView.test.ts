@@ -15,7 +15,7 @@ const design = chargerDesign();
 
 beforeAll(async () => {
   folder = tempFolder('rampwright-fleet-');
-  const sources = openRecordSources(folder.file('logbook.sqlite'), { create: true });
+  const sources = await openRecordSources(folder.file('logbook.sqlite'), { create: true });
   // Eight units, one session each: ramp peaks 7.16 to 7.44 V, alpha gains 22 to 24.1 deg/V.
   for (let unit = 0; unit < 8; unit++) {
     const writer = await sources.logbook.startSession({ unitSerial: `FL-${unit}`, design, operator: 'bench 5', startedAt: new Date(Date.UTC(2026, 2, 1 + unit)) });
@@ -37,7 +37,7 @@ describe('fleet of a board design over the contract', () => {
   it('gives the fleet report\'s histograms and places the chosen unit in them', async () => {
     const view = await client.fleet({ designName: design.name, unitSerial: 'FL-6' });
     expect(view.units).toBe(8);
-    const sources = openRecordSources(folder.file('logbook.sqlite'));
+    const sources = await openRecordSources(folder.file('logbook.sqlite'));
     const report = await fleetReport(sources, design.name, { unitSerial: 'FL-6', runs: 500 });
     await sources.close();
     for (const figure of view.figures) {

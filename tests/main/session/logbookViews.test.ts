@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BenchClient } from '../../../app/contract';
 import type { BenchContext } from '../../../main/session/benchContext';
 import { openRecordSources } from '../../../main/record/openRecordSources';
+import { openLogbookDatabase } from '../../../main/store/openDatabase';
 import { recordSweepSession } from '../record/recordFixture';
 import { tempFolder, type TempFolder } from '../store/storeFixtures';
 import { openTestBench } from './benchClientKit';
@@ -15,12 +16,14 @@ const ids: number[] = [];
 
 beforeAll(async () => {
   folder = tempFolder('rampwright-views-');
-  const sources = openRecordSources(folder.file('logbook.sqlite'), { create: true });
+  const sources = await openRecordSources(folder.file('logbook.sqlite'), { create: true });
   for (const serial of ['RV-1', 'RV-2', 'RV-3']) ids.push((await recordSweepSession(sources.logbook, { unitSerial: serial, seconds: 0.6 })).sessionId);
-  // RV-2 as an older logbook holds it (no steps kept); RV-3 with steps a foreign tool mangled.
-  sources.db.prepare('UPDATE sessions SET steps_json = NULL WHERE id = ?').run(ids[1]);
-  sources.db.prepare('UPDATE sessions SET steps_json = ? WHERE id = ?').run('{"not":"steps"', ids[2]);
   await sources.close();
+  // RV-2 as an older logbook holds it (no steps kept); RV-3 with steps a foreign tool mangled.
+  const db = openLogbookDatabase(folder.file('logbook.sqlite'));
+  db.prepare('UPDATE sessions SET steps_json = NULL WHERE id = ?').run(ids[1]);
+  db.prepare('UPDATE sessions SET steps_json = ? WHERE id = ?').run('{"not":"steps"', ids[2]);
+  db.close();
   ({ context, client } = await openTestBench(folder.file('logbook.sqlite')));
 }, 60_000);
 
@@ -34,11 +37,11 @@ describe('session detail steps', () => {
     const detail = await client.sessionDetail({ sessionId: ids[0] });
     expect(detail.steps.map((step) => [step.step, step.status])).toEqual([['sync', 'done'], ['ramp', 'done'], ['trim', 'done'], ['transfer', 'done'], ['limits', 'done'], ['sign-off', 'done']]);
     // Exactly what was stored, not recomputed: a stored reading changed by hand shows as changed.
-    const sources = openRecordSources(folder.file('logbook.sqlite'));
-    const stored = JSON.parse((sources.db.prepare('SELECT steps_json AS json FROM sessions WHERE id = ?').get(ids[0]) as { json: string }).json);
+    const db = openLogbookDatabase(folder.file('logbook.sqlite'));
+    const stored = JSON.parse((db.prepare('SELECT steps_json AS json FROM sessions WHERE id = ?').get(ids[0]) as { json: string }).json);
     stored[0].note = 'recorded at the bench';
-    sources.db.prepare('UPDATE sessions SET steps_json = ? WHERE id = ?').run(JSON.stringify(stored), ids[0]);
-    await sources.close();
+    db.prepare('UPDATE sessions SET steps_json = ? WHERE id = ?').run(JSON.stringify(stored), ids[0]);
+    db.close();
     expect((await client.sessionDetail({ sessionId: ids[0] })).steps[0].note).toBe('recorded at the bench');
   });
 

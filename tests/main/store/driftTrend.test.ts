@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { driftTrend } from '../../../main/store/driftTrend';
-import { canonicalJson } from '../../../main/store/sqliteLogbook';
+import { canonicalJson } from '../../../main/store/canonicalJson';
 
 const dayMs = 86_400_000;
 

@@ -122,8 +122,10 @@ describe('model properties (fast-check)', () => {
         expect(emitter.chargingCurrentA).toBeLessThan(base.chargingCurrentA);
         expect(top.chargingCurrentA).toBeGreaterThan(base.chargingCurrentA);
         expect(bottomDown.chargingCurrentA).toBeGreaterThan(base.chargingCurrentA);
-        expect(emitter.peakV).toBeLessThanOrEqual(base.peakV + 1e-12);
-        expect(capacitor.peakV).toBeLessThanOrEqual(base.peakV + 1e-12);
+        // Relative slack of 1e-12: a clipped peak sits on the compliance limit, which moves by rounding only
+        // (counterexample: full-wave 45 Hz, 300 ohm emitter, clipped at 8.526 V, 1e-12 V higher after the change).
+        expect(emitter.peakV).toBeLessThanOrEqual(base.peakV * (1 + 1e-12));
+        expect(capacitor.peakV).toBeLessThanOrEqual(base.peakV * (1 + 1e-12));
         expect(capacitor.initialSlopeVPerS).toBeLessThan(base.initialSlopeVPerS);
       }),
       { numRuns: 100 },

@@ -59,8 +59,9 @@ describe('rampwright record', () => {
     const transferPoints = (db.prepare('SELECT count(*) AS n FROM transfer_points').get() as { n: number }).n;
     db.close();
 
-    // At 50 Hz, 2.5 s minus the analysis warm-up still gives well over 50 cycles.
-    expect(stored.length).toBeGreaterThan(50);
+    // At 50 Hz, 2.5 s minus the analysis warm-up gives over 100 cycles on an idle machine; a loaded machine (the
+    // suite shares its cores) paces fewer, and 25 still make the comparison below mean something.
+    expect(stored.length).toBeGreaterThan(25);
     const expected = offlineCycles(paced.sent).slice(0, stored.length);
     // Same lines, same pure analysis: the stored cycles are the offline ones, value for value.
     expect(stored).toEqual(expected.map((cycle) => ({ t: cycle.t, alphaDeg: cycle.alphaDeg, rampPeakV: cycle.rampPeakV, controlV: cycle.controlV })));

@@ -4,6 +4,7 @@
  * a target above the supply) live in `validateBoardPhysics` beside the model.
  */
 import { z } from 'zod';
+import { channelMapSchema } from '../capture/channelMap';
 
 const resistor = z.object({
   ohm: z.number().positive('a resistance must be above 0 ohm').finite(),
@@ -86,6 +87,11 @@ export const boardDesignSchema = z.object({
       startDelayDeg: z.number().positive().default(3),
     })
     .default({ rampPeakPct: 3, alphaDeg: 2, startDelayDeg: 3 }),
+  /**
+   * How this bench's capture files are wired, when they do not name their channels sync, ramp, gate, control
+   * (app/capture/channelMap.ts): used when it fits a file, overridden by a map given with the file.
+   */
+  channelMap: channelMapSchema.optional(),
 });
 
 export type BoardDesign = z.output<typeof boardDesignSchema>;

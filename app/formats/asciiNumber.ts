@@ -26,11 +26,16 @@ export const scanState = { stop: 0 };
  * Reads `[spaces][+|-]digits[.digits][(e|E)[+|-]digits][spaces]` starting at `start`, stopping at the first
  * byte that cannot continue it (a comma, say) or at `end`; `scanState.stop` says where. Returns NaN when no
  * digits were found. Parsing while scanning saves a separate pass to find the field's end.
+ * `decimalMark` is the byte between the whole and the fractional digits: `.` (0x2e), or `,` (0x2c) for files
+ * written with a decimal comma (their fields are then separated by semicolons or tabs). `tabIsBlank` false
+ * for tab-separated files, where a tab ends the field instead of padding it.
  */
-export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number): number {
+export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number, decimalMark = dot, tabIsBlank = true): number {
+  // A tab is blank around a number unless it separates the fields.
+  const blank2 = tabIsBlank ? tab : space;
   let index = start;
   let code = index < end ? bytes[index] : -1;
-  while (code === space || code === tab) code = ++index < end ? bytes[index] : -1;
+  while (code === space || code === blank2) code = ++index < end ? bytes[index] : -1;
   let negative = false;
   if (code === minus || code === plus) {
     negative = code === minus;
@@ -58,7 +63,7 @@ export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number): 
     significantDigits++;
     code = ++index < end ? bytes[index] : -1;
   }
-  if (code === dot) {
+  if (code === decimalMark) {
     code = ++index < end ? bytes[index] : -1;
     if (significantDigits === 0) {
       while (code === zero) {
@@ -106,7 +111,7 @@ export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number): 
     decimalExponent += exponentNegative ? -exponent : exponent;
   }
   const numberEnd = index;
-  while (code === space || code === tab) code = ++index < end ? bytes[index] : -1;
+  while (code === space || code === blank2) code = ++index < end ? bytes[index] : -1;
   scanState.stop = index;
   if (mantissa === 0 && tail === 0) return negative ? -0 : 0;
   if (decimalExponent >= -22 && decimalExponent <= 22) {
@@ -121,7 +126,10 @@ export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number): 
   }
   // Validated above, so Number() sees a plain decimal and rounds it correctly.
   let text = '';
-  for (let position = start; position < numberEnd; position++) text += String.fromCharCode(bytes[position]);
+  for (let position = start; position < numberEnd; position++) {
+    const byte = bytes[position];
+    text += byte === decimalMark ? '.' : String.fromCharCode(byte);
+  }
   return Number(text);
 }
 
@@ -203,8 +211,8 @@ function longMantissaTimesPowerOfTen(mantissa: number, tail: number, tailDigits:
  * Parses a whole field `bytes[start, end)` as a number (spaces around it allowed).
  * Returns NaN when the field is not such a number (check `isNotANumberText` to accept a literal NaN).
  */
-export function parseAsciiNumber(bytes: Uint8Array, start: number, end: number): number {
-  const value = scanAsciiNumber(bytes, start, end);
+export function parseAsciiNumber(bytes: Uint8Array, start: number, end: number, decimalMark = dot): number {
+  const value = scanAsciiNumber(bytes, start, end, decimalMark);
   return scanState.stop === end ? value : Number.NaN;
 }
 

@@ -9,6 +9,8 @@ import type { SampleBlock } from '../capture/samples';
 export interface CaptureReader {
   push(chunk: Uint8Array | string): SampleBlock[];
   finish(): SampleBlock[];
+  /** How the file is being read, in one line (columns or channels, units, timing, roles); null until known. */
+  readAs(): string | null;
 }
 
 /** Samples per emitted block unless a reader is told otherwise: big enough to amortise per-block work, small enough for live views. */

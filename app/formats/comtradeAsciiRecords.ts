@@ -5,8 +5,18 @@ import { fieldTextForMessage, isBlankText, parseAsciiNumber } from './asciiNumbe
 import { LineSplitter } from './lineSplitter';
 import { asciiMissing, checkComtradeTime, describeSlot, finishComtradeRecords, type ComtradeRecordContext } from './comtradeRecordPlan';
 
+/** A line holding only the old end-of-file mark 0x1A (some recorders end their files with it), spaces aside. */
+function isEndOfFileMark(bytes: Uint8Array, start: number, end: number): boolean {
+  let sawMark = false;
+  for (let index = start; index < end; index++) {
+    if (bytes[index] === 0x1a) sawMark = true;
+    else if (bytes[index] !== 0x20 && bytes[index] !== 0x09) return false;
+  }
+  return sawMark;
+}
+
 /** ASCII .dat rows `n,timestamp,A1..Ak,D1..Dm` (IEEE C37.111, REFERENCES.md); only the fields a role needs are parsed. */
-export function createComtradeAsciiRecords(context: ComtradeRecordContext): CaptureReader {
+export function createComtradeAsciiRecords(context: ComtradeRecordContext): Omit<CaptureReader, 'readAs'> {
   const { config, plan, secondsPerTick, builder, source, cursor, where } = context;
   const row = new Float64Array(5);
   let out: SampleBlock[] = [];
@@ -21,7 +31,7 @@ export function createComtradeAsciiRecords(context: ComtradeRecordContext): Capt
   }
   const splitter = new LineSplitter((bytes, start, end, lineNumber) => {
     cursor.record = lineNumber;
-    if (isBlankText(bytes, start, end)) return;
+    if (isBlankText(bytes, start, end) || isEndOfFileMark(bytes, start, end)) return;
     let field = 0;
     let fieldStart = start;
     for (;;) {
@@ -43,7 +53,7 @@ export function createComtradeAsciiRecords(context: ComtradeRecordContext): Capt
           if (value !== 0 && value !== 1) {
             throw new InputError(`digital ${describeSlot(context, slot)} holds "${fieldTextForMessage(bytes, fieldStart, fieldEnd)}", expected 0 or 1`, where());
           }
-          row[slot] = value;
+          row[slot] = value * plan.voltsPerCount[slot] + plan.offsetV[slot];
         }
       }
       field++;

@@ -9,7 +9,7 @@ import { checkComtradeTime, finishComtradeRecords, int16Missing, int32Missing, t
  * the analogs (int16 BINARY, int32 BINARY32, float32 FLOAT32), then the digitals packed 16 to a 2-byte word,
  * first channel in the lowest bit. A record cut by a chunk boundary is gathered in a small carry buffer.
  */
-export function createComtradeBinaryRecords(context: ComtradeRecordContext): CaptureReader {
+export function createComtradeBinaryRecords(context: ComtradeRecordContext): Omit<CaptureReader, 'readAs'> {
   const { config, plan, fixedRateHz, secondsPerTick, builder, source, cursor } = context;
   const row = new Float64Array(5);
   let out: SampleBlock[] = [];
@@ -49,7 +49,7 @@ export function createComtradeBinaryRecords(context: ComtradeRecordContext): Cap
       }
       return count * voltsPerCount[slot] + offsetV[slot];
     }
-    if (kind === 2) return (view.getUint16(offset + byteOffset[slot], true) & bitMask[slot]) === 0 ? 0 : 1;
+    if (kind === 2) return ((view.getUint16(offset + byteOffset[slot], true) & bitMask[slot]) === 0 ? 0 : voltsPerCount[slot]) + offsetV[slot];
     return 0;
   };
   const timeOf = (view: DataView, offset: number): number => {
@@ -71,6 +71,7 @@ export function createComtradeBinaryRecords(context: ComtradeRecordContext): Cap
   const decodeRun = (view: DataView, start: number, records: number): void => {
     let done = 0;
     while (done < records) {
+      builder.nextRateIfDue(out);
       const run = Math.min(builder.roomInBlock, records - done);
       const { sync, ramp, gate, control } = builder.buffers();
       const base = builder.writeIndex;

@@ -106,6 +106,7 @@ export function createComtradeCffReader(options: ComtradeDataReaderOptions = {})
   };
 
   return {
+    readAs: () => data?.readAs() ?? null,
     push(chunk) {
       const out: SampleBlock[] = [];
       if (typeof chunk === 'string') {

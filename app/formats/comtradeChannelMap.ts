@@ -1,4 +1,5 @@
-import { InputError } from '../errors';
+import type { ChannelMap } from '../capture/channelMap';
+import { resolveChannelRoles, type FileChannel, type ResolvedRoles } from '../capture/resolveChannels';
 import { signalRoles, type SignalRole } from '../capture/samples';
 import type { ComtradeAnalogChannel, ComtradeConfig } from './comtradeConfig';
 
@@ -10,11 +11,10 @@ export type ComtradeChannelSource =
    * can shift its own readings.
    */
   | { kind: 'analog'; index: number; id: string; voltsPerCount: number; offsetV: number; skewUs: number }
-  | { kind: 'digital'; index: number; id: string };
+  /** A digital channel's 0/1 becomes bit x voltsPerCount + offsetV (scale and invert of the channel map). */
+  | { kind: 'digital'; index: number; id: string; voltsPerCount: number; offsetV: number };
 
 export type ComtradeChannelSources = Record<SignalRole, ComtradeChannelSource | null>;
-
-const requiredRoles: readonly SignalRole[] = ['sync', 'ramp', 'gate'];
 
 /** Volts per unit named in `uu`; other units are taken as volts already (our own files write V). */
 const unitToVolts: Record<string, number> = { v: 1, mv: 1e-3, uv: 1e-6, µv: 1e-6, kv: 1e3 };
@@ -35,41 +35,92 @@ export function analogScaling(channel: ComtradeAnalogChannel): { voltsPerCount: 
   return { voltsPerCount: channel.multiplier * factor, offsetV: channel.offset * factor };
 }
 
+interface ComtradeFileChannel extends FileChannel {
+  kind: 'analog' | 'digital';
+  index: number;
+  id: string;
+}
+
+/** The record's channels as a channel map names them: analog by id, by number or as An; digital by id or as Dn. */
+export function comtradeFileChannels(config: ComtradeConfig): ComtradeFileChannel[] {
+  const analog = config.analogChannels.map((channel, index): ComtradeFileChannel => ({
+    kind: 'analog',
+    index,
+    id: channel.id.trim(),
+    number: index + 1,
+    names: [`A${index + 1}`, channel.id],
+    label: `analog ${index + 1} "${channel.id.trim()}"`,
+  }));
+  const digital = config.digitalChannels.map((channel, index): ComtradeFileChannel => ({
+    kind: 'digital',
+    index,
+    id: channel.id.trim(),
+    number: null,
+    names: [`D${index + 1}`, channel.id],
+    label: `digital ${index + 1} "${channel.id.trim()}"`,
+  }));
+  return [...analog, ...digital];
+}
+
 /**
- * Finds each role's channel by channel id: by default the ids sync, ramp, gate and control (any letter case,
- * spaces trimmed); `channelMap` names other ids per role. Analog channels are searched first, then digital
- * ones, so the gate may be a digital (0/1) channel. Sync, ramp and gate are required; control is optional.
+ * Finds each role's channel: by the channel map (channel id, analog channel number, An or Dn, with scale and
+ * invert), else by the ids sync, ramp, gate and control (any letter case, spaces trimmed). The gate may be a digital
+ * (0/1) channel; inverting a digital channel swaps 0 and 1. A design's stored map (`defaultMap`) applies when it
+ * fits the record; otherwise channels named after the roles are used. Sync, ramp and gate are required.
  */
 export function mapComtradeChannels(
   config: ComtradeConfig,
-  channelMap: Partial<Record<SignalRole, string>> = {},
+  channelMap?: ChannelMap,
   where = 'COMTRADE configuration',
+  defaultMap?: ChannelMap,
 ): ComtradeChannelSources {
-  const normalise = (id: string) => id.trim().toLowerCase();
-  const sources = {} as ComtradeChannelSources;
-  const missing: string[] = [];
-  for (const role of signalRoles) {
-    const wanted = normalise(channelMap[role] ?? role);
-    const analogIndex = config.analogChannels.findIndex((channel) => normalise(channel.id) === wanted);
-    const digitalIndex = config.digitalChannels.findIndex((channel) => normalise(channel.id) === wanted);
-    if (analogIndex >= 0) {
-      const channel = config.analogChannels[analogIndex];
-      sources[role] = { kind: 'analog', index: analogIndex, id: channel.id, ...analogScaling(channel), skewUs: channel.skewUs };
-    } else if (digitalIndex >= 0) {
-      sources[role] = { kind: 'digital', index: digitalIndex, id: config.digitalChannels[digitalIndex].id };
-    } else {
-      sources[role] = null;
-      if (requiredRoles.includes(role)) missing.push(channelMap[role] === undefined ? `${role}` : `${role} (channel id "${channelMap[role]}")`);
+  const channels = comtradeFileChannels(config);
+  const resolve = (map: ChannelMap | undefined) => resolveChannelRoles(channels, map, where, 'the record has');
+  let resolved: ResolvedRoles<ComtradeFileChannel>;
+  if (channelMap !== undefined || defaultMap === undefined) resolved = resolve(channelMap);
+  else {
+    try {
+      resolved = resolve(defaultMap);
+    } catch (designError) {
+      try {
+        resolved = resolve(undefined);
+      } catch {
+        throw designError;
+      }
     }
   }
-  if (missing.length > 0) {
-    const available = [...config.analogChannels, ...config.digitalChannels].map((channel) => channel.id);
-    const shown = available.slice(0, 12).join(', ') + (available.length > 12 ? ', ...' : '');
-    throw new InputError(
-      `no channel for ${missing.join(', ')}; the record has ${available.length === 0 ? 'no channels' : `channels ${shown}`} ` +
-        '(name the channel for each role in the channel map)',
-      where,
-    );
+  const sources = {} as ComtradeChannelSources;
+  for (const role of signalRoles) {
+    const entry = resolved[role];
+    if (entry === null) {
+      sources[role] = null;
+      continue;
+    }
+    const { channel, pick } = entry;
+    const factor = pick.invert ? -pick.scale : pick.scale;
+    if (channel.kind === 'analog') {
+      const scaling = analogScaling(config.analogChannels[channel.index]);
+      sources[role] = {
+        kind: 'analog',
+        index: channel.index,
+        id: channel.id,
+        voltsPerCount: scaling.voltsPerCount * factor,
+        offsetV: scaling.offsetV * factor,
+        skewUs: config.analogChannels[channel.index].skewUs,
+      };
+    } else {
+      sources[role] = { kind: 'digital', index: channel.index, id: channel.id, voltsPerCount: factor, offsetV: pick.invert ? pick.scale : 0 };
+    }
   }
   return sources;
+}
+
+/** `sync=analog 1 "VA", ...` for the "read as" line. */
+export function describeComtradeSources(sources: ComtradeChannelSources): string {
+  return signalRoles
+    .flatMap((role) => {
+      const source = sources[role];
+      return source === null ? [] : [`${role}=${source.kind} ${source.index + 1} "${source.id}"`];
+    })
+    .join(', ');
 }

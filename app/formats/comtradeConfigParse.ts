@@ -53,9 +53,18 @@ class ConfigLines {
   }
 }
 
+/**
+ * rev_year: 1991, 1999 or 2013. Recorders also write other years (a firmware's own date, e.g. 2001): such a file is
+ * read with the layout of the revision before it, which the fields that follow then confirm or refuse.
+ */
 function parseRevision(text: string | undefined, lines: ConfigLines): ComtradeRevision {
   if (text === undefined || text === '') return 1991;
-  if (text === '1991' || text === '1999' || text === '2013') return Number(text) as ComtradeRevision;
+  if (/^\d{4}$/.test(text)) {
+    const year = Number(text);
+    if (year >= 2013) return 2013;
+    if (year >= 1999) return 1999;
+    if (year >= 1991) return 1991;
+  }
   return lines.fail(`rev_year is "${text}"; the revisions read are 1991, 1999 and 2013`);
 }
 
@@ -110,6 +119,10 @@ function parseDigital(fields: string[], lines: ConfigLines): ComtradeDigitalChan
 
 function parseDateTime(fields: string[], revision: ComtradeRevision, what: string, lines: ConfigLines): { time: ComtradeDateTime; fractionDigits: number } {
   const text = fields.join(',');
+  // Some recorders leave the times empty (","): the record is read without a wall-clock time.
+  if (fields.length <= 2 && fields.every((field) => field.trim() === '')) {
+    return { time: { text: '', year: 0, month: 0, day: 0, hour: 0, minute: 0, second: 0 }, fractionDigits: 0 };
+  }
   const dateParts = (fields[0] ?? '').split('/');
   const timeParts = (fields[1] ?? '').split(':');
   if (fields.length !== 2 || dateParts.length !== 3 || timeParts.length !== 3) {
@@ -135,7 +148,8 @@ function parseDateTime(fields: string[], revision: ComtradeRevision, what: strin
  * Throws an `InputError` naming the line and field that is wrong.
  */
 export function parseComtradeConfig(text: string, source = 'COMTRADE configuration'): ComtradeConfig {
-  const allLines = text.replace(/^\uFEFF/, '').split(/\r\n|\n|\r/);
+  // A byte order mark before, an old end-of-file mark (0x1A) after.
+  const allLines = text.replace(/^\uFEFF/, '').replace(/\x1a[\s\x1a]*$/, '').split(/\r\n|\n|\r/);
   while (allLines.length > 0 && allLines[allLines.length - 1].trim() === '') allLines.pop();
   if (allLines.length === 0) throw new InputError('the configuration file is empty', source);
   const lines = new ConfigLines(allLines, source);

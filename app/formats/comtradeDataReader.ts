@@ -1,15 +1,17 @@
-import type { SignalRole } from '../capture/samples';
+import type { ChannelMap } from '../capture/channelMap';
 import { defaultBlockSamples, type CaptureReader } from './captureReader';
 import type { ComtradeConfig } from './comtradeConfig';
-import { mapComtradeChannels } from './comtradeChannelMap';
+import { describeComtradeSources, mapComtradeChannels } from './comtradeChannelMap';
 import { SampleBlockBuilder } from './sampleBlockBuilder';
-import { fixedRateOf, planSlots, type ComtradeRecordContext } from './comtradeRecordPlan';
+import { planSlots, ratePlanOf, type ComtradeRecordContext } from './comtradeRecordPlan';
 import { createComtradeAsciiRecords } from './comtradeAsciiRecords';
 import { createComtradeBinaryRecords } from './comtradeBinaryRecords';
 
 export interface ComtradeDataReaderOptions {
-  /** Channel id per role when the record does not use the ids sync, ramp, gate, control. */
-  channelMap?: Partial<Record<SignalRole, string>>;
+  /** Which channel is which role (by id, number, An or Dn, with scale and invert), when the ids are not sync, ramp, gate, control. */
+  channelMap?: ChannelMap;
+  /** A board design's stored map: used when it fits the record. */
+  defaultMap?: ChannelMap;
   blockSamples?: number;
   /** Data file name for error messages. */
   source?: string;
@@ -25,18 +27,37 @@ export interface ComtradeDataReaderOptions {
  */
 export function createComtradeDataReader(config: ComtradeConfig, options: ComtradeDataReaderOptions = {}): CaptureReader {
   const source = options.source ?? 'COMTRADE data';
-  const sources = mapComtradeChannels(config, options.channelMap, source);
+  const sources = mapComtradeChannels(config, options.channelMap, source, options.defaultMap);
   const plan = planSlots(sources);
-  const fixedRateHz = fixedRateOf(config, source);
+  const ratePlan = ratePlanOf(config, source);
+  const fixedRateHz = ratePlan?.[0].rateHz;
   const secondsPerTick = config.timeMultiplier * config.timeBaseS;
   const cursor = { record: 0 };
   const where = (): string => (config.fileType === 'ASCII' ? `${source}, line ${cursor.record}` : `${source}, record ${cursor.record}`);
   const builder = new SampleBlockBuilder({
     blockSamples: options.blockSamples ?? defaultBlockSamples,
     hasControl: sources.control !== null,
-    fixedRateHz,
+    ratePlan,
     where,
   });
   const context: ComtradeRecordContext = { config, sources, plan, fixedRateHz, secondsPerTick, builder, source, cursor, where };
-  return config.fileType === 'ASCII' ? createComtradeAsciiRecords(context) : createComtradeBinaryRecords(context);
+  const records = config.fileType === 'ASCII' ? createComtradeAsciiRecords(context) : createComtradeBinaryRecords(context);
+  const readAs = describeComtradeRecord(config, ratePlan, sources);
+  return { ...records, readAs: () => readAs };
+}
+
+function formatHz(rateHz: number): string {
+  return rateHz >= 1000 ? `${+(rateHz / 1000).toPrecision(4)} kS/s` : `${+rateHz.toPrecision(4)} S/s`;
+}
+
+/** `COMTRADE 2013 BINARY, 4 analog + 4 digital channels, 1.2 kS/s, timemult 0.5; sync=analog 1 "IA", ...` */
+export function describeComtradeRecord(config: ComtradeConfig, ratePlan: readonly { rateHz: number; endSample: number }[] | undefined, sources: Parameters<typeof describeComtradeSources>[0]): string {
+  const timing =
+    ratePlan === undefined
+      ? 'times from the timestamps'
+      : ratePlan.length === 1
+        ? formatHz(ratePlan[0].rateHz)
+        : `${ratePlan.length} rates (${ratePlan.map((rate, index) => `${formatHz(rate.rateHz)} ${index === ratePlan.length - 1 ? 'to the end' : `to sample ${rate.endSample}`}`).join(', ')})`;
+  const multiplier = config.timeMultiplier !== 1 && ratePlan === undefined ? `, timemult ${config.timeMultiplier}` : '';
+  return `COMTRADE ${config.revision} ${config.fileType}, ${config.analogChannels.length} analog + ${config.digitalChannels.length} digital channels, ${timing}${multiplier}; ${describeComtradeSources(sources)}`;
 }

@@ -15,19 +15,23 @@ export const int16Missing = -0x8000;
 export const int32Missing = -0x80000000;
 export const timestampMissing = 0xffffffff;
 
-/** How times are known: from a single sample rate, or from the timestamps. */
-export function fixedRateOf(config: ComtradeConfig, where: string): number | undefined {
-  const rates = config.sampleRates.filter((rate) => rate.rateHz > 0);
-  if (rates.length === 0) return undefined;
-  const first = rates[0].rateHz;
-  if (rates.some((rate) => Math.abs(rate.rateHz - first) > 1e-9 * first)) {
-    const listed = rates.map((rate) => `${rate.rateHz} Hz`).join(', ');
-    throw new InputError(`the record changes sample rate (${listed}); only single-rate records are read`, where);
+/**
+ * How times are known: from the sample rates (one, or several that change part-way: each up to its endsamp), or
+ * from the timestamps (nrates 0, or a single rate of 0). A rate line of 0 among others is refused: the record
+ * would be half timed by rate and half by timestamp.
+ */
+export function ratePlanOf(config: ComtradeConfig, where: string): { rateHz: number; endSample: number }[] | undefined {
+  const rates = config.sampleRates;
+  if (rates.length === 0 || rates.every((rate) => rate.rateHz === 0)) return undefined;
+  if (rates.some((rate) => !(rate.rateHz > 0))) {
+    throw new InputError(`the record mixes sample rates with samp = 0 (${rates.map((rate) => `${rate.rateHz} Hz`).join(', ')}): give each rate, or all 0 for timestamps`, where);
   }
-  if (rates.length !== config.sampleRates.length) {
-    throw new InputError('the record mixes a sample rate line with samp = 0; only single-rate records are read', where);
+  for (let index = 1; index < rates.length; index++) {
+    if (rates[index].endSample <= rates[index - 1].endSample) {
+      throw new InputError(`endsamp of rate ${index + 1} (${rates[index].endSample}) is not after that of rate ${index} (${rates[index - 1].endSample})`, where);
+    }
   }
-  return first;
+  return rates.map((rate) => ({ rateHz: rate.rateHz, endSample: rate.endSample }));
 }
 
 /** Slot layout shared by both encodings: slot 1..4 = sync, ramp, gate, control (0 is time). */
@@ -50,13 +54,9 @@ export function planSlots(sources: ComtradeChannelSources): SlotPlan {
     const source = sources[role];
     if (source === null) return;
     plan.channelIndex[slot] = source.index;
-    if (source.kind === 'analog') {
-      plan.kinds[slot] = 1;
-      plan.voltsPerCount[slot] = source.voltsPerCount;
-      plan.offsetV[slot] = source.offsetV;
-    } else {
-      plan.kinds[slot] = 2;
-    }
+    plan.kinds[slot] = source.kind === 'analog' ? 1 : 2;
+    plan.voltsPerCount[slot] = source.voltsPerCount;
+    plan.offsetV[slot] = source.offsetV;
   });
   return plan;
 }
@@ -66,6 +66,7 @@ export interface ComtradeRecordContext {
   config: ComtradeConfig;
   sources: ComtradeChannelSources;
   plan: SlotPlan;
+  /** The first sample rate, undefined when times come from the timestamps. */
   fixedRateHz: number | undefined;
   /** Seconds per timestamp unit: timemult x the time base. */
   secondsPerTick: number;

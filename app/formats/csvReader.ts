@@ -1,128 +1,159 @@
 import { InputError } from '../errors';
 import type { SampleBlock } from '../capture/samples';
 import { defaultBlockSamples, type CaptureReader } from './captureReader';
-import { fieldTextForMessage, isBlankText, isNotANumberText, scanAsciiNumber, scanState } from './asciiNumber';
-import { parseCsvHeader, type CsvLayout } from './csvHeader';
+import { layoutCsv, type CsvLayout, type CsvLayoutOptions } from './csvLayout';
+import { isEmptyRow, parseCsvRow, type CsvRowPlan } from './csvRows';
+import { sniffCsvDialect, type SniffLine } from './csvSniff';
 import { LineSplitter } from './lineSplitter';
 import { SampleBlockBuilder } from './sampleBlockBuilder';
-import { decodeUtf8, startsWithByteOrderMark } from './utf8';
+import { decodeUtf8, encodeUtf8, startsWithByteOrderMark } from './utf8';
 
-export interface CsvReaderOptions {
-  /** Needed when the file has no `t` column; with a `t` column the rate is measured from the times. */
+export interface CsvReaderOptions extends CsvLayoutOptions {
+  /**
+   * Sample rate for a file without a time column (the command line's --rate); with a time column the rate is
+   * measured from the times, and this is used only where they cannot give it (a stretch of one sample).
+   */
   sampleRateHz?: number;
   blockSamples?: number;
   /** File name for error messages. */
   source?: string;
 }
 
-/** Slot of each value in the per-row scratch array. */
-const slotOf = { time: 0, sync: 1, ramp: 2, gate: 3, control: 4, ignored: -1 } as const;
+export interface CsvCaptureReader extends CaptureReader {
+  /** How the file is read, once its first lines have been seen (null before). */
+  layout(): CsvLayout | null;
+}
+
+/** Bytes looked at before the layout is decided: enough for a long header block and a few thousand rows. */
+export const csvSniffBytes = 256 << 10;
+const sniffLineLimit = 2000;
+
+export function rowPlanOf(layout: CsvLayout): CsvRowPlan {
+  return {
+    separator: layout.dialect.separator.charCodeAt(0),
+    decimalMark: layout.dialect.decimalMark.charCodeAt(0),
+    columnCount: layout.columnCount,
+    slots: layout.slots,
+    factors: layout.factors,
+    columnLabels: layout.columnLabels,
+  };
+}
+
+/** The complete lines of the first bytes of a file, as text, for the sniffer. */
+export function sniffLinesOf(bytes: Uint8Array, complete: boolean): SniffLine[] {
+  const lines: SniffLine[] = [];
+  let start = startsWithByteOrderMark(bytes, 0, bytes.length) ? 3 : 0;
+  while (lines.length < sniffLineLimit) {
+    let newline = bytes.indexOf(0x0a, start);
+    if (newline < 0) {
+      if (!complete || start >= bytes.length) break;
+      newline = bytes.length;
+    }
+    let end = newline;
+    if (end > start && bytes[end - 1] === 0x0d) end--;
+    lines.push({ number: lines.length + 1, text: decodeUtf8(bytes, start, end) });
+    start = newline + 1;
+  }
+  return lines;
+}
+
+function joinBytes(first: Uint8Array, second: Uint8Array): Uint8Array {
+  const joined = new Uint8Array(first.length + second.length);
+  joined.set(first);
+  joined.set(second, first.length);
+  return joined;
+}
 
 /**
- * Streaming reader for our CSV capture: header `t,sync,ramp,gate[,control]`, seconds and volts, comma separated,
- * optional UTF-8 byte order mark, LF or CRLF, blank lines skipped, `NaN` for a missing sample.
+ * Streaming reader for CSV captures: ours (`t,sync,ramp,gate[,control]`, seconds and volts, comma) and the
+ * dialects instruments and spreadsheets write (app/formats/README.md): the first 256 KiB are sniffed for the
+ * separator, decimal mark, header block, names, units and time (csvSniff.ts), the channel map says which column
+ * is which role (csvLayout.ts), then rows stream through with memory of one block plus one line.
  */
-export function createCsvReader(options: CsvReaderOptions = {}): CaptureReader {
+export function createCsvReader(options: CsvReaderOptions = {}): CsvCaptureReader {
   const source = options.source ?? 'CSV capture';
   const blockSamples = options.blockSamples ?? defaultBlockSamples;
   if (options.sampleRateHz !== undefined && !(options.sampleRateHz > 0 && Number.isFinite(options.sampleRateHz))) {
     throw new InputError(`the sample rate must be a positive number of hertz, not ${options.sampleRateHz}`, source);
   }
+  let sniffBuffer: Uint8Array | null = new Uint8Array(0);
   let layout: CsvLayout | null = null;
-  let slots: Int8Array = new Int8Array(0);
+  let plan: CsvRowPlan | null = null;
   let builder: SampleBlockBuilder | null = null;
+  let firstDataLine = 1;
   let currentLine = 0;
-  let sawAnyLine = false;
   let sawAnyByte = false;
   const row = new Float64Array(5);
   let out: SampleBlock[] = [];
 
   const where = (): string => `${source}, line ${currentLine}`;
 
-  const readHeader = (bytes: Uint8Array, start: number, end: number): void => {
-    if (startsWithByteOrderMark(bytes, start, end)) start += 3;
-    layout = parseCsvHeader(decodeUtf8(bytes, start, end), where());
-    slots = Int8Array.from(layout.columns, (column) => slotOf[column]);
-    if (!layout.hasTime && options.sampleRateHz === undefined) {
-      throw new InputError('the file has no t column, so the sample rate must be given (--rate)', where());
-    }
-    builder = new SampleBlockBuilder({
-      blockSamples,
-      hasControl: layout.hasControl,
-      fixedRateHz: layout.hasTime ? undefined : options.sampleRateHz,
-      fallbackRateHz: options.sampleRateHz,
-      where,
-    });
-  };
-
-  const readRow = (bytes: Uint8Array, start: number, end: number, currentLayout: CsvLayout, currentBuilder: SampleBlockBuilder): void => {
-    const columnCount = slots.length;
-    let column = 0;
-    let fieldStart = start;
-    row[0] = Number.NaN;
-    for (;;) {
-      const slot = column < columnCount ? slots[column] : -1;
-      let fieldEnd: number;
-      if (slot >= 0) {
-        // Parse while scanning: the number should stop right at the comma or the line's end.
-        let value = scanAsciiNumber(bytes, fieldStart, end);
-        fieldEnd = scanState.stop;
-        if (fieldEnd < end && bytes[fieldEnd] !== 0x2c) {
-          value = Number.NaN;
-          while (fieldEnd < end && bytes[fieldEnd] !== 0x2c) fieldEnd++;
-        }
-        if (value !== value && !(slot > 0 && isNotANumberText(bytes, fieldStart, fieldEnd))) {
-          const text = fieldTextForMessage(bytes, fieldStart, fieldEnd);
-          throw new InputError(`column ${currentLayout.names[column]} holds "${text}", which is not a number`, where());
-        }
-        if (slot === 0 && !Number.isFinite(value)) {
-          throw new InputError(`column ${currentLayout.names[column]} holds "${fieldTextForMessage(bytes, fieldStart, fieldEnd)}", not a time in seconds`, where());
-        }
-        row[slot] = value;
-      } else {
-        fieldEnd = fieldStart;
-        while (fieldEnd < end && bytes[fieldEnd] !== 0x2c) fieldEnd++;
-      }
-      column++;
-      if (fieldEnd >= end) break;
-      fieldStart = fieldEnd + 1;
-    }
-    if (column !== columnCount) {
-      throw new InputError(`the row has ${column} field${column === 1 ? '' : 's'} but the header has ${columnCount}`, where());
-    }
-    currentBuilder.append(row[0], row[1], row[2], row[3], row[4], out);
-  };
-
   const splitter = new LineSplitter((bytes, start, end, lineNumber) => {
+    if (lineNumber < firstDataLine || plan === null || builder === null) return;
     currentLine = lineNumber;
-    if (isBlankText(bytes, start, end)) return;
-    if (layout === null || builder === null) {
-      sawAnyLine = true;
-      readHeader(bytes, start, end);
-      return;
-    }
-    readRow(bytes, start, end, layout, builder);
+    if (lineNumber === 1 && startsWithByteOrderMark(bytes, start, end)) start += 3;
+    if (isEmptyRow(bytes, start, end, plan.separator)) return;
+    parseCsvRow(bytes, start, end, plan, row, where);
+    builder.append(row[0], row[1], row[2], row[3], row[4], out);
   }, source);
 
+  const decide = (complete: boolean): void => {
+    const bytes = sniffBuffer as Uint8Array;
+    const lines = sniffLinesOf(bytes, complete);
+    if (lines.length === 0) return;
+    layout = layoutCsv(sniffCsvDialect(lines, options, source), options, source);
+    plan = rowPlanOf(layout);
+    firstDataLine = layout.dialect.firstDataLine;
+    builder = new SampleBlockBuilder({ blockSamples, hasControl: layout.hasControl, fixedRateHz: layout.fixedRateHz, fallbackRateHz: options.sampleRateHz, where });
+    sniffBuffer = null;
+    splitter.push(bytes);
+    if (pendingHighSurrogate !== '') splitter.push(pendingHighSurrogate);
+    pendingHighSurrogate = '';
+  };
+
+  // A string chunk may end in the first half of a surrogate pair: held back until its partner comes.
+  let pendingHighSurrogate = '';
+  const toBytes = (chunk: Uint8Array | string): Uint8Array => {
+    if (typeof chunk !== 'string') return chunk;
+    let text = pendingHighSurrogate + chunk;
+    pendingHighSurrogate = '';
+    const last = text.charCodeAt(text.length - 1);
+    if (last >= 0xd800 && last <= 0xdbff) {
+      pendingHighSurrogate = text.slice(-1);
+      text = text.slice(0, -1);
+    }
+    return encodeUtf8(text);
+  };
+
   return {
+    layout: () => layout,
+    readAs: () => (layout as CsvLayout | null)?.readAs ?? null,
     push(chunk) {
-      if (chunk.length > 0) sawAnyByte = true;
       out = [];
-      splitter.push(chunk);
+      if (chunk.length > 0) sawAnyByte = true;
+      if (sniffBuffer === null) {
+        splitter.push(chunk);
+        return out;
+      }
+      // Until the layout is known the start of the file is kept.
+      sniffBuffer = joinBytes(sniffBuffer, toBytes(chunk));
+      if (sniffBuffer.length >= csvSniffBytes) decide(false);
       return out;
     },
     finish() {
       out = [];
+      if (sniffBuffer !== null) {
+        if (pendingHighSurrogate !== '') sniffBuffer = joinBytes(sniffBuffer, encodeUtf8(pendingHighSurrogate));
+        pendingHighSurrogate = '';
+        if (!sawAnyByte || sniffBuffer.length === 0) throw new InputError('the file is empty', source);
+        if (sniffLinesOf(sniffBuffer, true).every((line) => line.text.trim() === '')) throw new InputError('the file holds only blank lines: no header, no samples', source);
+        decide(true);
+      }
       splitter.finish();
       currentLine = splitter.linesSeen;
-      if (!sawAnyLine) {
-        throw new InputError(sawAnyByte ? 'the file holds only blank lines: no header, no samples' : 'the file is empty', source);
-      }
-      if (builder === null) throw new InputError('the file has no header line', source);
-      const finalBuilder: SampleBlockBuilder = builder;
-      if (finalBuilder.totalSamples === 0) {
-        throw new InputError('the file has a header but no samples', source);
-      }
+      const finalBuilder = builder as SampleBlockBuilder | null;
+      if (finalBuilder === null) throw new InputError('the file has no header line', source);
+      if (finalBuilder.totalSamples === 0) throw new InputError('the file has a header but no samples', source);
       finalBuilder.flush(out);
       return out;
     },

@@ -17,6 +17,12 @@ export interface SampleBlockBuilderOptions {
   hasControl: boolean;
   /** Fixed sample rate; without it every sample must come with its time. */
   fixedRateHz?: number;
+  /**
+   * Rates that change part-way (COMTRADE nrates > 1): each up to its last sample number (1-based, inclusive);
+   * the last one goes on to the end. Replaces `fixedRateHz`. A new rate starts a new block, timed from its first
+   * sample's own time when the file gives one later than the last, else one new period after the last sample.
+   */
+  ratePlan?: readonly { rateHz: number; endSample: number }[];
   /** Rate for a stretch of a single timed sample, where no interval exists to measure. */
   fallbackRateHz?: number;
   /** Says where the reader is (file and line or record) for error messages. */
@@ -28,7 +34,11 @@ const gapPeriods = 1.5;
 export class SampleBlockBuilder {
   private readonly blockSamples: number;
   private readonly hasControl: boolean;
-  private readonly fixedRateHz: number | undefined;
+  private fixedRateHz: number | undefined;
+  private readonly ratePlan: readonly { rateHz: number; endSample: number }[];
+  private segmentIndex = 0;
+  private segmentOriginS = 0;
+  private segmentStartSample = 0;
   private readonly fallbackRateHz: number | undefined;
   private readonly where: () => string;
 
@@ -54,7 +64,8 @@ export class SampleBlockBuilder {
   constructor(options: SampleBlockBuilderOptions) {
     this.blockSamples = Math.max(1, Math.floor(options.blockSamples));
     this.hasControl = options.hasControl;
-    this.fixedRateHz = options.fixedRateHz;
+    this.ratePlan = options.ratePlan ?? [];
+    this.fixedRateHz = this.ratePlan.length > 0 ? this.ratePlan[0].rateHz : options.fixedRateHz;
     this.fallbackRateHz = options.fallbackRateHz;
     this.where = options.where;
     this.sync = new Float64Array(this.blockSamples);
@@ -73,8 +84,7 @@ export class SampleBlockBuilder {
    */
   append(timeS: number, sync: number, ramp: number, gate: number, control: number, out: SampleBlock[]): void {
     if (this.fixedRateHz !== undefined) {
-      if (this.samplesSeen === 0 && Number.isFinite(timeS)) this.originS = timeS;
-      if (this.count === 0) this.blockStartS = this.originS + this.samplesSeen / this.fixedRateHz;
+      this.startFixedRate(timeS, out);
     } else {
       if (!Number.isFinite(timeS)) throw new InputError('the sample has no time', this.where());
       if (this.stretchSamples === 0) {
@@ -120,7 +130,41 @@ export class SampleBlockBuilder {
    * (only the file's first sample sets the origin; NaN when it has none).
    */
   get roomInBlock(): number {
-    return this.blockSamples - this.count;
+    return Math.min(this.blockSamples - this.count, this.samplesLeftInRate());
+  }
+
+  /** Before a fixed-rate run: moves to the next rate when the current one has ended (its partial block goes out). */
+  nextRateIfDue(out: SampleBlock[]): void {
+    while (this.segmentIndex < this.ratePlan.length - 1 && this.samplesSeen >= this.ratePlan[this.segmentIndex].endSample) {
+      if (this.count > 0) this.emit(this.takeBlock(), out);
+      this.segmentOriginS += (this.samplesSeen - this.segmentStartSample) / (this.fixedRateHz as number);
+      this.segmentStartSample = this.samplesSeen;
+      this.segmentIndex++;
+      this.fixedRateHz = this.ratePlan[this.segmentIndex].rateHz;
+      this.segmentOriginS += 1 / this.fixedRateHz - 1 / this.ratePlan[this.segmentIndex - 1].rateHz;
+      this.rateJustChanged = true;
+    }
+  }
+
+  private rateJustChanged = false;
+
+  private samplesLeftInRate(): number {
+    if (this.segmentIndex >= this.ratePlan.length - 1) return Number.POSITIVE_INFINITY;
+    return Math.max(0, this.ratePlan[this.segmentIndex].endSample - this.samplesSeen);
+  }
+
+  /** Time bookkeeping of a fixed-rate sample (or the first of a run): origin, rate changes, block start. */
+  private startFixedRate(timeS: number, out: SampleBlock[]): void {
+    this.nextRateIfDue(out);
+    const rateHz = this.fixedRateHz as number;
+    if (this.samplesSeen === 0) {
+      if (Number.isFinite(timeS)) this.originS = timeS;
+      this.segmentOriginS = this.originS;
+    } else if (this.rateJustChanged && Number.isFinite(timeS) && timeS > this.segmentOriginS - 1 / rateHz) {
+      this.segmentOriginS = timeS;
+    }
+    this.rateJustChanged = false;
+    if (this.count === 0) this.blockStartS = this.segmentOriginS + (this.samplesSeen - this.segmentStartSample) / rateHz;
   }
 
   get writeIndex(): number {
@@ -133,8 +177,7 @@ export class SampleBlockBuilder {
 
   commitFixedRate(samples: number, firstTimeS: number, out: SampleBlock[]): void {
     if (this.fixedRateHz === undefined || samples <= 0) return;
-    if (this.samplesSeen === 0 && Number.isFinite(firstTimeS)) this.originS = firstTimeS;
-    if (this.count === 0) this.blockStartS = this.originS + this.samplesSeen / this.fixedRateHz;
+    this.startFixedRate(firstTimeS, out);
     this.count += samples;
     this.samplesSeen += samples;
     if (this.count === this.blockSamples) out.push(this.takeBlock());

@@ -10,12 +10,13 @@ import type { CaptureReadings, Rectifier } from '../../../app/bench/readings';
 import type { BoardDesign } from '../../../app/board/design';
 import { InputError } from '../../../app/errors';
 import { loadBoardDesign } from '../../board/loadBoardDesign';
-import { readCaptureFile } from '../../capture/readCaptureFile';
+import { openCaptureFile, type ReadCaptureOptions } from '../../capture/readCaptureFile';
+import { addCaptureOptions, captureReadOptions, type CaptureCommandOptions } from '../captureOptions';
+import { createProgressBar } from '../progressBar';
 
-interface AnalyzeCommandOptions {
+interface AnalyzeCommandOptions extends CaptureCommandOptions {
   design?: string;
   json?: boolean;
-  rate?: string;
   rectifier?: string;
 }
 
@@ -24,15 +25,8 @@ export interface AnalyzeResult {
   checks: ReadingCheck[] | null;
   design: BoardDesign | null;
   rectifierSource: 'option' | 'design' | 'default';
-}
-
-function rateOption(text: string | undefined): number | undefined {
-  if (text === undefined) return undefined;
-  const value = Number(text);
-  if (text.trim() === '' || !Number.isFinite(value) || value < 1000 || value > 1_000_000) {
-    throw new InputError(`must be a sample rate in Hz from 1000 to 1000000 (got "${text}")`, '--rate');
-  }
-  return value;
+  /** How the file was read: columns or channels, units, timing, roles. */
+  readAs: string | null;
 }
 
 function rectifierOption(text: string | undefined): Rectifier | undefined {
@@ -41,20 +35,35 @@ function rectifierOption(text: string | undefined): Rectifier | undefined {
   throw new InputError(`must be half-wave or full-wave (got "${text}")`, '--rectifier');
 }
 
+export interface AnalyzeOptions {
+  designPath?: string;
+  sampleRateHz?: number;
+  rectifier?: Rectifier;
+  /** How to read the file (channel map, CSV dialect); the design's map is added as the default. */
+  read?: ReadCaptureOptions;
+  onProgress?: (bytesRead: number, totalBytes: number) => void;
+}
+
 /** The work of the command without printing: tests and other adapters call it. */
-export async function analyzeCapture(path: string, options: { designPath?: string; sampleRateHz?: number; rectifier?: Rectifier } = {}): Promise<AnalyzeResult> {
+export async function analyzeCapture(path: string, options: AnalyzeOptions = {}): Promise<AnalyzeResult> {
   const design = options.designPath ? await loadBoardDesign(options.designPath) : null;
   const rectifier = options.rectifier ?? design?.rectifier ?? 'full-wave';
   const rectifierSource = options.rectifier ? 'option' : design ? 'design' : 'default';
   const analyzer = createCaptureAnalyzer({ rectifier, syncPhaseDeg: design?.syncPhaseDeg ?? 0, keepPerCycle: true });
+  const capture = await openCaptureFile(path, {
+    sampleRateHz: options.sampleRateHz,
+    ...options.read,
+    defaultMap: options.read?.defaultMap ?? design?.channelMap,
+    onProgress: options.onProgress,
+  });
   let samples = 0;
-  for await (const block of readCaptureFile(path, { sampleRateHz: options.sampleRateHz })) {
+  for await (const block of capture.blocks) {
     samples += block.sync.length;
     analyzer.push(block);
   }
   if (samples === 0) throw new InputError('the capture holds no samples', path);
   const readings = analyzer.finish();
-  return { readings, checks: design ? judgeReadings(readings, design) : null, design, rectifierSource };
+  return { readings, checks: design ? judgeReadings(readings, design) : null, design, rectifierSource, readAs: capture.readAs() };
 }
 
 function fixed(value: number | null, digits: number, unit: string): string {
@@ -119,6 +128,7 @@ export function formatAnalysis(path: string, result: AnalyzeResult): string {
   const rectifierNote = result.rectifierSource === 'default' ? ' (assumed; give --rectifier or --design)' : '';
   const lines = [
     `Capture ${path}`,
+    ...(result.readAs ? [`  ${result.readAs}`] : []),
     `  ${fixed(r.durationS, 2, 's')} at ${fixed(r.sampleRateHz, 0, 'S/s')}, ${r.cycles} cycles, ${r.firingIntervals} firing intervals, ${r.rectifier}${rectifierNote}${r.gaps > 0 ? `, ${r.gaps} gap(s)` : ''}`,
     '',
     ...rows.map(([group, label, value]) => `  ${group.padEnd(groupWidth)}  ${label.padEnd(labelWidth)}  ${value}`),
@@ -137,24 +147,28 @@ export function formatAnalysis(path: string, result: AnalyzeResult): string {
 }
 
 export function registerAnalyzeCommand(program: Command): void {
-  program
+  const command = program
     .command('analyze')
     .description('Measure a capture: mains frequency, ramp floor/start/slope/peak/linearity/clipping, firing angle, pulses, transfer curve')
-    .argument('<capture>', 'capture file: .csv, or a COMTRADE .cfg/.dat pair')
-    .option('--design <file>', 'board design (*.board.json): rectifier and sync phase from it, and checks against it')
+    .argument('<capture>', 'capture file: .csv (ours or an instrument\'s), a COMTRADE .cfg/.dat pair, or a .cff')
+    .option('--design <file>', 'board design (*.board.json): rectifier, sync phase and channel map from it, and checks against it')
     .option('--json', 'print the readings as JSON')
-    .option('--rate <Hz>', 'sample rate of a CSV capture that has no t column')
-    .option('--rectifier <kind>', 'half-wave or full-wave (default: from the design, else full-wave)')
-    .action(async (capturePath: string, options: AnalyzeCommandOptions) => {
-      const result = await analyzeCapture(capturePath, {
-        designPath: options.design,
-        sampleRateHz: rateOption(options.rate),
-        rectifier: rectifierOption(options.rectifier),
-      });
-      if (options.json) {
-        process.stdout.write(`${JSON.stringify(result.checks ? { ...result.readings, checks: result.checks } : result.readings, null, 2)}\n`);
-      } else {
-        process.stdout.write(formatAnalysis(capturePath, result));
-      }
-    });
+    .option('--rectifier <kind>', 'half-wave or full-wave (default: from the design, else full-wave)');
+  addCaptureOptions(command).action(async (capturePath: string, options: AnalyzeCommandOptions) => {
+    const read = captureReadOptions(options, null);
+    const rectifier = rectifierOption(options.rectifier);
+    const progress = createProgressBar(process.stderr, { enabled: !options.json, label: 'Reading' });
+    let result: AnalyzeResult;
+    try {
+      result = await analyzeCapture(capturePath, { designPath: options.design, rectifier, read, onProgress: progress.update });
+    } finally {
+      progress.done();
+    }
+    if (options.json) {
+      const readings = { ...result.readings, readAs: result.readAs };
+      process.stdout.write(`${JSON.stringify(result.checks ? { ...readings, checks: result.checks } : readings, null, 2)}\n`);
+    } else {
+      process.stdout.write(formatAnalysis(capturePath, result));
+    }
+  });
 }

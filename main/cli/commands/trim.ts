@@ -14,13 +14,14 @@ import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import type { CaptureReadings } from '../../../app/bench/readings';
 import { InputError } from '../../../app/errors';
 import { loadBoardDesign } from '../../board/loadBoardDesign';
-import { readCaptureFile } from '../../capture/readCaptureFile';
+import { openCaptureFile } from '../../capture/readCaptureFile';
+import { addCaptureOptions, captureReadOptions, type CaptureCommandOptions } from '../captureOptions';
+import { createProgressBar } from '../progressBar';
 
-interface TrimOptions {
+interface TrimOptions extends CaptureCommandOptions {
   design: string;
   capture: string;
   series: string;
-  rate?: string;
   json?: boolean;
   part: string[];
 }
@@ -53,36 +54,40 @@ function printHuman(plan: TrimPlan, ramp: RampReadings, measuredWords: readonly 
 }
 
 export function registerTrimCommand(program: Command): void {
-  program
+  const command = program
     .command('trim')
     .description('Measure a capture against its board design and say which resistor to change, to which standard value')
     .requiredOption('--design <file>', 'board design (*.board.json)')
     .requiredOption('--capture <file>', 'capture (.csv, or COMTRADE .cfg/.dat)')
     .option('--series <name>', 'E-series to pick values from: E12, E24 or E96', 'E24')
-    .option('--rate <hertz>', 'sample rate of a CSV capture without a t column')
     .option('--part <name=value>', 'a part value measured on the board, by role or designator (rEmitter=5k1, R7=5.1k, cRamp=560n); repeat for more', (entry: string, entries: string[]) => [...entries, entry], [])
-    .option('--json', 'print the plan as JSON')
-    .action(async (options: TrimOptions) => {
-      const series = options.series.toUpperCase();
-      if (!(allowedSeries as readonly string[]).includes(series)) throw new InputError(`"${options.series}" is not one of E12, E24, E96`, '--series');
-      const sampleRateHz = options.rate === undefined ? undefined : Number(options.rate);
-      if (sampleRateHz !== undefined && !(sampleRateHz > 0)) throw new InputError(`"${options.rate}" is not a sample rate in Hz`, '--rate');
-      const design = await loadBoardDesign(options.design);
-      // Checked before the capture is read, so a mistyped value is named at once.
-      const measured: PartOverrides = parseMeasuredParts(design, options.part);
-      const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false });
-      for await (const block of readCaptureFile(options.capture, { sampleRateHz })) analyzer.push(block);
-      const readings = analyzer.finish();
-      // A capture of another board type would give a confident but wrong plan: the mains frequency tells them apart.
-      if (readings.frequencyHz !== null && Math.abs(readings.frequencyHz - design.mainsHz) > 3) {
-        throw new InputError(`the capture's mains is ${readings.frequencyHz.toFixed(1)} Hz but ${options.design} is a ${design.mainsHz} Hz design: wrong design file?`, options.capture);
-      }
-      const ramp = rampReadingsOf(readings, options.capture);
-      const plan = planTrim(design, ramp, { series: series as ESeriesName, fitted: measured });
-      if (options.json) {
-        process.stdout.write(`${JSON.stringify({ ...plan, design: options.design, capture: options.capture, measuredParts: measured, ramp: readings.ramp }, null, 2)}\n`);
-      } else {
-        printHuman(plan, ramp, describeMeasuredParts(design, measured));
-      }
-    });
+    .option('--json', 'print the plan as JSON');
+  addCaptureOptions(command).action(async (options: TrimOptions) => {
+    const series = options.series.toUpperCase();
+    if (!(allowedSeries as readonly string[]).includes(series)) throw new InputError(`"${options.series}" is not one of E12, E24, E96`, '--series');
+    const design = await loadBoardDesign(options.design);
+    const read = captureReadOptions(options, design);
+    // Checked before the capture is read, so a mistyped value is named at once.
+    const measured: PartOverrides = parseMeasuredParts(design, options.part);
+    const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false });
+    const progress = createProgressBar(process.stderr, { enabled: !options.json, label: 'Reading' });
+    try {
+      const capture = await openCaptureFile(options.capture, { ...read, onProgress: progress.update });
+      for await (const block of capture.blocks) analyzer.push(block);
+    } finally {
+      progress.done();
+    }
+    const readings = analyzer.finish();
+    // A capture of another board type would give a confident but wrong plan: the mains frequency tells them apart.
+    if (readings.frequencyHz !== null && Math.abs(readings.frequencyHz - design.mainsHz) > 3) {
+      throw new InputError(`the capture's mains is ${readings.frequencyHz.toFixed(1)} Hz but ${options.design} is a ${design.mainsHz} Hz design: wrong design file?`, options.capture);
+    }
+    const ramp = rampReadingsOf(readings, options.capture);
+    const plan = planTrim(design, ramp, { series: series as ESeriesName, fitted: measured });
+    if (options.json) {
+      process.stdout.write(`${JSON.stringify({ ...plan, design: options.design, capture: options.capture, measuredParts: measured, ramp: readings.ramp }, null, 2)}\n`);
+    } else {
+      printHuman(plan, ramp, describeMeasuredParts(design, measured));
+    }
+  });
 }

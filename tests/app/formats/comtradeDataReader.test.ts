@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { parseComtradeConfig } from '../../../app/formats/comtradeConfigParse';
+import { parseChannelMap } from '../../../app/capture/channelMap';
 import { createComtradeDataReader } from '../../../app/formats/comtradeDataReader';
 import { inputErrorOf as errorOf } from '../../helpers/inputError';
 import { fixtureBytes, fixtureText } from './fixtureBytes';
@@ -49,7 +50,7 @@ describe('createComtradeDataReader: our fixtures, volts worked out by hand (valu
   });
 
   it('BINARY32 1999: int32, channel map by id, the gate as digital 17 (second word, bit 0)', () => {
-    const capture = readFixture('unit-rw0207-binary32-1999', { channelMap: { sync: 'tp1', ramp: 'TP2', gate: 'tp3' } });
+    const capture = readFixture('unit-rw0207-binary32-1999', { channelMap: parseChannelMap('sync=tp1,ramp=TP2,gate=tp3') });
     // sync: a = 1e-5: 1e6 -> 10, -1e6 -> -10, 2147483647 -> 21474.83647, 0x80000000 -> missing.
     expectVolts(capture.sync, [10, -10, 21474.83647, NaN], 6);
     // ramp: a = 2e-6, b = 2: -2e6 -> -2, 0 -> 2, 4e6 -> 10, 6e6 -> 14.
@@ -82,7 +83,7 @@ describe('createComtradeDataReader: our fixtures, volts worked out by hand (valu
     for (const [base, options] of [
       ['unit-rw0142-ascii-1999', {}],
       ['unit-rw0142-binary-2013', {}],
-      ['unit-rw0207-binary32-1999', { channelMap: { sync: 'TP1', ramp: 'TP2', gate: 'TP3' } }],
+      ['unit-rw0207-binary32-1999', { channelMap: parseChannelMap('sync=TP1,ramp=TP2,gate=TP3') }],
       ['unit-rw0311-float32-2013', {}],
     ] as const) {
       const whole = readFixture(base, { ...options, blockSamples: 2 });
@@ -106,9 +107,10 @@ describe('createComtradeDataReader: clear errors', () => {
     const config = parseComtradeConfig(fixtureText('unit-rw0207-binary32-1999.cfg'));
     const error = errorOf(() => createComtradeDataReader(config, { source: 'unit-rw0207.dat' }));
     expect(error.message).toContain('no channel for sync, ramp, gate');
-    expect(error.message).toContain('channels TP1, TP2, D01');
-    const mapped = errorOf(() => createComtradeDataReader(config, { channelMap: { sync: 'TP1', ramp: 'TP9', gate: 'TP3' } }));
-    expect(mapped.message).toContain('ramp (channel id "TP9")');
+    expect(error.message).toContain('the record has analog 1 "TP1", analog 2 "TP2", digital 1 "D01"');
+    expect(error.message).toContain('(20 in all): name the channel for each role with --map, e.g. --map sync=TP1,ramp=TP2,');
+    const mapped = errorOf(() => createComtradeDataReader(config, { channelMap: parseChannelMap('sync=TP1,ramp=TP9,gate=TP3') }));
+    expect(mapped.message).toContain('no channel "TP9" for ramp (--map ramp=TP9)');
   });
 
   it('names a record cut short by its number and size', () => {
@@ -141,9 +143,12 @@ describe('createComtradeDataReader: clear errors', () => {
     expect(errorOf(() => reader.push(record)).message).toContain('f.dat, record 1: the timestamp is missing and the configuration gives no sample rate');
   });
 
-  it('refuses records that change sample rate', () => {
-    const text = fixtureText('unit-rw0142-ascii-1999.cfg').replace('1\r\n10000,5', '2\r\n10000,5\r\n5000,9');
-    expect(errorOf(() => createComtradeDataReader(parseComtradeConfig(text))).message).toContain('changes sample rate (10000 Hz, 5000 Hz)');
+  it('refuses a rate line of 0 among others, and endsamp that goes back', () => {
+    const text = fixtureText('unit-rw0142-ascii-1999.cfg');
+    const mixed = text.replace('1\r\n10000,5', '2\r\n10000,2\r\n0,5');
+    expect(errorOf(() => createComtradeDataReader(parseComtradeConfig(mixed))).message).toContain('mixes sample rates with samp = 0 (10000 Hz, 0 Hz)');
+    const backwards = text.replace('1\r\n10000,5', '2\r\n10000,4\r\n5000,3');
+    expect(errorOf(() => createComtradeDataReader(parseComtradeConfig(backwards))).message).toContain('endsamp of rate 2 (3) is not after that of rate 1 (4)');
   });
 
   it('refuses text chunks for binary data', () => {

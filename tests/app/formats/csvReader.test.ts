@@ -111,19 +111,22 @@ describe('createCsvReader: clear errors with line numbers', () => {
     expect(errorOf(() => readText('t,sync,ramp,gate\n0,1,2,3\n0.1,1,2,3\n0.05,1,2,3\n')).message).toMatch(/line 4: time does not increase/);
   });
 
-  it('names each missing required column', () => {
+  it('names each missing required column and the option that maps one', () => {
     const error = errorOf(() => readText('t,Sync,control\n0,1,2\n'));
-    expect(error.message).toContain('lacks the required columns ramp, gate');
+    expect(error.message).toContain('no channel for ramp, gate');
     expect(error.message).toContain('line 1');
+    expect(error.message).toContain('--map');
   });
 
-  it('says fields must be separated by commas when the header uses semicolons or tabs', () => {
-    expect(errorOf(() => readText('t;sync;ramp;gate\n0;1;2;3\n')).message).toContain('separated by commas');
-    expect(errorOf(() => readText('t\tsync\tramp\tgate\n')).message).toContain('separated by commas');
+  it('reads semicolons and tabs as separators (instrument and spreadsheet dialects)', () => {
+    expect(readText('t;sync;ramp;gate\n0;1;2;3\n0.5;4;5;6\n').gate).toEqual([3, 6]);
+    expect(readText('t\tsync\tramp\tgate\n0\t1\t2\t3\n0.5\t4\t5\t6\n').ramp).toEqual([2, 5]);
   });
 
-  it('names a column given twice', () => {
-    expect(errorOf(() => readText('t,sync,ramp,gate,SYNC\n')).message).toContain('"SYNC" appears twice');
+  it('refuses a name that fits two columns, naming both and the option', () => {
+    const message = errorOf(() => readText('t,sync,ramp,gate,SYNC\n0,1,2,3,4\n')).message;
+    expect(message).toContain('fits sync and SYNC');
+    expect(message).toContain('--map');
   });
 
   it('says when the file is empty, blank, or has no samples', () => {
@@ -133,7 +136,7 @@ describe('createCsvReader: clear errors with line numbers', () => {
   });
 
   it('says the rate is needed without a t column, and when one timed row cannot give it', () => {
-    expect(errorOf(() => readText('sync,ramp,gate\n1,2,3\n')).message).toContain('no t column, so the sample rate must be given');
+    expect(errorOf(() => readText('sync,ramp,gate\n1,2,3\n')).message).toContain('no time column (t, time or timestamp) and no sample interval in the lines above the rows: give the sample rate with --rate');
     expect(errorOf(() => readText('t,sync,ramp,gate\n0,1,2,3\n')).message).toContain('cannot tell the sample rate');
     // With a rate given, a single timed row is readable.
     expect(readText('t,sync,ramp,gate\n0,1,2,3\n', { sampleRateHz: 500 }).blocks[0].sampleRateHz).toBe(500);

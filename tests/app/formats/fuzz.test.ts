@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { parseChannelMap } from '../../../app/capture/channelMap';
 import fc from 'fast-check';
 import { createCsvReader } from '../../../app/formats/csvReader';
 import { parseComtradeConfig } from '../../../app/formats/comtradeConfigParse';
@@ -71,10 +72,10 @@ function mutate(original: Uint8Array, mutations: Mutation[]): Uint8Array {
 }
 
 const comtradeFixtures = [
-  { base: 'unit-rw0142-ascii-1999', channelMap: {} },
-  { base: 'unit-rw0142-binary-2013', channelMap: {} },
-  { base: 'unit-rw0207-binary32-1999', channelMap: { sync: 'TP1', ramp: 'TP2', gate: 'TP3' } },
-  { base: 'unit-rw0311-float32-2013', channelMap: {} },
+  { base: 'unit-rw0142-ascii-1999', channelMap: undefined },
+  { base: 'unit-rw0142-binary-2013', channelMap: undefined },
+  { base: 'unit-rw0207-binary32-1999', channelMap: parseChannelMap('sync=TP1,ramp=TP2,gate=TP3') },
+  { base: 'unit-rw0311-float32-2013', channelMap: undefined },
 ];
 
 describe('fuzz: readers fail only with an InputError that names the problem', () => {

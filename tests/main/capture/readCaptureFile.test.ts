@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { readCaptureFile, readComtradeConfigFile } from '../../../main/capture/readCaptureFile';
 import { captureSummary } from '../../../main/capture/captureSummary';
+import { parseChannelMap } from '../../../app/capture/channelMap';
 import type { SampleBlock } from '../../../app/capture/samples';
 import { InputError } from '../../../app/errors';
 import { captureFixtureFolder } from '../../app/formats/fixtureBytes';
@@ -59,7 +60,7 @@ describe('readCaptureFile', () => {
   it('passes the channel map and finds partners written in capitals', async () => {
     copyFileSync(fixture('unit-rw0207-binary32-1999.cfg'), join(folder, 'UNIT7.CFG'));
     copyFileSync(fixture('unit-rw0207-binary32-1999.dat'), join(folder, 'UNIT7.DAT'));
-    const capture = joinBlocks(await collect(join(folder, 'UNIT7.CFG'), { channelMap: { sync: 'TP1', ramp: 'TP2', gate: 'TP3' } }));
+    const capture = joinBlocks(await collect(join(folder, 'UNIT7.CFG'), { channelMap: parseChannelMap('sync=TP1,ramp=TP2,gate=TP3') }));
     expect(capture.gate).toEqual([0, 1, 1, 0]);
   });
 

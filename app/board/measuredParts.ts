@@ -8,6 +8,7 @@
  */
 import { InputError } from '../errors';
 import type { BoardDesign, PartRole } from './design';
+import { designRanges, rangeMessage, withinRange } from './designRanges';
 import { formatOhm } from './formatValues';
 import { parseQuantity } from './parseQuantity';
 import type { PartOverrides } from './parts';
@@ -58,6 +59,8 @@ export function checkMeasuredParts(design: BoardDesign, measured: Partial<Record
         where,
       );
     }
+    const range = role === 'cRamp' ? designRanges.rampCapacitorFarad : designRanges.resistorOhm;
+    if (!withinRange(value, range)) throw new InputError(`the measured ${name} ${rangeMessage(range)}; got ${formatValue(role, value)}`, where);
     if (checked[role] !== undefined) throw new InputError(`${name} is given twice`, where);
     checked[role] = value;
   }

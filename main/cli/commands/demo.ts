@@ -12,6 +12,7 @@ import { openBenchContext } from '../../session/benchContext';
 import { runCommissioningDemo, type DemoReport } from '../../session/commissioningDemo';
 import { defaultLogbookFileName, userDataFolder } from '../../session/dataFolder';
 import { safetyNoteLines } from '../../session/safetyNote';
+import { jsonOutput } from '../jsonOutput';
 
 interface DemoOptions {
   db?: string;
@@ -83,7 +84,7 @@ export function registerDemoCommand(program: Command): void {
         const steps = report.steps.map((step) => ({ step: step.step, status: step.status, verdict: step.verdict, readings: step.readings.map(({ key, value: reading, unit, expected, verdict }) => ({ key, value: reading, unit, expected, verdict })) }));
         const trim = report.trimPlan.suggestions[0] ?? null;
         process.stdout.write(
-          `${JSON.stringify(
+          jsonOutput(
             {
               logbook: logbookPath,
               session: report.session,
@@ -96,9 +97,7 @@ export function registerDemoCommand(program: Command): void {
               transfer: report.transferFit,
               safety: safetyNoteLines,
             },
-            null,
-            2,
-          )}\n`,
+          ),
         );
         return;
       }

@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import { defaultLogbookFileName, userDataFolder } from '../../session/dataFolder';
 import type { SessionRow } from '../../store/logbookTypes';
 import { openLogbook } from '../../store/openLogbook';
+import { jsonOutput } from '../jsonOutput';
 
 interface LogCommandOptions {
   db?: string;
@@ -60,6 +61,6 @@ export function registerLogCommand(program: Command): void {
     .action(async (options: LogCommandOptions) => {
       const path = options.db ?? defaultLogbookPath();
       const listing = await listLogbook(path, options);
-      process.stdout.write(options.json ? `${JSON.stringify(listing, null, 2)}\n` : formatLogbookTable(listing.sessions));
+      process.stdout.write(options.json ? jsonOutput(listing) : formatLogbookTable(listing.sessions));
     });
 }

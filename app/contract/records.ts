@@ -144,6 +144,8 @@ export const sessionRowSchema = z.object({
   alphaDeg: z.number().nullable(),
   rampPeakV: z.number().nullable(),
   linkErrors: z.number().int().nonnegative(),
+  /** Seconds the logger sent nothing (stretches over 2 s), 0 for a link that never went quiet. */
+  linkSilentS: z.number().nonnegative(),
 });
 export type SessionRow = z.infer<typeof sessionRowSchema>;
 

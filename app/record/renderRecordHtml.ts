@@ -4,7 +4,7 @@
  */
 import { escapeXml, figureToSvg } from './figure';
 import { foldFigure, transferFigure } from './plots';
-import { formatReading, partMeasurementCells, recordLimitsNote, rowVerdictWords, type CommissioningRecord } from './recordModel';
+import { formatReading, linkEventCountText, linkHealthSentence, partMeasurementCells, recordLimitsNote, rowVerdictWords, type CommissioningRecord } from './recordModel';
 
 const style = `
 body { font-family: Helvetica, Arial, sans-serif; color: #23262a; margin: 24px auto; max-width: 760px; line-height: 1.35; }
@@ -39,7 +39,7 @@ export function renderRecordHtml(record: CommissioningRecord): string {
   });
   const trimRows = record.trims.map((trim) => `<tr>${cell(trim.part)}${cell(formatReading(trim.fromOhm, 'ohm'), 'number')}${cell(formatReading(trim.toOhm, 'ohm'), 'number')}${cell(trim.method)}${cell(trim.reason)}${cell(when(trim.at))}</tr>`);
   const measurementRows = record.partMeasurements.map((measurement) => `<tr>${partMeasurementCells(measurement).map((text, index) => cell(text, index > 0 ? 'number' : '')).join('')}${cell(when(measurement.at))}</tr>`);
-  const eventRows = record.link.events.map((event) => `<tr>${cell(event.kind)}${cell(event.detail)}${cell(String(event.count), 'number')}${cell(when(event.at))}</tr>`);
+  const eventRows = record.link.events.map((event) => `<tr>${cell(event.kind)}${cell(event.detail)}${cell(linkEventCountText(event), 'number')}${cell(when(event.at))}</tr>`);
   const captureRows = record.captures.map((capture) => `<tr>${cell(capture.label ?? '-')}${cell(when(capture.startedAt))}${cell(`${capture.seconds.toFixed(3)} s at ${formatReading(capture.sampleRateHz, 'Hz')}`)}${cell(capture.roles.join(', '))}<td class="hash">${capture.sha256}</td></tr>`);
   const fit = record.transfer.fit;
   const fitText = fit
@@ -70,7 +70,7 @@ ${table(['Part', 'Measured', 'Design', 'Off by', 'When'], measurementRows, 'No p
 <h2>Trims applied</h2>
 ${table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], trimRows, 'No trims were applied.')}
 <h2>Link health</h2>
-<p>${record.link.errors === 0 ? 'No link errors were recorded.' : `${record.link.errors} link errors were recorded (see the events).`}</p>
+<p>${escapeXml(linkHealthSentence(record.link))}</p>
 ${table(['Event', 'Detail', 'Count', 'When'], eventRows, 'No link events were recorded.')}
 <h2>Raw captures</h2>
 ${table(['Label', 'Started', 'Length', 'Signals', 'sha-256 of the samples'], captureRows, 'No capture was kept in this session.')}

@@ -37,7 +37,7 @@ export async function buildRecord(sources: RecordSources, sessionId: number, opt
     transfer: { label: `session ${sessionId}`, points: detail.transfer.points, fit: detail.transfer.fit, maxDeviationDeg: detail.transfer.fit?.maxDeviationDeg ?? null },
     trims: detail.trims.map(({ part, fromOhm, toOhm, method, reason, at }) => ({ part, fromOhm, toOhm, method, reason, at })),
     partMeasurements: detail.partMeasurements.map(({ part, value, designValue, at }) => ({ part, value, designValue, at })),
-    link: { errors: detail.row.linkErrors, events: detail.linkEvents.map(({ kind, detail: text, count, at }) => ({ kind, detail: text, count, at })) },
+    link: { errors: detail.row.linkErrors, silentS: detail.row.linkSilentS, events: detail.linkEvents.map(({ kind, detail: text, count, at }) => ({ kind, detail: text, count, at })) },
     captures: detail.captures.map((capture) => ({ label: capture.label, startedAt: capture.startedAt, startS: capture.startS, seconds: capture.seconds, sampleRateHz: capture.sampleRateHz, roles: capture.roles, sha256: capture.sha256 })),
     capturesSha256: detail.captures.length === 0 ? null : sha256Hex(new TextEncoder().encode(captureDigestText(detail.captures))),
   };

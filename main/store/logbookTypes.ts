@@ -10,6 +10,7 @@
 import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
 import type { BoardDesign } from '../../app/board/design';
 import type { SampleBlock, SignalRole } from '../../app/capture/samples';
+import type { LinkProblemCode } from '../../app/logger';
 import type { ArchiveSession } from '../../app/exchange/archiveSchema';
 
 export type SessionStatus = 'open' | 'closed' | 'interrupted';
@@ -57,6 +58,8 @@ export interface SessionRow {
   rampPeakV: number | null;
   /** Sum of the counts of link events that mean something went wrong (see linkErrorKinds). */
   linkErrors: number;
+  /** Seconds the logger sent nothing (the `link-silent` rows), 0 for a link that never went quiet. */
+  linkSilentS: number;
 }
 
 /** One stored cycle as recall shows it. */
@@ -115,12 +118,21 @@ export type LinkEventKind =
   | 'samples-lost'
   | 'garbage'
   | 'logger-overrun'
-  | 'decoder-problem';
+  | 'decoder-problem'
+  /** A stretch with no data from the logger; `count` holds its length in milliseconds, `at` its start. */
+  | 'link-silent'
+  /** Data lines of a logger that was already streaming, before its greeting was asked for and came. */
+  | 'waiting-for-greeting'
+  /** The first line after the port opened, cut by the opening itself (the logger was mid-line). */
+  | 'partial-line-at-open';
 
-/** The kinds whose counts add up to a session's `linkErrors`. */
+/**
+ * The kinds whose counts add up to a session's `linkErrors`: data damaged or lost on the way. A silent logger is
+ * measured as `link-silent` time instead (its watchdog timeouts are a symptom of it, not errors of their own), and
+ * joining a logger that was already streaming (a cut first line, data before the greeting) is no error at all.
+ */
 export const linkErrorKinds: readonly LinkEventKind[] = [
   'unplugged',
-  'watchdog-timeout',
   'lines-dropped',
   'line-too-long',
   'link-error',
@@ -130,6 +142,20 @@ export const linkErrorKinds: readonly LinkEventKind[] = [
   'logger-overrun',
   'decoder-problem',
 ];
+
+export function isLinkErrorKind(kind: LinkEventKind): boolean {
+  return linkErrorKinds.includes(kind);
+}
+
+/** The logbook kind of each decoder problem (app/logger/health.ts); the rest are 'decoder-problem'. */
+export const linkEventKindOfProblem: Partial<Record<LinkProblemCode, LinkEventKind>> = {
+  crc: 'crc-failures',
+  'sequence-gap': 'sequence-gap',
+  garbage: 'garbage',
+  'logger-overrun': 'logger-overrun',
+  oversize: 'line-too-long',
+  'data-before-greeting': 'waiting-for-greeting',
+};
 
 export interface LinkEventRecord {
   kind: LinkEventKind;

@@ -42,6 +42,7 @@ interface SessionJoinRow {
   alphaMean: number | null;
   rampPeakMedian: number | null;
   linkErrors: number;
+  linkSilentMs: number;
 }
 
 const errorKindsSql = linkErrorKinds.map((kind) => `'${kind}'`).join(', ');
@@ -49,7 +50,8 @@ const sessionSelect = `
   SELECT s.id, u.serial AS unit, d.name AS designName, d.version AS designVersion, s.operator, s.status,
     s.started_at_ms AS startedAtMs, s.ended_at_ms AS endedAtMs, s.cycle_count AS cycleCount,
     s.alpha_mean_deg AS alphaMean, s.ramp_peak_median_v AS rampPeakMedian,
-    (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind IN (${errorKindsSql})) AS linkErrors
+    (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind IN (${errorKindsSql})) AS linkErrors,
+    (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind = 'link-silent') AS linkSilentMs
   FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id`;
 
 export async function openSqliteLogbook(path: string, options: OpenLogbookDatabaseOptions = {}): Promise<Logbook> {
@@ -65,7 +67,7 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbo
     return {
       id: row.id, unit: row.unit, designName: row.designName, designVersion: row.designVersion, operator: row.operator, status: row.status,
       startedAt: iso(row.startedAtMs), endedAt: row.endedAtMs === null ? null : iso(row.endedAtMs),
-      cycles: totals.cycles, alphaDeg: totals.alphaDeg, rampPeakV: totals.rampPeakV, linkErrors: row.linkErrors,
+      cycles: totals.cycles, alphaDeg: totals.alphaDeg, rampPeakV: totals.rampPeakV, linkErrors: row.linkErrors, linkSilentS: row.linkSilentMs / 1000,
     };
   };
   const readRow = (id: number): SessionRow => {

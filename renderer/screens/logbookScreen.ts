@@ -156,7 +156,7 @@ export class LogbookScreen implements Screen {
               h('td', { class: 'number' }, session.cycles),
               h('td', { class: 'number' }, formatFixed(session.alphaDeg, '°')),
               h('td', { class: 'number' }, formatSi(session.rampPeakV, 'V')),
-              h('td', { class: 'number' }, session.linkErrors),
+              h('td', { class: 'number' }, session.linkSilentS > 0 ? `${session.linkErrors}, silent ${session.linkSilentS.toFixed(1)} s` : session.linkErrors),
             );
           }),
         ),

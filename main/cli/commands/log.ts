@@ -39,9 +39,10 @@ const shortTime = (iso: string | null): string => (iso === null ? '-' : iso.repl
 
 export function formatLogbookTable(sessions: SessionRow[]): string {
   if (sessions.length === 0) return 'No sessions.\n';
-  const header = ['session', 'unit', 'status', 'started (UTC)', 'ended (UTC)', 'cycles', 'alpha deg', 'ramp peak V', 'link errors'];
+  const header = ['session', 'unit', 'status', 'started (UTC)', 'ended (UTC)', 'cycles', 'alpha deg', 'ramp peak V', 'link errors', 'link silent s'];
   const rows = sessions.map((row) => [
     String(row.id), row.unit, row.status, shortTime(row.startedAt), shortTime(row.endedAt), String(row.cycles), number(row.alphaDeg, 1), number(row.rampPeakV, 3), String(row.linkErrors),
+    row.linkSilentS > 0 ? row.linkSilentS.toFixed(1) : '-',
   ]);
   const widths = header.map((title, column) => Math.max(title.length, ...rows.map((row) => row[column].length)));
   const line = (cells: string[]): string => cells.map((cell, column) => (column >= 5 ? cell.padStart(widths[column]) : cell.padEnd(widths[column]))).join('  ').trimEnd();

@@ -9,10 +9,11 @@ import type { Command } from 'commander';
 import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import type { CaptureReadings } from '../../../app/bench/readings';
 import { InputError } from '../../../app/errors';
-import { createLoggerDecoder, encodeCommand, linkErrorCount, type LinkHealth, type LinkProblemCode } from '../../../app/logger';
+import { createLoggerDecoder, encodeCommand, type LinkHealth } from '../../../app/logger';
 import { loadBoardDesign } from '../../board/loadBoardDesign';
-import { openLoggerLink, type LinkEvent } from '../../serial/loggerLink';
-import type { LinkEventKind, LogbookWriter, SessionRow } from '../../store/logbookTypes';
+import { openLoggerLink } from '../../serial/loggerLink';
+import { createLinkAccount } from '../../session/linkAccount';
+import type { LogbookWriter, SessionRow } from '../../store/logbookTypes';
 import { openLogbook } from '../../store/openLogbook';
 
 export interface RecordOptions {
@@ -33,43 +34,21 @@ export interface RecordProgress {
   cycles: number;
   alphaDeg: number | null;
   rampPeakV: number | null;
+  /** Link errors written to the session so far: the number the logbook and the final summary give. */
   linkErrors: number;
   linkOpen: boolean;
   linesDropped: number;
+  /** Seconds of the silence still running (0 while data flows), and all silence so far. */
+  silentNowS: number;
+  silentS: number;
 }
 
 export interface RecordResult {
   session: SessionRow;
   readings: CaptureReadings;
   decoder: LinkHealth;
-}
-
-/** Decoder problems go to the logbook as counted rows, one per kind per progress tick (a CRC storm is one row). */
-const problemKinds: Partial<Record<LinkProblemCode, LinkEventKind>> = {
-  crc: 'crc-failures',
-  'sequence-gap': 'sequence-gap',
-  garbage: 'garbage',
-  'logger-overrun': 'logger-overrun',
-};
-
-function linkEventRow(event: LinkEvent): { kind: LinkEventKind; detail: string; count: number } | null {
-  switch (event.kind) {
-    case 'opened':
-    case 'closed':
-      return { kind: event.kind, detail: event.path, count: 1 };
-    case 'reopened':
-      return { kind: 'reopened', detail: event.path, count: 1 };
-    case 'unplugged':
-      return { kind: 'unplugged', detail: `${event.path}: ${event.detail}`, count: 1 };
-    case 'watchdog-timeout':
-      return { kind: 'watchdog-timeout', detail: `${event.path}: silent for ${event.silentMs} ms`, count: 1 };
-    case 'error':
-      return { kind: 'link-error', detail: `${event.path}: ${event.message}`, count: 1 };
-    case 'line-too-long':
-      return { kind: 'line-too-long', detail: `${event.bytes} bytes, cut at ${event.keptBytes}`, count: 1 };
-    case 'lines-dropped':
-      return { kind: 'lines-dropped', detail: 'the recorder fell behind', count: event.count };
-  }
+  /** Stretches of link silence (their total is the session row's `linkSilentS`). */
+  silentStretches: number;
 }
 
 export async function recordSession(options: RecordOptions): Promise<RecordResult> {
@@ -84,22 +63,26 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
     const decoder = createLoggerDecoder();
     const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false });
     const startedMs = Date.now();
+    const account = createLinkAccount(session, startedMs);
     let cycles = 0;
     let lastAlphaDeg: number | null = null;
     let lastRampPeakV: number | null = null;
-    let linkProblems = 0;
-    const problemCounts = new Map<LinkProblemCode, { count: number; message: string }>();
-
-    const flushProblems = (): void => {
-      for (const [code, { count, message }] of problemCounts) session.addLinkEvent(problemKinds[code] ?? 'decoder-problem', `${code}: ${message}`, count);
-      problemCounts.clear();
+    // A logger already streaming when the port opens sends data before any greeting: ask for the greeting, once
+    // per opening (PROTOCOL.md: `identify` brings it back without restarting the stream).
+    let identifyAsked = false;
+    const askIdentify = (): void => {
+      identifyAsked = true;
+      void link.write(encodeCommand({ command: 'identify' })).catch(() => undefined);
     };
+
     const progress = (): void => {
-      flushProblems();
+      account.flush();
       const stats = link.stats();
+      const nowMs = Date.now();
+      const health = account.summary(nowMs);
       options.onProgress?.({
-        seconds: (Date.now() - startedMs) / 1000, cycles, alphaDeg: lastAlphaDeg, rampPeakV: lastRampPeakV,
-        linkErrors: linkErrorCount(decoder.health()) + linkProblems, linkOpen: stats.open, linesDropped: stats.linesDropped,
+        seconds: (nowMs - startedMs) / 1000, cycles, alphaDeg: lastAlphaDeg, rampPeakV: lastRampPeakV,
+        linkErrors: health.errors, linkOpen: stats.open, linesDropped: stats.linesDropped, silentNowS: health.silentNowS, silentS: health.silentS,
       });
     };
     const ticker = setInterval(progress, options.progressIntervalMs ?? 500);
@@ -115,17 +98,15 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
     try {
       for await (const item of link) {
         if (item.kind !== 'line') {
-          const row = linkEventRow(item);
-          if (row) session.addLinkEvent(row.kind, row.detail, row.count);
-          if (item.kind === 'reopened') void link.write(encodeCommand({ command: 'identify' })).catch(() => undefined);
-          if (item.kind !== 'opened' && item.kind !== 'closed' && item.kind !== 'reopened') linkProblems += item.kind === 'lines-dropped' ? item.count : 1;
+          account.event(item);
+          if (item.kind === 'reopened') askIdentify();
           continue;
         }
+        const firstLine = account.line(item.atMs);
         for (const event of decoder.pushLine(item.text)) {
           if (event.kind === 'problem') {
-            const entry = problemCounts.get(event.problem.code) ?? { count: 0, message: event.problem.message };
-            entry.count += 1;
-            problemCounts.set(event.problem.code, entry);
+            account.problem(event.problem, firstLine);
+            if (event.problem.code === 'data-before-greeting' && !identifyAsked) askIdentify();
           } else if (event.kind === 'block') {
             for (const reading of analyzer.push(event.block)) {
               session.addCycle(reading);
@@ -143,12 +124,14 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
       options.signal?.removeEventListener('abort', stop);
       await link.close();
     }
+    const endedMs = Date.now();
+    account.finish(endedMs);
     progress();
     const readings = analyzer.finish();
     session.setReadings(readings);
     const row = await session.close('closed');
     writer = null;
-    return { session: row, readings, decoder: decoder.health() };
+    return { session: row, readings, decoder: decoder.health(), silentStretches: account.summary(endedMs).silentStretches };
   } finally {
     // A failure after the session opened still ends it (interrupted) rather than leaving it open.
     if (writer) await writer.close('interrupted').catch(() => undefined);
@@ -158,10 +141,22 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
 
 const fixed = (value: number | null, digits: number): string => (value === null ? '-' : value.toFixed(digits));
 
+/** `3 link errors`, `1 link error`, `no link errors`. */
+export function linkErrorsText(count: number): string {
+  return count === 0 ? 'no link errors' : `${count} link error${count === 1 ? '' : 's'}`;
+}
+
+/** `link silent 8.0 s in 1 stretch`, or '' for a link that never went quiet. */
+export function linkSilenceText(silentS: number, stretches: number): string {
+  return silentS > 0 ? `link silent ${silentS.toFixed(1)} s in ${stretches} stretch${stretches === 1 ? '' : 'es'}` : '';
+}
+
 export function formatProgress(progress: RecordProgress): string {
-  const link = progress.linkOpen ? (progress.linkErrors === 0 ? 'link ok' : `link ${progress.linkErrors} errors`) : 'link LOST, waiting for the logger';
+  const state = progress.silentNowS > 0 ? `link SILENT for ${progress.silentNowS.toFixed(0)} s, waiting for the logger` : progress.linkOpen ? 'link ok' : 'link LOST, waiting for the logger';
+  const silentBefore = progress.silentS - progress.silentNowS;
+  const earlier = silentBefore > 0 ? `, silent ${silentBefore.toFixed(1)} s before` : '';
   const dropped = progress.linesDropped > 0 ? `, ${progress.linesDropped} lines dropped` : '';
-  return `${progress.seconds.toFixed(0)} s  cycles ${progress.cycles}  alpha ${fixed(progress.alphaDeg, 1)} deg  ramp peak ${fixed(progress.rampPeakV, 3)} V  ${link}${dropped}`;
+  return `${progress.seconds.toFixed(0)} s  cycles ${progress.cycles}  alpha ${fixed(progress.alphaDeg, 1)} deg  ramp peak ${fixed(progress.rampPeakV, 3)} V  ${state}, ${linkErrorsText(progress.linkErrors)}${earlier}${dropped}`;
 }
 
 function secondsOption(text: string | undefined): number | undefined {
@@ -201,9 +196,11 @@ export function registerRecordCommand(program: Command): void {
         });
         if (interactive) process.stderr.write('\n');
         const row = result.session;
+        const silence = linkSilenceText(row.linkSilentS, result.silentStretches);
         process.stdout.write(
-          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, alpha ${fixed(row.alphaDeg, 1)} deg, ramp peak ${fixed(row.rampPeakV, 3)} V, ${row.linkErrors} link errors. Logbook: ${options.db}\n`,
+          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, alpha ${fixed(row.alphaDeg, 1)} deg, ramp peak ${fixed(row.rampPeakV, 3)} V, ${linkErrorsText(row.linkErrors)}${silence ? `, ${silence}` : ''}. Logbook: ${options.db}\n`,
         );
+        if (silence) process.stdout.write(`Note: the logger sent nothing for ${row.linkSilentS.toFixed(1)} s of the session; readings cover only the time it was heard (see rampwright report).\n`);
       } finally {
         process.removeListener('SIGINT', onInterrupt);
       }

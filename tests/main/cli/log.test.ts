@@ -48,7 +48,7 @@ describe('rampwright log', () => {
     expect(code).toBe(0);
     const lines = stdout.trimEnd().split('\n');
     expect(lines[0]).toMatch(/^session\s+unit\s+status/);
-    expect(lines[1]).toMatch(/RW-0142\s+closed\s+2026-03-01 09:00:00Z .*\s3\s+90\.0\s+7\.320\s+4$/);
+    expect(lines[1]).toMatch(/RW-0142\s+closed\s+2026-03-01 09:00:00Z .*\s3\s+90\.0\s+7\.320\s+4\s+-$/);
     expect(lines[2]).toMatch(/RW-0207\s+interrupted/);
   });
 

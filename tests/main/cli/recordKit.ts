@@ -14,7 +14,11 @@ export interface PacedLogger {
   stop(): Promise<void>;
 }
 
-export function paceVirtualLogger(port: SerialPort, options: VirtualLoggerOptions): PacedLogger {
+/**
+ * `silentBetweenS`: seconds (from the start of pacing) during which the logger sends nothing; the lines it makes
+ * then are lost, as with a logger that hangs and recovers.
+ */
+export function paceVirtualLogger(port: SerialPort, options: VirtualLoggerOptions & { silentBetweenS?: [number, number] }): PacedLogger {
   const virtual = createVirtualLogger(chargerBoard(), options);
   const sent: string[] = [];
   const startedMs = Date.now();
@@ -29,8 +33,10 @@ export function paceVirtualLogger(port: SerialPort, options: VirtualLoggerOption
   });
   const loop = (async () => {
     while (running) {
-      const lines = virtual.linesUntil((Date.now() - startedMs) / 1000);
-      if (lines.length > 0) {
+      const elapsedS = (Date.now() - startedMs) / 1000;
+      const lines = virtual.linesUntil(elapsedS);
+      const silent = options.silentBetweenS !== undefined && elapsedS >= options.silentBetweenS[0] && elapsedS < options.silentBetweenS[1];
+      if (lines.length > 0 && !silent) {
         sent.push(...lines);
         await send(port, lines.map((line) => `${line}\n`).join('')).catch(() => undefined);
       }

@@ -48,6 +48,25 @@ function sqliteCode(error: unknown): string {
   return typeof error === 'object' && error !== null && 'code' in error ? String((error as { code: unknown }).code) : '';
 }
 
+/** How long an opener waits for another process's lock while the schema may be changing (ms). */
+const openBusyTimeoutMs = 15_000;
+
+/**
+ * Brings the schema to the latest version in one IMMEDIATE transaction: it takes the write lock before reading the
+ * version, so of several processes opening a new logbook at once one migrates and the others, once it commits,
+ * find the schema current and change nothing (the probe saw "table board_designs already exists" without it).
+ */
+function migrate(db: SqliteDatabase): void {
+  db.transaction(() => {
+    const version = db.pragma('user_version', { simple: true }) as number;
+    for (let next = version; next < latestSchemaVersion; next += 1) {
+      db.exec(migrations[next]);
+      if (next === 0) db.pragma(`application_id = ${logbookApplicationId}`);
+      db.pragma(`user_version = ${next + 1}`);
+    }
+  }).immediate();
+}
+
 export function openLogbookDatabase(path: string, options: OpenLogbookDatabaseOptions = {}): SqliteDatabase {
   const header = readHeader(path);
   if (header !== null && header !== sqliteHeader) {
@@ -60,13 +79,19 @@ export function openLogbookDatabase(path: string, options: OpenLogbookDatabaseOp
     throw new InputError(`cannot open the logbook: ${error instanceof Error ? error.message : String(error)}`, path);
   }
   try {
+    // Another process may be creating or migrating this logbook this very moment: wait for its lock (a migration
+    // takes well under a second) rather than fail. Lowered below once the schema is current.
+    db.pragma(`busy_timeout = ${openBusyTimeoutMs}`);
     let version: number;
     let applicationId: number;
     let tables: number;
     try {
-      version = db.pragma('user_version', { simple: true }) as number;
-      applicationId = db.pragma('application_id', { simple: true }) as number;
-      tables = (db.prepare("SELECT count(*) AS n FROM sqlite_master WHERE type = 'table'").get() as { n: number }).n;
+      // One read transaction: a snapshot, so another opener's migration is seen whole or not at all.
+      ({ version, applicationId, tables } = db.transaction(() => ({
+        version: db.pragma('user_version', { simple: true }) as number,
+        applicationId: db.pragma('application_id', { simple: true }) as number,
+        tables: (db.prepare("SELECT count(*) AS n FROM sqlite_master WHERE type = 'table'").get() as { n: number }).n,
+      }))());
     } catch (error) {
       const code = sqliteCode(error);
       if (code === 'SQLITE_CORRUPT' || code === 'SQLITE_NOTADB') {
@@ -89,17 +114,11 @@ export function openLogbookDatabase(path: string, options: OpenLogbookDatabaseOp
     db.pragma('journal_mode = WAL');
     db.pragma(options.durability === 'power-cut' ? 'synchronous = FULL' : 'synchronous = NORMAL');
     db.pragma('foreign_keys = ON');
+    if (version < latestSchemaVersion) migrate(db);
     // Wait at most 250 ms for another process's write lock (another bench program writing its own batch): the
     // session writer shares the thread with the serial reader, so it gives up and retries on its next tick with
     // its queue intact rather than stall the reader (logbookWriter.ts).
     db.pragma('busy_timeout = 250');
-    for (let next = version; next < latestSchemaVersion; next += 1) {
-      db.transaction(() => {
-        db.exec(migrations[next]);
-        if (next === 0) db.pragma(`application_id = ${logbookApplicationId}`);
-        db.pragma(`user_version = ${next + 1}`);
-      })();
-    }
     return db;
   } catch (error) {
     db.close();

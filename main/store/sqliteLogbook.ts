@@ -18,7 +18,7 @@ import { insertArchiveSession, readArchiveSession, sessionsOfUnitAt } from './ex
 import { createSqliteLogbookWriter, writerIdentity } from './logbookWriter';
 import { openLogbookDatabase, type OpenLogbookDatabaseOptions, type SqliteDatabase } from './openDatabase';
 import { latestDesignVersion, latestSessionPerUnit, readDesignVersion } from './recordQueries';
-import { recoverInterruptedSessions } from './sessionRecovery';
+import { recoverInterruptedSessions, writerIsAlive } from './sessionRecovery';
 import { computeSessionTotals, sessionFigures, transferFit } from './sessionSummary';
 
 const iso = (ms: number): string => new Date(ms).toISOString();
@@ -31,6 +31,9 @@ function parseInstant(text: string, field: string): number {
 
 interface SessionJoinRow {
   id: number;
+  writerHost: string | null;
+  writerPid: number | null;
+  heartbeatAtMs: number | null;
   unit: string;
   designName: string;
   designVersion: number;
@@ -47,7 +50,7 @@ interface SessionJoinRow {
 
 const errorKindsSql = linkErrorKinds.map((kind) => `'${kind}'`).join(', ');
 const sessionSelect = `
-  SELECT s.id, u.serial AS unit, d.name AS designName, d.version AS designVersion, s.operator, s.status,
+  SELECT s.id, s.writer_host AS writerHost, s.writer_pid AS writerPid, s.heartbeat_at_ms AS heartbeatAtMs, u.serial AS unit, d.name AS designName, d.version AS designVersion, s.operator, s.status,
     s.started_at_ms AS startedAtMs, s.ended_at_ms AS endedAtMs, s.cycle_count AS cycleCount,
     s.alpha_mean_deg AS alphaMean, s.ramp_peak_median_v AS rampPeakMedian,
     (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind IN (${errorKindsSql})) AS linkErrors,
@@ -55,17 +58,21 @@ const sessionSelect = `
   FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id`;
 
 export async function openSqliteLogbook(path: string, options: OpenLogbookDatabaseOptions = {}): Promise<Logbook> {
-  return createSqliteLogbook(openLogbookDatabase(path, options), path);
+  return createSqliteLogbook(openLogbookDatabase(path, options), path, { readOnly: options.readOnly });
 }
 
-export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbook {
-  recoverInterruptedSessions(db);
+export function createSqliteLogbook(db: SqliteDatabase, location: string, options: { readOnly?: boolean } = {}): Logbook {
+  // Opened for reading only, nothing is written: a session whose writer is gone is shown as interrupted (what the
+  // next writing opener will store) instead of being marked so.
+  if (!options.readOnly) recoverInterruptedSessions(db);
+  const nowMs = Date.now();
 
   const toRow = (row: SessionJoinRow): SessionRow => {
     // Ended sessions carry cached totals; an open one is counted now.
     const totals = row.cycleCount === null ? computeSessionTotals(db, row.id) : { cycles: row.cycleCount, alphaDeg: row.alphaMean, rampPeakV: row.rampPeakMedian };
+    const writerGone = row.status === 'open' && options.readOnly === true && !writerIsAlive({ host: row.writerHost, pid: row.writerPid, heartbeatAtMs: row.heartbeatAtMs }, nowMs);
     return {
-      id: row.id, unit: row.unit, designName: row.designName, designVersion: row.designVersion, operator: row.operator, status: row.status,
+      id: row.id, unit: row.unit, designName: row.designName, designVersion: row.designVersion, operator: row.operator, status: writerGone ? 'interrupted' : row.status,
       startedAt: iso(row.startedAtMs), endedAt: row.endedAtMs === null ? null : iso(row.endedAtMs),
       cycles: totals.cycles, alphaDeg: totals.alphaDeg, rampPeakV: totals.rampPeakV, linkErrors: row.linkErrors, linkSilentS: row.linkSilentMs / 1000,
     };

@@ -25,7 +25,7 @@ export function defaultLogbookPath(): string {
 
 /** The work of the command without printing. */
 export async function listLogbook(path: string, filter: { unit?: string; design?: string; from?: string; to?: string } = {}): Promise<{ sessions: SessionRow[] }> {
-  const logbook = await openLogbook(path, { mustExist: true });
+  const logbook = await openLogbook(path, { mustExist: true, readOnly: true });
   try {
     const sessions = await logbook.listSessions({ unitSerial: filter.unit, designName: filter.design, from: filter.from, to: filter.to });
     return { sessions };

@@ -9,10 +9,12 @@ import { GatePulseTracker, type GatePulse } from '../signal/gatePulses';
 import { MainsFrequencyTracker } from '../signal/mainsFrequency';
 import { analyzeRampSegment } from '../signal/rampSegment';
 import { SampleHistory } from '../signal/sampleHistory';
+import { TimedEdgeBook } from '../signal/timedEdges';
 import { estimateSyncLevels, ZeroCrossingTracker, type ZeroCrossing } from '../signal/zeroCrossings';
 import { learnFirstLevels, type FirstLevels } from './firstLevels';
 import type { CaptureReadings, CycleReading, Rectifier } from './readings';
 import { ReadingsSummary } from './readingsSummary';
+import { timedFiring, timedWidthUs } from './timedFiring';
 import { splitValidRuns } from './validSamples';
 
 export interface CaptureAnalyzerOptions {
@@ -73,6 +75,10 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
   // depend on how the samples arrive in blocks.
   let lateSync: Float64Array | null = null;
   let lateSyncFill = 0;
+  // The logger's timed edges, when it sends them: they refine the crossings and pulse edges found in the samples.
+  const timedEdges = new TimedEdgeBook();
+  let timedIntervals = 0;
+  const edgeToleranceS = (): number => 2 / sampleRateHz;
 
   const timeOf = (index: number): number => segmentStartS + index / sampleRateHz;
 
@@ -100,8 +106,15 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
     return readings;
   }
 
+  function widthUs(riseIndex: number, fallIndex: number): number {
+    const timed = timedEdges.size > 0 ? timedWidthUs(timedEdges, timeOf(riseIndex), timeOf(fallIndex), edgeToleranceS()) : null;
+    return timed ?? ((fallIndex - riseIndex) / sampleRateHz) * 1e6;
+  }
+
   function onCrossing(crossing: ZeroCrossing): void {
-    frequency.add(timeOf(crossing.index), crossing.direction);
+    const sampledS = timeOf(crossing.index);
+    const timed = timedEdges.size > 0 ? timedEdges.nearest('sync', crossing.direction, sampledS, edgeToleranceS()) : null;
+    frequency.add(timed ? timed.timeS : sampledS, crossing.direction);
     const isBoundary = rectifier === 'full-wave' || crossing.direction === 'rising';
     if (isBoundary) {
       if (openWindow) {
@@ -158,16 +171,25 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
         rightHalf += 1;
         if (!firstPulse) firstPulse = pulse;
       }
-      if (pulse.fallIndex !== null) summary.addPulseShape(((pulse.fallIndex - pulse.riseIndex) / sampleRateHz) * 1e6, pulse.amplitudeV);
+      if (pulse.fallIndex !== null) summary.addPulseShape(widthUs(pulse.riseIndex, pulse.fallIndex), pulse.amplitudeV);
       else assigned.add(pulse);
     }
     pulses = remaining;
     history.discardBefore(window.endIndex - marginSamples - 1);
+    const timed =
+      timedEdges.size > 0
+        ? timedFiring(timedEdges, {
+            rectifier, direction: window.direction, startS: timeOf(window.startIndex), endS: timeOf(window.endIndex),
+            priorS: Number.isFinite(window.priorIndex) ? timeOf(window.priorIndex) : Number.NaN,
+            riseS: firstPulse ? timeOf(firstPulse.riseIndex) : null, syncPhaseDeg, toleranceS: edgeToleranceS(),
+          })
+        : null;
+    if (timed?.alphaDeg != null) timedIntervals += 1;
     const reading: CycleReading = {
       t: timeOf(window.startIndex),
       halfCycle: window.direction === 'rising' ? 'positive' : 'negative',
-      periodS: periodSamples / sampleRateHz,
-      alphaDeg: firstPulse ? toDeg(firstPulse.riseIndex - window.startIndex) : null,
+      periodS: timed ? timed.periodS : periodSamples / sampleRateHz,
+      alphaDeg: timed?.alphaDeg ?? (firstPulse ? toDeg(firstPulse.riseIndex - window.startIndex) : null),
       controlV: firstPulse ? firstPulse.controlV : null,
       pulses: rightHalf,
       wrongHalfCyclePulses: wrongHalf,
@@ -197,6 +219,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
       startSegment(block);
     }
     if (!Number.isFinite(firstStartS)) firstStartS = block.startS;
+    if (block.edges) timedEdges.add(block.edges);
     const firstIndex = nextIndex;
     history.append(block.ramp);
     if (!crossingTracker) lookForLateSync(block.sync, firstIndex);
@@ -205,7 +228,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
       const found = pulseTracker.push(block.gate, block.control, firstIndex);
       pulses.push(...found.started);
       for (const pulse of found.completed) {
-        if (assigned.has(pulse) && pulse.fallIndex !== null) summary.addPulseShape(((pulse.fallIndex - pulse.riseIndex) / sampleRateHz) * 1e6, pulse.amplitudeV);
+        if (assigned.has(pulse) && pulse.fallIndex !== null) summary.addPulseShape(widthUs(pulse.riseIndex, pulse.fallIndex), pulse.amplitudeV);
       }
     }
     nextIndex += length;
@@ -281,7 +304,7 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
       flushSegment();
       const gateLevels = pulseTracker?.gateLevels ?? null;
       const syncLevels = crossingTracker?.levels ?? null;
-      return summary.build({
+      const readings = summary.build({
         rectifier,
         syncPhaseDeg,
         sampleRateHz: Number.isFinite(sampleRateHz) ? sampleRateHz : null,
@@ -294,6 +317,8 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
         gateHighV: gateLevels ? gateLevels.highV : null,
         invalidSamples,
       });
+      if (timedIntervals > 0) readings.timedIntervals = timedIntervals;
+      return readings;
     },
   };
 }

@@ -102,4 +102,9 @@ export interface CaptureReadings {
   invalidSamples: number;
   /** Positive minus negative half-cycle (full-wave boards; null for half-wave): app/bench/halfCycleBalance.ts. */
   balance: HalfCycleBalanceReading | null;
+  /**
+   * Firing intervals whose alpha and period came from the logger's timed edges (PROTOCOL.md "Timed edges") rather
+   * than the samples; absent when the source timed none.
+   */
+  timedIntervals?: number;
 }

@@ -6,6 +6,17 @@ export type SignalRole = 'sync' | 'ramp' | 'gate' | 'control';
 
 export const signalRoles: readonly SignalRole[] = ['sync', 'ramp', 'gate', 'control'];
 
+/** The inputs a logger may time with its own timer hardware (PROTOCOL.md "Timed edges"). */
+export type EdgeRole = 'sync' | 'gate';
+
+/** A sync zero crossing or a gate pulse edge, timed by the logger to a microsecond or better. */
+export interface TimedEdge {
+  role: EdgeRole;
+  direction: 'rising' | 'falling';
+  /** Seconds on the same time axis as the blocks' samples. */
+  timeS: number;
+}
+
 export interface SampleBlock {
   /** Time of the block's first sample, seconds from the start of the capture. */
   startS: number;
@@ -20,6 +31,11 @@ export interface SampleBlock {
    * Analysis never joins two stretches across a gap: it restarts its cycle tracking.
    */
   afterGap: boolean;
+  /**
+   * Timed edges the logger sent with (just before) this block, in time order: those up to the block's end, and
+   * perhaps a few just after it. Absent when the source has no timed edges.
+   */
+  edges?: readonly TimedEdge[];
 }
 
 export function sampleBlockLength(block: SampleBlock): number {

@@ -3,13 +3,13 @@
  * stands alone (framed and CRC-checked), so the decoder resynchronises at the next line after any damage, and it
  * never throws on what arrives: bad input is counted in `health()` and reported as a `problem` event.
  */
-import type { SampleBlock } from '../capture/samples';
+import type { SampleBlock, TimedEdge } from '../capture/samples';
 import { base64Length, decodeBase64Into } from './base64';
 import { parseHex32, unframeLine, withoutCarriageReturn } from './frame';
 import { parseGreetingBody, sameGreeting } from './greeting';
-import { parseReplyBody, parseStatusBody } from './encode';
+import { parseEdgesBody, parseReplyBody, parseStatusBody } from './encode';
 import { emptyLinkHealth, type LinkHealth, type LinkProblem, type LinkProblemCode } from './health';
-import { bytesPerBlock, defaultMaxLineChars, sequenceModulus, type LoggerGreeting, type LoggerReply, type LoggerStatus } from './protocol';
+import { bytesPerBlock, defaultMaxLineChars, sequenceModulus, type LoggerEdge, type LoggerGreeting, type LoggerReply, type LoggerStatus } from './protocol';
 
 export type DecodedEvent =
   | { kind: 'greeting'; greeting: LoggerGreeting }
@@ -43,7 +43,10 @@ interface Stretch {
   lastSequence: number;
 }
 
-const frameTags = 'HDSAE';
+const frameTags = 'HDSAET';
+/** Timed edges held for the next data line; a logger that sends edges but no data cannot grow memory past this. */
+const maxPendingEdges = 4096;
+const tickModulus = 2 ** 32;
 
 export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerDecoder {
   const maxLineChars = options.maxLineChars ?? defaultMaxLineChars;
@@ -56,6 +59,8 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
   let checkContinuation = false;
   let waitingReported = false;
   let lastOverruns = 0;
+  let lastEdgesLost = 0;
+  let pendingEdges: LoggerEdge[] = [];
   let bytes = new Uint8Array(0);
   let partial = '';
   let discardingOversize = false;
@@ -86,6 +91,8 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
     }
     const greeting = parsed.greeting;
     waitingReported = false;
+    // Edges sent before a greeting belong to the run before it (the logger sends them ahead of their data line).
+    pendingEdges = [];
     if (current && stretch && sameGreeting(current, greeting)) {
       // An `identify` answer mid-stream, or a restart after `start`: the next block tells which.
       checkContinuation = true;
@@ -160,7 +167,12 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
     lastRawSequence = sequence;
     const startS = stretch.startS + (stretch.lastSequence - stretch.firstSequence) * blockS;
     nextStartS = startS + blockS;
-    events.push({ kind: 'block', block: toSampleBlock(greeting, bytes, startS, afterGap), sequence, samplesLost });
+    const block = toSampleBlock(greeting, bytes, startS, afterGap);
+    if (pendingEdges.length > 0 && greeting.edgeTiming) {
+      block.edges = placeEdges(pendingEdges, greeting.edgeTiming.clockHz, sequence, blockS, startS);
+      pendingEdges = [];
+    }
+    events.push({ kind: 'block', block, sequence, samplesLost });
     health.blocks++;
     health.samples += greeting.blockSamples;
   }
@@ -175,11 +187,31 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
     // Overruns are cumulative since `start`, so a lost status line loses no count; a smaller value means a restart.
     const newOverruns = status.overruns >= lastOverruns ? status.overruns - lastOverruns : status.overruns;
     lastOverruns = status.overruns;
+    if (status.edgesLost !== undefined) {
+      const newEdgesLost = status.edgesLost >= lastEdgesLost ? status.edgesLost - lastEdgesLost : status.edgesLost;
+      lastEdgesLost = status.edgesLost;
+      if (newEdgesLost > 0) {
+        health.loggerEdgesLost += newEdgesLost;
+        problem(events, 'logger-edges-lost', `the logger dropped ${newEdgesLost} timed edge${newEdgesLost === 1 ? '' : 's'} (its edge queue was full: a pulse train or a noisy edge input); those cycles are read from the samples`);
+      }
+    }
     if (newOverruns > 0) {
       health.loggerOverruns += newOverruns;
       problem(events, 'logger-overrun', `the logger discarded ${newOverruns} block${newOverruns === 1 ? '' : 's'} it could not send in time (its buffer overflowed: lower the rate or use another USB port)`);
     }
     events.push({ kind: 'status', status, newOverruns });
+  }
+
+  function onEdges(body: string, events: DecodedEvent[]): void {
+    const edges = parseEdgesBody(body);
+    if (!edges || !current?.edgeTiming) {
+      health.badEdgeLines++;
+      problem(events, 'bad-edges', edges ? 'an edge line came from a logger whose greeting announced no timed edges; skipped' : 'an edge line from the logger could not be read; skipped');
+      return;
+    }
+    health.edges += edges.length;
+    pendingEdges.push(...edges);
+    if (pendingEdges.length > maxPendingEdges) pendingEdges.splice(0, pendingEdges.length - maxPendingEdges);
   }
 
   function onReply(body: string, events: DecodedEvent[]): void {
@@ -201,6 +233,7 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
     if (tag === 'D') onData(line, bodyEnd, events);
     else if (tag === 'H') onGreeting(line.slice(0, bodyEnd), events);
     else if (tag === 'S') onStatus(line.slice(0, bodyEnd), events);
+    else if (tag === 'T') onEdges(line.slice(0, bodyEnd), events);
     else onReply(line.slice(0, bodyEnd), events);
   }
 
@@ -290,6 +323,20 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
 
 function hex(sequence: number): string {
   return sequence.toString(16).toUpperCase().padStart(8, '0');
+}
+
+/**
+ * Edge ticks count from the first sample of the run (sequence 0), so the run's sample 0 is at `startS - sequence x
+ * blockS` on the blocks' time axis. Ticks wrap at 2^32; each is unwrapped to the turn nearest this block's start
+ * (edge lines travel just ahead of their data line, so an edge is never far from it).
+ */
+function placeEdges(edges: readonly LoggerEdge[], clockHz: number, sequence: number, blockS: number, startS: number): TimedEdge[] {
+  const runStartS = startS - sequence * blockS;
+  const blockTicks = sequence * blockS * clockHz;
+  return edges.map((edge) => {
+    const turns = Math.round((blockTicks - edge.ticks) / tickModulus);
+    return { role: edge.role, direction: edge.direction, timeS: runStartS + (edge.ticks + turns * tickModulus) / clockHz };
+  });
 }
 
 function toSampleBlock(greeting: LoggerGreeting, bytes: Uint8Array, startS: number, afterGap: boolean): SampleBlock {

@@ -6,7 +6,7 @@
 import { encodeBase64 } from './base64';
 import { frameLine, parseHex32, unframeLine } from './frame';
 import { encodeGreetingBody } from './greeting';
-import { sequenceModulus, type HostCommand, type LoggerBlock, type LoggerGreeting, type LoggerReply, type LoggerStatus } from './protocol';
+import { sequenceModulus, type HostCommand, type LoggerBlock, type LoggerEdge, type LoggerGreeting, type LoggerReply, type LoggerStatus } from './protocol';
 
 function sequenceHex(sequence: number): string {
   const wrapped = ((sequence % sequenceModulus) + sequenceModulus) % sequenceModulus;
@@ -25,9 +25,31 @@ export function encodeBlock(block: LoggerBlock): string {
   return frameLine(`D ${sequenceHex(block.sequence)} ${encodeBase64(bytes)}`);
 }
 
-/** `S <next sequence, 8 hex> overruns=<blocks discarded by the logger since start>*CRC`. */
+/** `S <next sequence, 8 hex> overruns=<blocks discarded by the logger since start>[ edgeslost=<n>]*CRC`. */
 export function encodeStatus(status: LoggerStatus): string {
-  return frameLine(`S ${sequenceHex(status.nextSequence)} overruns=${Math.max(0, Math.floor(status.overruns))}`);
+  const edgesLost = status.edgesLost === undefined ? '' : ` edgeslost=${Math.max(0, Math.floor(status.edgesLost))}`;
+  return frameLine(`S ${sequenceHex(status.nextSequence)} overruns=${Math.max(0, Math.floor(status.overruns))}${edgesLost}`);
+}
+
+/** `T <edge> ...*CRC`, each edge `S` or `G` (sync, gate), `+` or `-` (rising, falling) and 8 hex digits of clock ticks. */
+export function encodeEdges(edges: readonly LoggerEdge[]): string {
+  const words = edges.map((edge) => `${edge.role === 'sync' ? 'S' : 'G'}${edge.direction === 'rising' ? '+' : '-'}${sequenceHex(edge.ticks)}`);
+  return frameLine(['T', ...words].join(' '));
+}
+
+const edgeWordPattern = /^([SG])([+-])([0-9A-Fa-f]{8})$/;
+
+/** Parses an edge line body `T <edge> ...`; null when malformed (a line with no edge is malformed too). */
+export function parseEdgesBody(body: string): LoggerEdge[] | null {
+  const words = body.split(' ');
+  if (words[0] !== 'T' || words.length < 2) return null;
+  const edges: LoggerEdge[] = [];
+  for (let index = 1; index < words.length; index++) {
+    const match = edgeWordPattern.exec(words[index]);
+    if (!match) return null;
+    edges.push({ role: match[1] === 'S' ? 'sync' : 'gate', direction: match[2] === '+' ? 'rising' : 'falling', ticks: parseHex32(match[3], 0) });
+  }
+  return edges;
 }
 
 /** `A <command>[ <detail>]*CRC` or `E <command> <reason>*CRC`. */
@@ -37,7 +59,9 @@ export function encodeReply(reply: LoggerReply): string {
 }
 
 export function encodeCommand(command: HostCommand): string {
-  return frameLine(command.command === 'rate' ? `rate ${command.sampleRateHz}` : command.command);
+  if (command.command === 'rate') return frameLine(`rate ${command.sampleRateHz}`);
+  if (command.command === 'edges') return frameLine(`edges ${command.on ? 'on' : 'off'}`);
+  return frameLine(command.command);
 }
 
 export type CommandParse = { ok: true; command: HostCommand } | { ok: false; reply: LoggerReply };
@@ -57,15 +81,22 @@ export function parseCommand(line: string): CommandParse {
     if (rate > 0) return { ok: true, command: { command: 'rate', sampleRateHz: rate } };
     return { ok: false, reply: { ok: false, command: 'rate', detail: 'rate needs one whole number of samples per second' } };
   }
+  if (word === 'edges') {
+    if (words.length === 2 && (words[1] === 'on' || words[1] === 'off')) return { ok: true, command: { command: 'edges', on: words[1] === 'on' } };
+    return { ok: false, reply: { ok: false, command: 'edges', detail: 'edges needs on or off' } };
+  }
   const safeWord = /^[a-z]{1,16}$/.test(word) ? word : '?';
-  return { ok: false, reply: { ok: false, command: safeWord, detail: 'unknown command (start, stop, rate <Hz>, identify)' } };
+  return { ok: false, reply: { ok: false, command: safeWord, detail: 'unknown command (start, stop, rate <Hz>, identify, edges on|off)' } };
 }
 
 /** Parses the sequence field of a status body `S XXXXXXXX overruns=N`; null when malformed. */
 export function parseStatusBody(body: string): LoggerStatus | null {
-  const match = /^S ([0-9A-Fa-f]{8}) overruns=(\d{1,10})(?: .*)?$/.exec(body);
+  const match = /^S ([0-9A-Fa-f]{8}) overruns=(\d{1,10})(?: (.*))?$/.exec(body);
   if (!match) return null;
-  return { nextSequence: parseHex32(match[1], 0), overruns: Number(match[2]) };
+  const status: LoggerStatus = { nextSequence: parseHex32(match[1], 0), overruns: Number(match[2]) };
+  const edgesLost = /(?:^| )edgeslost=(\d{1,10})(?: |$)/.exec(match[3] ?? '');
+  if (edgesLost) status.edgesLost = Number(edgesLost[1]);
+  return status;
 }
 
 /** Parses an `A`/`E` body; null when malformed. */

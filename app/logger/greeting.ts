@@ -3,7 +3,8 @@
  * ch=<role>,<role>,... gain=<V per code>,... offset=<V>,...` (keys after the version in any order; unknown keys
  * are ignored so a later firmware can add some). PROTOCOL.md, "Greeting".
  */
-import { channelRoles, protocolName, protocolVersion, type ChannelRole, type ChannelScale, type LoggerGreeting } from './protocol';
+import type { EdgeRole } from '../capture/samples';
+import { channelRoles, edgeRoles, protocolName, protocolVersion, type ChannelRole, type ChannelScale, type LoggerGreeting } from './protocol';
 
 export type GreetingParse =
   | { ok: true; greeting: LoggerGreeting }
@@ -20,9 +21,10 @@ export function encodeGreetingBody(greeting: LoggerGreeting): string {
   const roles = greeting.channels.map((channel) => channel.role).join(',');
   const gains = greeting.channels.map((channel) => formatNumber(channel.gainV)).join(',');
   const offsets = greeting.channels.map((channel) => formatNumber(channel.offsetV)).join(',');
+  const timing = greeting.edgeTiming ? ` edges=${greeting.edgeTiming.roles.join(',')} clock=${formatNumber(greeting.edgeTiming.clockHz)}` : '';
   return (
     `H ${protocolName}/${greeting.version} id=${greeting.loggerId} rate=${formatNumber(greeting.sampleRateHz)} ` +
-    `bits=${greeting.adcBits} block=${greeting.blockSamples} ch=${roles} gain=${gains} offset=${offsets}`
+    `bits=${greeting.adcBits} block=${greeting.blockSamples} ch=${roles} gain=${gains} offset=${offsets}${timing}`
   );
 }
 
@@ -83,7 +85,19 @@ export function parseGreetingBody(body: string): GreetingParse {
   }
   if (!offsets || offsets.length !== roles.length) return fail(`offset= needs ${roles.length} values in volts, one per channel`);
   const channels: ChannelScale[] = roles.map((role, index) => ({ role, gainV: gains[index], offsetV: offsets[index] }));
-  return { ok: true, greeting: { version: protocolVersion, loggerId, sampleRateHz: rate[0], adcBits, blockSamples, channels } };
+  const greeting: LoggerGreeting = { version: protocolVersion, loggerId, sampleRateHz: rate[0], adcBits, blockSamples, channels };
+  const edges = fields.get('edges');
+  const clock = fields.get('clock');
+  if (edges !== undefined || clock !== undefined) {
+    const timedRoles = (edges ?? '').split(',');
+    if (!timedRoles.every((role): role is EdgeRole => (edgeRoles as readonly string[]).includes(role)) || new Set(timedRoles).size !== timedRoles.length) {
+      return fail(`edges= lists the timed inputs, each once, from ${edgeRoles.join(', ')}; got "${edges ?? ''}"`);
+    }
+    const clockHz = parseInteger(clock, 1, 1_000_000_000);
+    if (clockHz === null) return fail('clock= must be the edge timer\'s rate in Hz, a whole number from 1 to 1000000000, beside edges=');
+    greeting.edgeTiming = { roles: timedRoles, clockHz };
+  }
+  return { ok: true, greeting };
 }
 
 export function sameGreeting(a: LoggerGreeting, b: LoggerGreeting): boolean {
@@ -96,6 +110,8 @@ export function sameGreeting(a: LoggerGreeting, b: LoggerGreeting): boolean {
     a.channels.every((channel, index) => {
       const other = b.channels[index];
       return channel.role === other.role && channel.gainV === other.gainV && channel.offsetV === other.offsetV;
-    })
+    }) &&
+    a.edgeTiming?.clockHz === b.edgeTiming?.clockHz &&
+    a.edgeTiming?.roles.join(',') === b.edgeTiming?.roles.join(',')
   );
 }

@@ -13,7 +13,9 @@ export type LinkProblemCode =
   | 'sequence-restart'
   | 'duplicate'
   | 'logger-overrun'
-  | 'logger-refused';
+  | 'logger-refused'
+  | 'bad-edges'
+  | 'logger-edges-lost';
 
 export interface LinkProblem {
   code: LinkProblemCode;
@@ -45,6 +47,12 @@ export interface LinkHealth {
   /** Blocks the logger itself reports discarding (status lines). */
   loggerOverruns: number;
   loggerRefusals: number;
+  /** Timed edges received in edge lines (PROTOCOL.md "Timed edges"). */
+  edges: number;
+  /** Edge lines that could not be read, or came from a logger whose greeting announced no timed edges. */
+  badEdgeLines: number;
+  /** Timed edges the logger reports dropping (status lines, `edgeslost=`). */
+  loggerEdgesLost: number;
   lastProblem: LinkProblem | null;
 }
 
@@ -67,6 +75,9 @@ export function emptyLinkHealth(): LinkHealth {
     duplicateBlocks: 0,
     loggerOverruns: 0,
     loggerRefusals: 0,
+    edges: 0,
+    badEdgeLines: 0,
+    loggerEdgesLost: 0,
     lastProblem: null,
   };
 }
@@ -83,6 +94,8 @@ export function linkErrorCount(health: LinkHealth): number {
     health.sequenceGaps +
     health.sequenceRestarts +
     health.duplicateBlocks +
-    health.loggerOverruns
+    health.loggerOverruns +
+    health.badEdgeLines +
+    health.loggerEdgesLost
   );
 }

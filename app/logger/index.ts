@@ -1,6 +1,7 @@
 /** The logger protocol: decoder, encoders, CRC (see PROTOCOL.md). */
 export { createLoggerDecoder, type DecodedEvent, type LoggerDecoder, type LoggerDecoderOptions } from './decoder';
-export { encodeBlock, encodeCommand, encodeGreeting, encodeReply, encodeStatus, parseCommand, type CommandParse } from './encode';
+export { encodeBlock, encodeCommand, encodeEdges, encodeGreeting, encodeReply, encodeStatus, parseCommand, parseEdgesBody, type CommandParse } from './encode';
+export { edgeRequestAfter } from './edgeRequest';
 export { crc32, crc32OfText, crcToHex } from './crc32';
 export { frameLine, unframeLine } from './frame';
 export { parseGreetingBody } from './greeting';

@@ -3,7 +3,7 @@
  * firmware writer reads). Line-based ASCII: every line is `<body>*<CRC-32 of body as 8 hex digits>` and ends in
  * LF (a CR before it is ignored).
  */
-import type { SignalRole } from '../capture/samples';
+import type { EdgeRole, SignalRole } from '../capture/samples';
 
 /** Protocol name and version as the greeting writes them. */
 export const protocolName = 'RWLOG';
@@ -34,6 +34,15 @@ export interface LoggerGreeting {
   blockSamples: number;
   /** In the order the samples are interleaved in a data line. */
   channels: ChannelScale[];
+  /** The inputs the logger times with its timer (greeting `edges=`), with the timer's rate (`clock=`, Hz); absent when it times none. */
+  edgeTiming?: { roles: EdgeRole[]; clockHz: number };
+}
+
+/** One timed edge as an edge line carries it: clock ticks since the first sample's instant, 32 bits, wrapping. */
+export interface LoggerEdge {
+  role: EdgeRole;
+  direction: 'rising' | 'falling';
+  ticks: number;
 }
 
 /** One data line: the block's sequence number and its ADC codes, interleaved (frame by frame, channel by channel). */
@@ -47,17 +56,23 @@ export interface LoggerStatus {
   /** Sequence number of the next data line the logger will send. */
   nextSequence: number;
   overruns: number;
+  /** Timed edges the logger dropped since `start` because its edge queue was full (`edgeslost=`), when it says. */
+  edgesLost?: number;
 }
 
 export type HostCommand =
   | { command: 'start' }
   | { command: 'stop' }
   | { command: 'identify' }
-  | { command: 'rate'; sampleRateHz: number };
+  | { command: 'rate'; sampleRateHz: number }
+  | { command: 'edges'; on: boolean };
 
 export type HostCommandName = HostCommand['command'];
 
-export const hostCommandNames: readonly HostCommandName[] = ['start', 'stop', 'identify', 'rate'];
+export const hostCommandNames: readonly HostCommandName[] = ['start', 'stop', 'identify', 'rate', 'edges'];
+
+/** Edge roles a greeting may list in `edges=`. */
+export const edgeRoles: readonly EdgeRole[] = ['sync', 'gate'];
 
 /** The logger's answer to a host command: `A` acknowledges, `E` refuses with a reason. */
 export interface LoggerReply {

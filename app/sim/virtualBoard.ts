@@ -66,6 +66,16 @@ export interface VirtualBoard {
   nextBlock(samples: number): SampleBlock;
   /** Control voltage at the board at `timeS` (V). */
   controlAt(timeS: number): number;
+  /**
+   * The gate pulses' edges in [fromS, toS), in time order: rising at each firing instant, falling gatePulseUs
+   * later. These are the exact instants the gate samples are drawn from (a logger's edge input sees them).
+   */
+  gateEdgesBetween(fromS: number, toS: number): GateEdge[];
+}
+
+export interface GateEdge {
+  timeS: number;
+  rising: boolean;
 }
 
 /** Probability that `missing-pulses` skips a firing (our scenario value). */
@@ -220,7 +230,18 @@ export function createVirtualBoard(design: BoardDesign, options: VirtualBoardOpt
     return block;
   }
 
-  return { fitted, channels, sampleRateHz, timeS: () => nextSample / sampleRateHz, nextBlock, controlAt };
+  function gateEdgesBetween(fromS: number, toS: number): GateEdge[] {
+    const edges: GateEdge[] = [];
+    for (let k = currentHalfCycle(fromS) - 3; k <= currentHalfCycle(toS); k++) {
+      const fire = fireTimeS(k);
+      if (fire === null) continue;
+      if (fire >= fromS && fire < toS) edges.push({ timeS: fire, rising: true });
+      if (fire + pulseS >= fromS && fire + pulseS < toS) edges.push({ timeS: fire + pulseS, rising: false });
+    }
+    return edges.sort((a, b) => a.timeS - b.timeS);
+  }
+
+  return { fitted, channels, sampleRateHz, timeS: () => nextSample / sampleRateHz, nextBlock, controlAt, gateEdgesBetween };
 }
 
 /** A whole capture of `durationS`, as consecutive blocks of `blockSamples`. */

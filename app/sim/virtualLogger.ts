@@ -169,6 +169,8 @@ export function createVirtualLogger(design: BoardDesign, options: VirtualLoggerO
         answer.push(encodeReply({ ok: true, command: 'stop', detail: '' }));
       } else if (command.command === 'identify') {
         answer.push(encodeReply({ ok: true, command: 'identify', detail: '' }), encodeGreeting(greetingOf(board)));
+      } else if (command.command === 'edges') {
+        answer.push(encodeReply({ ok: false, command: 'edges', detail: 'this logger has no timed edge inputs' }));
       } else if (command.sampleRateHz < virtualRateLimitsHz.min || command.sampleRateHz > virtualRateLimitsHz.max) {
         answer.push(encodeReply({ ok: false, command: 'rate', detail: `rate ${command.sampleRateHz} Hz is outside this logger's ${virtualRateLimitsHz.min}-${virtualRateLimitsHz.max} Hz` }));
       } else {

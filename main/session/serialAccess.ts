@@ -5,7 +5,7 @@
  * runs the virtual board and the logbook.
  */
 import type { LinkState } from '../../app/contract';
-import { encodeCommand } from '../../app/logger';
+import { edgeRequestAfter, encodeCommand } from '../../app/logger';
 import type { LinkEventKind } from '../store/logbookTypes';
 import type { LineSink, LineSource } from './liveLink';
 import type { SerialAccess } from './sessionService';
@@ -28,6 +28,8 @@ export function serialSource(serial: SerialModule, path: string, options: { baud
           await link.write(encodeCommand({ command: 'start' }));
           for await (const item of link) {
             if (item.kind === 'line') {
+              const request = edgeRequestAfter(item.text);
+              if (request) void link.write(request).catch(() => undefined);
               sink.lines([item.text]);
               continue;
             }

@@ -9,7 +9,7 @@ import type { Command } from 'commander';
 import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import type { CaptureReadings } from '../../../app/bench/readings';
 import { InputError } from '../../../app/errors';
-import { createLoggerDecoder, encodeCommand, type LinkHealth } from '../../../app/logger';
+import { createLoggerDecoder, edgeRequestAfter, encodeCommand, type LinkHealth } from '../../../app/logger';
 import { loadBoardDesign } from '../../board/loadBoardDesign';
 import { openLoggerLink } from '../../serial/loggerLink';
 import { createLinkAccount } from '../../session/linkAccount';
@@ -103,6 +103,8 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
           continue;
         }
         const firstLine = account.line(item.atMs);
+        const request = edgeRequestAfter(item.text);
+        if (request) void link.write(request).catch(() => undefined);
         for (const event of decoder.pushLine(item.text)) {
           if (event.kind === 'problem') {
             account.problem(event.problem, firstLine);

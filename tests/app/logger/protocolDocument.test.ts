@@ -5,9 +5,12 @@
 import { readFileSync } from 'node:fs';
 import { crc32 as nodeCrc32 } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
+import { timedFiring, timedWidthUs } from '../../../app/bench/timedFiring';
+import type { TimedEdge } from '../../../app/capture/samples';
 import { createLoggerDecoder } from '../../../app/logger/decoder';
-import { encodeBlock, encodeCommand, encodeGreeting, encodeReply, encodeStatus } from '../../../app/logger/encode';
+import { encodeBlock, encodeCommand, encodeEdges, encodeGreeting, encodeReply, encodeStatus, parseCommand, parseEdgesBody } from '../../../app/logger/encode';
 import { parseGreetingBody } from '../../../app/logger/greeting';
+import { TimedEdgeBook } from '../../../app/signal/timedEdges';
 
 const documentText = readFileSync(new URL('../../../app/logger/PROTOCOL.md', import.meta.url), 'utf8');
 
@@ -75,5 +78,74 @@ describe('PROTOCOL.md worked example', () => {
     expect(documentText).toContain(`**${dataBytesPerS.toLocaleString('en-US').replace(/,/g, ' ')}**`);
     const statusBytes = encodeStatus({ nextSequence: 0x2b, overruns: 0 }).length + 1;
     expect(documentText).toContain(`**${(dataBytesPerS + statusBytes).toLocaleString('en-US').replace(/,/g, ' ')}**`);
+  });
+});
+
+describe('PROTOCOL.md worked example: timed edges', () => {
+  const [greetingLine] = example('edges-greeting-example');
+  const [commandLine, replyLine] = example('edges-command-example');
+  const edgeLines = example('edges-lines-example');
+  const zlibCrc = (line: string): string => nodeCrc32(Buffer.from(line.slice(0, line.lastIndexOf('*')), 'latin1')).toString(16).toUpperCase().padStart(8, '0');
+  /** The table rows: ticks as written in hex and decimal, and microseconds. */
+  const rows = [...documentText.matchAll(/^\| (sync|gate) (rising|falling) \| 0x([0-9A-F]{8}) = ([\d ]+) \| ([\d .]+) us \|$/gm)].map((match) => ({
+    hex: parseInt(match[3], 16),
+    decimal: Number(match[4].replace(/ /g, '')),
+    us: Number(match[5].replace(/ /g, '')),
+  }));
+
+  it('greeting announces sync and gate timed at 16 MHz, and re-encodes to the same line (zlib CRC)', () => {
+    const parsed = parseGreetingBody(greetingLine.slice(0, greetingLine.lastIndexOf('*')));
+    expect(parsed.ok).toBe(true);
+    if (!parsed.ok) return;
+    expect(parsed.greeting.edgeTiming).toEqual({ roles: ['sync', 'gate'], clockHz: 16_000_000 });
+    expect(encodeGreeting(parsed.greeting)).toBe(greetingLine);
+    expect(greetingLine.slice(-8)).toBe(zlibCrc(greetingLine));
+  });
+
+  it('the request and its acknowledgement re-encode', () => {
+    expect(encodeCommand({ command: 'edges', on: true })).toBe(commandLine);
+    expect(parseCommand(commandLine)).toEqual({ ok: true, command: { command: 'edges', on: true } });
+    expect(encodeReply({ ok: true, command: 'edges', detail: 'on' })).toBe(replyLine);
+  });
+
+  it('edge lines re-encode with their CRC, and the table holds their ticks and microseconds', () => {
+    const edges = edgeLines.flatMap((line) => {
+      expect(line.slice(-8)).toBe(zlibCrc(line));
+      const parsed = parseEdgesBody(line.slice(0, line.lastIndexOf('*')));
+      expect(parsed).not.toBeNull();
+      expect(encodeEdges(parsed ?? [])).toBe(line);
+      return parsed ?? [];
+    });
+    expect(rows).toHaveLength(edges.length);
+    edges.forEach((edge, index) => {
+      expect(rows[index].hex).toBe(edge.ticks);
+      expect(rows[index].decimal).toBe(edge.ticks);
+      expect(rows[index].us).toBeCloseTo(edge.ticks / 16, 9);
+    });
+  });
+
+  it('decodes onto the data time axis and gives the stated alpha, pulse width and period', () => {
+    const decoder = createLoggerDecoder();
+    decoder.pushLine(greetingLine);
+    const zeros = new Int16Array(4 * 30);
+    const placed: TimedEdge[] = [];
+    // Each edge line just before the data line of the block it falls in (6 ms blocks): blocks 0, 1, 2, 3.
+    edgeLines.forEach((line, sequence) => {
+      decoder.pushLine(line);
+      for (const event of decoder.pushLine(encodeBlock({ sequence, codes: zeros }))) if (event.kind === 'block') placed.push(...(event.block.edges ?? []));
+    });
+    expect(placed.map((edge) => edge.timeS * 1e6)).toEqual(rows.map((row) => expect.closeTo(row.us, 6)));
+    const book = new TimedEdgeBook();
+    book.add(placed);
+    const firing = timedFiring(book, { rectifier: 'half-wave', direction: 'rising', startS: 0.0026, endS: 0.0226, priorS: Number.NaN, riseS: 0.0071, syncPhaseDeg: 0, toleranceS: 1e-4 });
+    expect(firing?.periodS).toBeCloseTo(0.02, 12);
+    expect(firing?.alphaDeg).toBeCloseTo(81, 9);
+    expect(timedWidthUs(book, 0.0071, 0.00725, 1e-4)).toBeCloseTo(150, 6);
+  });
+
+  it('status line with edgeslost re-encodes', () => {
+    const [statusLine] = example('edges-status-example');
+    expect(encodeStatus({ nextSequence: 0xa7, overruns: 0, edgesLost: 0 })).toBe(statusLine);
+    expect(statusLine.slice(-8)).toBe(zlibCrc(statusLine));
   });
 });

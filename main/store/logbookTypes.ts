@@ -272,6 +272,11 @@ export interface LogbookWriterStats {
   lastBatchMs: number;
   longestBatchMs: number;
   lastError: string | null;
+  /**
+   * Set when the store refused the last batch for a reason that will not pass by waiting: the disk is full, the
+   * file became read-only or damaged. A lock held by another process is not one (the writer retries).
+   */
+  writeFailure: { kind: 'disk-full' | 'read-only' | 'damaged' | 'io'; message: string } | null;
 }
 
 /**
@@ -293,8 +298,12 @@ export interface LogbookWriter {
   stats(): LogbookWriterStats;
   /** Writes everything queued now. */
   flush(): Promise<void>;
-  /** Writes everything queued, then ends the session with this status (default 'closed'). */
-  close(status?: Exclude<SessionStatus, 'open'>): Promise<SessionRow>;
+  /**
+   * Writes everything queued, then ends the session with this status (default 'closed'). After a write failure
+   * (stats().writeFailure) what is queued is given up, and the session is ended with `note` added to its notes
+   * (why it stopped), using the space the writer kept in reserve.
+   */
+  close(status?: Exclude<SessionStatus, 'open'>, options?: { note?: string }): Promise<SessionRow>;
 }
 
 /** A finished session in the archive's shape (app/exchange/ARCHIVE.md): rows without local ids, captures' stored bytes. */

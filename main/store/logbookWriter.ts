@@ -13,6 +13,9 @@ import { captureEncoding, encodeCapture } from './captureCodec';
 import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionRow, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
 import type { SqliteDatabase } from './openDatabase';
 import { storeSessionSummary } from './sessionSummary';
+import type { SpaceReserve } from './spaceReserve';
+import { storageFaultOf } from './storageFaults';
+import { InputError } from '../../app/errors';
 
 type QueueItem =
   | { kind: 'cycle'; reading: CycleReading; atMs: number }
@@ -31,6 +34,10 @@ export interface LogbookWriterOptions {
   maxQueuedItems?: number;
   /** Where `close()` gets the finished session's row. */
   readRow: (sessionId: number) => SessionRow;
+  /** The logbook's file, for messages. */
+  location?: string;
+  /** Space kept for ending the session when the disk fills (spaceReserve.ts); released when the session ends. */
+  reserve?: SpaceReserve;
 }
 
 export function writerIdentity(): { host: string; pid: number } {
@@ -64,7 +71,9 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
   let transferSeq = nextSeq('transfer_points');
   let queue: QueueItem[] = [];
   let closed = false;
-  const stats: LogbookWriterStats = { queued: 0, cyclesWritten: 0, batches: 0, cyclesDropped: 0, lastBatchMs: 0, longestBatchMs: 0, lastError: null };
+  const stats: LogbookWriterStats = { queued: 0, cyclesWritten: 0, batches: 0, cyclesDropped: 0, lastBatchMs: 0, longestBatchMs: 0, lastError: null, writeFailure: null };
+  const location = options.location ?? 'logbook';
+  const appendNote = db.prepare("UPDATE sessions SET notes = CASE WHEN notes IS NULL OR notes = '' THEN ? ELSE notes || char(10) || ? END WHERE id = ?");
 
   const writeItem = (item: QueueItem): void => {
     switch (item.kind) {
@@ -128,12 +137,15 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
       stats.batches += 1;
       stats.cyclesWritten += cycleSeq - seqBefore.cycle;
       stats.lastError = null;
+      stats.writeFailure = null;
     } catch (error) {
       // The transaction rolled back: put the batch back in front and try again on the next tick.
       cycleSeq = seqBefore.cycle;
       transferSeq = seqBefore.transfer;
       queue = batch.concat(queue);
       stats.lastError = error instanceof Error ? error.message : String(error);
+      const fault = storageFaultOf(error, location);
+      if (fault) stats.writeFailure = { kind: fault.kind, message: `${location}: ${fault.message}` };
     }
     stats.lastBatchMs = performance.now() - started;
     stats.longestBatchMs = Math.max(stats.longestBatchMs, stats.lastBatchMs);
@@ -167,13 +179,30 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
       flushNow();
       if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
     },
-    async close(status: Exclude<SessionStatus, 'open'> = 'closed') {
+    async close(status: Exclude<SessionStatus, 'open'> = 'closed', closeOptions: { note?: string } = {}) {
       if (closed) return options.readRow(sessionId);
       flushNow();
-      if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
+      const failure = stats.writeFailure;
+      if (stats.lastError !== null && failure === null) throw new Error(`logbook write failed: ${stats.lastError}`);
       closed = true;
       clearInterval(timer);
-      storeSessionSummary(db, sessionId, status, Date.now());
+      if (failure !== null) {
+        // What the store refused stays unwritten; the reserve makes room to end the session with why it stopped.
+        queue = [];
+        options.reserve?.release();
+      }
+      try {
+        db.transaction(() => {
+          storeSessionSummary(db, sessionId, status, Date.now());
+          if (closeOptions.note) appendNote.run(closeOptions.note, closeOptions.note, sessionId);
+        })();
+      } catch (error) {
+        const fault = storageFaultOf(error, location);
+        if (!fault) throw error;
+        throw new InputError(`${fault.message}; session ${sessionId} could not be ended and will show as interrupted when the logbook is next opened with room to write`, location);
+      } finally {
+        options.reserve?.release();
+      }
       return options.readRow(sessionId);
     },
   };

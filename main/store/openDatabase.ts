@@ -12,7 +12,7 @@
  * one fsync per batch, at most five a second with the default batching).
  */
 import Database from 'better-sqlite3';
-import { closeSync, openSync, readSync, statSync } from 'node:fs';
+import { closeSync, openSync, readFileSync, readSync, statSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { InputError } from '../../app/errors';
 import { latestSchemaVersion, logbookApplicationId, migrations } from './schema';
@@ -117,18 +117,23 @@ function openReadOnly(path: string, header: string | null): SqliteDatabase {
   let db: SqliteDatabase;
   try {
     db = new Database(path, { readonly: true, fileMustExist: true });
+    db.pragma('busy_timeout = 250');
+    // The first read: where a missing index file shows.
+    db.prepare('SELECT count(*) FROM sqlite_master').get();
   } catch (error) {
-    if (errorCode(error) === 'SQLITE_READONLY_DIRECTORY') {
-      throw new InputError(
-        `cannot be read here: its folder is read-only (${ownerWords(dirname(path))}) and SQLite keeps an index file beside a logbook in write-ahead mode; copy the logbook (and its -wal file, if there is one) to a folder you can write`,
-        path,
-      );
+    // A logbook in write-ahead mode needs an index file (-shm) beside it even to be read; on a full disk or in a
+    // read-only folder SQLite cannot make one. With nothing waiting in the write-ahead log, the file alone holds
+    // everything: it is read into memory instead.
+    const code = errorCode(error);
+    const noIndexFile = code === 'SQLITE_READONLY_DIRECTORY' || code === 'SQLITE_CANTOPEN' || code === 'SQLITE_FULL' || code.startsWith('SQLITE_IOERR');
+    if (!noIndexFile) {
+      if (error instanceof InputError) throw error;
+      const fault = storageFaultOf(error, path);
+      throw new InputError(fault ? fault.message : `cannot open the logbook: ${error instanceof Error ? error.message : String(error)}`, path);
     }
-    const fault = storageFaultOf(error, path);
-    throw new InputError(fault ? fault.message : `cannot open the logbook: ${error instanceof Error ? error.message : String(error)}`, path);
+    db = openCopyInMemory(path, code === 'SQLITE_READONLY_DIRECTORY' ? `its folder is read-only (${ownerWords(dirname(path))})` : 'the disk is full');
   }
   try {
-    db.pragma('busy_timeout = 250');
     const { version } = checkLogbookFile(db, path);
     if (version === 0) throw new InputError('is empty: there is no logbook here yet', path);
     if (version < latestSchemaVersion) {
@@ -145,6 +150,26 @@ function openReadOnly(path: string, header: string | null): SqliteDatabase {
     if (fault) throw new InputError(fault.message, path);
     throw error;
   }
+}
+
+/** The logbook file read whole into memory, marked as a rollback-journal database so SQLite reads it as it is. */
+function openCopyInMemory(path: string, why: string): SqliteDatabase {
+  let walBytes = 0;
+  try {
+    walBytes = statSync(`${path}-wal`).size;
+  } catch {
+    walBytes = 0;
+  }
+  if (walBytes > 0) {
+    throw new InputError(`cannot be read now: ${why}, and its write-ahead log (${path}-wal) holds data not yet in the file; free some space or copy the logbook with its -wal file to a folder you can write`, path);
+  }
+  const bytes = readFileSync(path);
+  // File format bytes 18 and 19 (sqlite.org, "Database File Format"): 2 for WAL, 1 for the rollback journal.
+  if (bytes.length > 19 && bytes[18] === 2 && bytes[19] === 2) {
+    bytes[18] = 1;
+    bytes[19] = 1;
+  }
+  return new Database(bytes, { readonly: true });
 }
 
 export function openLogbookDatabase(path: string, options: OpenLogbookDatabaseOptions = {}): SqliteDatabase {

@@ -19,6 +19,8 @@ import { createSqliteLogbookWriter, writerIdentity } from './logbookWriter';
 import { openLogbookDatabase, type OpenLogbookDatabaseOptions, type SqliteDatabase } from './openDatabase';
 import { latestDesignVersion, latestSessionPerUnit, readDesignVersion } from './recordQueries';
 import { recoverInterruptedSessions, writerIsAlive } from './sessionRecovery';
+import { removeStaleReserves, takeSpaceReserve } from './spaceReserve';
+import { guardStorage, storageInputError } from './storageFaults';
 import { computeSessionTotals, sessionFigures, transferFit } from './sessionSummary';
 
 const iso = (ms: number): string => new Date(ms).toISOString();
@@ -64,7 +66,10 @@ export async function openSqliteLogbook(path: string, options: OpenLogbookDataba
 export function createSqliteLogbook(db: SqliteDatabase, location: string, options: { readOnly?: boolean } = {}): Logbook {
   // Opened for reading only, nothing is written: a session whose writer is gone is shown as interrupted (what the
   // next writing opener will store) instead of being marked so.
-  if (!options.readOnly) recoverInterruptedSessions(db);
+  if (!options.readOnly) {
+    recoverInterruptedSessions(db);
+    removeStaleReserves(location);
+  }
   const nowMs = Date.now();
 
   const toRow = (row: SessionJoinRow): SessionRow => {
@@ -104,7 +109,7 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string, option
     for (const id of ids) readRow(id);
   };
 
-  return {
+  const logbook: Logbook = {
     location,
     async saveDesign(design) {
       return saveDesignNow(boardDesignSchema.parse(design));
@@ -121,22 +126,30 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string, option
     async startSession(request, writerOptions = {}) {
       const serial = request.unitSerial.trim();
       if (serial === '') throw new InputError('a unit needs a serial number', 'unit');
-      const design = saveDesignNow(boardDesignSchema.parse(request.design));
-      const writer = writerIdentity();
-      const startedAtMs = (request.startedAt ?? new Date()).getTime();
-      const sessionId = db.transaction(() => {
-        db.prepare('INSERT INTO units (serial, design_name, created_at_ms) VALUES (?, ?, ?) ON CONFLICT (serial) DO NOTHING').run(serial, design.name, startedAtMs);
-        db.prepare('UPDATE units SET design_name = ? WHERE serial = ? AND design_name IS NULL').run(design.name, serial);
-        const unitId = (db.prepare('SELECT id FROM units WHERE serial = ?').get(serial) as { id: number }).id;
-        const result = db
-          .prepare(
-            `INSERT INTO sessions (unit_id, design_id, operator, started_at_ms, status, notes, writer_host, writer_pid, heartbeat_at_ms)
-             VALUES (?, ?, ?, ?, 'open', ?, ?, ?, ?)`,
-          )
-          .run(unitId, design.id, request.operator, startedAtMs, request.notes ?? null, writer.host, writer.pid, Date.now());
-        return Number(result.lastInsertRowid);
-      }).immediate();
-      return createSqliteLogbookWriter(db, sessionId, { ...writerOptions, readRow });
+      // Taken first: a disk too full to hold the reserve is too full for a session that could be ended.
+      const reserve = takeSpaceReserve(location);
+      let sessionId: number;
+      try {
+        const design = saveDesignNow(boardDesignSchema.parse(request.design));
+        const writer = writerIdentity();
+        const startedAtMs = (request.startedAt ?? new Date()).getTime();
+        sessionId = db.transaction(() => {
+          db.prepare('INSERT INTO units (serial, design_name, created_at_ms) VALUES (?, ?, ?) ON CONFLICT (serial) DO NOTHING').run(serial, design.name, startedAtMs);
+          db.prepare('UPDATE units SET design_name = ? WHERE serial = ? AND design_name IS NULL').run(design.name, serial);
+          const unitId = (db.prepare('SELECT id FROM units WHERE serial = ?').get(serial) as { id: number }).id;
+          const result = db
+            .prepare(
+              `INSERT INTO sessions (unit_id, design_id, operator, started_at_ms, status, notes, writer_host, writer_pid, heartbeat_at_ms)
+               VALUES (?, ?, ?, ?, 'open', ?, ?, ?, ?)`,
+            )
+            .run(unitId, design.id, request.operator, startedAtMs, request.notes ?? null, writer.host, writer.pid, Date.now());
+          return Number(result.lastInsertRowid);
+        }).immediate();
+      } catch (error) {
+        reserve.release();
+        throw storageInputError(error, location);
+      }
+      return createSqliteLogbookWriter(db, sessionId, { ...writerOptions, readRow, location, reserve });
     },
     async listSessions(filter: SessionFilter = {}) {
       const clauses: string[] = [];
@@ -286,6 +299,7 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string, option
       if (db.open) db.close();
     },
   };
+  return guardStorage(logbook, location);
 }
 
 function captureInfos(db: SqliteDatabase, where: string, value: number): CaptureInfo[] {

@@ -4,8 +4,9 @@
  * errors (sqlite.org, "Result and Error Codes"): SQLITE_FULL, SQLITE_READONLY*, SQLITE_CANTOPEN, SQLITE_CORRUPT,
  * SQLITE_NOTADB, SQLITE_IOERR*; the file system as errno codes (ENOSPC, EACCES, EPERM, EROFS).
  */
-import { accessSync, constants, readFileSync, statSync } from 'node:fs';
+import { accessSync, constants, readFileSync, statSync, statfsSync } from 'node:fs';
 import { dirname } from 'node:path';
+import { InputError } from '../../app/errors';
 
 export type StorageFaultKind = 'disk-full' | 'read-only' | 'damaged' | 'io';
 
@@ -82,10 +83,25 @@ export function writeAccessProblem(path: string): string | null {
   return null;
 }
 
+/**
+ * True when the file system holding `path` has (almost) no room left: less than 64 KiB, two index-file pages of
+ * SQLite's write-ahead mode. SQLite reports some writes that fail for want of space as input/output errors
+ * (growing its -shm index file), so an I/O error on a full disk is called what it is.
+ */
+export function diskIsFull(path: string): boolean {
+  try {
+    const info = statfsSync(dirname(path));
+    return info.bavail * info.bsize < 64 * 1024;
+  } catch {
+    return false;
+  }
+}
+
 /** The storage fault an error stands for, or null when it is something else (a bug). */
 export function storageFaultOf(error: unknown, path: string): StorageFault | null {
   const code = errorCode(error);
-  if (code === 'SQLITE_FULL' || code === 'ENOSPC' || (code === 'SQLITE_IOERR_WRITE' && /no space/i.test(String((error as Error).message)))) {
+  const ioError = code.startsWith('SQLITE_IOERR') || code === 'EIO';
+  if (code === 'SQLITE_FULL' || code === 'ENOSPC' || (ioError && diskIsFull(path))) {
     return { kind: 'disk-full', message: `cannot be written: the disk is full (writing ${path} and its write-ahead log ${path}-wal)` };
   }
   if (code.startsWith('SQLITE_READONLY') || code === 'EROFS') {
@@ -102,4 +118,32 @@ export function storageFaultOf(error: unknown, path: string): StorageFault | nul
     return { kind: 'io', message: `cannot be read or written: the disk reports an input/output error (${String((error as Error).message)}); copy what you can and check the disk` };
   }
   return null;
+}
+
+/** An error as the InputError its storage fault stands for (naming the file), or the error itself (a bug). */
+export function storageInputError(error: unknown, path: string): unknown {
+  if (error instanceof InputError) return error;
+  const fault = storageFaultOf(error, path);
+  return fault ? new InputError(fault.message, path) : error;
+}
+
+/**
+ * The same object with every method's storage faults turned into InputErrors naming the file: a full disk, a
+ * read-only file, a damaged page met in any query is said in words, never thrown as a bug with a stack trace.
+ */
+export function guardStorage<T extends object>(target: T, path: string): T {
+  const guarded: Record<string, unknown> = {};
+  for (const [key, value] of Object.entries(target)) {
+    guarded[key] =
+      typeof value === 'function'
+        ? async (...args: unknown[]) => {
+            try {
+              return await (value as (...inner: unknown[]) => unknown).apply(target, args);
+            } catch (error) {
+              throw storageInputError(error, path);
+            }
+          }
+        : value;
+  }
+  return guarded as T;
 }

@@ -26,11 +26,14 @@ export interface RecordOptions {
   /** Stops the recording (Ctrl-C). */
   signal?: AbortSignal;
   onProgress?: (progress: RecordProgress) => void;
+  /** Told at once, in words, when the logbook can no longer be written (the recording then stops). */
+  onStorageFault?: (message: string) => void;
   progressIntervalMs?: number;
 }
 
 export interface RecordProgress {
   seconds: number;
+  /** Cycles stored in the logbook so far (not merely analysed). */
   cycles: number;
   alphaDeg: number | null;
   rampPeakV: number | null;
@@ -58,13 +61,19 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
   let writer: LogbookWriter | null = null;
   try {
     const link = await openLoggerLink({ path: options.port, reopen: true });
-    writer = await logbook.startSession({ unitSerial: options.unit, design, operator: options.operator ?? 'record' });
+    try {
+      writer = await logbook.startSession({ unitSerial: options.unit, design, operator: options.operator ?? 'record' });
+    } catch (error) {
+      await link.close();
+      throw error;
+    }
     const session = writer;
+    // Set when the logbook refuses writes that waiting will not cure (disk full, file read-only or damaged).
+    let storageFault: { message: string } | null = null;
     const decoder = createLoggerDecoder();
     const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false });
     const startedMs = Date.now();
     const account = createLinkAccount(session, startedMs);
-    let cycles = 0;
     let lastAlphaDeg: number | null = null;
     let lastRampPeakV: number | null = null;
     // A logger already streaming when the port opens sends data before any greeting: ask for the greeting, once
@@ -75,18 +84,30 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
       void link.write(encodeCommand({ command: 'identify' })).catch(() => undefined);
     };
 
+    const stop = (): void => void link.close();
+    /** Stops the recording at once when the logbook can no longer be written; true when it has. */
+    const storageFailed = (): boolean => {
+      if (storageFault) return true;
+      const failure = session.stats().writeFailure;
+      if (!failure) return false;
+      storageFault = failure;
+      options.onStorageFault?.(failure.message);
+      stop();
+      return true;
+    };
     const progress = (): void => {
       account.flush();
+      if (storageFailed()) return;
       const stats = link.stats();
       const nowMs = Date.now();
       const health = account.summary(nowMs);
+      // Cycles stored, not cycles analysed: the line never claims what the logbook does not hold.
       options.onProgress?.({
-        seconds: (nowMs - startedMs) / 1000, cycles, alphaDeg: lastAlphaDeg, rampPeakV: lastRampPeakV,
+        seconds: (nowMs - startedMs) / 1000, cycles: session.stats().cyclesWritten, alphaDeg: lastAlphaDeg, rampPeakV: lastRampPeakV,
         linkErrors: health.errors, linkOpen: stats.open, linesDropped: stats.linesDropped, silentNowS: health.silentNowS, silentS: health.silentS,
       });
     };
     const ticker = setInterval(progress, options.progressIntervalMs ?? 500);
-    const stop = (): void => void link.close();
     const timer = options.seconds !== undefined ? setTimeout(stop, options.seconds * 1000) : null;
     options.signal?.addEventListener('abort', stop, { once: true });
     if (options.signal?.aborted) stop();
@@ -110,9 +131,9 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
             account.problem(event.problem, firstLine);
             if (event.problem.code === 'data-before-greeting' && !identifyAsked) askIdentify();
           } else if (event.kind === 'block') {
+            if (storageFailed()) break;
             for (const reading of analyzer.push(event.block)) {
               session.addCycle(reading);
-              cycles += 1;
               if (reading.alphaDeg !== null) lastAlphaDeg = reading.alphaDeg;
               if (reading.rampPeakV !== null) lastRampPeakV = reading.rampPeakV;
               if (reading.alphaDeg !== null && reading.controlV !== null) session.addTransferPoint({ t: reading.t, controlV: reading.controlV, alphaDeg: reading.alphaDeg });
@@ -128,6 +149,16 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
     }
     const endedMs = Date.now();
     account.finish(endedMs);
+    if (storageFailed() && storageFault) {
+      const fault: { message: string } = storageFault;
+      const storedCycles = session.stats().cyclesWritten;
+      const note = `Recording stopped at ${new Date(endedMs).toISOString()}: ${fault.message}. The ${storedCycles} cycles stored before were kept.`;
+      const row = await session.close('interrupted', { note });
+      writer = null;
+      throw new InputError(
+        `${fault.message}. Recording stopped after ${((endedMs - startedMs) / 1000).toFixed(1)} s; session ${row.id} keeps the ${row.cycles} cycles stored before, marked interrupted with a note of why. Free space (or make the file writable), then record again`,
+      );
+    }
     progress();
     const readings = analyzer.finish();
     session.setReadings(readings);
@@ -188,6 +219,7 @@ export function registerRecordCommand(program: Command): void {
         const result = await recordSession({
           port: options.port, db: options.db, unit: options.unit, designPath: options.design, seconds: secondsOption(options.seconds), operator: options.operator,
           signal: controller.signal,
+          onStorageFault: (message) => process.stderr.write(`${interactive ? '\n' : ''}rampwright: ${message}: recording stops now; what is stored is kept\n`),
           onProgress: (progress) => {
             // On a terminal the line is rewritten in place; in a log file, one line every 5 s.
             if (interactive) process.stderr.write(`\r${formatProgress(progress)}\u001b[K`);

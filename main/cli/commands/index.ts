@@ -11,6 +11,7 @@ import { registerRecordCommand } from './record';
 import { registerReportCommand } from './report';
 import { registerExportCommand } from './export';
 import { registerImportCommand } from './import';
+import { registerSalvageCommand } from './salvage';
 
 export function registerCommands(program: Command): void {
   void program;
@@ -25,4 +26,5 @@ export function registerCommands(program: Command): void {
   registerReportCommand(program);
   registerExportCommand(program);
   registerImportCommand(program);
+  registerSalvageCommand(program);
 }

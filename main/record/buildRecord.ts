@@ -4,7 +4,7 @@
  * the capture digest (app/record/recordModel.ts says exactly what is hashed).
  */
 import { judgeReadings } from '../../app/bench/judge';
-import { boardDesignSchema } from '../../app/board/design';
+import { parseStoredDesign } from '../store/storedContent';
 import { InputError } from '../../app/errors';
 import { parseStepReports } from '../../app/contract';
 import { captureDigestText, orderCapturesForDigest, readingRowsFromChecks, readingRowsFromSteps, type CommissioningRecord } from '../../app/record/recordModel';
@@ -20,7 +20,7 @@ export async function buildRecord(sources: RecordSources, sessionId: number, opt
   const detail = await sources.logbook.session(sessionId);
   if (!detail) throw new InputError(`there is no session ${sessionId} in this logbook`, sources.logbook.location);
   const version = await sources.logbook.designVersion(detail.designId);
-  const design = boardDesignSchema.parse(JSON.parse(version.designJson));
+  const design = parseStoredDesign(version.designJson, `${sources.logbook.location}: session ${sessionId}`);
   const ordered = orderCapturesForDigest(detail.captures);
   const last = ordered[ordered.length - 1];
   const stored = last ? await sources.logbook.readCapture(last.id) : null;

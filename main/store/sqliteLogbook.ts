@@ -21,6 +21,7 @@ import { latestDesignVersion, latestSessionPerUnit, readDesignVersion } from './
 import { recoverInterruptedSessions, writerIsAlive } from './sessionRecovery';
 import { removeStaleReserves, takeSpaceReserve } from './spaceReserve';
 import { guardStorage, storageInputError } from './storageFaults';
+import { parseStoredDesign, parseStoredReadings } from './storedContent';
 import { computeSessionTotals, sessionFigures, transferFit } from './sessionSummary';
 
 const iso = (ms: number): string => new Date(ms).toISOString();
@@ -193,7 +194,7 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string, option
         row: toRow(found),
         notes: extra.notes,
         designId: extra.designId,
-        readings: extra.readings === null ? null : JSON.parse(extra.readings),
+        readings: extra.readings === null ? null : parseStoredReadings(extra.readings, `${location}: session ${id}`),
         stepsJson: extra.steps,
         transfer: { points: await this.transferCurve(id), fit: transferFit(db, id) },
         trims: trims.map(({ atMs, ...trim }) => ({ ...trim, at: iso(atMs) })),
@@ -231,7 +232,7 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string, option
       const a = sessionFigures(db, aId) as SessionFigures;
       const b = sessionFigures(db, bId) as SessionFigures;
       const designJson = (db.prepare('SELECT d.design_json AS json FROM sessions s JOIN board_designs d ON d.id = s.design_id WHERE s.id = ?').get(aId) as { json: string }).json;
-      const design = boardDesignSchema.parse(JSON.parse(designJson));
+      const design = parseStoredDesign(designJson, `${location}: session ${aId}`);
       const rampToleranceV = (design.tolerances.rampPeakPct / 100) * design.rampTargetV;
       const row = (key: ComparisonRow['key'], label: string, unit: string, toleranceAbs: number | null): ComparisonRow => {
         const difference = a[key] !== null && b[key] !== null ? (b[key] as number) - (a[key] as number) : null;

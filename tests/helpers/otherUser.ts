@@ -13,10 +13,10 @@ export interface ChildResult {
   stderr: string;
 }
 
-export function runCliAsOtherUser(args: string[], options: { cwd?: string } = {}): Promise<ChildResult> {
+export function runCliAsOtherUser(args: string[], options: { cwd?: string; env?: Record<string, string> } = {}): Promise<ChildResult> {
   const node = [process.execPath, '--import', 'tsx', 'main/cli/rampwright.ts', ...args];
   const [command, ...rest] = runsAsRoot ? ['setpriv', '--reuid=nobody', '--regid=nogroup', '--clear-groups', ...node] : node;
-  const child = spawn(command, rest, { cwd: options.cwd ?? process.cwd(), stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, HOME: '/tmp' } });
+  const child = spawn(command, rest, { cwd: options.cwd ?? process.cwd(), stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, HOME: '/tmp', ...options.env } });
   let stdout = '';
   let stderr = '';
   child.stdout.setEncoding('utf8').on('data', (chunk: string) => (stdout += chunk));

@@ -4,7 +4,7 @@
 // file (nobody, when the suite runs as root).
 import Database from 'better-sqlite3';
 import { spawnSync } from 'node:child_process';
-import { chmodSync, existsSync, readFileSync, statSync } from 'node:fs';
+import { chmodSync, existsSync, mkdirSync, readFileSync, statSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
 import { runCliAsOtherUser, runsAsRoot } from '../../helpers/otherUser';
@@ -62,7 +62,10 @@ describe('a read-only logbook', () => {
     const report = await runCliAsOtherUser(['report', '--db', dbPath, '--session', '1', '--out', folder.file('record.html')]);
     expect(report.code, report.stderr).toBe(0);
     expect(readFileSync(folder.file('record.html'), 'utf8')).toContain('RW-0733');
-    const exported = await runCliAsOtherUser(['export', '--db', dbPath, '--session', '1', '--out', folder.file('again.rwsession')]);
+    // The other user's own data folder holds its bench signing key.
+    mkdirSync(folder.file('data'), { mode: 0o777 });
+    chmodSync(folder.file('data'), 0o777);
+    const exported = await runCliAsOtherUser(['export', '--db', dbPath, '--session', '1', '--out', folder.file('again.rwsession')], { env: { XDG_DATA_HOME: folder.file('data') } });
     expect(exported.code, exported.stderr).toBe(0);
     expect(statSync(folder.file('again.rwsession')).size).toBeGreaterThan(100);
     // Nothing was written to it.

@@ -147,6 +147,21 @@ export const benchCalls = {
     'A board design\'s fleet (each unit\'s latest session) against the board model\'s Monte Carlo prediction, with one unit placed in it.',
   ),
 
+  sharing: call(
+    empty,
+    z.object({
+      /** The shared logbook this bench pushes to (address without password); null when it pushes nowhere. */
+      target: z.string().nullable(),
+      /** Finished sessions of this bench not yet in the shared logbook. */
+      waiting: z.number().int().nonnegative(),
+      lastAttemptAt: isoTimeSchema.nullable(),
+      lastReachedAt: isoTimeSchema.nullable(),
+      /** Why the last push did not go through, or null. */
+      problem: z.string().nullable(),
+    }),
+    'Whether this bench shares its finished sessions with a shared logbook, and how many wait to be pushed.',
+  ),
+
   // Exports (formats are registered by the report/export side; see issue on sign-off and recall)
   exportFormats: call(empty, z.object({ formats: z.array(exportFormatSchema) }), 'Export formats this bench can write.'),
   exportSession: call(

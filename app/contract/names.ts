@@ -28,6 +28,7 @@ export const benchCallNames = [
   'compareSessions',
   'drift',
   'fleet',
+  'sharing',
   'exportFormats',
   'exportSession',
 ] as const;

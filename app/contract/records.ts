@@ -146,6 +146,10 @@ export const sessionRowSchema = z.object({
   linkErrors: z.number().int().nonnegative(),
   /** Seconds the logger sent nothing (stretches over 2 s), 0 for a link that never went quiet. */
   linkSilentS: z.number().nonnegative(),
+  /** The bench that recorded it (null for sessions from before benches were named). */
+  bench: z.string().nullable(),
+  /** When this bench pushed it to the shared logbook; null when not yet (or when this is the shared logbook). */
+  sharedAt: isoTimeSchema.nullable(),
 });
 export type SessionRow = z.infer<typeof sessionRowSchema>;
 

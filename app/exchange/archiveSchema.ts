@@ -67,6 +67,8 @@ export const archiveSessionSchema = z
         rampPeakMedianV: z.number().nullable(),
         /** The step reports as recorded; left out when the session has none (older sessions keep their hash). */
         stepsJson: z.string().optional(),
+        /** The bench that recorded it; left out when unknown (sessions from before benches were named keep their hash). */
+        bench: z.string().min(1).optional(),
       })
       .strict(),
     cycles: tableSchema(archiveColumns.cycles),

@@ -9,6 +9,7 @@ import { controlForAlpha } from '../../app/board/firingAngle';
 import { InputError } from '../../app/errors';
 import { isLoopbackAddress } from '../server/access';
 import { startBenchServer, type BenchServer } from '../server/benchServer';
+import { logbookDisplayLocation } from '../store/index';
 import { openBenchContext, type BenchContext } from './benchContext';
 import { demoDefaults } from './commissioningDemo';
 import { rendererFolder } from './packagePaths';
@@ -16,7 +17,12 @@ import { recordExporters } from './recordExporters';
 import type { SerialAccess } from './sessionService';
 
 export interface BenchServeOptions {
+  /** A logbook file, or a shared logbook's postgres:// address. */
   logbookPath: string;
+  /** The bench's name on its sessions. */
+  bench?: string;
+  /** A shared logbook to push finished sessions to, as the bench goes. */
+  pushTo?: string;
   host?: string;
   port?: number;
   /** This run's access token (default: a fresh random one). */
@@ -48,7 +54,7 @@ export function listenFault(error: unknown, host: string, port: number): unknown
 
 export async function startBenchServe(options: BenchServeOptions): Promise<RunningBench> {
   const host = options.host ?? '127.0.0.1';
-  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters });
+  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters, bench: options.bench, pushTo: options.pushTo });
   try {
     if (options.demo) {
       const { design } = await context.designs.get(demoDefaults.designName);
@@ -71,8 +77,9 @@ export async function startBenchServe(options: BenchServeOptions): Promise<Runni
     const banner = [
       `Rampwright bench at ${server.url}`,
       `Access token: ${server.token} (new for every run; every request needs it, and the address above carries it)`,
-      `Logbook: ${options.logbookPath}`,
+      `Logbook: ${context.logbook.location}`,
     ];
+    if (options.pushTo !== undefined) banner.push(`Pushing finished sessions to the shared logbook ${logbookDisplayLocation(options.pushTo)}`);
     if (!isLoopbackAddress(server.host)) banner.push(`Serving ${host}: other computers that have the address above can use this bench.`);
     if (!staticRoot || !existsSync(staticRoot)) banner.push('The screens are not built (npm run build); the API is served alone.');
     if (options.demo) banner.push(`Virtual board connected: ${demoDefaults.designName}, fault ${demoDefaults.faults.join(', ')}`);

@@ -14,6 +14,7 @@ import { createLiveLink, disconnectedHealth, type LineSource } from './liveLink'
 import { sessionRowView } from './logbookViews';
 import type { SessionExporter } from './exporters';
 import { createRecallHandlers } from './recallHandlers';
+import type { SharePusher } from '../share/sharePusher';
 import { createTrimHandlers, type CurrentLink } from './trimHandlers';
 import { stepReports } from './steps';
 import { createThrottle, systemClock, type ClockLike } from './throttle';
@@ -31,6 +32,10 @@ export interface SessionServiceOptions {
   designs: DesignCatalog;
   serial?: SerialAccess | null;
   exporters?: readonly SessionExporter[];
+  /** The bench's name in the logbook (default: the RAMPWRIGHT_BENCH setting or the host name). */
+  bench?: string;
+  /** Pushes finished sessions to a shared logbook (serve --push-to); its status is the `sharing` call. */
+  sharing?: SharePusher | null;
   /** Live frames at most this often (ms, default 50: 20 a second). */
   liveIntervalMs?: number;
   pipeline?: BenchPipelineOptions;
@@ -177,7 +182,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
   };
 
   const handlers: BenchHandlers = {
-    ...createRecallHandlers({ logbook, designs, exporters: options.exporters ?? [] }),
+    ...createRecallHandlers({ logbook, designs, exporters: options.exporters ?? [], sharing: options.sharing ?? null }),
     async listPorts() {
       return { ports: options.serial ? await options.serial.listPorts() : [] };
     },
@@ -212,7 +217,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
     async startSession({ unitSerial, designName, operator, notes }) {
       if (session) throw new BenchFault('not-ready', `session ${session.open.id} for unit ${session.open.unitSerial} is still open: sign it off or stop it first`);
       const stored = await designs.get(designName);
-      const writer = await logbook.startSession({ unitSerial, design: stored.design, operator, notes });
+      const writer = await logbook.startSession({ unitSerial, design: stored.design, operator, notes, bench: options.bench });
       const startedAt = new Date().toISOString();
       session = {
         open: { id: writer.sessionId, unitSerial, designName: stored.summary.name, designVersion: stored.summary.version, operator, startedAt },

@@ -7,3 +7,6 @@ export { openLogbookDatabase, type OpenLogbookDatabaseOptions } from './openData
 export { latestSchemaVersion } from './schema';
 export { driftTrend } from './driftTrend';
 export { decodeCapture, encodeCapture, rawCaptureBytes, sha256Hex } from './captureCodec';
+export { isPostgresLocation, logbookDisplayLocation } from './postgres/connection';
+export { SharedLogbookUnreachable, isConnectionFault } from './postgres/pgErrors';
+export { benchName } from './benchName';

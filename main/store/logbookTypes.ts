@@ -60,6 +60,10 @@ export interface SessionRow {
   linkErrors: number;
   /** Seconds the logger sent nothing (the `link-silent` rows), 0 for a link that never went quiet. */
   linkSilentS: number;
+  /** The bench that recorded it (null for sessions recorded before benches were named). */
+  bench: string | null;
+  /** When this bench last pushed it to a shared logbook (null: not yet shared, or not a bench's own logbook). */
+  sharedAt: string | null;
 }
 
 /** One stored cycle as recall shows it. */
@@ -260,6 +264,18 @@ export interface StartSessionRequest {
   notes?: string;
   /** Defaults to now. */
   startedAt?: Date;
+  /** The bench recording it; defaults to benchName() (the RAMPWRIGHT_BENCH setting or the host name). */
+  bench?: string;
+}
+
+/** A finished session of this logbook pushed to a shared one. */
+export interface SharedCopy {
+  sessionId: number;
+  /** The shared logbook's address, without any password. */
+  target: string;
+  contentSha256: string;
+  /** The session's id in the shared logbook. */
+  remoteSessionId: number;
 }
 
 export interface LogbookWriterStats {
@@ -356,6 +372,10 @@ export interface Logbook {
    * one transaction; the same unit and start with other content is refused (ARCHIVE.md, import rules).
    */
   importArchiveSession(request: ArchiveImportRequest): Promise<ArchiveImportResult>;
+  /** Finished sessions not yet pushed to `target`, oldest first. */
+  sessionsToShare(target: string): Promise<number[]>;
+  /** Notes that a finished session is now in the shared logbook `target`. */
+  recordSharedCopy(copy: SharedCopy): Promise<void>;
   /** Marks 'open' sessions whose writer is gone as 'interrupted'; returns their ids. Runs on every open too. */
   recoverInterruptedSessions(): Promise<number[]>;
   close(): Promise<void>;

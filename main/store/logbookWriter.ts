@@ -1,21 +1,24 @@
 /**
- * The session writer: an in-memory queue that a timer drains into SQLite in one transaction per batch. Adding only
- * pushes onto an array, so the serial reader never waits on the disk; a batch of a few hundred rows through prepared
- * statements takes a millisecond or so (scripts/bench/store.ts prints the figures). A process killed at any moment
+ * The session writer, for both stores: an in-memory queue that a timer drains into the logbook in one write
+ * transaction per batch (multi-row inserts: one round trip per few hundred rows on a shared logbook). Adding only
+ * pushes onto an array, so the serial reader never waits on the disk or the network; a batch of a few hundred rows
+ * takes a millisecond or so on SQLite (scripts/bench/store.ts prints the figures). A process killed at any moment
  * loses at most what was queued since the last batch: `flushIntervalMs` (default 200 ms, well inside the one second
- * the logbook promises, leaving room for a loaded machine).
+ * the logbook promises, leaving room for a loaded machine). A batch the store refuses (SQLite locked by another
+ * program, a shared logbook's server gone) goes back to the front of the queue and is tried again on the next tick.
  */
-import { hostname } from 'node:os';
 import { performance } from 'node:perf_hooks';
+import { InputError } from '../../app/errors';
 import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
 import type { SampleBlock } from '../../app/capture/samples';
 import { captureEncoding, encodeCapture } from './captureCodec';
-import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionRow, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
-import type { SqliteDatabase } from './openDatabase';
+import { insertRows } from './exchangeRows';
+import type { SessionWriterOptions } from './logbookOverEngine';
+import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
 import { storeSessionSummary } from './sessionSummary';
 import type { SpaceReserve } from './spaceReserve';
-import { storageFaultOf } from './storageFaults';
-import { InputError } from '../../app/errors';
+import { run, type SqlProgram, type SqlValue } from './sqlProgram';
+import type { StorageFault } from './storageFaults';
 
 type QueueItem =
   | { kind: 'cycle'; reading: CycleReading; atMs: number }
@@ -28,130 +31,123 @@ type QueueItem =
   | { kind: 'steps'; json: string }
   | { kind: 'notes'; notes: string };
 
-export interface LogbookWriterOptions {
-  flushIntervalMs?: number;
-  /** Beyond this many queued items (the disk refuses writes) new cycles are dropped and counted. Default 500 000. */
-  maxQueuedItems?: number;
-  /** Where `close()` gets the finished session's row. */
-  readRow: (sessionId: number) => SessionRow;
-  /** The logbook's file, for messages. */
-  location?: string;
+export interface BatchingWriterOptions extends SessionWriterOptions {
+  /** Runs a program in one write transaction of the store. */
+  write<T>(program: SqlProgram<T>): Promise<T>;
+  /** The store's reading of a refused batch: a fault waiting will not cure (disk full, read-only, damaged), or null. */
+  faultOf?: (error: unknown) => StorageFault | null;
   /** Space kept for ending the session when the disk fills (spaceReserve.ts); released when the session ends. */
-  reserve?: SpaceReserve;
+  reserve?: SpaceReserve | null;
 }
 
-export function writerIdentity(): { host: string; pid: number } {
-  return { host: hostname(), pid: process.pid };
-}
+const cycleColumns = ['seq', 't_s', 'half_cycle', 'period_s', 'alpha_deg', 'control_v', 'pulses', 'wrong_half_cycle_pulses', 'ramp_peak_v', 'ramp_floor_v', 'slope_v_per_ms', 'start_delay_deg', 'nonlinearity_pct', 'clipped', 'reset_us', 'recorded_at_ms'];
+const captureColumns = ['label', 'start_s', 'sample_rate_hz', 'samples_per_channel', 'roles', 'after_gap', 'started_at_ms', 'encoding', 'sha256', 'data'];
 
-export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number, options: LogbookWriterOptions): LogbookWriter {
-  const flushIntervalMs = options.flushIntervalMs ?? 200;
-  const maxQueuedItems = options.maxQueuedItems ?? 500_000;
-  const insertCycle = db.prepare(
-    `INSERT INTO cycles (session_id, seq, t_s, half_cycle, period_s, alpha_deg, control_v, pulses, wrong_half_cycle_pulses,
-      ramp_peak_v, ramp_floor_v, slope_v_per_ms, start_delay_deg, nonlinearity_pct, clipped, reset_us, recorded_at_ms)
-     VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-  );
-  const insertTransfer = db.prepare('INSERT INTO transfer_points (session_id, seq, t_s, control_v, alpha_deg) VALUES (?, ?, ?, ?, ?)');
-  const insertLink = db.prepare('INSERT INTO link_events (session_id, kind, detail, count, at_ms) VALUES (?, ?, ?, ?, ?)');
-  const insertTrim = db.prepare('INSERT INTO trims (session_id, part, from_ohm, to_ohm, method, reason, at_ms) VALUES (?, ?, ?, ?, ?, ?, ?)');
-  const insertMeasurement = db.prepare('INSERT INTO part_measurements (session_id, part, value, design_value, at_ms) VALUES (?, ?, ?, ?, ?)');
-  const insertCapture = db.prepare(
-    `INSERT INTO captures (session_id, label, start_s, sample_rate_hz, samples_per_channel, roles, after_gap, started_at_ms, encoding, sha256, data)
-     VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-  );
-  const updateReadings = db.prepare('UPDATE sessions SET readings_json = ? WHERE id = ?');
-  const updateSteps = db.prepare('UPDATE sessions SET steps_json = ? WHERE id = ?');
-  const updateNotes = db.prepare('UPDATE sessions SET notes = ? WHERE id = ?');
-  const heartbeat = db.prepare('UPDATE sessions SET heartbeat_at_ms = ? WHERE id = ?');
-  const nextSeq = (table: 'cycles' | 'transfer_points'): number =>
-    (db.prepare(`SELECT coalesce(max(seq) + 1, 0) AS next FROM ${table} WHERE session_id = ?`).get(sessionId) as { next: number }).next;
-
-  let cycleSeq = nextSeq('cycles');
-  let transferSeq = nextSeq('transfer_points');
-  let queue: QueueItem[] = [];
-  let closed = false;
-  const stats: LogbookWriterStats = { queued: 0, cyclesWritten: 0, batches: 0, cyclesDropped: 0, lastBatchMs: 0, longestBatchMs: 0, lastError: null, writeFailure: null };
-  const location = options.location ?? 'logbook';
-  const appendNote = db.prepare("UPDATE sessions SET notes = CASE WHEN notes IS NULL OR notes = '' THEN ? ELSE notes || char(10) || ? END WHERE id = ?");
-
-  const writeItem = (item: QueueItem): void => {
+/** One batch as rows per table, in queue order within each table; the last readings, steps and notes win. */
+function* writeBatch(sessionId: number, batch: readonly QueueItem[], firstSeq: { cycle: number; transfer: number }): SqlProgram<void> {
+  const rows: Record<'cycles' | 'transfers' | 'links' | 'trims' | 'measurements' | 'captures', SqlValue[][]> = { cycles: [], transfers: [], links: [], trims: [], measurements: [], captures: [] };
+  const updates = new Map<'readings_json' | 'steps_json' | 'notes', string>();
+  for (const item of batch) {
     switch (item.kind) {
       case 'cycle': {
         const r = item.reading;
-        insertCycle.run(
-          sessionId, cycleSeq, r.t, r.halfCycle, r.periodS, r.alphaDeg, r.controlV, r.pulses, r.wrongHalfCyclePulses, r.rampPeakV, r.rampFloorV,
+        rows.cycles.push([
+          firstSeq.cycle + rows.cycles.length, r.t, r.halfCycle, r.periodS, r.alphaDeg, r.controlV, r.pulses, r.wrongHalfCyclePulses, r.rampPeakV, r.rampFloorV,
           r.slopeVPerMs, r.startDelayDeg, r.nonlinearityPct, r.clipped === null ? null : r.clipped ? 1 : 0, r.resetUs, item.atMs,
-        );
-        cycleSeq += 1;
-        return;
+        ]);
+        break;
       }
       case 'transfer':
-        insertTransfer.run(sessionId, transferSeq, item.point.t, item.point.controlV, item.point.alphaDeg);
-        transferSeq += 1;
-        return;
+        rows.transfers.push([firstSeq.transfer + rows.transfers.length, item.point.t, item.point.controlV, item.point.alphaDeg]);
+        break;
       case 'link':
-        insertLink.run(sessionId, item.eventKind, item.detail, item.count, item.atMs);
-        return;
+        rows.links.push([item.eventKind, item.detail, item.count, item.atMs]);
+        break;
       case 'trim':
-        insertTrim.run(sessionId, item.trim.part, item.trim.fromOhm, item.trim.toOhm, item.trim.method, item.trim.reason, item.atMs);
-        return;
+        rows.trims.push([item.trim.part, item.trim.fromOhm, item.trim.toOhm, item.trim.method, item.trim.reason, item.atMs]);
+        break;
       case 'measurement':
-        insertMeasurement.run(sessionId, item.measurement.part, item.measurement.value, item.measurement.designValue, item.atMs);
-        return;
+        rows.measurements.push([item.measurement.part, item.measurement.value, item.measurement.designValue, item.atMs]);
+        break;
       case 'capture': {
         const encoded = encodeCapture(item.block);
-        insertCapture.run(
-          sessionId, item.label, item.block.startS, item.block.sampleRateHz, encoded.samplesPerChannel, JSON.stringify(encoded.roles),
-          item.block.afterGap ? 1 : 0, item.atMs, captureEncoding, encoded.sha256, encoded.data,
-        );
-        return;
+        rows.captures.push([item.label, item.block.startS, item.block.sampleRateHz, encoded.samplesPerChannel, JSON.stringify(encoded.roles), item.block.afterGap ? 1 : 0, item.atMs, captureEncoding, encoded.sha256, encoded.data]);
+        break;
       }
       case 'readings':
-        updateReadings.run(item.json, sessionId);
-        return;
+        updates.set('readings_json', item.json);
+        break;
       case 'steps':
-        updateSteps.run(item.json, sessionId);
-        return;
+        updates.set('steps_json', item.json);
+        break;
       case 'notes':
-        updateNotes.run(item.notes, sessionId);
-        return;
+        updates.set('notes', item.notes);
+        break;
     }
-  };
+  }
+  yield* insertRows('cycles', sessionId, cycleColumns, rows.cycles);
+  yield* insertRows('transfer_points', sessionId, ['seq', 't_s', 'control_v', 'alpha_deg'], rows.transfers);
+  yield* insertRows('link_events', sessionId, ['kind', 'detail', 'count', 'at_ms'], rows.links);
+  yield* insertRows('trims', sessionId, ['part', 'from_ohm', 'to_ohm', 'method', 'reason', 'at_ms'], rows.trims);
+  yield* insertRows('part_measurements', sessionId, ['part', 'value', 'design_value', 'at_ms'], rows.measurements);
+  yield* insertRows('captures', sessionId, captureColumns, rows.captures);
+  for (const [column, value] of updates) yield* run(`UPDATE sessions SET ${column} = ? WHERE id = ?`, [value, sessionId]);
+  yield* run('UPDATE sessions SET heartbeat_at_ms = ? WHERE id = ?', [Date.now(), sessionId]);
+}
 
-  const writeBatch = db.transaction((batch: QueueItem[]) => {
-    for (const item of batch) writeItem(item);
-    heartbeat.run(Date.now(), sessionId);
-  });
+/** Ends the session: its summary, and a note of why it stopped added to its notes. */
+function* endSession(sessionId: number, status: Exclude<SessionStatus, 'open'>, note: string | null): SqlProgram<void> {
+  yield* storeSessionSummary(sessionId, status, Date.now());
+  if (note !== null) {
+    yield* run("UPDATE sessions SET notes = CASE WHEN notes IS NULL OR notes = '' THEN ? ELSE notes || ? END WHERE id = ?", [note, `\n${note}`, sessionId]);
+  }
+}
 
+export function createBatchingWriter(sessionId: number, options: BatchingWriterOptions): LogbookWriter {
+  const flushIntervalMs = options.flushIntervalMs ?? 200;
+  const maxQueuedItems = options.maxQueuedItems ?? 500_000;
+  // A writer is opened for a session just started: its sequences begin at 0.
+  const seq = { cycle: 0, transfer: 0 };
+  let queue: QueueItem[] = [];
+  let closed = false;
+  let inFlight: Promise<void> | null = null;
   let lastHeartbeatMs = 0;
-  function flushNow(): void {
+  const stats: LogbookWriterStats = { queued: 0, cyclesWritten: 0, batches: 0, cyclesDropped: 0, lastBatchMs: 0, longestBatchMs: 0, lastError: null, writeFailure: null };
+
+  async function flushOnce(): Promise<void> {
     if (queue.length === 0 && Date.now() - lastHeartbeatMs < 5000) return;
     const batch = queue;
     queue = [];
     const started = performance.now();
-    const seqBefore = { cycle: cycleSeq, transfer: transferSeq };
+    const cycles = batch.reduce((count, item) => count + (item.kind === 'cycle' ? 1 : 0), 0);
+    const transfers = batch.reduce((count, item) => count + (item.kind === 'transfer' ? 1 : 0), 0);
     try {
-      writeBatch(batch);
+      await options.write(writeBatch(sessionId, batch, seq));
+      seq.cycle += cycles;
+      seq.transfer += transfers;
       lastHeartbeatMs = Date.now();
       stats.batches += 1;
-      stats.cyclesWritten += cycleSeq - seqBefore.cycle;
+      stats.cyclesWritten += cycles;
       stats.lastError = null;
       stats.writeFailure = null;
     } catch (error) {
       // The transaction rolled back: put the batch back in front and try again on the next tick.
-      cycleSeq = seqBefore.cycle;
-      transferSeq = seqBefore.transfer;
       queue = batch.concat(queue);
       stats.lastError = error instanceof Error ? error.message : String(error);
-      const fault = storageFaultOf(error, location);
-      if (fault) stats.writeFailure = { kind: fault.kind, message: `${location}: ${fault.message}` };
+      const fault = options.faultOf?.(error) ?? null;
+      if (fault) stats.writeFailure = { kind: fault.kind, message: `${options.location ?? 'logbook'}: ${fault.message}` };
     }
     stats.lastBatchMs = performance.now() - started;
     stats.longestBatchMs = Math.max(stats.longestBatchMs, stats.lastBatchMs);
   }
 
-  const timer = setInterval(flushNow, flushIntervalMs);
+  /** One batch at a time: a tick while a batch is on its way waits for it. */
+  function flushNow(): Promise<void> {
+    if (!inFlight) inFlight = flushOnce().finally(() => (inFlight = null));
+    return inFlight;
+  }
+
+  const timer = setInterval(() => void flushNow(), flushIntervalMs);
   timer.unref();
 
   const enqueue = (item: QueueItem): void => {
@@ -162,6 +158,12 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
     }
     queue.push(item);
   };
+
+  async function flushAll(): Promise<void> {
+    if (inFlight) await inFlight;
+    await flushNow();
+    if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
+  }
 
   return {
     sessionId,
@@ -175,31 +177,30 @@ export function createSqliteLogbookWriter(db: SqliteDatabase, sessionId: number,
     setStepsJson: (json) => enqueue({ kind: 'steps', json }),
     setNotes: (notes) => enqueue({ kind: 'notes', notes }),
     stats: () => ({ ...stats, queued: queue.length }),
-    async flush() {
-      flushNow();
-      if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
-    },
+    flush: flushAll,
     async close(status: Exclude<SessionStatus, 'open'> = 'closed', closeOptions: { note?: string } = {}) {
       if (closed) return options.readRow(sessionId);
-      flushNow();
-      const failure = stats.writeFailure;
-      if (stats.lastError !== null && failure === null) throw new Error(`logbook write failed: ${stats.lastError}`);
+      if (inFlight) await inFlight;
+      await flushNow();
+      if (stats.writeFailure === null) {
+        if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
+        // Anything added while the last batch was on its way.
+        if (queue.length > 0) await flushAll();
+      }
       closed = true;
       clearInterval(timer);
+      const failure = stats.writeFailure;
       if (failure !== null) {
-        // What the store refused stays unwritten; the reserve makes room to end the session with why it stopped.
+        // What the store refused stays unwritten; the reserve gives back the room to end the session with why.
         queue = [];
         options.reserve?.release();
       }
       try {
-        db.transaction(() => {
-          storeSessionSummary(db, sessionId, status, Date.now());
-          if (closeOptions.note) appendNote.run(closeOptions.note, closeOptions.note, sessionId);
-        })();
+        await options.write(endSession(sessionId, status, closeOptions.note ?? null));
       } catch (error) {
-        const fault = storageFaultOf(error, location);
+        const fault = options.faultOf?.(error) ?? null;
         if (!fault) throw error;
-        throw new InputError(`${fault.message}; session ${sessionId} could not be ended and will show as interrupted when the logbook is next opened with room to write`, location);
+        throw new InputError(`${fault.message}; session ${sessionId} could not be ended and will show as interrupted when the logbook is next opened with room to write`, options.location);
       } finally {
         options.reserve?.release();
       }

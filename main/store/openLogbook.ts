@@ -1,12 +1,15 @@
 /**
- * Opening a logbook by its location: a file path (the bench's SQLite logbook, the embedded default). Every command
- * and the server open their logbook here, so a new kind of store is one more branch in this file.
+ * Opening a logbook by its location: a file path (the bench's SQLite logbook, the embedded default) or a
+ * `postgres://` address (a shared logbook on PostgreSQL; see postgres/connection.ts for where the password comes
+ * from). Every command and the server open their logbook here.
  */
 import { existsSync, mkdirSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { InputError } from '../../app/errors';
 import type { Logbook } from './logbookTypes';
 import type { OpenLogbookDatabaseOptions } from './openDatabase';
+import { isPostgresLocation } from './postgres/connection';
+import { openPostgresLogbook } from './postgres/postgresLogbook';
 import { openSqliteLogbook } from './sqliteLogbook';
 
 export interface OpenLogbookOptions extends OpenLogbookDatabaseOptions {
@@ -14,12 +17,15 @@ export interface OpenLogbookOptions extends OpenLogbookDatabaseOptions {
   mustExist?: boolean;
 }
 
-/** A location as given on the command line, made absolute when it is a file path. */
+export { isPostgresLocation };
+
+/** A location as given on the command line: a file path made absolute, an address as it is. */
 export function resolveLogbookLocation(location: string): string {
-  return resolve(location);
+  return isPostgresLocation(location) ? location.trim() : resolve(location);
 }
 
 export async function openLogbook(location: string, options: OpenLogbookOptions = {}): Promise<Logbook> {
+  if (isPostgresLocation(location)) return openPostgresLogbook(location);
   if (!existsSync(location)) {
     if (options.mustExist || options.readOnly) throw new InputError('there is no logbook here (give --db the file a session was recorded to)', location);
     try {

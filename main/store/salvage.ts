@@ -11,6 +11,8 @@ import { archiveContentHash } from './canonicalJson';
 import { readArchiveSession } from './exchangeRows';
 import { openLogbook } from './openLogbook';
 import { openLogbookDatabase, type SqliteDatabase } from './openDatabase';
+import { runSync } from './sqlProgram';
+import { sqliteExecutor } from './sqliteLogbook';
 import { errorCode } from './storageFaults';
 
 export interface SalvageSession {
@@ -64,7 +66,7 @@ function sessionIds(db: SqliteDatabase): number[] {
 
 /** Reads one session whole; throws when any part of it is damaged. */
 function readWhole(db: SqliteDatabase, id: number, location: string): { session: ArchiveSession; captureData: Buffer[] } {
-  const content = readArchiveSession(db, id);
+  const content = runSync(readArchiveSession(id), sqliteExecutor(db));
   content.session.captures.forEach((info, index) => decodeCapture({ ...info, data: content.captureData[index], where: `${location}: session ${id}, capture ${index + 1}` }));
   return content;
 }

@@ -126,6 +126,24 @@ export const migrations: readonly string[] = [
   );
   CREATE INDEX part_measurements_by_session ON part_measurements (session_id);
   `,
+  // 3: a line of benches sharing one logbook. Which bench recorded a session (`bench`, carried in its archive);
+  // the content hash of a session that arrived as an archive (`content_sha256`, so a second push of it is found
+  // without reading its cycles); and, in a bench's own logbook, which finished sessions it has pushed to which
+  // shared logbook (`shared_copies`; `target` is the shared logbook's address without any password).
+  // The PostgreSQL store mirrors every migration (postgres/pgSchema.ts).
+  `
+  ALTER TABLE sessions ADD COLUMN bench TEXT;
+  ALTER TABLE sessions ADD COLUMN content_sha256 TEXT;
+  CREATE UNIQUE INDEX sessions_by_content ON sessions (content_sha256) WHERE content_sha256 IS NOT NULL;
+  CREATE TABLE shared_copies (
+    session_id INTEGER NOT NULL REFERENCES sessions(id),
+    target TEXT NOT NULL,
+    content_sha256 TEXT NOT NULL,
+    remote_session_id INTEGER NOT NULL,
+    shared_at_ms INTEGER NOT NULL,
+    PRIMARY KEY (session_id, target)
+  );
+  `,
 ];
 
 export const latestSchemaVersion = migrations.length;

@@ -4,8 +4,8 @@
  * process still exists, or, on another host (a shared logbook), when its heartbeat is recent.
  */
 import { hostname } from 'node:os';
-import type { SqliteDatabase } from './openDatabase';
 import { storeSessionSummary } from './sessionSummary';
+import { all, get, type SqlProgram } from './sqlProgram';
 
 /** A writer touches its session at least every 5 s (logbookWriter.ts); three missed beats mean it is gone. */
 const remoteHeartbeatLimitMs = 15_000;
@@ -26,22 +26,21 @@ export function writerIsAlive(writer: { host: string | null; pid: number | null;
   return writer.heartbeatAtMs !== null && nowMs - writer.heartbeatAtMs < remoteHeartbeatLimitMs;
 }
 
-export function recoverInterruptedSessions(db: SqliteDatabase, nowMs = Date.now()): number[] {
-  const open = db
-    .prepare(`SELECT id, writer_host AS host, writer_pid AS pid, heartbeat_at_ms AS heartbeatAtMs, started_at_ms AS startedAtMs FROM sessions WHERE status = 'open'`)
-    .all() as Array<{ id: number; host: string | null; pid: number | null; heartbeatAtMs: number | null; startedAtMs: number }>;
+export function* recoverInterruptedSessions(nowMs = Date.now()): SqlProgram<number[]> {
+  const open = yield* all<{ id: number; host: string | null; pid: number | null; heartbeatAtMs: number | null; startedAtMs: number }>(
+    `SELECT id, writer_host AS "host", writer_pid AS "pid", heartbeat_at_ms AS "heartbeatAtMs", started_at_ms AS "startedAtMs" FROM sessions WHERE status = 'open'`,
+  );
   const recovered: number[] = [];
   for (const session of open) {
     if (writerIsAlive(session, nowMs)) continue;
-    const last = db
-      .prepare(
-        `SELECT max(at) AS at FROM (
-           SELECT max(recorded_at_ms) AS at FROM cycles WHERE session_id = ?
-           UNION ALL SELECT max(at_ms) FROM link_events WHERE session_id = ?)`,
-      )
-      .get(session.id, session.id) as { at: number | null };
-    const endedAtMs = Math.max(session.startedAtMs, session.heartbeatAtMs ?? 0, last.at ?? 0);
-    db.transaction(() => storeSessionSummary(db, session.id, 'interrupted', endedAtMs))();
+    const last = yield* get<{ at: number | null }>(
+      `SELECT max(at) AS "at" FROM (
+         SELECT max(recorded_at_ms) AS at FROM cycles WHERE session_id = ?
+         UNION ALL SELECT max(at_ms) FROM link_events WHERE session_id = ?) AS latest`,
+      [session.id, session.id],
+    );
+    const endedAtMs = Math.max(session.startedAtMs, session.heartbeatAtMs ?? 0, last?.at ?? 0);
+    yield* storeSessionSummary(session.id, 'interrupted', endedAtMs);
     recovered.push(session.id);
   }
   return recovered;

@@ -3,9 +3,10 @@
  * when it ends (closed or interrupted) so listing a logbook of long sessions stays quick.
  * Definitions follow the analysis summary (app/bench/readings.ts): ramp peak is the median of the per-cycle peaks,
  * alpha the mean; alpha gain and offset are the least-squares line of alpha against control voltage.
+ * Query programs (sqlProgram.ts): the same SQL on SQLite and PostgreSQL.
  */
 import type { SessionFigures, SessionStatus, TransferFitRecord } from './logbookTypes';
-import type { SqliteDatabase } from './openDatabase';
+import { get, run, all, type SqlProgram } from './sqlProgram';
 
 export interface SessionTotals {
   cycles: number;
@@ -13,30 +14,30 @@ export interface SessionTotals {
   rampPeakV: number | null;
 }
 
-export function medianRampPeak(db: SqliteDatabase, sessionId: number): number | null {
-  const count = (db.prepare('SELECT count(*) AS n FROM cycles WHERE session_id = ? AND ramp_peak_v IS NOT NULL').get(sessionId) as { n: number }).n;
+export function* medianRampPeak(sessionId: number): SqlProgram<number | null> {
+  const counted = yield* get<{ n: number }>('SELECT count(*) AS "n" FROM cycles WHERE session_id = ? AND ramp_peak_v IS NOT NULL', [sessionId]);
+  const count = counted?.n ?? 0;
   if (count === 0) return null;
-  const middle = db
-    .prepare('SELECT ramp_peak_v AS v FROM cycles WHERE session_id = ? AND ramp_peak_v IS NOT NULL ORDER BY ramp_peak_v LIMIT ? OFFSET ?')
-    .all(sessionId, count % 2 === 0 ? 2 : 1, Math.floor((count - 1) / 2)) as Array<{ v: number }>;
+  const middle = yield* all<{ v: number }>(
+    'SELECT ramp_peak_v AS "v" FROM cycles WHERE session_id = ? AND ramp_peak_v IS NOT NULL ORDER BY ramp_peak_v LIMIT ? OFFSET ?',
+    [sessionId, count % 2 === 0 ? 2 : 1, Math.floor((count - 1) / 2)],
+  );
   return middle.reduce((sum, row) => sum + row.v, 0) / middle.length;
 }
 
-export function computeSessionTotals(db: SqliteDatabase, sessionId: number): SessionTotals {
-  const row = db.prepare('SELECT count(*) AS cycles, avg(alpha_deg) AS alpha FROM cycles WHERE session_id = ?').get(sessionId) as {
-    cycles: number;
-    alpha: number | null;
-  };
-  return { cycles: row.cycles, alphaDeg: row.alpha, rampPeakV: medianRampPeak(db, sessionId) };
+export function* computeSessionTotals(sessionId: number): SqlProgram<SessionTotals> {
+  const row = (yield* get<{ cycles: number; alpha: number | null }>('SELECT count(*) AS "cycles", avg(alpha_deg) AS "alpha" FROM cycles WHERE session_id = ?', [sessionId])) ?? { cycles: 0, alpha: null };
+  return { cycles: row.cycles, alphaDeg: row.alpha, rampPeakV: yield* medianRampPeak(sessionId) };
 }
 
 /** Ends a session: its status, end time and the cached totals, in one statement. */
-export function storeSessionSummary(db: SqliteDatabase, sessionId: number, status: Exclude<SessionStatus, 'open'>, endedAtMs: number): void {
-  const totals = computeSessionTotals(db, sessionId);
-  db.prepare(
+export function* storeSessionSummary(sessionId: number, status: Exclude<SessionStatus, 'open'>, endedAtMs: number): SqlProgram<void> {
+  const totals = yield* computeSessionTotals(sessionId);
+  yield* run(
     `UPDATE sessions SET status = ?, ended_at_ms = ?, cycle_count = ?, alpha_mean_deg = ?, ramp_peak_median_v = ?,
        writer_host = NULL, writer_pid = NULL WHERE id = ?`,
-  ).run(status, endedAtMs, totals.cycles, totals.alphaDeg, totals.rampPeakV, sessionId);
+    [status, endedAtMs, totals.cycles, totals.alphaDeg, totals.rampPeakV, sessionId],
+  );
 }
 
 interface LineSums {
@@ -59,47 +60,41 @@ function lineFromSums(sums: LineSums): { gain: number; offset: number } | null {
 }
 
 /** Transfer fit of a session's transfer points; falls back to its cycles' (control V, alpha) pairs when it has none. */
-export function transferFit(db: SqliteDatabase, sessionId: number): TransferFitRecord | null {
-  const fromTable = (table: 'transfer_points' | 'cycles'): TransferFitRecord | null => {
-    const where = `session_id = ? AND control_v IS NOT NULL AND alpha_deg IS NOT NULL`;
-    const sums = db
-      .prepare(
-        `SELECT count(*) AS n, sum(control_v) AS sx, sum(alpha_deg) AS sy, sum(control_v * control_v) AS sxx,
-           sum(control_v * alpha_deg) AS sxy, min(control_v) AS minX, max(control_v) AS maxX FROM ${table} WHERE ${where}`,
-      )
-      .get(sessionId) as LineSums;
-    const line = lineFromSums(sums);
-    if (!line) return null;
-    const deviation = db
-      .prepare(`SELECT max(abs(alpha_deg - (? * control_v + ?))) AS d FROM ${table} WHERE ${where}`)
-      .get(line.gain, line.offset, sessionId) as { d: number };
-    return { gainDegPerV: line.gain, offsetDeg: line.offset, maxDeviationDeg: deviation.d, controlMinV: sums.minX ?? 0, controlMaxV: sums.maxX ?? 0, points: sums.n };
-  };
-  const hasPoints = db.prepare('SELECT 1 FROM transfer_points WHERE session_id = ? LIMIT 1').get(sessionId) !== undefined;
-  return fromTable(hasPoints ? 'transfer_points' : 'cycles');
+export function* transferFit(sessionId: number): SqlProgram<TransferFitRecord | null> {
+  const hasPoints = (yield* get('SELECT 1 AS "one" FROM transfer_points WHERE session_id = ? LIMIT 1', [sessionId])) !== undefined;
+  const table = hasPoints ? 'transfer_points' : 'cycles';
+  const where = `session_id = ? AND control_v IS NOT NULL AND alpha_deg IS NOT NULL`;
+  const sums = yield* get<LineSums>(
+    `SELECT count(*) AS "n", sum(control_v) AS "sx", sum(alpha_deg) AS "sy", sum(control_v * control_v) AS "sxx",
+       sum(control_v * alpha_deg) AS "sxy", min(control_v) AS "minX", max(control_v) AS "maxX" FROM ${table} WHERE ${where}`,
+    [sessionId],
+  );
+  const line = sums ? lineFromSums(sums) : null;
+  if (!sums || !line) return null;
+  const deviation = yield* get<{ d: number }>(`SELECT max(abs(alpha_deg - (? * control_v + ?))) AS "d" FROM ${table} WHERE ${where}`, [line.gain, line.offset, sessionId]);
+  return { gainDegPerV: line.gain, offsetDeg: line.offset, maxDeviationDeg: deviation?.d ?? 0, controlMinV: sums.minX ?? 0, controlMaxV: sums.maxX ?? 0, points: sums.n };
 }
 
-export function sessionFigures(db: SqliteDatabase, sessionId: number): SessionFigures | null {
-  const session = db.prepare('SELECT started_at_ms AS startedAtMs FROM sessions WHERE id = ?').get(sessionId) as { startedAtMs: number } | undefined;
+export function* sessionFigures(sessionId: number): SqlProgram<SessionFigures | null> {
+  const session = yield* get<{ startedAtMs: number }>('SELECT started_at_ms AS "startedAtMs" FROM sessions WHERE id = ?', [sessionId]);
   if (!session) return null;
-  const row = db
-    .prepare(
-      `SELECT count(*) AS cycles, avg(slope_v_per_ms) AS slope, avg(alpha_deg) AS alpha, count(alpha_deg) AS alphaCount,
-         sum(alpha_deg * alpha_deg) AS alphaSquares FROM cycles WHERE session_id = ?`,
-    )
-    .get(sessionId) as { cycles: number; slope: number | null; alpha: number | null; alphaCount: number; alphaSquares: number | null };
+  const row = (yield* get<{ cycles: number; slope: number | null; alpha: number | null; alphaCount: number; alphaSquares: number | null }>(
+    `SELECT count(*) AS "cycles", avg(slope_v_per_ms) AS "slope", avg(alpha_deg) AS "alpha", count(alpha_deg) AS "alphaCount",
+       sum(alpha_deg * alpha_deg) AS "alphaSquares" FROM cycles WHERE session_id = ?`,
+    [sessionId],
+  )) as { cycles: number; slope: number | null; alpha: number | null; alphaCount: number; alphaSquares: number | null };
   // Sample standard deviation (n - 1), from the sums.
   let alphaStdDeg: number | null = null;
   if (row.alpha !== null && row.alphaSquares !== null && row.alphaCount > 1) {
     const variance = (row.alphaSquares - row.alphaCount * row.alpha * row.alpha) / (row.alphaCount - 1);
     alphaStdDeg = Math.sqrt(Math.max(0, variance));
   }
-  const fit = transferFit(db, sessionId);
+  const fit = yield* transferFit(sessionId);
   return {
     sessionId,
     startedAt: new Date(session.startedAtMs).toISOString(),
     cycles: row.cycles,
-    rampPeakV: medianRampPeak(db, sessionId),
+    rampPeakV: yield* medianRampPeak(sessionId),
     slopeVPerMs: row.slope,
     alphaDeg: row.alpha,
     alphaStdDeg,

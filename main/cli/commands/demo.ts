@@ -4,7 +4,8 @@
  * sweep, limits, sign-off) through the bench API, faster than real time, into a logbook in the user's data folder.
  */
 import { homedir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
+import { logbookDisplayLocation, resolveLogbookLocation } from '../../store/index';
 import type { Command } from 'commander';
 import type { StepReport, Verdict } from '../../../app/contract';
 import { faultDescriptions, type FaultName } from '../../../app/sim';
@@ -67,10 +68,10 @@ export function registerDemoCommand(program: Command): void {
   program
     .command('demo')
     .description('Commission a unit on the virtual board from start to sign-off and log it (no hardware needed)')
-    .option('--db <file>', 'logbook file (default: logbook.sqlite in your data folder)')
+    .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address (default: logbook.sqlite in your data folder)')
     .option('--json', 'print the result as JSON')
     .action(async (options: DemoOptions) => {
-      const logbookPath = resolve(options.db ?? defaultLogbookPath());
+      const logbookPath = resolveLogbookLocation(options.db ?? defaultLogbookPath());
       const startedMs = Date.now();
       const context = await openBenchContext({ logbookPath, virtualPaced: false });
       let report: DemoReport;
@@ -86,7 +87,7 @@ export function registerDemoCommand(program: Command): void {
         process.stdout.write(
           jsonOutput(
             {
-              logbook: logbookPath,
+              logbook: logbookDisplayLocation(logbookPath),
               session: report.session,
               design: report.designName,
               faults: report.faults,
@@ -101,6 +102,6 @@ export function registerDemoCommand(program: Command): void {
         );
         return;
       }
-      process.stdout.write(`${[...safetyNoteLines, '', ...demoSummaryLines(report, logbookPath, elapsedS)].join('\n')}\n`);
+      process.stdout.write(`${[...safetyNoteLines, '', ...demoSummaryLines(report, logbookDisplayLocation(logbookPath), elapsedS)].join('\n')}\n`);
     });
 }

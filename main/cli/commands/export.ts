@@ -23,7 +23,7 @@ export function registerExportCommand(program: Command): void {
   program
     .command('export')
     .description('Export a session: a portable archive (default), captures as CSV or COMTRADE, transfer points or readings as CSV')
-    .option('--db <file>', 'logbook file')
+    .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address')
     .option('--session <id>', 'session number (rampwright log lists them)')
     .option('--out <file>', 'file to write')
     .option('--format <kind>', `what to write: ${exportKinds.join(', ')}`, 'archive')

@@ -13,7 +13,7 @@ export function registerImportCommand(program: Command): void {
     .command('import')
     .description('Import a session archive (from rampwright export) into a logbook; importing it again changes nothing')
     .argument('<archive>', 'archive file')
-    .option('--db <file>', 'logbook file (created when missing)')
+    .option('--db <file|address>', 'logbook file (created when missing), or a shared logbook\'s postgres:// address')
     .option('--signed-by <fingerprint>', 'import only an archive signed by this bench key (the fingerprint the exporting bench printed)')
     .action(async (archivePath: string, options: { db?: string; signedBy?: string }) => {
       if (!options.db) throw new InputError('give the logbook with --db <file>', '--db');

@@ -12,6 +12,7 @@ import { registerReportCommand } from './report';
 import { registerExportCommand } from './export';
 import { registerImportCommand } from './import';
 import { registerSalvageCommand } from './salvage';
+import { registerPushCommand } from './push';
 
 export function registerCommands(program: Command): void {
   void program;
@@ -27,4 +28,5 @@ export function registerCommands(program: Command): void {
   registerExportCommand(program);
   registerImportCommand(program);
   registerSalvageCommand(program);
+  registerPushCommand(program);
 }

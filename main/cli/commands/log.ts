@@ -1,10 +1,14 @@
 /**
- * `rampwright log [--db <file>] [--unit <serial>] [--json]`: the sessions in a logbook, oldest first. Opening the
- * logbook marks sessions whose recorder is gone as interrupted. Without --db, the logbook in the user's data folder.
+ * `rampwright log [--db <file|address>] [--unit <serial>] [--json]`: the sessions in a logbook, oldest first, with
+ * the bench that recorded each one (a shared logbook holds several benches' sessions) and, in a bench's own logbook
+ * that pushes to a shared one, which sessions are shared. Times are stored in UTC and shown in local time with the
+ * offset; --json gives them in UTC (ISO 8601). The logbook is opened read-only (a read-only file or a full disk can
+ * be listed); a session whose recorder is gone shows as interrupted. Without --db, the logbook in the user's data folder.
  */
 import type { Command } from 'commander';
 import { homedir } from 'node:os';
 import { join } from 'node:path';
+import { localTimeText } from '../../../app/record/localTime';
 import { defaultLogbookFileName, userDataFolder } from '../../session/dataFolder';
 import type { SessionRow } from '../../store/logbookTypes';
 import { openLogbook } from '../../store/openLogbook';
@@ -35,17 +39,23 @@ export async function listLogbook(path: string, filter: { unit?: string; design?
 }
 
 const number = (value: number | null, digits: number): string => (value === null ? '-' : value.toFixed(digits));
-const shortTime = (iso: string | null): string => (iso === null ? '-' : iso.replace('T', ' ').replace(/\.\d+Z$/, 'Z'));
 
-export function formatLogbookTable(sessions: SessionRow[]): string {
+/** Whether a session went to the shared logbook: its push time, "not yet" when finished but unshared. */
+const sharedText = (row: SessionRow, timeZone?: string): string => (row.sharedAt !== null ? localTimeText(row.sharedAt, timeZone) : row.status === 'open' ? '-' : 'not yet');
+
+export function formatLogbookTable(sessions: SessionRow[], options: { timeZone?: string } = {}): string {
   if (sessions.length === 0) return 'No sessions.\n';
-  const header = ['session', 'unit', 'status', 'started (UTC)', 'ended (UTC)', 'cycles', 'alpha deg', 'ramp peak V', 'link errors', 'link silent s'];
+  const { timeZone } = options;
+  // The shared column only in a bench's logbook that has pushed (a shared logbook's own rows are never "shared").
+  const pushes = sessions.some((row) => row.sharedAt !== null);
+  const header = ['session', 'unit', 'bench', 'status', 'started', 'ended', ...(pushes ? ['shared'] : []), 'cycles', 'alpha deg', 'ramp peak V', 'link errors', 'link silent s'];
   const rows = sessions.map((row) => [
-    String(row.id), row.unit, row.status, shortTime(row.startedAt), shortTime(row.endedAt), String(row.cycles), number(row.alphaDeg, 1), number(row.rampPeakV, 3), String(row.linkErrors),
-    row.linkSilentS > 0 ? row.linkSilentS.toFixed(1) : '-',
+    String(row.id), row.unit, row.bench ?? '-', row.status, localTimeText(row.startedAt, timeZone), localTimeText(row.endedAt, timeZone), ...(pushes ? [sharedText(row, timeZone)] : []),
+    String(row.cycles), number(row.alphaDeg, 1), number(row.rampPeakV, 3), String(row.linkErrors), row.linkSilentS > 0 ? row.linkSilentS.toFixed(1) : '-',
   ]);
+  const firstNumber = header.indexOf('cycles');
   const widths = header.map((title, column) => Math.max(title.length, ...rows.map((row) => row[column].length)));
-  const line = (cells: string[]): string => cells.map((cell, column) => (column >= 5 ? cell.padStart(widths[column]) : cell.padEnd(widths[column]))).join('  ').trimEnd();
+  const line = (cells: string[]): string => cells.map((cell, column) => (column >= firstNumber ? cell.padStart(widths[column]) : cell.padEnd(widths[column]))).join('  ').trimEnd();
   return `${[line(header), ...rows.map(line)].join('\n')}\n`;
 }
 
@@ -53,7 +63,7 @@ export function registerLogCommand(program: Command): void {
   program
     .command('log')
     .description('List the sessions in a logbook')
-    .option('--db <file>', 'logbook file (default: the logbook in your data folder)')
+    .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address (default: the logbook in your data folder)')
     .option('--unit <serial>', 'only this unit')
     .option('--design <name>', 'only sessions of this board design')
     .option('--from <date>', 'only sessions started on or after this date (ISO 8601)')

@@ -14,7 +14,9 @@ import { loadBoardDesign } from '../../board/loadBoardDesign';
 import { openLoggerLink } from '../../serial/loggerLink';
 import { createLinkAccount } from '../../session/linkAccount';
 import type { LogbookWriter, SessionRow } from '../../store/logbookTypes';
-import { openLogbook } from '../../store/openLogbook';
+import { pushSessions } from '../../share/pushSessions';
+import { isPostgresLocation, logbookDisplayLocation, openLogbook } from '../../store/index';
+import { pushReportLines } from './push';
 
 export interface RecordOptions {
   port: string;
@@ -23,6 +25,8 @@ export interface RecordOptions {
   designPath: string;
   seconds?: number;
   operator?: string;
+  /** The bench's name on the session (default: RAMPWRIGHT_BENCH or the host name). */
+  bench?: string;
   /** Stops the recording (Ctrl-C). */
   signal?: AbortSignal;
   onProgress?: (progress: RecordProgress) => void;
@@ -62,7 +66,7 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
   try {
     const link = await openLoggerLink({ path: options.port, reopen: true });
     try {
-      writer = await logbook.startSession({ unitSerial: options.unit, design, operator: options.operator ?? 'record' });
+      writer = await logbook.startSession({ unitSerial: options.unit, design, operator: options.operator ?? 'record', bench: options.bench });
     } catch (error) {
       await link.close();
       throw error;
@@ -204,12 +208,17 @@ export function registerRecordCommand(program: Command): void {
     .command('record')
     .description('Record a session from the data logger into a logbook (Ctrl-C ends it cleanly)')
     .requiredOption('--port <path>', 'serial device of the logger, e.g. /dev/ttyACM0 or COM3')
-    .requiredOption('--db <file>', 'logbook file (created if missing)')
+    .requiredOption('--db <file|address>', 'logbook file (created if missing), or a shared logbook\'s postgres:// address')
     .requiredOption('--unit <serial>', 'serial number of the unit on the bench')
     .requiredOption('--design <file>', 'board design file (*.board.json)')
     .option('--seconds <n>', 'stop after this many seconds')
     .option('--operator <name>', 'who is at the bench', 'record')
-    .action(async (options: { port: string; db: string; unit: string; design: string; seconds?: string; operator: string }) => {
+    .option('--bench <name>', 'this bench\'s name on the session (default: RAMPWRIGHT_BENCH or the computer\'s name)')
+    .option('--push-to <address>', 'after the session, push this bench\'s finished sessions to a shared logbook (postgres://...)')
+    .action(async (options: { port: string; db: string; unit: string; design: string; seconds?: string; operator: string; bench?: string; pushTo?: string }) => {
+      if (options.pushTo !== undefined && (isPostgresLocation(options.db) || !isPostgresLocation(options.pushTo))) {
+        throw new InputError('record into this bench\'s own logbook file (--db) and push to a shared logbook\'s postgres:// address (--push-to)', '--push-to');
+      }
       const controller = new AbortController();
       const onInterrupt = (): void => controller.abort();
       process.once('SIGINT', onInterrupt);
@@ -217,7 +226,7 @@ export function registerRecordCommand(program: Command): void {
       let lastPrintMs = 0;
       try {
         const result = await recordSession({
-          port: options.port, db: options.db, unit: options.unit, designPath: options.design, seconds: secondsOption(options.seconds), operator: options.operator,
+          port: options.port, db: options.db, unit: options.unit, designPath: options.design, seconds: secondsOption(options.seconds), operator: options.operator, bench: options.bench,
           signal: controller.signal,
           onStorageFault: (message) => process.stderr.write(`${interactive ? '\n' : ''}rampwright: ${message}: recording stops now; what is stored is kept\n`),
           onProgress: (progress) => {
@@ -232,9 +241,20 @@ export function registerRecordCommand(program: Command): void {
         const row = result.session;
         const silence = linkSilenceText(row.linkSilentS, result.silentStretches);
         process.stdout.write(
-          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, alpha ${fixed(row.alphaDeg, 1)} deg, ramp peak ${fixed(row.rampPeakV, 3)} V, ${linkErrorsText(row.linkErrors)}${silence ? `, ${silence}` : ''}. Logbook: ${options.db}\n`,
+          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, alpha ${fixed(row.alphaDeg, 1)} deg, ramp peak ${fixed(row.rampPeakV, 3)} V, ${linkErrorsText(row.linkErrors)}${silence ? `, ${silence}` : ''}. Logbook: ${logbookDisplayLocation(options.db)}\n`,
         );
         if (silence) process.stdout.write(`Note: the logger sent nothing for ${row.linkSilentS.toFixed(1)} s of the session; readings cover only the time it was heard (see rampwright report).\n`);
+        if (options.pushTo !== undefined) {
+          // The session is safe in this bench's logbook already: a shared logbook out of reach only delays sharing.
+          const to = options.pushTo;
+          const local = await openLogbook(options.db);
+          try {
+            const report = await pushSessions(local, to, () => openLogbook(to), { retryForMs: 10_000 });
+            process.stdout.write(`${pushReportLines(report).join('\n')}\n`);
+          } finally {
+            await local.close();
+          }
+        }
       } finally {
         process.removeListener('SIGINT', onInterrupt);
       }

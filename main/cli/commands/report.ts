@@ -56,7 +56,7 @@ export function registerReportCommand(program: Command): void {
   program
     .command('report')
     .description('Write the commissioning record of a session (PDF or HTML), or check a record against the logbook')
-    .option('--db <file>', 'logbook file')
+    .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address')
     .option('--session <id>', 'session number (rampwright log lists them)')
     .option('--out <file>', 'record to write: .pdf or .html')
     .option('--verify <record>', 'a record file to check against the logbook\'s captures')

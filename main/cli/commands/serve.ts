@@ -1,14 +1,16 @@
 /**
- * `rampwright serve [--port N] [--host ADDR] [--demo] [--db file]`: the screens in a browser. Binds 127.0.0.1
- * unless told otherwise; every run has its own access token, carried by the address it prints.
+ * `rampwright serve [--port N] [--host ADDR] [--demo] [--db file|address] [--bench name] [--push-to address]`: the
+ * screens in a browser. With --push-to the bench records into its own logbook file and pushes finished sessions to
+ * the shared logbook as it goes (main/share/sharePusher.ts). Binds 127.0.0.1 unless told otherwise; every run has
+ * its own access token, carried by the address it prints.
  * Runs until Ctrl-C; an open session is then marked interrupted (nothing recorded is lost).
  */
-import { resolve } from 'node:path';
 import { Option, type Command } from 'commander';
 import { InputError } from '../../../app/errors';
 import { startBenchServe } from '../../session/benchServe';
 import { defaultLogbookPath } from './demo';
 import { serialAccess } from '../../session/serialAccess';
+import { resolveLogbookLocation } from '../../store/index';
 
 interface ServeOptions {
   port: string;
@@ -16,6 +18,8 @@ interface ServeOptions {
   demo?: boolean;
   speed: string;
   db?: string;
+  bench?: string;
+  pushTo?: string;
 }
 
 export function parsePort(text: string): number {
@@ -34,12 +38,16 @@ export function registerServeCommand(program: Command): void {
     .addOption(new Option('--token-required', 'the access token is always required').hideHelp())
     .option('--demo', 'connect the virtual board with the demo design')
     .option('--speed <factor>', 'how much faster than real time the demo board runs', '1')
-    .option('--db <file>', 'logbook file (default: logbook.sqlite in your data folder)')
+    .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address (default: logbook.sqlite in your data folder)')
+    .option('--bench <name>', 'this bench\'s name on its sessions (default: RAMPWRIGHT_BENCH or the computer\'s name)')
+    .option('--push-to <address>', 'push finished sessions to this shared logbook (postgres://...) as the bench goes')
     .action(async (options: ServeOptions) => {
       const speed = Number(options.speed);
       if (!Number.isFinite(speed) || speed <= 0 || speed > 1000) throw new InputError(`"${options.speed}" is not a speed factor between 0 and 1000`, '--speed');
       const running = await startBenchServe({
-        logbookPath: resolve(options.db ?? defaultLogbookPath()),
+        logbookPath: resolveLogbookLocation(options.db ?? defaultLogbookPath()),
+        bench: options.bench,
+        pushTo: options.pushTo,
         host: options.host,
         port: parsePort(options.port),
         demo: options.demo ?? false,

@@ -2,6 +2,8 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
 import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
+import { formatLogbookTable } from '../../../main/cli/commands/log';
+import type { SessionRow } from '../../../main/store/logbookTypes';
 import { runCli as run } from './cliRun';
 
 let folder: TempFolder;
@@ -12,13 +14,13 @@ beforeAll(async () => {
   dbPath = folder.file('logbook.sqlite');
   const logbook = await openSqliteLogbook(dbPath);
   // Unit RW-0142: alpha 89, 91 (mean 90); peaks 7.28, 7.32, 7.36 (median 7.32); one CRC burst of 4.
-  const first = await logbook.startSession({ unitSerial: 'RW-0142', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-01T09:00:00Z') });
+  const first = await logbook.startSession({ unitSerial: 'RW-0142', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-01T09:00:00Z'), bench: 'bench A' });
   first.addCycle(cycleReading(0, { alphaDeg: 89, rampPeakV: 7.28 }));
   first.addCycle(cycleReading(0.02, { alphaDeg: 91, rampPeakV: 7.36 }));
   first.addCycle(cycleReading(0.04, { alphaDeg: null, rampPeakV: 7.32 }));
   first.addLinkEvent('crc-failures', '4 lines failed their CRC', 4);
   await first.close();
-  const second = await logbook.startSession({ unitSerial: 'RW-0207', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-02T09:00:00Z') });
+  const second = await logbook.startSession({ unitSerial: 'RW-0207', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-02T09:00:00Z'), bench: 'bench A' });
   await second.close('interrupted');
   await logbook.close();
 });
@@ -47,9 +49,18 @@ describe('rampwright log', () => {
     const { code, stdout } = await run(['log', '--db', dbPath]);
     expect(code).toBe(0);
     const lines = stdout.trimEnd().split('\n');
-    expect(lines[0]).toMatch(/^session\s+unit\s+status/);
-    expect(lines[1]).toMatch(/RW-0142\s+closed\s+2026-03-01 09:00:00Z .*\s3\s+90\.0\s+7\.320\s+4\s+-$/);
-    expect(lines[2]).toMatch(/RW-0207\s+interrupted/);
+    expect(lines[0]).toMatch(/^session\s+unit\s+bench\s+status\s+started\s+ended\s+cycles/);
+    // In the machine's local time with its offset (stored in UTC).
+    expect(lines[1]).toMatch(/RW-0142\s+bench A\s+closed\s+2026-03-0[12] \d\d:\d\d:00 [+-]\d\d:\d\d .*\s3\s+90\.0\s+7\.320\s+4\s+-$/);
+    expect(lines[2]).toMatch(/RW-0207\s+bench A\s+interrupted/);
+  });
+
+  it('shows times stored in UTC in the reader\'s local time, offset written out', async () => {
+    const { stdout } = await run(['log', '--db', dbPath, '--json']);
+    const { sessions } = JSON.parse(stdout) as { sessions: SessionRow[] };
+    // 09:00 UTC on 1 March: 10:00 in Berlin (CET, UTC+1), 04:00 in New York (EST, UTC-5); IANA zone rules, from memory.
+    expect(formatLogbookTable(sessions, { timeZone: 'Europe/Berlin' })).toContain('2026-03-01 10:00:00 +01:00');
+    expect(formatLogbookTable(sessions, { timeZone: 'America/New_York' })).toContain('2026-03-01 04:00:00 -05:00');
   });
 
   it('exits 2 naming the file when there is no logbook or it is not one, and leaves the file alone', async () => {

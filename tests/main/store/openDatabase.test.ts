@@ -32,7 +32,7 @@ describe('openLogbookDatabase', () => {
   it('creates every table of the schema, marks the file as ours and sets WAL with synchronous NORMAL', () => {
     const db = openLogbookDatabase(folder.file('new.sqlite'));
     const tables = (db.prepare("SELECT name FROM sqlite_master WHERE type = 'table' ORDER BY name").all() as Array<{ name: string }>).map((row) => row.name);
-    expect(tables).toEqual(['board_designs', 'captures', 'cycles', 'link_events', 'part_measurements', 'sessions', 'transfer_points', 'trims', 'units']);
+    expect(tables).toEqual(['board_designs', 'captures', 'cycles', 'link_events', 'part_measurements', 'sessions', 'shared_copies', 'transfer_points', 'trims', 'units']);
     expect(db.pragma('user_version', { simple: true })).toBe(latestSchemaVersion);
     expect(db.pragma('application_id', { simple: true })).toBe(logbookApplicationId);
     expect(db.pragma('journal_mode', { simple: true })).toBe('wal');
@@ -78,6 +78,41 @@ describe('openLogbookDatabase', () => {
     const db = new Database(path);
     expect(db.pragma('user_version', { simple: true })).toBe(latestSchemaVersion);
     db.close();
+  });
+
+  it('brings a logbook of schema 2 up to date, and a new session names its bench, in the logbook and in its archive', async () => {
+    const path = folder.file('second.sqlite');
+    const old = new Database(path);
+    old.pragma(`application_id = ${logbookApplicationId}`);
+    old.exec(migrations[0]);
+    old.exec(migrations[1]);
+    old.pragma('user_version = 2');
+    old.close();
+    const logbook = await openSqliteLogbook(path);
+    const writer = await logbook.startSession({ unitSerial: 'RW-0144', design: chargerDesign(), operator: 'bench 3', bench: 'bench 3 at the window' });
+    const row = await writer.close();
+    expect(row.bench).toBe('bench 3 at the window');
+    expect(row.sharedAt).toBeNull();
+    expect((await logbook.archiveSession(row.id)).session.record.bench).toBe('bench 3 at the window');
+    await logbook.close();
+  });
+
+  it('leaves the bench out of the archive of a session recorded before benches were named (its hash stays)', async () => {
+    const path = folder.file('unnamed.sqlite');
+    const logbook = await openSqliteLogbook(path);
+    const writer = await logbook.startSession({ unitSerial: 'RW-0145', design: chargerDesign(), operator: 'bench 3' });
+    const row = await writer.close();
+    const before = await logbook.sessionContentHash(row.id);
+    await logbook.close();
+    const db = openLogbookDatabase(path);
+    db.prepare('UPDATE sessions SET bench = NULL WHERE id = ?').run(row.id);
+    db.close();
+    const again = await openSqliteLogbook(path);
+    const archived = await again.archiveSession(row.id);
+    expect(Object.keys(archived.session.record)).not.toContain('bench');
+    expect(await again.sessionContentHash(row.id)).not.toBe(before);
+    expect((await again.listSessions())[0].bench).toBeNull();
+    await again.close();
   });
 
   it('accepts an empty file as a new logbook', () => {

@@ -16,7 +16,7 @@ import { closeSync, openSync, readFileSync, readSync, statSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { InputError } from '../../app/errors';
 import { latestSchemaVersion, logbookApplicationId, migrations } from './schema';
-import { errorCode, ownerWords, storageFaultOf, writeAccessProblem } from './storageFaults';
+import { errorCode, ownerWords, storageFaultOf, storageInputError, writeAccessProblem } from './storageFaults';
 
 export type SqliteDatabase = Database.Database;
 
@@ -145,10 +145,7 @@ function openReadOnly(path: string, header: string | null): SqliteDatabase {
     return db;
   } catch (error) {
     db.close();
-    if (error instanceof InputError) throw error;
-    const fault = storageFaultOf(error, path);
-    if (fault) throw new InputError(fault.message, path);
-    throw error;
+    throw storageInputError(error, path);
   }
 }
 
@@ -203,9 +200,6 @@ export function openLogbookDatabase(path: string, options: OpenLogbookDatabaseOp
     return db;
   } catch (error) {
     db.close();
-    if (error instanceof InputError) throw error;
-    const fault = storageFaultOf(error, path);
-    if (fault) throw new InputError(fault.message, path);
-    throw error;
+    throw storageInputError(error, path);
   }
 }

@@ -8,6 +8,7 @@
 import { readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { InputError } from '../../app/errors';
+import { processExists } from './sessionRecovery';
 import { storageFaultOf } from './storageFaults';
 
 /**
@@ -45,15 +46,6 @@ export function takeSpaceReserve(logbookPath: string): SpaceReserve {
       rmSync(path, { force: true });
     },
   };
-}
-
-function processExists(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch (error) {
-    return (error as NodeJS.ErrnoException).code === 'EPERM';
-  }
 }
 
 /** Removes reserves left beside the logbook by processes of this computer that are gone. */

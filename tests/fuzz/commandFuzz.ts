@@ -40,6 +40,17 @@ export function fuzzSeed(): number {
 /** Bytes that matter to our formats, turning up more often than at random. */
 const telling = ['\n', '\r\n', ',', ';', '-', '.', '9e999', 'NaN', '1e-300', '99999', '"', '\u001a', '\u0000', 'Infinity', '{', '}', '[', ']', ':'].map((text) => new TextEncoder().encode(text));
 
+/** The parts one after the other in one array. */
+export function joinBytes(...parts: Uint8Array[]): Uint8Array {
+  const joined = new Uint8Array(parts.reduce((sum, part) => sum + part.length, 0));
+  let offset = 0;
+  for (const part of parts) {
+    joined.set(part, offset);
+    offset += part.length;
+  }
+  return joined;
+}
+
 /** One to four byte-level changes: flip, insert, delete, duplicate, truncate. */
 export function mutateBytes(original: Uint8Array, random: Random): Uint8Array {
   let bytes = original;
@@ -48,23 +59,14 @@ export function mutateBytes(original: Uint8Array, random: Random): Uint8Array {
     const at = bytes.length === 0 ? 0 : random.below(bytes.length);
     const piece = random.chance(0.5) ? random.pick(telling) : Uint8Array.from({ length: 1 + random.below(8) }, () => random.below(256));
     const kind = random.below(5);
-    const join = (...parts: Uint8Array[]): Uint8Array => {
-      const joined = new Uint8Array(parts.reduce((sum, part) => sum + part.length, 0));
-      let offset = 0;
-      for (const part of parts) {
-        joined.set(part, offset);
-        offset += part.length;
-      }
-      return joined;
-    };
     if (kind === 0) {
       bytes = Uint8Array.from(bytes);
       piece.forEach((value, index) => {
         if (at + index < bytes.length) bytes[at + index] ^= value;
       });
-    } else if (kind === 1) bytes = join(bytes.subarray(0, at), piece, bytes.subarray(at));
-    else if (kind === 2) bytes = join(bytes.subarray(0, at), bytes.subarray(at + 1 + random.below(16)));
-    else if (kind === 3) bytes = join(bytes.subarray(0, at), bytes.subarray(at, at + 1 + random.below(32)), bytes.subarray(at));
+    } else if (kind === 1) bytes = joinBytes(bytes.subarray(0, at), piece, bytes.subarray(at));
+    else if (kind === 2) bytes = joinBytes(bytes.subarray(0, at), bytes.subarray(at + 1 + random.below(16)));
+    else if (kind === 3) bytes = joinBytes(bytes.subarray(0, at), bytes.subarray(at, at + 1 + random.below(32)), bytes.subarray(at));
     else bytes = bytes.subarray(0, at);
   }
   return bytes;

@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import { foldCycleSchema, linkHealthSchema, stepReportSchema, transferPointSchema } from './readings';
 import { benchStateSchema } from './records';
+import { captureProgressSchema } from './captureImport';
 import { benchEventNames, isBenchEventName, type BenchEventName, type SameNames } from './names';
 
 export const liveFrameSchema = z.object({
@@ -46,6 +47,8 @@ export const benchEvents = {
   notice: noticeSchema,
   /** The desktop menu asked the screens to do something. */
   menuCommand: menuCommandSchema,
+  /** How far a capture file opened on the screens has been read (a few times a second, and at its end). */
+  captureProgress: captureProgressSchema,
 } as const;
 
 export type BenchEvents = typeof benchEvents;

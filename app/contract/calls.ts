@@ -6,6 +6,7 @@
 import { z } from 'zod';
 import { boardDesignSchema } from '../board/design';
 import { benchCallNames, isBenchCallName, type BenchCallName, type SameNames } from './names';
+import { captureReadFieldsSchema, capturePreviewSchema, captureUploadChunkSchema, captureUploadStartSchema, inspectCaptureSchema } from './captureImport';
 import { commissioningStepSchema, linkHealthSchema, stepReportSchema, transferFitSchema, transferPointSchema } from './readings';
 import {
   appliedTrimSchema,
@@ -50,6 +51,16 @@ export const connectPayloadSchema = z.discriminatedUnion('kind', [
     speed: z.number().positive().max(1000).default(1),
     seed: z.number().int().optional(),
   }).refine((value) => value.designName !== undefined || value.design !== undefined, { message: 'the virtual board needs a designName or a design' }),
+  z.object({
+    kind: z.literal('capture'),
+    /** A capture sent with captureUploadStart / captureUploadChunk. */
+    uploadId: z.string().min(1).max(64),
+    /** The design it is measured against when no session is open yet. */
+    designName: z.string().min(1).optional(),
+    fields: captureReadFieldsSchema.default({}),
+    /** Times real time the capture is played at (1: as recorded); 0 reads it as fast as the analysis goes. */
+    speed: z.number().min(0).max(1000).default(1),
+  }),
 ]);
 export type ConnectPayload = z.input<typeof connectPayloadSchema>;
 
@@ -72,6 +83,16 @@ export const benchCalls = {
   connect: call(connectPayloadSchema, linkHealthSchema, 'Open the logger link on a serial port, or start the virtual board.'),
   disconnect: call(empty, linkHealthSchema, 'Close the link (the open session stays open).'),
   setVirtualControl: call(virtualControlSchema, z.object({ control: virtualControlSchema }), 'Set or sweep the virtual board\'s control voltage.'),
+
+  // Capture files opened on the screens
+  captureUploadStart: call(captureUploadStartSchema, z.object({ uploadId: z.string(), pieceBytes: z.number().int().positive() }), 'Announce a capture file (or a COMTRADE pair) about to be sent in pieces.'),
+  captureUploadChunk: call(captureUploadChunkSchema, z.object({ receivedBytes: z.number().int().nonnegative() }), 'One piece of an announced capture file, in order.'),
+  inspectCapture: call(inspectCaptureSchema, capturePreviewSchema, 'The channels of a sent capture with a first look at each, and how it would be read with the roles given (or the design\'s).'),
+  saveCaptureMap: call(
+    z.object({ designName: nonEmpty('the design name'), channelMap: z.string().trim().min(1).max(2000) }).strict(),
+    storedDesignSchema,
+    'Remember a capture\'s roles for a design (saved as the design\'s channel map, a new version).',
+  ),
 
   // Designs
   listDesigns: call(empty, z.object({ designs: z.array(designSummarySchema) }), 'Stored board designs, latest version of each.'),

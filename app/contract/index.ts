@@ -12,3 +12,4 @@ export * from './client';
 export * from './http-transport';
 export * from './validate';
 export * from './names';
+export * from './captureImport';

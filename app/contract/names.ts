@@ -7,6 +7,10 @@ export const benchCallNames = [
   'connect',
   'disconnect',
   'setVirtualControl',
+  'captureUploadStart',
+  'captureUploadChunk',
+  'inspectCapture',
+  'saveCaptureMap',
   'listDesigns',
   'getDesign',
   'saveDesign',
@@ -33,7 +37,7 @@ export const benchCallNames = [
   'exportSession',
 ] as const;
 
-export const benchEventNames = ['live', 'health', 'state', 'transfer', 'notice', 'menuCommand'] as const;
+export const benchEventNames = ['live', 'health', 'state', 'transfer', 'notice', 'menuCommand', 'captureProgress'] as const;
 
 export type BenchCallName = (typeof benchCallNames)[number];
 export type BenchEventName = (typeof benchEventNames)[number];

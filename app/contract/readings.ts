@@ -86,18 +86,21 @@ export const foldCycleSchema = z.object({
 });
 export type FoldCycle = z.infer<typeof foldCycleSchema>;
 
-export const linkStateSchema = z.enum(['disconnected', 'connecting', 'streaming', 'stalled', 'lost']);
+/** `ended`: a capture file read to its end (a file has an end; a logger link does not). */
+export const linkStateSchema = z.enum(['disconnected', 'connecting', 'streaming', 'stalled', 'lost', 'ended']);
 export type LinkState = z.infer<typeof linkStateSchema>;
 
 export const linkSourceSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('serial'), path: z.string() }),
   z.object({ kind: z.literal('virtual'), designName: z.string(), faults: z.array(z.string()) }),
+  z.object({ kind: z.literal('capture'), fileName: z.string() }),
 ]);
 export type LinkSource = z.infer<typeof linkSourceSchema>;
 
 /** A link source in a technician's words, for the link panel and the logbook's link events. */
 export function describeLinkSource(source: LinkSource): string {
   if (source.kind === 'serial') return `logger on ${source.path}`;
+  if (source.kind === 'capture') return `capture file ${source.fileName}`;
   return `virtual board (${source.designName}${source.faults.length ? `, fault: ${source.faults.join(', ')}` : ''})`;
 }
 

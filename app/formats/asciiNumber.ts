@@ -74,6 +74,32 @@ export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number, d
     }
     while (code >= zero && code <= nine) {
       sawDigit = true;
+      if (significantDigits < 12 && index + 3 < end) {
+        // Four digits a step where all fit in the first 15: a quarter of the multiply-adds in the longest loop.
+        const second = bytes[index + 1] - zero;
+        const third = bytes[index + 2] - zero;
+        const fourth = bytes[index + 3] - zero;
+        if (second >= 0 && second <= 9 && third >= 0 && third <= 9 && fourth >= 0 && fourth <= 9) {
+          mantissa = mantissa * 10000 + ((code - zero) * 1000 + second * 100 + third * 10 + fourth);
+          decimalExponent -= 4;
+          significantDigits += 4;
+          index += 4;
+          code = index < end ? bytes[index] : -1;
+          continue;
+        }
+      }
+      if (significantDigits < 14) {
+        // Two digits a step where both fit in the first 15: half the multiply-adds in the longest loop.
+        const next = index + 1 < end ? bytes[index + 1] - zero : -1;
+        if (next >= 0 && next <= 9) {
+          mantissa = mantissa * 100 + ((code - zero) * 10 + next);
+          decimalExponent -= 2;
+          significantDigits += 2;
+          index += 2;
+          code = index < end ? bytes[index] : -1;
+          continue;
+        }
+      }
       if (significantDigits < 15) {
         mantissa = mantissa * 10 + (code - zero);
         decimalExponent--;

@@ -13,6 +13,31 @@ import { decodeUtf8, encodeUtf8 } from './utf8';
  */
 const sectionHeader = /^---\s*file type:\s*([a-z]+)(?:\s+([a-z0-9]+))?(?:\s*:\s*(\d+))?\s*---\s*$/i;
 
+/**
+ * The CFG text and the start of the DAT bytes of a single-file record, from its first bytes (for a first look; the
+ * reader below streams the whole file). Throws when the CFG section or the DAT header is not within them.
+ */
+export function comtradeCffSections(head: Uint8Array, source: string): { configText: string; data: Uint8Array } {
+  const configLines: string[] = [];
+  let section: 'before' | 'cfg' | 'other' = 'before';
+  let position = 0;
+  while (position < head.length) {
+    let end = head.indexOf(0x0a, position);
+    if (end < 0) end = head.length;
+    const text = decodeUtf8(head, position, end > position && head[end - 1] === 0x0d ? end - 1 : end);
+    const header = sectionHeader.exec(text.replace(/^\uFEFF/, '').trim());
+    position = end + 1;
+    if (header !== null) {
+      const kind = header[1].toUpperCase();
+      if (kind === 'DAT') return { configText: configLines.join('\n'), data: head.subarray(Math.min(position, head.length)) };
+      section = kind === 'CFG' ? 'cfg' : 'other';
+    } else if (section === 'cfg') {
+      configLines.push(text);
+    }
+  }
+  throw new InputError(configLines.length === 0 ? 'no CFG section at the start of the file' : 'no DAT section within the first megabyte', source);
+}
+
 type Section = 'before' | 'cfg' | 'other' | 'dat-text' | 'dat-binary' | 'after';
 
 /**

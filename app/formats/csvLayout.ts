@@ -32,6 +32,8 @@ export interface CsvLayout {
   fixedRateHz: number | undefined;
   hasControl: boolean;
   roles: ResolvedRoles<CsvChannel>;
+  /** Which map found the roles: the one given with the file, the design's, or the roles' own names. */
+  mapUsed: 'given' | 'design' | 'names';
   /** How the file was read, in one line. */
   readAs: string;
 }
@@ -121,24 +123,28 @@ function findTimeColumn(channels: readonly CsvChannel[], roles: ResolvedRoles<Cs
   return candidates[0] ?? null;
 }
 
-function resolveRoles(channels: CsvChannel[], options: CsvLayoutOptions, where: string): { roles: ResolvedRoles<CsvChannel>; map: ChannelMap | undefined; note: string | null } {
+function resolveRoles(
+  channels: CsvChannel[],
+  options: CsvLayoutOptions,
+  where: string,
+): { roles: ResolvedRoles<CsvChannel>; map: ChannelMap | undefined; note: string | null; used: CsvLayout['mapUsed'] } {
   const resolve = (map: ChannelMap | undefined) => {
     const timeLike = new Set(map?.time === undefined ? channels.filter((channel) => timeNames.has(channel.column.name.trim().toLowerCase())) : []);
     return resolveChannelRoles(channels, map, where, 'the file has columns', timeLike);
   };
-  if (options.channelMap !== undefined) return { roles: resolve(options.channelMap), map: options.channelMap, note: null };
+  if (options.channelMap !== undefined) return { roles: resolve(options.channelMap), map: options.channelMap, note: null, used: 'given' };
   if (options.defaultMap !== undefined) {
     try {
-      return { roles: resolve(options.defaultMap), map: options.defaultMap, note: "the design's channel map" };
+      return { roles: resolve(options.defaultMap), map: options.defaultMap, note: "the design's channel map", used: 'design' };
     } catch (designError) {
       try {
-        return { roles: resolve(undefined), map: undefined, note: "columns named after the roles (the design's channel map does not fit this file)" };
+        return { roles: resolve(undefined), map: undefined, note: "columns named after the roles (the design's channel map does not fit this file)", used: 'names' };
       } catch {
         throw designError;
       }
     }
   }
-  return { roles: resolve(undefined), map: undefined, note: null };
+  return { roles: resolve(undefined), map: undefined, note: null, used: 'names' };
 }
 
 /**
@@ -148,7 +154,7 @@ function resolveRoles(channels: CsvChannel[], options: CsvLayoutOptions, where: 
 export function layoutCsv(dialect: CsvDialect, options: CsvLayoutOptions, source: string): CsvLayout {
   const where = `${source}, line ${dialect.headerLine ?? dialect.firstDataLine}`;
   const channels = channelsOf(dialect.columns);
-  const { roles, map, note } = resolveRoles(channels, options, where);
+  const { roles, map, note, used } = resolveRoles(channels, options, where);
   const time = findTimeColumn(channels, roles, map, where);
   const slots = new Int8Array(dialect.columns.length).fill(-1);
   const factors = new Float64Array(5);
@@ -206,6 +212,7 @@ export function layoutCsv(dialect: CsvDialect, options: CsvLayoutOptions, source
     fixedRateHz,
     hasControl: roles.control !== null,
     roles,
+    mapUsed: used,
     readAs,
   };
 }

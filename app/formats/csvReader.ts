@@ -57,6 +57,11 @@ export function sniffLinesOf(bytes: Uint8Array, complete: boolean): SniffLine[] 
   return lines;
 }
 
+/** The layout of a CSV capture from its first bytes (`complete` when they are the whole file). */
+export function layoutFromStart(bytes: Uint8Array, complete: boolean, options: CsvLayoutOptions, source: string): CsvLayout {
+  return layoutCsv(sniffCsvDialect(sniffLinesOf(bytes, complete), options, source), options, source);
+}
+
 function joinBytes(first: Uint8Array, second: Uint8Array): Uint8Array {
   const joined = new Uint8Array(first.length + second.length);
   joined.set(first);
@@ -99,9 +104,9 @@ export function createCsvReader(options: CsvReaderOptions = {}): CsvCaptureReade
 
   const decide = (complete: boolean): void => {
     const bytes = sniffBuffer as Uint8Array;
-    const lines = sniffLinesOf(bytes, complete);
-    if (lines.length === 0) return;
-    layout = layoutCsv(sniffCsvDialect(lines, options, source), options, source);
+    // A first line longer than the window: wait for its end (the line splitter bounds it).
+    if (!complete && bytes.indexOf(0x0a) < 0) return;
+    layout = layoutFromStart(bytes, complete, options, source);
     plan = rowPlanOf(layout);
     firstDataLine = layout.dialect.firstDataLine;
     builder = new SampleBlockBuilder({ blockSamples, hasControl: layout.hasControl, fixedRateHz: layout.fixedRateHz, fallbackRateHz: options.sampleRateHz, where });

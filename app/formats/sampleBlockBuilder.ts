@@ -125,6 +125,67 @@ export class SampleBlockBuilder {
   }
 
   /**
+   * Adds rows 0 .. count - 1 of column arrays, exactly as `append` would one by one; `atRow(row)` is told which row
+   * is being added before any row that may raise a fault, so the caller's `where` can name its line. The usual row
+   * of a timed stretch (time increasing, no gap, room in the block) is taken inline, without a call per row.
+   */
+  appendRows(
+    time: Float64Array,
+    sync: Float64Array,
+    ramp: Float64Array,
+    gate: Float64Array,
+    control: Float64Array,
+    count: number,
+    out: SampleBlock[],
+    atRow: (row: number) => void,
+  ): void {
+    let row = 0;
+    while (row < count) {
+      if (this.fixedRateHz !== undefined || this.stretchSamples < 2 || this.pending !== null || this.count === 0) {
+        atRow(row);
+        this.append(time[row], sync[row], ramp[row], gate[row], control[row], out);
+        row++;
+        continue;
+      }
+      // Timed stretch of two or more samples, a block begun: the common case, as in append().
+      let stretchLastS = this.stretchLastS;
+      let stretchSamples = this.stretchSamples;
+      const stretchFirstS = this.stretchFirstS;
+      let index = this.count;
+      const limit = this.blockSamples;
+      const blockSync = this.sync;
+      const blockRamp = this.ramp;
+      const blockGate = this.gate;
+      const blockControl = this.control;
+      while (row < count && index < limit) {
+        const timeS = time[row];
+        const intervalS = timeS - stretchLastS;
+        const periodS = (stretchLastS - stretchFirstS) / (stretchSamples - 1);
+        if (!(intervalS > 0) || intervalS > gapPeriods * periodS) break;
+        stretchLastS = timeS;
+        stretchSamples++;
+        blockSync[index] = sync[row];
+        blockRamp[index] = ramp[row];
+        blockGate[index] = gate[row];
+        if (blockControl !== null) blockControl[index] = control[row];
+        index++;
+        row++;
+      }
+      this.samplesSeen += index - this.count;
+      this.count = index;
+      this.stretchLastS = stretchLastS;
+      this.stretchSamples = stretchSamples;
+      if (this.count === this.blockSamples) this.emit(this.takeBlock(), out);
+      else if (row < count) {
+        // A fault, a gap or a time that is no number: the one-by-one path says what it is.
+        atRow(row);
+        this.append(time[row], sync[row], ramp[row], gate[row], control[row], out);
+        row++;
+      }
+    }
+  }
+
+  /**
    * Fixed-rate fast path for binary readers: write up to `roomInBlock` samples straight into `buffers()`
    * from index `writeIndex`, then commit them here. `firstTimeS` is the time of the first committed sample
    * (only the file's first sample sets the origin; NaN when it has none).

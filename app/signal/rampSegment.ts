@@ -88,6 +88,7 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
 
   // Two passes: the floor is the median of the foot samples up to the start the line gives, and the line's
   // 10 % level depends on the floor; starting from the lowest sample, the second pass is settled.
+  const crossings = new UpCrossingFinder(values, footStart, lastHighIndex);
   let floorV = lowV;
   let fit: LineFit | null = null;
   let previousFit: LineFit | null = null;
@@ -102,7 +103,7 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
     const distalV = floorV + 0.9 * spanV;
     const previousFrom = linearFrom;
     const previousTo = linearTo;
-    linearFrom = lastUpCrossing(values, proximalV, footStart, lastHighIndex);
+    linearFrom = crossings.lastUp(proximalV);
     if (linearFrom < 0) linearFrom = riseIndex;
     linearTo = linearFrom;
     while (linearTo <= lastHighIndex && values[linearTo] < distalV) linearTo += 1;
@@ -151,20 +152,90 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
   };
 }
 
+/**
+ * `lastUpCrossing` over one fixed range for several levels (the two passes ask with slightly different floors):
+ * the running minimum from the right end lets each question be answered by bisection. When the range's last sample
+ * is at or above the level, the last up-crossing is one past the last sample below the level, and that sample is the
+ * last whose running minimum (to the end) is below the level. Otherwise it falls back to the scan; same answers.
+ */
+let suffixScratch = new Float64Array(1024);
+
+export class UpCrossingFinder {
+  private readonly low: number;
+  private readonly high: number;
+  private readonly suffixMin: Float64Array;
+
+  constructor(
+    private readonly values: ArrayLike<number>,
+    private readonly from: number,
+    private readonly to: number,
+  ) {
+    this.low = Math.max(0, from);
+    this.high = Math.min(to, values.length - 1);
+    const count = Math.max(0, this.high - this.low);
+    if (suffixScratch.length < count) suffixScratch = new Float64Array(count * 2);
+    this.suffixMin = suffixScratch;
+    let minimum = Number.POSITIVE_INFINITY;
+    for (let j = this.high - 1; j >= this.low; j--) {
+      const value = values[j];
+      if (value < minimum) minimum = value;
+      this.suffixMin[j - this.low] = minimum;
+    }
+  }
+
+  lastUp(levelV: number): number {
+    const { values, low, high } = this;
+    if (!(high > low) || !(values[high] >= levelV)) return lastUpCrossing(values, levelV, this.from, this.to);
+    // Largest j in [low, high - 1] with suffixMin below the level (suffixMin does not decrease with j).
+    let left = low;
+    let right = high - 1;
+    if (!(this.suffixMin[0] < levelV)) return -1;
+    while (left < right) {
+      const middle = (left + right + 1) >> 1;
+      if (this.suffixMin[middle - low] < levelV) left = middle;
+      else right = middle - 1;
+    }
+    return left + 1;
+  }
+}
+
 /** Index of the first sample above `levelV` after the last crossing up through it in [from, to], or -1. */
-function lastUpCrossing(values: ArrayLike<number>, levelV: number, from: number, to: number): number {
+export function lastUpCrossing(values: ArrayLike<number>, levelV: number, from: number, to: number): number {
   for (let i = Math.min(to, values.length - 1); i > Math.max(0, from); i--) {
     if (values[i] >= levelV && values[i - 1] < levelV) return i;
   }
   return -1;
 }
 
+/** Scratch for the foot samples: a foot is a few dozen samples, so it is sorted in place by insertion. */
+let footScratch = new Float64Array(256);
+
 function median(values: ArrayLike<number>, from: number, to: number): number {
-  const part = new Float64Array(Math.max(1, to - from));
-  for (let i = 0; i < part.length; i++) part[i] = values[from + i];
-  part.sort();
-  const middle = part.length >> 1;
-  return part.length % 2 === 1 ? part[middle] : (part[middle - 1] + part[middle]) / 2;
+  const count = Math.max(1, to - from);
+  if (count > 64) {
+    const part = new Float64Array(count);
+    for (let i = 0; i < count; i++) part[i] = values[from + i];
+    part.sort();
+    return middleOf(part, count);
+  }
+  if (footScratch.length < count) footScratch = new Float64Array(count);
+  const part = footScratch;
+  for (let i = 0; i < count; i++) {
+    const value = values[from + i];
+    let j = i - 1;
+    // NaN never reaches here (the analyzer cuts invalid samples), so plain comparisons order the values as sort() does.
+    while (j >= 0 && part[j] > value) {
+      part[j + 1] = part[j];
+      j--;
+    }
+    part[j + 1] = value;
+  }
+  return middleOf(part, count);
+}
+
+function middleOf(sorted: Float64Array, count: number): number {
+  const middle = count >> 1;
+  return count % 2 === 1 ? sorted[middle] : (sorted[middle - 1] + sorted[middle]) / 2;
 }
 
 /** The residual figures of a line already fitted to positions from .. to - 1. */

@@ -1,17 +1,20 @@
 import { createReadStream } from 'node:fs';
-import { readFile, stat } from 'node:fs/promises';
+import { open, readFile, stat } from 'node:fs/promises';
 import { extname } from 'node:path';
 import { InputError } from '../../app/errors';
 import type { SampleBlock } from '../../app/capture/samples';
 import type { ChannelMap } from '../../app/capture/channelMap';
 import type { CsvDialectOptions } from '../../app/formats/csvSniff';
 import type { CaptureReader } from '../../app/formats/captureReader';
-import { createCsvReader } from '../../app/formats/csvReader';
+import { createCsvReader, csvSniffBytes, layoutFromStart } from '../../app/formats/csvReader';
+import { mapComtradeChannels } from '../../app/formats/comtradeChannelMap';
 import { parseComtradeConfig } from '../../app/formats/comtradeConfigParse';
 import type { ComtradeConfig } from '../../app/formats/comtradeConfig';
 import { createComtradeDataReader } from '../../app/formats/comtradeDataReader';
-import { createComtradeCffReader } from '../../app/formats/comtradeCffReader';
+import { comtradeCffSections, createComtradeCffReader } from '../../app/formats/comtradeCffReader';
 import { assertFileExists, captureKindOf, comtradePartner } from './captureFiles';
+import { CaptureCancelled, type OpenedCapture } from './openedCapture';
+import { openParallelCsv } from './parallelCsv';
 
 export interface ReadCaptureOptions extends CsvDialectOptions {
   /** Sample rate for a CSV without a time column (the command line's --rate). */
@@ -27,24 +30,20 @@ export interface ReadCaptureOptions extends CsvDialectOptions {
   onProgress?: (bytesRead: number, totalBytes: number) => void;
   /** Stops the reading: the blocks end with a CaptureCancelled error. */
   signal?: AbortSignal;
+  /**
+   * Parse a CSV on parser threads (main/capture/parallelCsv.ts): true, false, or by size (default: files of
+   * 32 MiB and more, where starting the threads pays).
+   */
+  parallel?: boolean;
+  /** Parser threads and bytes per run of lines, for the parallel path (tests use small runs). */
+  threads?: number;
+  parallelChunkBytes?: number;
 }
 
-/** The reading was stopped on purpose (a Cancel button, a closed screen): not a fault of the file. */
-export class CaptureCancelled extends Error {
-  constructor(path: string) {
-    super(`reading ${path} was cancelled`);
-    this.name = 'CaptureCancelled';
-  }
-}
+export { CaptureCancelled, type OpenedCapture } from './openedCapture';
 
-/** A capture opened for reading: its blocks, and how it is read once that is known. */
-export interface OpenedCapture {
-  blocks: AsyncGenerator<SampleBlock>;
-  /** One line: columns or channels, units, timing, roles (null before the first lines are read). */
-  readAs(): string | null;
-  /** Bytes of the data file (the .dat of a COMTRADE pair). */
-  totalBytes: number;
-}
+/** CSV files from this size on are parsed on threads unless told otherwise. */
+export const parallelCsvFromBytes = 32 << 20;
 
 /** A .cfg is a few kilobytes; anything far bigger is the wrong file. */
 const maxConfigBytes = 4 << 20;
@@ -102,6 +101,10 @@ export async function openCaptureFile(path: string, options: ReadCaptureOptions 
   let reader: CaptureReader;
   let dataPath = path;
   if (kind === 'csv') {
+    const totalBytes = await byteSize(path);
+    if (options.parallel ?? totalBytes >= parallelCsvFromBytes) {
+      return openParallelCsv(path, totalBytes, { ...options, chunkBytes: options.parallelChunkBytes });
+    }
     reader = createCsvReader({ ...options, source: path });
   } else if (kind === 'comtrade-single') {
     reader = createComtradeCffReader({ channelMap: options.channelMap, defaultMap: options.defaultMap, blockSamples: options.blockSamples, source: path });
@@ -117,6 +120,30 @@ export async function openCaptureFile(path: string, options: ReadCaptureOptions 
   }
   const totalBytes = await byteSize(dataPath);
   return { blocks: streamThrough(dataPath, reader, options, totalBytes), readAs: () => reader.readAs(), totalBytes };
+}
+
+/**
+ * Checks that a capture can be read as asked (its layout, its channels for the roles) from its start, without
+ * reading it through: a refusal comes before anything is measured. Throws the reader's InputError.
+ */
+export async function checkCaptureFile(path: string, options: ReadCaptureOptions = {}): Promise<void> {
+  const kind = captureKindOf(path);
+  await assertFileExists(path);
+  if (kind === 'comtrade') return void (await openCaptureFile(path, options));
+  const handle = await open(path, 'r');
+  try {
+    const { size } = await handle.stat();
+    const head = new Uint8Array(Math.min(size, kind === 'csv' ? csvSniffBytes : 1 << 20));
+    const { bytesRead } = await handle.read(head, 0, head.length, 0);
+    if (kind === 'csv') {
+      layoutFromStart(head.subarray(0, bytesRead), bytesRead >= size, options, path);
+    } else {
+      const sections = comtradeCffSections(head.subarray(0, bytesRead), path);
+      mapComtradeChannels(parseComtradeConfig(sections.configText, `${path} (CFG section)`), options.channelMap, path, options.defaultMap);
+    }
+  } finally {
+    await handle.close();
+  }
 }
 
 /** The blocks of a capture file (see openCaptureFile). */

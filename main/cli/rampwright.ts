@@ -12,7 +12,7 @@ export async function runCommandLine(argv: readonly string[]): Promise<number> {
     .description('Bench assistant for commissioning ramp-and-comparator thyristor firing boards')
     .exitOverride()
     .configureOutput({ writeErr: (text) => process.stderr.write(text) });
-  registerCommands(program);
+  await registerCommands(program, argv);
   try {
     await program.parseAsync([...argv], { from: 'user' });
     return typeof process.exitCode === 'number' ? process.exitCode : 0;

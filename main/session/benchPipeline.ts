@@ -46,6 +46,8 @@ export interface AlphaExtremes {
 
 export interface BenchPipeline {
   pushLines(lines: readonly string[]): PipelineStep;
+  /** Blocks from a capture file, measured as the decoder's would be. */
+  pushBlocks(blocks: readonly SampleBlock[]): PipelineStep;
   fold(): FoldCycle[];
   /** Readings of the last complete window, null before the first. */
   lastWindow(): CaptureReadings | null;
@@ -179,6 +181,14 @@ export function createBenchPipeline(initialDesign: BoardDesign, options: BenchPi
             step.greeting = event.greeting;
           }
         }
+      }
+      return step;
+    },
+    pushBlocks(blocks) {
+      const step: PipelineStep = { blocks: [], cycles: [], problems: [], window: null, greeting: null };
+      for (const block of blocks) {
+        step.blocks.push(block);
+        pushBlock(block, step);
       }
       return step;
     },

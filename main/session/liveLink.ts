@@ -6,12 +6,18 @@
 import type { BoardDesign } from '../../app/board/design';
 import type { LinkHealth, LinkSource, LinkState } from '../../app/contract';
 import type { LinkEventKind } from '../store/logbookTypes';
+import type { SampleBlock } from '../../app/capture/samples';
 import { createBenchPipeline, type BenchPipeline, type BenchPipelineOptions, type PipelineStep } from './benchPipeline';
 
-/** Where a source delivers: lines, link events (opened, unplugged, reopened...) and its end. */
+/** Where a source delivers: lines (or, from a capture file, blocks), link events (opened, unplugged, reopened...) and its end. */
 export interface LineSink {
   lines(lines: string[]): void;
+  /** Sample blocks straight from a capture file (no logger protocol in between). */
+  blocks?(blocks: SampleBlock[]): void;
+  /** A lost link (a fault). */
   ended(reason: string): void;
+  /** A source that has an end reached it (a capture file read to its last sample). */
+  finished?(detail: string): void;
   event?(kind: LinkEventKind, detail: string, state: LinkState | null): void;
 }
 
@@ -29,6 +35,8 @@ export interface LiveLink {
   setState(state: LinkState, message?: string | null): void;
   /** Measures lines; returns what they produced. */
   receive(lines: readonly string[]): PipelineStep;
+  /** Measures blocks from a capture file; returns what they produced. */
+  receiveBlocks(blocks: readonly SampleBlock[]): PipelineStep;
 }
 
 export function createLiveLink(source: LineSource, design: BoardDesign, options: { pipeline?: BenchPipelineOptions; now?: () => number } = {}): LiveLink {
@@ -41,8 +49,11 @@ export function createLiveLink(source: LineSource, design: BoardDesign, options:
   let bucketStartMs = now();
   let bucketSamples = 0;
   let previousRate = 0;
+  /** The rate of the newest block and the blocks taken, for a source without a greeting (a capture file). */
+  let blockRateHz = 0;
+  let fileBlocks = 0;
 
-  return {
+  const link: LiveLink = {
     source,
     pipeline,
     health() {
@@ -52,9 +63,9 @@ export function createLiveLink(source: LineSource, design: BoardDesign, options:
       return {
         state,
         source: source.description,
-        sampleRateHz: pipeline.greeting()?.sampleRateHz ?? 0,
+        sampleRateHz: pipeline.greeting()?.sampleRateHz ?? blockRateHz,
         arrivingSamplesPerS: previousRate,
-        blocks: decoder.blocks,
+        blocks: decoder.blocks + fileBlocks,
         droppedBlocks: decoder.blocksLost + decoder.loggerOverruns,
         droppedSamples: decoder.samplesLost,
         crcErrors: decoder.crcFailures,
@@ -68,21 +79,32 @@ export function createLiveLink(source: LineSource, design: BoardDesign, options:
       message = nextMessage;
     },
     receive(lines) {
-      const step = pipeline.pushLines(lines);
-      const nowMs = now();
-      if (step.blocks.length > 0) {
-        lastDataMs = nowMs;
-        if (state === 'connecting' || state === 'stalled') state = 'streaming';
-      }
-      for (const block of step.blocks) bucketSamples += block.sync.length;
-      if (nowMs - bucketStartMs >= 1000) {
-        previousRate = (bucketSamples * 1000) / (nowMs - bucketStartMs);
-        bucketStartMs = nowMs;
-        bucketSamples = 0;
-      }
-      return step;
+      return arrived(pipeline.pushLines(lines));
+    },
+    receiveBlocks(blocks) {
+      fileBlocks += blocks.length;
+      return arrived(pipeline.pushBlocks(blocks));
     },
   };
+  return link;
+
+  function arrived(step: PipelineStep): PipelineStep {
+    const nowMs = now();
+    if (step.blocks.length > 0) {
+      lastDataMs = nowMs;
+      if (state === 'connecting' || state === 'stalled') state = 'streaming';
+    }
+    for (const block of step.blocks) {
+      bucketSamples += block.sync.length;
+      blockRateHz = block.sampleRateHz;
+    }
+    if (nowMs - bucketStartMs >= 1000) {
+      previousRate = (bucketSamples * 1000) / (nowMs - bucketStartMs);
+      bucketStartMs = nowMs;
+      bucketSamples = 0;
+    }
+    return step;
+  }
 }
 
 export function disconnectedHealth(): LinkHealth {

@@ -7,7 +7,7 @@ import type { BoardDesign } from '../../app/board/design';
 import { BenchFault, describeLinkSource, type BenchState, type EventData, type LinkHealth, type PortInfo, type TransferPoint } from '../../app/contract';
 import type { Logbook } from '../store/logbookTypes';
 import { checkSessionStep, currentStep, recordMeasurements, saveRecordedSteps, stepInputsOf, type BenchSession } from './benchSession';
-import type { BenchPipelineOptions } from './benchPipeline';
+import type { BenchPipelineOptions, PipelineStep } from './benchPipeline';
 import type { DesignCatalog } from './designCatalog';
 import { createBenchEventHub, type BenchEventListener, type BenchEventSource, type BenchHandlers } from './handlers';
 import { createLiveLink, disconnectedHealth, type LineSource } from './liveLink';
@@ -19,6 +19,11 @@ import { createTrimHandlers, type CurrentLink } from './trimHandlers';
 import { stepReports } from './steps';
 import { createThrottle, systemClock, type ClockLike } from './throttle';
 import { createVirtualSource, type VirtualSource } from './virtualSource';
+import { createCaptureHandlers } from './captureHandlers';
+import { forTheScreen, readOptionsOf } from './captureInspect';
+import { isInputError } from '../../app/errors';
+import { openCaptureSource } from './captureSource';
+import { createCaptureUploads } from './captureUploads';
 import { mergeBlocks } from './sampleRing';
 
 /** Serial loggers, as main/serial offers them. */
@@ -60,6 +65,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
   const { logbook, designs } = options;
   const hub = createBenchEventHub();
   const clock = options.clock ?? systemClock;
+  const uploads = createCaptureUploads();
   let current: Current | null = null;
   let session: BenchSession | null = null;
   let held = false;
@@ -122,19 +128,30 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       heartbeat = setInterval(beat, 1000);
       heartbeat.unref();
     }
+    const measured = (step: PipelineStep): void => {
+      if (session) recordMeasurements(session, step.cycles, step.problems);
+      if (step.cycles.length > 0 || step.window) live.offer(null);
+      if (clock.now() - lastHealthMs >= 1000) {
+        lastHealthMs = clock.now();
+        hub.emit('health', attached.link.health());
+      }
+      for (const cycle of step.cycles) {
+        if (cycle.controlV !== null && cycle.alphaDeg !== null) pendingTransfer.push({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
+      }
+    };
     source.start({
       lines: (lines) => {
+        if (current === attached) measured(attached.link.receive(lines));
+      },
+      blocks: (blocks) => {
+        if (current === attached) measured(attached.link.receiveBlocks(blocks));
+      },
+      finished: (detail) => {
         if (current !== attached) return;
-        const step = attached.link.receive(lines);
-        if (session) recordMeasurements(session, step.cycles, step.problems);
-        if (step.cycles.length > 0 || step.window) live.offer(null);
-        if (clock.now() - lastHealthMs >= 1000) {
-          lastHealthMs = clock.now();
-          hub.emit('health', attached.link.health());
-        }
-        for (const cycle of step.cycles) {
-          if (cycle.controlV !== null && cycle.alphaDeg !== null) pendingTransfer.push({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
-        }
+        attached.link.setState('ended', detail);
+        live.offer(null);
+        hub.emit('health', attached.link.health());
+        hub.emit('notice', { level: 'info', message: `Capture read to the end (${detail}): record the steps from its readings.` });
       },
       event: (kind, detail, state) => {
         if (current !== attached) return;
@@ -162,7 +179,8 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
     if (heartbeat !== null) clearInterval(heartbeat);
     heartbeat = null;
     await leaving.link.source.stop();
-    session?.writer.addLinkEvent('closed', `link to ${leaving.link.source.description.kind === 'serial' ? leaving.link.source.description.path : 'the virtual board'} closed`);
+    const left = leaving.link.source.description;
+    session?.writer.addLinkEvent('closed', `link to ${left.kind === 'serial' ? left.path : left.kind === 'capture' ? `the capture file ${left.fileName}` : 'the virtual board'} closed`);
   };
 
   /** Analysis follows the session's design; a link opened for another design is re-measured against it. */
@@ -192,6 +210,24 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
         const design = payload.design ?? (await designs.get(payload.designName as string)).design;
         const virtual = createVirtualSource({ design, faults: payload.faults, control: payload.control, speed: payload.speed, seed: payload.seed, paced: options.virtualPaced ?? true });
         attach(virtual, session?.design ?? design, virtual);
+      } else if (payload.kind === 'capture') {
+        const design = session?.design ?? (payload.designName ? (await designs.get(payload.designName)).design : null);
+        if (!design) throw new BenchFault('not-ready', 'pick the board design first, so the analysis knows the board the capture is of', 'designName');
+        const upload = uploads.get(payload.uploadId);
+        const fileName = upload.files.map((file) => file.name).join(' + ');
+        const source = await openCaptureSource({
+          path: upload.mainPath,
+          fileName,
+          read: readOptionsOf(payload.fields, design),
+          speed: payload.speed,
+          onProgress: (progress) => hub.emit('captureProgress', progress),
+        }).catch((error: unknown) => {
+          if (!isInputError(error)) throw error;
+          // In the screen's words: the form's fields, not the command line's options.
+          const screen = forTheScreen(error.message);
+          throw new BenchFault('input', screen.message, screen.field ?? undefined);
+        });
+        attach(source, design, null);
       } else {
         if (!options.serial) throw new BenchFault('not-available', 'serial loggers are not available in this build');
         const design = session?.design ?? null;
@@ -286,6 +322,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       emitState();
       return sessionRowView(row);
     },
+    ...createCaptureHandlers({ uploads, designs }),
     ...createTrimHandlers({ logbook, designs, session: () => session, link: () => current, requireSession, requireLink, emitState }),
   };
 
@@ -296,6 +333,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
     emit: hub.emit,
     async close() {
       await detach();
+      uploads.close();
       if (session) {
         const open = session;
         session = null;

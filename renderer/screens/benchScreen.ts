@@ -3,6 +3,7 @@
  * length, the cycle fold, link health, and the Hold / Keep capture actions.
  */
 import type { LiveFrame } from '../../app/contract/bench-events';
+import type { CaptureProgress } from '../../app/contract/captureImport';
 import { describeLinkSource, type CommissioningStep, type LinkHealth } from '../../app/contract/readings';
 import { CycleFoldChart, type RampTarget } from '../charts/cycleFoldChart';
 import { h, fill } from '../dom/h';
@@ -31,6 +32,10 @@ export class BenchScreen implements Screen {
   private readonly heldBadge = h('span', { class: 'held-badge', hidden: true }, 'Held');
   private readonly bigReadings = h('div', { class: 'big-readings', 'aria-live': 'off' });
   private readonly linkPanel = h('div', { class: 'link-health', 'data-testid': 'link-health' });
+  private readonly captureBar = h('progress', { max: 1, value: 0, 'data-testid': 'capture-progress' });
+  private readonly captureText = h('span', { class: 'muted', 'data-testid': 'capture-progress-text' });
+  private readonly cancelButton = h('button', { class: 'secondary', type: 'button', 'data-testid': 'capture-cancel' }, 'Stop reading');
+  private readonly captureRow = h('div', { class: 'row capture-reading', hidden: true }, h('span', {}, 'Capture file'), this.captureBar, this.captureText, this.cancelButton);
   private readonly sessionLine = h('div', { class: 'row', 'data-testid': 'session-line' });
   private readonly foldCaption = h('span', { class: 'muted', 'data-testid': 'fold-caption' }, 'No cycles yet');
   private readonly holdButton = h('button', { class: 'secondary', type: 'button', 'aria-pressed': 'false', 'data-testid': 'hold' }, 'Hold');
@@ -82,7 +87,7 @@ export class BenchScreen implements Screen {
           ),
           h('div', { class: 'row' }, this.holdButton, this.keepButton, this.stopButton),
         ),
-        h('section', { class: 'panel', 'aria-labelledby': 'link-title' }, h('h2', { id: 'link-title' }, 'Link health'), this.linkPanel),
+        h('section', { class: 'panel', 'aria-labelledby': 'link-title' }, h('h2', { id: 'link-title' }, 'Link health'), this.captureRow, this.linkPanel),
       ),
     );
     this.element = h('div', {}, h('h1', { class: 'screen-title visually-hidden' }, 'Bench'), this.setup.element, this.sessionArea);
@@ -90,6 +95,12 @@ export class BenchScreen implements Screen {
     context.store.on('step', () => this.render());
     context.store.on('live', (frame) => this.onLive(frame as LiveFrame));
     context.store.on('health', (health) => this.renderLink(health as LinkHealth));
+    context.store.on('captureProgress', (progress) => this.renderCaptureProgress(progress as CaptureProgress));
+    this.cancelButton.addEventListener('click', () => void runAction(context, this.cancelButton, async () => {
+      await context.client.disconnect();
+      await context.store.refresh();
+      context.notices.show('info', 'Reading of the capture stopped; what was read stays measured.');
+    }));
   }
 
   shown(): void {
@@ -221,8 +232,21 @@ export class BenchScreen implements Screen {
     );
   }
 
+  /** The capture file's reading: a bar while it reads, the outcome when it has ended. */
+  private renderCaptureProgress(progress: CaptureProgress): void {
+    const isCapture = this.context.store.health?.source?.kind === 'capture';
+    this.captureRow.hidden = !isCapture && progress.state !== 'reading';
+    this.captureBar.max = Math.max(1, progress.totalBytes);
+    this.captureBar.value = progress.state === 'done' ? progress.totalBytes : progress.bytesRead;
+    const share = progress.totalBytes > 0 ? Math.floor((100 * (progress.state === 'done' ? progress.totalBytes : progress.bytesRead)) / progress.totalBytes) : 0;
+    const words: Record<CaptureProgress['state'], string> = { reading: `${share} % of ${progress.fileName}`, done: `${progress.fileName} read to the end`, cancelled: `${progress.fileName}: stopped at ${share} %`, failed: `${progress.fileName}: ${progress.message ?? 'reading failed'}` };
+    this.captureText.textContent = words[progress.state];
+    this.cancelButton.hidden = progress.state !== 'reading';
+  }
+
   private renderLink(link: LinkHealth): void {
-    const stateWords: Record<string, string> = { disconnected: 'Not connected', connecting: 'Connecting', streaming: 'Streaming', stalled: 'No data arriving', lost: 'Link lost' };
+    const stateWords: Record<string, string> = { disconnected: 'Not connected', connecting: 'Connecting', streaming: 'Streaming', stalled: 'No data arriving', lost: 'Link lost', ended: 'Capture read to the end' };
+    if (link.source?.kind !== 'capture' && this.context.store.captureProgress?.state !== 'reading') this.captureRow.hidden = true;
     const source = link.source ? capitalised(describeLinkSource(link.source)) : 'None';
     const cell = (label: string, value: string, testId?: string, wide = false) => h('div', { 'data-testid': testId ?? null, class: wide ? 'wide' : null }, h('span', {}, label), h('strong', {}, value));
     fill(

@@ -6,6 +6,8 @@ import type { ConnectPayload } from '../../app/contract/calls';
 import { h, fill, uniqueId } from '../dom/h';
 import { runAction, type ScreenContext } from '../shell/screen';
 import { boardFaultNames, type BoardFaultName } from '../../app/sim/faults';
+import { describeLinkSource } from '../../app/contract/readings';
+import { CapturePanel } from './capturePanel';
 
 /** The virtual board's named faults (issue on the bench link), in words a technician reads. */
 // Keyed by the simulator's own fault names, so a renamed or added fault fails to compile here.
@@ -40,15 +42,19 @@ export class BenchSetup {
   private readonly faultField: HTMLElement;
   private readonly startButton = h('button', { class: 'primary', type: 'submit', 'data-testid': 'start-session' }, 'Connect and start session');
   private readonly problem = h('p', { class: 'field-problem', role: 'alert' });
+  private readonly capture: CapturePanel;
 
   constructor(private readonly context: ScreenContext) {
     this.faultField = field('Virtual board fault', this.faultSelect, 'The virtual board follows the design, then adds this fault.');
+    this.capture = new CapturePanel(context, () => this.designSelect.value);
+    this.capture.element.hidden = true;
     this.sourceSelect.addEventListener('change', () => this.updateSource());
     const form = h(
       'form',
       { class: 'stack', 'aria-label': 'Start a session', onsubmit: (event: Event) => { event.preventDefault(); void this.start(); } },
       h('div', { class: 'form-grid wide-fields' }, field('Board design', this.designSelect), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect)),
       this.faultField,
+      this.capture.element,
       this.problem,
       h('div', { class: 'row' }, this.startButton, h('button', { class: 'secondary', type: 'button', onclick: () => context.go('board') }, 'Edit board designs')),
     );
@@ -63,14 +69,21 @@ export class BenchSetup {
     const previousSource = this.sourceSelect.value;
     const link = this.context.store.health;
     const linkUp = link !== null && link.source !== null && (link.state === 'streaming' || link.state === 'connecting' || link.state === 'stalled');
-    const current = linkUp && link.source ? (link.source.kind === 'serial' ? `logger on ${link.source.path}` : `virtual board${link.source.faults.length ? ` with fault ${link.source.faults.join(', ')}` : ''}`) : '';
-    fill(this.sourceSelect, linkUp ? h('option', { value: 'keep' }, `The link as it is (${current})`) : null, h('option', { value: 'virtual' }, 'Virtual board (no hardware)'), ports.ports.map((port) => h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.manufacturer ? ` (${port.manufacturer})` : ''}`)));
+    const current = linkUp && link.source ? describeLinkSource(link.source) : '';
+    fill(
+      this.sourceSelect,
+      linkUp ? h('option', { value: 'keep' }, `The link as it is (${current})`) : null,
+      h('option', { value: 'virtual' }, 'Virtual board (no hardware)'),
+      ports.ports.map((port) => h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.manufacturer ? ` (${port.manufacturer})` : ''}`)),
+      h('option', { value: 'capture' }, 'A capture file (CSV or COMTRADE)'),
+    );
     if (previousSource && [...this.sourceSelect.options].some((option) => option.value === previousSource)) this.sourceSelect.value = previousSource;
     this.updateSource();
   }
 
   private updateSource(): void {
     this.faultField.hidden = this.sourceSelect.value !== 'virtual';
+    this.capture.element.hidden = this.sourceSelect.value !== 'capture';
   }
 
   private async start(): Promise<void> {
@@ -84,10 +97,26 @@ export class BenchSetup {
     }
     this.problem.textContent = '';
     const source = this.sourceSelect.value;
-    const payload: ConnectPayload | null = source === 'keep' ? null : source.startsWith('serial:')
-      ? { kind: 'serial', path: source.slice('serial:'.length) }
-      : { kind: 'virtual', designName, faults: this.faultSelect.value ? [this.faultSelect.value] : [] };
+    if (source === 'capture' && !this.capture.ready) {
+      this.problem.textContent = 'Choose the capture file and say which channel is which, until the reading shows no problem.';
+      return;
+    }
+    const payload: ConnectPayload | null =
+      source === 'keep'
+        ? null
+        : source === 'capture'
+          ? { kind: 'capture', uploadId: this.capture.uploadId as string, designName, fields: this.capture.fields(), speed: this.capture.speed }
+          : source.startsWith('serial:')
+            ? { kind: 'serial', path: source.slice('serial:'.length) }
+            : { kind: 'virtual', designName, faults: this.faultSelect.value ? [this.faultSelect.value] : [] };
     await runAction(this.context, this.startButton, async () => {
+      if (source === 'capture' && this.capture.rememberRoles) {
+        const channelMap = this.capture.fields().channelMap;
+        if (channelMap) {
+          const saved = await this.context.client.saveCaptureMap({ designName, channelMap });
+          this.context.notices.show('info', `Roles remembered for ${saved.summary.name} (version ${saved.summary.version}).`);
+        }
+      }
       if (payload) {
         const link = this.context.store.health;
         if (link && link.state !== 'disconnected') await this.context.client.disconnect();

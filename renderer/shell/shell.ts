@@ -96,7 +96,7 @@ export class Shell {
     const session = this.store.state?.session ?? null;
     fill(this.sessionChip, session ? [h('span', {}, 'Unit'), h('strong', { 'data-testid': 'unit-serial' }, session.unitSerial), h('span', { class: 'muted' }, `session ${session.id} open`)] : h('span', { class: 'muted' }, 'No session open'));
     const link = this.store.health;
-    const stateWords: Record<string, string> = { disconnected: 'Not connected', connecting: 'Connecting', streaming: 'Streaming', stalled: 'No data', lost: 'Link lost' };
+    const stateWords: Record<string, string> = { disconnected: 'Not connected', connecting: 'Connecting', streaming: 'Streaming', stalled: 'No data', lost: 'Link lost', ended: 'Capture read' };
     fill(this.linkChip, h('span', {}, 'Link'), h('strong', {}, link ? stateWords[link.state] ?? link.state : 'Not connected'), link && link.state === 'streaming' ? h('span', { class: 'muted' }, `${formatSi(link.arrivingSamplesPerS, 'S/s')}`) : null);
   }
 

@@ -6,13 +6,16 @@ import type { BenchClient } from '../../app/contract/index';
 import type { LiveFrame } from '../../app/contract/bench-events';
 import type { CommissioningStep, LinkHealth, TransferPoint } from '../../app/contract/readings';
 import type { BenchState } from '../../app/contract/records';
+import type { CaptureProgress } from '../../app/contract/captureImport';
 
-export type StoreTopic = 'state' | 'live' | 'health' | 'transfer' | 'step';
+export type StoreTopic = 'state' | 'live' | 'health' | 'transfer' | 'step' | 'captureProgress';
 
 export class BenchStore {
   state: BenchState | null = null;
   live: LiveFrame | null = null;
   health: LinkHealth | null = null;
+  /** How far the capture file being read has come (null when the link is not a capture). */
+  captureProgress: CaptureProgress | null = null;
   /** The step shown as current on the Bench screen (keyboard moves it; the service suggests it). */
   selectedStep: CommissioningStep = 'sync';
   private readonly listeners = new Map<StoreTopic, Set<(value: unknown) => void>>();
@@ -54,6 +57,10 @@ export class BenchStore {
       this.emit('health', health);
     });
     this.client.subscribe('transfer', (batch) => this.emit('transfer', batch.points as TransferPoint[]));
+    this.client.subscribe('captureProgress', (progress) => {
+      this.captureProgress = progress;
+      this.emit('captureProgress', progress);
+    });
   }
 
   selectStep(step: CommissioningStep): void {

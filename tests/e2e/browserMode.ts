@@ -69,6 +69,17 @@ export async function startDemoServer(options: { speed?: number } = {}): Promise
   };
 }
 
+/** The demo server, Chromium and one page on the screens, ready once the designs are listed; page errors collected. */
+export async function openScreens(options: { speed?: number; viewport?: { width: number; height: number } } = {}): Promise<{ server: DemoServer; browser: Browser; page: Page; pageErrors: string[] }> {
+  const server = await startDemoServer({ speed: options.speed ?? 1 });
+  const browser = await launchChromium();
+  const page = await browser.newPage({ viewport: options.viewport ?? { width: 1440, height: 900 }, deviceScaleFactor: 1 });
+  const pageErrors = collectPageErrors(page);
+  await page.goto(server.url);
+  await page.locator('[data-testid="setup-design"] option').first().waitFor({ state: 'attached' });
+  return { server, browser, page, pageErrors };
+}
+
 export async function launchChromium(): Promise<Browser> {
   return chromium.launch({
     executablePath: '/usr/bin/chromium',

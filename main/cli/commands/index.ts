@@ -1,32 +1,30 @@
-/** Every command of the command line, in the order `rampwright --help` lists them. One line per command. */
+/**
+ * Every command of the command line, in the order `rampwright --help` lists them. One line per command. A command
+ * is loaded when it is the one asked for (all of them for help): `analyze` does not pay for the PDF writer, the
+ * serial port or the web server at start-up (the build splits them into chunks loaded on demand).
+ */
 import type { Command } from 'commander';
-import { registerDemoCommand } from './demo';
-import { registerAnalyzeCommand } from './analyze';
-import { registerSimCommand } from './sim';
-import { registerSizeCommand } from './size';
-import { registerTrimCommand } from './trim';
-import { registerServeCommand } from './serve';
-import { registerLogCommand } from './log';
-import { registerRecordCommand } from './record';
-import { registerReportCommand } from './report';
-import { registerExportCommand } from './export';
-import { registerImportCommand } from './import';
-import { registerSalvageCommand } from './salvage';
-import { registerPushCommand } from './push';
 
-export function registerCommands(program: Command): void {
-  void program;
-  registerDemoCommand(program);
-  registerAnalyzeCommand(program);
-  registerSimCommand(program);
-  registerSizeCommand(program);
-  registerTrimCommand(program);
-  registerServeCommand(program);
-  registerLogCommand(program);
-  registerRecordCommand(program);
-  registerReportCommand(program);
-  registerExportCommand(program);
-  registerImportCommand(program);
-  registerSalvageCommand(program);
-  registerPushCommand(program);
+type Register = (program: Command) => void;
+
+const commands: readonly { name: string; load: () => Promise<Register> }[] = [
+  { name: 'demo', load: async () => (await import('./demo')).registerDemoCommand },
+  { name: 'analyze', load: async () => (await import('./analyze')).registerAnalyzeCommand },
+  { name: 'sim', load: async () => (await import('./sim')).registerSimCommand },
+  { name: 'size', load: async () => (await import('./size')).registerSizeCommand },
+  { name: 'trim', load: async () => (await import('./trim')).registerTrimCommand },
+  { name: 'serve', load: async () => (await import('./serve')).registerServeCommand },
+  { name: 'log', load: async () => (await import('./log')).registerLogCommand },
+  { name: 'record', load: async () => (await import('./record')).registerRecordCommand },
+  { name: 'report', load: async () => (await import('./report')).registerReportCommand },
+  { name: 'export', load: async () => (await import('./export')).registerExportCommand },
+  { name: 'import', load: async () => (await import('./import')).registerImportCommand },
+  { name: 'salvage', load: async () => (await import('./salvage')).registerSalvageCommand },
+  { name: 'push', load: async () => (await import('./push')).registerPushCommand },
+];
+
+/** Registers the command named first in `argv`, or every command when the first word names none (help, a typo). */
+export async function registerCommands(program: Command, argv: readonly string[] = []): Promise<void> {
+  const wanted = commands.find((command) => command.name === argv[0]);
+  for (const command of wanted ? [wanted] : commands) (await command.load())(program);
 }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeRampSegment } from '../../../app/signal/rampSegment';
+import fc from 'fast-check';
+import { analyzeRampSegment, lastUpCrossing, UpCrossingFinder } from '../../../app/signal/rampSegment';
 
 /** A firing interval's ramp samples: reset at the floor for `resetSamples` around each crossing (at 0 and `halfCycle`). */
 function rampSamples(options: { halfCycle: number; resetSamples: number; floorV: number; slopeVPerSample: number; clipV?: number; earlyFraction?: number }): Float64Array {
@@ -59,5 +60,24 @@ describe('analyzeRampSegment', () => {
   it('a ramp that does not rise is no ramp', () => {
     const values = new Float64Array(220).fill(0.2);
     expect(analyzeRampSegment(values, { windowStartIndex: 10, windowEndIndex: 210, minimumSpanV: 0.1 })).toBeNull();
+  });
+});
+
+describe('UpCrossingFinder: the bisected last up-crossing equals the scan', () => {
+  it('gives lastUpCrossing\'s answer for any samples, range and level', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.integer({ min: -20, max: 20 }), { minLength: 1, maxLength: 60 }),
+        fc.integer({ min: -3, max: 63 }),
+        fc.integer({ min: -3, max: 63 }),
+        fc.array(fc.integer({ min: -22, max: 22 }), { minLength: 1, maxLength: 5 }),
+        (samples, from, to, levels) => {
+          const values = Float64Array.from(samples, (value) => value / 4);
+          const finder = new UpCrossingFinder(values, from, to);
+          for (const level of levels) expect(finder.lastUp(level / 4)).toBe(lastUpCrossing(values, level / 4, from, to));
+        },
+      ),
+      { numRuns: 2000 },
+    );
   });
 });

@@ -1,0 +1,40 @@
+/**
+ * A parser thread for long CSV captures (main/capture/parallelCsv.ts): takes runs of whole lines, gives back column
+ * arrays (app/formats/csvChunk.ts). The row plan comes once, with the thread's start; buffers travel by transfer.
+ */
+import { parentPort, workerData } from 'node:worker_threads';
+import { isChunkFailure, parseCsvChunk, type CsvChunkScratch } from '../../app/formats/csvChunk';
+import type { CsvRowPlan } from '../../app/formats/csvRows';
+
+export interface ChunkRequest {
+  id: number;
+  buffer: ArrayBuffer;
+  length: number;
+}
+
+/** Column buffers the reader has finished with, back for reuse (five, of one length). */
+export interface ChunkRecycle {
+  recycle: ArrayBuffer[];
+}
+
+const plan = (workerData as { plan: CsvRowPlan }).plan;
+const pool: CsvChunkScratch[] = [];
+
+parentPort?.on('message', (message: ChunkRequest | ChunkRecycle) => {
+  if ('recycle' in message) {
+    const [time, sync, ramp, gate, control] = message.recycle.map((buffer) => new Float64Array(buffer));
+    pool.push({ time, sync, ramp, gate, control });
+    return;
+  }
+  const request = message;
+  const bytes = new Uint8Array(request.buffer, 0, request.length);
+  const result = parseCsvChunk(bytes, plan, pool.pop());
+  if (isChunkFailure(result)) {
+    parentPort?.postMessage({ id: request.id, buffer: request.buffer, failure: result }, [request.buffer]);
+    return;
+  }
+  const columns = [result.time, result.sync, result.ramp, result.gate, result.control];
+  const transfer: ArrayBuffer[] = [request.buffer, ...columns.map((column) => column.buffer as ArrayBuffer)];
+  if (result.rowLines) transfer.push(result.rowLines.buffer as ArrayBuffer);
+  parentPort?.postMessage({ id: request.id, buffer: request.buffer, columns: result }, transfer);
+});

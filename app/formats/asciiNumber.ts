@@ -2,7 +2,8 @@
  * Decimal numbers straight from bytes, without building a string per field: the sample stream of a CSV or
  * ASCII COMTRADE file is millions of fields. Up to 15 significant digits and a power of ten up to 1e22 the
  * result is one correctly rounded operation on exact operands (Clinger's fast path, "How to read floating
- * point numbers accurately", 1990), so it equals `Number(text)`. 16 to 19 significant digits (what a double's
+ * point numbers accurately", 1990), so it equals `Number(text)`; so is any longer digit string whose whole integer is
+ * below 2^53 (most of 16 digits). 16 to 19 significant digits (what a double's
  * shortest text needs, and what noisy samples print as) are multiplied out in double-double arithmetic (Dekker's
  * exact product and Knuth's exact sum, "A floating-point technique for extending the available precision", 1971),
  * about 104 bits, and rounded once; when that lands within 2^-30 ulp of a halfway point the rounding is left to
@@ -146,6 +147,13 @@ export function scanAsciiNumber(bytes: Uint8Array, start: number, end: number, d
       return negative ? -magnitude : magnitude;
     }
     if (significantDigits <= 19) {
+      // The whole integer below 2^53 (most 16-digit numbers) is exact in a double: Clinger's one rounding again.
+      // Rounding is monotonic, so a computed value under 2^53 means the exact one is under it too.
+      const whole = mantissa * exactPowersOfTen[tailDigits] + tail;
+      if (whole < 9007199254740992) {
+        const magnitude = decimalExponent < 0 ? whole / exactPowersOfTen[-decimalExponent] : whole * exactPowersOfTen[decimalExponent];
+        return negative ? -magnitude : magnitude;
+      }
       const magnitude = longMantissaTimesPowerOfTen(mantissa, tail, tailDigits, decimalExponent);
       if (!Number.isNaN(magnitude)) return negative ? -magnitude : magnitude;
     }

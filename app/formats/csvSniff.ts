@@ -6,7 +6,8 @@
  * that settles it. Pure and small: it sees only a window at the start of the file.
  */
 import { InputError } from '../errors';
-import { isNotANumberWord, isUnitOnly, numberOfText, secondsPerTimeUnit, splitCsvLine, splitNameAndUnit, voltsPerUnit, withoutTrailingEmpty } from './csvText';
+import { intervalOfHeaderLine } from './csvHeaderBlock';
+import { isNotANumberWord, isUnitOnly, numberOfText, splitCsvLine, splitNameAndUnit, voltsPerUnit, withoutTrailingEmpty } from './csvText';
 
 export type CsvSeparatorName = 'comma' | 'semicolon' | 'tab';
 export type CsvDecimalName = 'point' | 'comma';
@@ -180,27 +181,6 @@ function chooseReading(lines: readonly SniffLine[], options: CsvDialectOptions, 
     throw new InputError(`the rows read two ways, as ${choices}: say which with ${option}`, `${source}, line ${lines[first.runStart].number}`);
   }
   return first;
-}
-
-/** `Sample interval,2e-05` / `Sampling period: 20 us` / `Sample rate;50 kS/s`: the interval in seconds, or null. */
-function intervalOfHeaderLine(text: string, decimalMark: string): number | null {
-  const lower = text.toLowerCase();
-  const isInterval = /(sample|sampling)[\s_-]*(interval|period|time)|time[\s_-]*(step|interval|increment|resolution)|x[\s_-]*inc|delta[\s_-]*t\b|^\s*dt\b/.test(lower);
-  const isRate = !isInterval && /(sample|sampling)[\s_-]*(rate|frequency|freq)|^\s*fs\b/.test(lower);
-  if (!isInterval && !isRate) return null;
-  const numberText = decimalMark === ',' ? '[+-]?(?:\\d+(?:,\\d*)?|,\\d+)(?:[eE][+-]?\\d+)?' : '[+-]?(?:\\d+(?:\\.\\d*)?|\\.\\d+)(?:[eE][+-]?\\d+)?';
-  const match = new RegExp(`[:;,=\\t\\s](\\s*)(${numberText})\\s*[,;\\t]?\\s*([a-zµμ/]*)`, 'i').exec(text);
-  if (!match) return null;
-  const value = Number(match[2].replace(',', '.'));
-  if (!(value > 0) || !Number.isFinite(value)) return null;
-  const unit = match[3].toLowerCase();
-  if (isInterval) {
-    const perUnit = secondsPerTimeUnit[unit] ?? (unit === '' ? 1 : undefined);
-    return perUnit === undefined ? null : value * perUnit;
-  }
-  const multiplier: Record<string, number> = { '': 1, hz: 1, 's/s': 1, sps: 1, khz: 1e3, 'ks/s': 1e3, ksps: 1e3, mhz: 1e6, 'ms/s': 1e6, msps: 1e6 };
-  const factor = multiplier[unit];
-  return factor === undefined ? null : 1 / (value * factor);
 }
 
 /**

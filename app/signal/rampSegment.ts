@@ -95,6 +95,7 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
   let linearFrom = riseIndex;
   let linearTo = riseIndex;
   let startIndex = riseIndex;
+  let previousDistalV = Number.POSITIVE_INFINITY;
   for (let pass = 0; pass < 2; pass++) {
     const spanV = peakV - floorV;
     if (!(spanV >= options.minimumSpanV)) return null;
@@ -105,8 +106,12 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
     const previousTo = linearTo;
     linearFrom = crossings.lastUp(proximalV);
     if (linearFrom < 0) linearFrom = riseIndex;
-    linearTo = linearFrom;
+    // The first 90 % crossing after the start. On the second pass with the same start and a level no lower, every
+    // sample before the first pass's answer is below the old level and so below the new one: the search goes on
+    // from there (the same answer, a ramp's length fewer samples looked at).
+    linearTo = pass === 1 && linearFrom === previousFrom && distalV >= previousDistalV ? previousTo : linearFrom;
     while (linearTo <= lastHighIndex && values[linearTo] < distalV) linearTo += 1;
+    previousDistalV = distalV;
     // Residuals only on the last pass: they give the nonlinearity. The same samples give the same line, so the
     // second pass refits only when the new floor moved the 10 % or 90 % crossing.
     const residuals = { residuals: pass === 1 };

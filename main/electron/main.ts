@@ -77,7 +77,9 @@ function installMenu(bench: BenchContext): void {
 async function start(): Promise<void> {
   await app.whenReady();
   lockDownSession(session.defaultSession);
-  context = await openBenchContext({ logbookPath: join(dataFolder, defaultLogbookFileName), serial: await serialAccess(), exporters: recordExporters });
+  // The bench setting for a line: RAMPWRIGHT_PUSH_TO pushes finished sessions to the shared logbook as it goes.
+  const pushTo = process.env.RAMPWRIGHT_PUSH_TO?.trim() || undefined;
+  context = await openBenchContext({ logbookPath: join(dataFolder, defaultLogbookFileName), serial: await serialAccess(), exporters: recordExporters, pushTo });
   const bench = context;
   setupBenchIpc({
     ipcMain,

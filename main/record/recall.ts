@@ -49,11 +49,23 @@ export interface DriftFigureReport {
   svg: string;
 }
 
+/** One session as the recall pages list it: which bench did it and when (a shared logbook holds many benches'). */
+export interface RecalledSession {
+  sessionId: number;
+  unit: string;
+  bench: string | null;
+  startedAt: string;
+  status: string;
+  rampPeakV: number | null;
+  alphaGainDegPerV: number | null;
+}
+
 export interface DriftReport {
   unit: string;
   designName: string;
   figures: DriftFigureReport[];
   warnings: string[];
+  sessions: RecalledSession[];
 }
 
 /** A unit's figures across its sessions, against the limits of the design version of its latest session. */
@@ -68,7 +80,12 @@ export async function driftReport(sources: RecordSources, unitSerial: string, op
     const analysis = analyseDrift(drift.points.map((point) => ({ sessionId: point.sessionId, startedAt: point.startedAt, value: point[key] })), expected[key].limits, options);
     return { key, label, unit, nominal: expected[key].nominal, limits: expected[key].limits, analysis, svg: figureToSvg(driftFigure(analysis, expected[key].limits, { label, unit })) };
   });
-  return { unit: unitSerial, designName: version.name, figures, warnings: figures.filter((figure) => figure.analysis.warning).map((figure) => `${figure.label}: ${figure.analysis.message}`) };
+  const rows = new Map((await sources.logbook.listSessions({ unitSerial })).map((row) => [row.id, row]));
+  const sessions = drift.points.map((point): RecalledSession => ({
+    sessionId: point.sessionId, unit: unitSerial, bench: rows.get(point.sessionId)?.bench ?? null, startedAt: point.startedAt, status: rows.get(point.sessionId)?.status ?? '-',
+    rampPeakV: point.rampPeakV, alphaGainDegPerV: point.alphaGainDegPerV,
+  }));
+  return { unit: unitSerial, designName: version.name, figures, warnings: figures.filter((figure) => figure.analysis.warning).map((figure) => `${figure.label}: ${figure.analysis.message}`), sessions };
 }
 
 export interface UnitInFleet {
@@ -85,6 +102,8 @@ export interface FleetReport {
   designVersion: number;
   units: number;
   figures: Array<FleetFigure & { svg: string; marked: UnitInFleet | null }>;
+  /** Each unit's latest session, the one its figures come from, with the bench that did it. */
+  members: RecalledSession[];
 }
 
 /**
@@ -102,12 +121,16 @@ export async function fleetReport(sources: RecordSources, designName: string, op
   const peaks: number[] = [];
   const gains: number[] = [];
   const chosen: { rampPeakV: number | null; alphaGainDegPerV: number | null } = { rampPeakV: null, alphaGainDegPerV: null };
+  const rows = new Map((await sources.logbook.listSessions({ designName })).map((row) => [row.id, row]));
+  const members: RecalledSession[] = [];
   for (const { unit, sessionId } of latest) {
     // One session that cannot be read (damaged pages) leaves the fleet to the others rather than break it.
     const figures = await sources.logbook.sessionFigures(sessionId).catch((error: unknown) => {
       if (isInputError(error)) return null;
       throw error;
     });
+    const row = rows.get(sessionId);
+    members.push({ sessionId, unit, bench: row?.bench ?? null, startedAt: figures?.startedAt ?? row?.startedAt ?? '', status: row?.status ?? '-', rampPeakV: figures?.rampPeakV ?? null, alphaGainDegPerV: figures?.alphaGainDegPerV ?? null });
     if (figures?.rampPeakV !== null && figures?.rampPeakV !== undefined) peaks.push(figures.rampPeakV);
     if (figures?.alphaGainDegPerV !== null && figures?.alphaGainDegPerV !== undefined) gains.push(figures.alphaGainDegPerV);
     if (unit === options.unitSerial && figures) Object.assign(chosen, { rampPeakV: figures.rampPeakV, alphaGainDegPerV: figures.alphaGainDegPerV });
@@ -120,6 +143,7 @@ export async function fleetReport(sources: RecordSources, designName: string, op
     designName,
     designVersion: version.version,
     units: latest.length,
+    members,
     figures: [peakFigure, gainFigure].map((figure) => {
       const value = chosen[figure.key];
       const marked: UnitInFleet | null = options.unitSerial === undefined || value === null ? null : {

@@ -1,9 +1,24 @@
 /** Recall reports (recall.ts) as HTML pages: comparison, drift and fleet, for the report command and the screens. */
+import { benchSummary } from '../../app/record/benchSummary';
+import { localTimeText } from '../../app/record/localTime';
 import { formatReading } from '../../app/record/recordModel';
 import { renderRecallHtml, type RecallSection } from '../../app/record/renderRecallHtml';
-import type { ComparisonReport, DriftReport, FleetReport } from './recall';
+import type { ComparisonReport, DriftReport, FleetReport, RecalledSession } from './recall';
 
 const number = (value: number | null, unit: string) => (value === null ? '-' : formatReading(value, unit));
+
+/** Sessions with the bench that did each one, times in this computer's local time with the offset (stored in UTC). */
+function sessionsSection(heading: string, sessions: readonly RecalledSession[], options: { timeZone?: string }): RecallSection {
+  const benches = new Set(sessions.map((session) => session.bench ?? '-'));
+  return {
+    heading,
+    paragraphs: [`${sessions.length} session${sessions.length === 1 ? '' : 's'} from ${benches.size} bench${benches.size === 1 ? '' : 'es'}. Times are local, with their offset from UTC (the logbook stores UTC).`],
+    table: {
+      head: ['Session', 'Unit', 'Bench', 'Started', 'Status', 'Ramp peak', 'Alpha gain'],
+      rows: sessions.map((session) => [`#${session.sessionId}`, session.unit, session.bench ?? '-', localTimeText(session.startedAt, options.timeZone), session.status, number(session.rampPeakV, 'V'), number(session.alphaGainDegPerV, 'deg/V')]),
+    },
+  };
+}
 
 export function comparisonPage(report: ComparisonReport, options: { now?: Date } = {}): string {
   const { comparison } = report;
@@ -21,7 +36,7 @@ export function comparisonPage(report: ComparisonReport, options: { now?: Date }
   return renderRecallHtml(`Sessions side by side: ${comparison.a.unit}`, [section], { generatedAt: (options.now ?? new Date()).toISOString() });
 }
 
-export function driftPage(report: DriftReport, options: { now?: Date } = {}): string {
+export function driftPage(report: DriftReport, options: { now?: Date; timeZone?: string } = {}): string {
   const sections: RecallSection[] = [
     {
       heading: `Unit ${report.unit} (${report.designName}): figures across sessions`,
@@ -44,11 +59,12 @@ export function driftPage(report: DriftReport, options: { now?: Date } = {}): st
       },
       svgs: report.figures.map((figure) => figure.svg),
     },
+    sessionsSection(`The sessions of unit ${report.unit}, and the bench that did each`, report.sessions, options),
   ];
   return renderRecallHtml(`Drift of unit ${report.unit}`, sections, { generatedAt: (options.now ?? new Date()).toISOString() });
 }
 
-export function fleetPage(report: FleetReport, options: { now?: Date } = {}): string {
+export function fleetPage(report: FleetReport, options: { now?: Date; timeZone?: string } = {}): string {
   const sections: RecallSection[] = report.figures.map((figure) => ({
     heading: `${figure.label} over ${figure.values.length} units`,
     warnings: figure.outliers > 0 ? [`${figure.outliers} unit(s) lie beyond three standard deviations of the prediction.`] : [],
@@ -63,5 +79,14 @@ export function fleetPage(report: FleetReport, options: { now?: Date } = {}): st
     table: { head: ['From', 'To', 'Units', 'Predicted'], rows: figure.bins.map((bin) => [number(bin.fromValue, figure.unit), number(bin.toValue, figure.unit), String(bin.count), bin.predicted === null ? '-' : bin.predicted.toFixed(1)]) },
     svgs: [figure.svg],
   }));
+  sections.push({
+    heading: 'By bench',
+    paragraphs: ['Each unit counts once, with its latest session, under the bench that did that session.'],
+    table: {
+      head: ['Bench', 'Units', 'Mean ramp peak', 'Mean alpha gain'],
+      rows: benchSummary(report.members).map((bench) => [bench.bench ?? '-', String(bench.units), number(bench.rampPeakMeanV, 'V'), number(bench.alphaGainMeanDegPerV, 'deg/V')]),
+    },
+  });
+  sections.push(sessionsSection('The units and the session each is counted by', report.members, options));
   return renderRecallHtml(`Fleet of ${report.designName}: ${report.units} units`, sections, { generatedAt: (options.now ?? new Date()).toISOString() });
 }

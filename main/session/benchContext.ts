@@ -59,7 +59,7 @@ export async function openBenchContext(options: BenchContextOptions): Promise<Be
   const sharing: SharePusher | null = options.pushTo === undefined ? null : startSharePusher(logbook, options.pushTo, { intervalMs: options.pushIntervalMs, onReport: options.onPushReport });
   const service = createSessionService({
     logbook, designs, serial: options.serial ?? null, exporters: [sessionJsonExporter, ...(options.exporters ?? [])], virtualPaced: options.virtualPaced, pipeline: options.pipeline,
-    bench: options.bench, sharing,
+    bench: options.bench, sharing, recordsSessions: !shared,
   });
   const dispatch = createBenchDispatch(service.handlers, { onBug: options.onBug });
   return {

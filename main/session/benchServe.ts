@@ -21,8 +21,9 @@ export interface BenchServeOptions {
   logbookPath: string;
   /** The bench's name on its sessions. */
   bench?: string;
-  /** A shared logbook to push finished sessions to, as the bench goes. */
+  /** A shared logbook to push finished sessions to, as the bench goes, every `pushIntervalMs`. */
   pushTo?: string;
+  pushIntervalMs?: number;
   host?: string;
   port?: number;
   /** This run's access token (default: a fresh random one). */
@@ -54,7 +55,7 @@ export function listenFault(error: unknown, host: string, port: number): unknown
 
 export async function startBenchServe(options: BenchServeOptions): Promise<RunningBench> {
   const host = options.host ?? '127.0.0.1';
-  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters, bench: options.bench, pushTo: options.pushTo });
+  const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters, bench: options.bench, pushTo: options.pushTo, pushIntervalMs: options.pushIntervalMs });
   try {
     if (options.demo) {
       const { design } = await context.designs.get(demoDefaults.designName);

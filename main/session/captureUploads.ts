@@ -5,7 +5,7 @@
  */
 import { randomBytes } from 'node:crypto';
 import { mkdtempSync, rmSync } from 'node:fs';
-import { open, type FileHandle } from 'node:fs/promises';
+import { mkdir, open, type FileHandle } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { extname, join } from 'node:path';
 import { BenchFault } from '../../app/contract';
@@ -83,7 +83,6 @@ export function createCaptureUploads(): CaptureUploads {
       const key = `${id}/${fileIndex}`;
       let handle = handles.get(key);
       if (!handle) {
-        const { mkdir } = await import('node:fs/promises');
         await mkdir(upload.folder, { recursive: true });
         handle = await open(file.path, offset === 0 ? 'w' : 'a');
         handles.set(key, handle);

@@ -41,6 +41,11 @@ export interface SessionServiceOptions {
   bench?: string;
   /** Pushes finished sessions to a shared logbook (serve --push-to); its status is the `sharing` call. */
   sharing?: SharePusher | null;
+  /**
+   * False when the logbook is a shared one served for viewing: sessions are recorded into a bench's own logbook file
+   * first (a server that goes away must never cost a live session) and pushed from there.
+   */
+  recordsSessions?: boolean;
   /** Live frames at most this often (ms, default 50: 20 a second). */
   liveIntervalMs?: number;
   pipeline?: BenchPipelineOptions;
@@ -251,6 +256,9 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       return { control };
     },
     async startSession({ unitSerial, designName, operator, notes }) {
+      if (options.recordsSessions === false) {
+        throw new BenchFault('not-available', 'this shows the shared logbook: a bench records sessions into its own logbook file and pushes them here (serve --db <file> --push-to <address>)');
+      }
       if (session) throw new BenchFault('not-ready', `session ${session.open.id} for unit ${session.open.unitSerial} is still open: sign it off or stop it first`);
       const stored = await designs.get(designName);
       const writer = await logbook.startSession({ unitSerial, design: stored.design, operator, notes, bench: options.bench });

@@ -8,7 +8,7 @@
  * same unit at the same start) is reported and left unshared; the others go on.
  */
 import { isInputError } from '../../app/errors';
-import { archiveContentHash, isConnectionFault, logbookDisplayLocation, type Logbook } from '../store/index';
+import { archiveContentHash, connectionFaultDetail, isConnectionFault, logbookDisplayLocation, type Logbook } from '../store/index';
 
 export interface PushOptions {
   /** How long a lost connection is retried before the push gives up (default 120 s; 0: one attempt). */
@@ -75,7 +75,7 @@ export async function pushSessions(local: Logbook, sharedLocation: string, openS
   };
   /** After a lost connection: true to try again, false when the time is up. */
   const waitToRetry = async (sessionId: number | null, error: unknown): Promise<boolean> => {
-    noteRetry(sessionId, error instanceof Error ? error.message : String(error));
+    noteRetry(sessionId, connectionFaultDetail(error));
     if (shared) {
       await shared.close().catch(() => undefined);
       shared = null;

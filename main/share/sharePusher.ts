@@ -41,7 +41,7 @@ export function startSharePusher(local: Logbook, sharedLocation: string, options
       .then((report) => {
         const refused = report.sessions.find((session) => session.outcome === 'refused');
         const lastRetry = report.retried[report.retried.length - 1];
-        problem = report.gaveUp ? `the shared logbook is out of reach (${lastRetry?.reasons[lastRetry.reasons.length - 1] ?? 'no answer'})` : refused ? `session ${refused.sessionId} was refused: ${refused.reason}` : null;
+        problem = report.gaveUp ? `the shared logbook does not answer (${lastRetry?.reasons[lastRetry.reasons.length - 1] ?? 'no answer'})` : refused ? `session ${refused.sessionId} was refused: ${refused.reason}` : null;
         if (!report.gaveUp) lastReachedAt = new Date().toISOString();
         options.onReport?.(report);
         return report;

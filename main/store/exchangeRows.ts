@@ -9,7 +9,7 @@ import { decideImport } from './archiveImport';
 import { archiveContentHash } from './canonicalJson';
 import type { ArchiveImportRequest, ArchiveImportResult, ArchiveSessionContent } from './logbookTypes';
 import { insertDesignVersion } from './recordQueries';
-import { all, get, lock, run, type SqlProgram, type SqlValue } from './sqlProgram';
+import { all, get, insertMany, lock, run, type SqlProgram, type SqlValue } from './sqlProgram';
 
 type Row = Record<string, unknown>;
 
@@ -70,17 +70,9 @@ export function* readArchiveSession(sessionId: number): SqlProgram<ArchiveSessio
   return { session, captureData: captures.map((row) => Buffer.from(row.data as Uint8Array)) };
 }
 
-/** Rows per INSERT statement: one round trip per few hundred rows on PostgreSQL, well inside both stores' limits on parameters. */
-const rowsPerInsert = 200;
-
+/** A session's rows of one table. */
 export function* insertRows(name: string, sessionId: number, columns: readonly string[], rows: ReadonlyArray<readonly SqlValue[]>): SqlProgram<void> {
-  const rowPlaceholders = `(?, ${columns.map(() => '?').join(', ')})`;
-  for (let start = 0; start < rows.length; start += rowsPerInsert) {
-    const chunk = rows.slice(start, start + rowsPerInsert);
-    const values: SqlValue[] = [];
-    for (const row of chunk) values.push(sessionId, ...row);
-    yield* run(`INSERT INTO ${name} (session_id, ${columns.join(', ')}) VALUES ${chunk.map(() => rowPlaceholders).join(', ')}`, values);
-  }
+  yield* insertMany(name, ['session_id', ...columns], rows.map((row) => [sessionId, ...row]));
 }
 
 function* insertTable(name: string, sessionId: number, section: { columns: string[]; rows: Array<Array<number | string | null>> }): SqlProgram<void> {

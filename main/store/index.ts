@@ -8,5 +8,5 @@ export { latestSchemaVersion } from './schema';
 export { driftTrend } from './driftTrend';
 export { decodeCapture, encodeCapture, rawCaptureBytes, sha256Hex } from './captureCodec';
 export { isPostgresLocation, logbookDisplayLocation } from './postgres/connection';
-export { SharedLogbookUnreachable, isConnectionFault } from './postgres/pgErrors';
+export { SharedLogbookUnreachable, connectionFaultDetail, isConnectionFault } from './postgres/pgErrors';
 export { benchName } from './benchName';

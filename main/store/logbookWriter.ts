@@ -17,7 +17,7 @@ import type { SessionWriterOptions } from './logbookOverEngine';
 import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
 import { storeSessionSummary } from './sessionSummary';
 import type { SpaceReserve } from './spaceReserve';
-import { run, type SqlProgram, type SqlValue } from './sqlProgram';
+import { get, run, type SqlProgram, type SqlValue } from './sqlProgram';
 import type { StorageFault } from './storageFaults';
 
 type QueueItem =
@@ -43,8 +43,14 @@ export interface BatchingWriterOptions extends SessionWriterOptions {
 const cycleColumns = ['seq', 't_s', 'half_cycle', 'period_s', 'alpha_deg', 'control_v', 'pulses', 'wrong_half_cycle_pulses', 'ramp_peak_v', 'ramp_floor_v', 'slope_v_per_ms', 'start_delay_deg', 'nonlinearity_pct', 'clipped', 'reset_us', 'recorded_at_ms'];
 const captureColumns = ['label', 'start_s', 'sample_rate_hz', 'samples_per_channel', 'roles', 'after_gap', 'started_at_ms', 'encoding', 'sha256', 'data'];
 
-/** One batch as rows per table, in queue order within each table; the last readings, steps and notes win. */
-function* writeBatch(sessionId: number, batch: readonly QueueItem[], firstSeq: { cycle: number; transfer: number }): SqlProgram<void> {
+/**
+ * One batch as rows per table, in queue order within each table; the last readings, steps and notes win. The batch
+ * sets the session's heartbeat to its own stamp, so a batch tried again after a connection lost at COMMIT (did it
+ * commit or not?) finds its stamp there when it did, and writes nothing twice.
+ */
+function* writeBatch(sessionId: number, batch: readonly QueueItem[], firstSeq: { cycle: number; transfer: number }, stamp: number): SqlProgram<void> {
+  const current = yield* get<{ stamp: number | null }>('SELECT heartbeat_at_ms AS "stamp" FROM sessions WHERE id = ?', [sessionId]);
+  if (current?.stamp === stamp) return;
   const rows: Record<'cycles' | 'transfers' | 'links' | 'trims' | 'measurements' | 'captures', SqlValue[][]> = { cycles: [], transfers: [], links: [], trims: [], measurements: [], captures: [] };
   const updates = new Map<'readings_json' | 'steps_json' | 'notes', string>();
   for (const item of batch) {
@@ -92,7 +98,7 @@ function* writeBatch(sessionId: number, batch: readonly QueueItem[], firstSeq: {
   yield* insertRows('part_measurements', sessionId, ['part', 'value', 'design_value', 'at_ms'], rows.measurements);
   yield* insertRows('captures', sessionId, captureColumns, rows.captures);
   for (const [column, value] of updates) yield* run(`UPDATE sessions SET ${column} = ? WHERE id = ?`, [value, sessionId]);
-  yield* run('UPDATE sessions SET heartbeat_at_ms = ? WHERE id = ?', [Date.now(), sessionId]);
+  yield* run('UPDATE sessions SET heartbeat_at_ms = ? WHERE id = ?', [stamp, sessionId]);
 }
 
 /** Ends the session: its summary, and a note of why it stopped added to its notes. */
@@ -109,20 +115,29 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
   // A writer is opened for a session just started: its sequences begin at 0.
   const seq = { cycle: 0, transfer: 0 };
   let queue: QueueItem[] = [];
+  /** A batch the store refused, tried again alone with its stamp before anything newer. */
+  let refused: { items: QueueItem[]; stamp: number } | null = null;
+  // Later than the heartbeat the session was started with, so no stamp can match that one.
+  let lastStamp = Date.now();
   let closed = false;
   let inFlight: Promise<void> | null = null;
   let lastHeartbeatMs = 0;
   const stats: LogbookWriterStats = { queued: 0, cyclesWritten: 0, batches: 0, cyclesDropped: 0, lastBatchMs: 0, longestBatchMs: 0, lastError: null, writeFailure: null };
 
   async function flushOnce(): Promise<void> {
-    if (queue.length === 0 && Date.now() - lastHeartbeatMs < 5000) return;
-    const batch = queue;
-    queue = [];
+    if (refused === null && queue.length === 0 && Date.now() - lastHeartbeatMs < 5000) return;
+    if (refused === null) {
+      lastStamp = Math.max(Date.now(), lastStamp + 1);
+      refused = { items: queue, stamp: lastStamp };
+      queue = [];
+    }
+    const { items: batch, stamp } = refused;
     const started = performance.now();
     const cycles = batch.reduce((count, item) => count + (item.kind === 'cycle' ? 1 : 0), 0);
     const transfers = batch.reduce((count, item) => count + (item.kind === 'transfer' ? 1 : 0), 0);
     try {
-      await options.write(writeBatch(sessionId, batch, seq));
+      await options.write(writeBatch(sessionId, batch, seq, stamp));
+      refused = null;
       seq.cycle += cycles;
       seq.transfer += transfers;
       lastHeartbeatMs = Date.now();
@@ -131,8 +146,7 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
       stats.lastError = null;
       stats.writeFailure = null;
     } catch (error) {
-      // The transaction rolled back: put the batch back in front and try again on the next tick.
-      queue = batch.concat(queue);
+      // Rolled back (or cut off at COMMIT): the same batch, same stamp, is tried again on the next tick.
       stats.lastError = error instanceof Error ? error.message : String(error);
       const fault = options.faultOf?.(error) ?? null;
       if (fault) stats.writeFailure = { kind: fault.kind, message: `${options.location ?? 'logbook'}: ${fault.message}` };
@@ -152,17 +166,20 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
 
   const enqueue = (item: QueueItem): void => {
     if (closed) throw new Error(`session ${sessionId} is closed: nothing more can be added`);
-    if (item.kind === 'cycle' && queue.length >= maxQueuedItems) {
+    if (item.kind === 'cycle' && queue.length + (refused?.items.length ?? 0) >= maxQueuedItems) {
       stats.cyclesDropped += 1;
       return;
     }
     queue.push(item);
   };
 
+  /** Writes everything queued now: a refused batch first, then the rest (a batch at a time). */
   async function flushAll(): Promise<void> {
     if (inFlight) await inFlight;
-    await flushNow();
-    if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
+    do {
+      await flushNow();
+      if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
+    } while (refused !== null || queue.length > 0);
   }
 
   return {
@@ -176,23 +193,26 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
     setReadings: (readings: CaptureReadings) => enqueue({ kind: 'readings', json: JSON.stringify(readings) }),
     setStepsJson: (json) => enqueue({ kind: 'steps', json }),
     setNotes: (notes) => enqueue({ kind: 'notes', notes }),
-    stats: () => ({ ...stats, queued: queue.length }),
+    stats: () => ({ ...stats, queued: queue.length + (refused?.items.length ?? 0) }),
     flush: flushAll,
     async close(status: Exclude<SessionStatus, 'open'> = 'closed', closeOptions: { note?: string } = {}) {
       if (closed) return options.readRow(sessionId);
-      if (inFlight) await inFlight;
-      await flushNow();
-      if (stats.writeFailure === null) {
-        if (stats.lastError !== null) throw new Error(`logbook write failed: ${stats.lastError}`);
-        // Anything added while the last batch was on its way.
-        if (queue.length > 0) await flushAll();
-      }
+      // A storage fault (disk full...) ends the flushing: what the store refused stays unwritten.
+      const flushUnlessFaulted = async (): Promise<void> => {
+        if (stats.writeFailure !== null) return;
+        await flushAll().catch((error: unknown) => {
+          if (stats.writeFailure === null) throw error;
+        });
+      };
+      await flushUnlessFaulted();
       closed = true;
       clearInterval(timer);
-      const failure = stats.writeFailure;
-      if (failure !== null) {
-        // What the store refused stays unwritten; the reserve gives back the room to end the session with why.
+      // Anything added while the last batch was on its way.
+      await flushUnlessFaulted();
+      if (stats.writeFailure !== null) {
+        // The reserve gives back the room to end the session with why.
         queue = [];
+        refused = null;
         options.reserve?.release();
       }
       try {

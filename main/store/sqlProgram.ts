@@ -7,7 +7,7 @@
  *
  * The SQL is the common ground of the two dialects: `?` placeholders (numbered for PostgreSQL by the executor),
  * aliases in double quotes (PostgreSQL folds bare names to lower case), RETURNING, ON CONFLICT, subqueries in FROM
- * named. `lock` steps serialise writers on PostgreSQL (advisory locks); SQLite's write transactions are serial
+ * named. `insert` steps carry rows for the executor to write its own way; `lock` steps serialise writers on PostgreSQL (advisory locks); SQLite's write transactions are serial
  * already, so there they do nothing.
  */
 
@@ -15,6 +15,7 @@ export type SqlValue = string | number | null | Uint8Array;
 
 export type SqlStep =
   | { mode: 'all' | 'get' | 'run'; sql: string; parameters: readonly SqlValue[] }
+  | { mode: 'insert'; table: string; columns: readonly string[]; rows: ReadonlyArray<readonly SqlValue[]> }
   | { mode: 'lock'; key: string };
 
 export type SqlProgram<T> = Generator<SqlStep, T, unknown>;
@@ -29,6 +30,14 @@ export function* get<T>(sql: string, parameters: readonly SqlValue[] = []): SqlP
 
 export function* run(sql: string, parameters: readonly SqlValue[] = []): SqlProgram<void> {
   yield { mode: 'run', sql, parameters };
+}
+
+/**
+ * Many rows into one table, each store its fastest way: one prepared statement run per row on SQLite (no round
+ * trips there), one statement per table on PostgreSQL (the rows travel as one JSON parameter).
+ */
+export function* insertMany(table: string, columns: readonly string[], rows: ReadonlyArray<readonly SqlValue[]>): SqlProgram<void> {
+  if (rows.length > 0) yield { mode: 'insert', table, columns, rows };
 }
 
 /** Holds a writers' lock named `key` until the transaction ends (PostgreSQL only; see above). */

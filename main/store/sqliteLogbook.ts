@@ -13,22 +13,43 @@ import { openLogbookDatabase, type OpenLogbookDatabaseOptions, type SqliteDataba
 import { recoverInterruptedSessions, writerIsAlive } from './sessionRecovery';
 import { removeStaleReserves, takeSpaceReserve, type SpaceReserve } from './spaceReserve';
 import { guardStorage, storageFaultOf } from './storageFaults';
-import { runSync, type SqlProgram, type SqlStep } from './sqlProgram';
+import { runSync, type SqlProgram, type SqlStep, type SqlValue } from './sqlProgram';
 
-/** Prepared statements by SQL text; cleared when it grows past this (multi-row inserts come in many sizes). */
+const bindable = (value: SqlValue) => (value instanceof Uint8Array && !Buffer.isBuffer(value) ? Buffer.from(value.buffer, value.byteOffset, value.byteLength) : value);
+
+/** Bound values per INSERT statement (SQLite allows 32 766 since 3.32; a few thousand is where the gain levels off). */
+const parametersPerStatement = 2000;
+
+/** Prepared statements by SQL text; cleared when it grows past this (a bound: chunks of a few sizes per table). */
 const statementCacheLimit = 400;
 
 export function sqliteExecutor(db: SqliteDatabase): (step: SqlStep) => unknown {
   const statements = new Map<string, Database.Statement>();
-  return (step) => {
-    if (step.mode === 'lock') return undefined; // SQLite's write transactions are serial already
-    let statement = statements.get(step.sql);
+  const prepared = (sql: string): Database.Statement => {
+    let statement = statements.get(sql);
     if (!statement) {
       if (statements.size >= statementCacheLimit) statements.clear();
-      statement = db.prepare(step.sql);
-      statements.set(step.sql, statement);
+      statement = db.prepare(sql);
+      statements.set(sql, statement);
     }
-    const parameters = step.parameters.map((value) => (value instanceof Uint8Array && !Buffer.isBuffer(value) ? Buffer.from(value.buffer, value.byteOffset, value.byteLength) : value));
+    return statement;
+  };
+  return (step) => {
+    if (step.mode === 'lock') return undefined; // SQLite's write transactions are serial already
+    if (step.mode === 'insert') {
+      // Multi-row VALUES a chunk at a time: a native call per chunk, not per row (scripts/bench/store.ts).
+      const perChunk = Math.max(1, Math.floor(parametersPerStatement / step.columns.length));
+      const rowPlaceholders = `(${step.columns.map(() => '?').join(', ')})`;
+      for (let start = 0; start < step.rows.length; start += perChunk) {
+        const chunk = step.rows.slice(start, start + perChunk);
+        const values: unknown[] = [];
+        for (const row of chunk) for (const value of row) values.push(bindable(value));
+        prepared(`INSERT INTO ${step.table} (${step.columns.join(', ')}) VALUES ${chunk.map(() => rowPlaceholders).join(', ')}`).run(values);
+      }
+      return undefined;
+    }
+    const statement = prepared(step.sql);
+    const parameters = step.parameters.map(bindable);
     if (step.mode === 'all') return statement.all(...parameters);
     if (step.mode === 'get') return statement.get(...parameters);
     statement.run(...parameters);

@@ -1,7 +1,10 @@
 /**
  * Logbook: units and sessions with filters; one session's readings, transfer curve, per-cycle plot, trims and link
- * events; two sessions side by side; a unit's drift across its sessions, and its board design's fleet.
+ * events; two sessions side by side; a unit's drift across its sessions, and its board design's fleet. Each session
+ * names the bench that did it (a shared logbook holds a whole line's); a bench that pushes to a shared logbook shows
+ * which of its sessions are not yet shared. Times are shown in local time; the logbook keeps UTC.
  */
+import type { CallResult } from '../../app/contract';
 import type { SessionComparison, SessionDetail, SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
 import { base64ToBytes, downloadBytes } from '../dom/download';
@@ -13,6 +16,7 @@ import { stepTitles } from '../shaping/stepView';
 import { fitLinePoints, toPoints } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 import { FleetPanel } from './fleetPanel';
+import { localTimeNote, sharedCell, sharingStatus } from './sharingView';
 
 type LineChart = Chart<'line', { x: number; y: number }[]>;
 
@@ -26,6 +30,8 @@ export class LogbookScreen implements Screen {
   private readonly toInput = h('input', { type: 'date', 'data-testid': 'filter-to' });
   private readonly unitsList = h('ul', { class: 'stack plain-list', 'data-testid': 'units-list' });
   private readonly sessionsTable = h('div', { 'data-testid': 'sessions' });
+  private readonly sharingLine = h('div', { class: 'sharing', 'data-testid': 'sharing', hidden: true });
+  private sharing: CallResult<'sharing'> | null = null;
   private readonly compareButton = h('button', { class: 'primary', type: 'button', disabled: true, 'data-testid': 'compare' }, 'Compare the two ticked sessions');
   private readonly detail = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Session', 'data-testid': 'session-detail' });
   private readonly comparison = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Two sessions side by side', 'data-testid': 'comparison' });
@@ -59,7 +65,7 @@ export class LogbookScreen implements Screen {
           h('section', { class: 'panel stack', 'aria-labelledby': 'filters-title' }, h('h2', { id: 'filters-title' }, 'Filters'), field('Unit', this.unitSelect), field('Board design', this.designSelect), field('From', this.fromInput), field('To', this.toInput)),
           h('section', { class: 'panel stack', 'aria-labelledby': 'units-title' }, h('h2', { id: 'units-title' }, 'Units'), this.unitsList),
         ),
-        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sessionsTable, h('div', { class: 'row' }, this.compareButton, h('span', { class: 'muted' }, 'Tick two sessions to compare them.'))), this.detail, this.comparison, this.drift, this.fleet.element),
+        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sharingLine, this.sessionsTable, h('div', { class: 'row' }, this.compareButton, h('span', { class: 'muted' }, 'Tick two sessions to compare them.')), h('p', { class: 'muted', 'data-testid': 'time-note' }, localTimeNote())), this.detail, this.comparison, this.drift, this.fleet.element),
       ),
     );
   }
@@ -105,6 +111,8 @@ export class LogbookScreen implements Screen {
     );
     if (!result) return;
     this.sessions = result.sessions;
+    this.sharing = await this.context.client.sharing().catch(() => null);
+    this.renderSharing();
     this.ticked = this.ticked.filter((id) => this.sessions.some((session) => session.id === id));
     this.renderSessions();
     const unitSerial = this.unitSelect.value;
@@ -118,6 +126,12 @@ export class LogbookScreen implements Screen {
     }
   }
 
+  private renderSharing(): void {
+    const parts = sharingStatus(this.sharing);
+    this.sharingLine.hidden = parts === null;
+    if (parts) fill(this.sharingLine, parts);
+  }
+
   private renderSessions(): void {
     this.compareButton.disabled = this.ticked.length !== 2;
     if (this.sessions.length === 0) {
@@ -125,12 +139,13 @@ export class LogbookScreen implements Screen {
       return;
     }
     const statusWords = { open: 'Open', closed: 'Closed', interrupted: 'Interrupted' } as const;
+    const pushing = this.sharing?.target != null;
     fill(
       this.sessionsTable,
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Design', 'Operator', 'Status', 'Started', 'Cycles', 'α', 'Ramp peak', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Bench', 'Design', 'Operator', 'Status', 'Started', ...(pushing ? ['Shared'] : []), 'Cycles', 'α', 'Ramp peak', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
         h(
           'tbody',
           {},
@@ -149,10 +164,12 @@ export class LogbookScreen implements Screen {
               h('td', {}, tick),
               h('td', {}, open),
               h('td', {}, session.unit),
+              h('td', { class: 'nowrap', 'data-testid': `bench-${session.id}` }, session.bench ?? '–'),
               h('td', {}, `${session.designName} v${session.designVersion}`),
               h('td', {}, session.operator),
               h('td', {}, statusWords[session.status]),
               h('td', {}, new Date(session.startedAt).toLocaleString()),
+              pushing ? h('td', { class: 'nowrap', 'data-testid': `shared-${session.id}` }, sharedCell(session)) : null,
               h('td', { class: 'number' }, session.cycles),
               h('td', { class: 'number' }, formatFixed(session.alphaDeg, '°')),
               h('td', { class: 'number' }, formatSi(session.rampPeakV, 'V')),
@@ -205,7 +222,8 @@ export class LogbookScreen implements Screen {
     fill(
       this.detail,
       h('h2', {}, `Session ${row.id}: unit ${row.unit}`),
-      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.status} · ${row.cycles} cycles`),
+      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.status} · ${row.cycles} cycles`),
+      this.sharing?.target != null ? h('p', { 'data-testid': 'detail-shared' }, sharedCell(row)) : null,
       detail.notes ? h('p', {}, detail.notes) : null,
       h('h3', {}, 'Readings'),
       readingRows.length > 0 ? h('table', { class: 'data', 'data-testid': 'detail-readings' }, h('thead', {}, h('tr', {}, ['Step', 'Reading', 'Value', 'Design', 'Verdict'].map((title) => h('th', { scope: 'col' }, title)))), h('tbody', {}, readingRows)) : h('p', { class: 'empty' }, 'No step was recorded in this session.'),
@@ -285,8 +303,8 @@ export class LogbookScreen implements Screen {
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Session', 'Date', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'α jitter'].map((title) => h('th', { scope: 'col' }, title)))),
-        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaStdDeg, '°', 2))))),
+        h('thead', {}, h('tr', {}, ['Session', 'Bench', 'Date', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'α jitter'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, this.sessions.find((session) => session.id === point.sessionId)?.bench ?? '–'), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaStdDeg, '°', 2))))),
       ),
       h('div', { class: 'plot small' }, canvas),
     );

@@ -89,7 +89,9 @@ function installExitHook(): void {
 export async function startThrowawayCluster(options: { superuserPassword?: string } = {}): Promise<ThrowawayCluster> {
   const bin = postgresBinFolder();
   const user = serverUser();
-  const folder = mkdtempSync(join(tmpdir(), 'rampwright-pg-'));
+  // As root, /tmp (world-traversable) rather than a TMPDIR the server's user may not be able to enter.
+  const base = user.name !== null && existsSync('/tmp') ? '/tmp' : tmpdir();
+  const folder = mkdtempSync(join(base, 'rampwright-pg-'));
   const dataFolder = join(folder, 'data');
   const superuser = 'rampwright_admin';
   const superuserPassword = options.superuserPassword ?? `pw-${Math.random().toString(36).slice(2)}`;

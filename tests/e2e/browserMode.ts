@@ -25,14 +25,16 @@ export interface DemoServer {
 
 /**
  * Starts `node dist/rampwright.js serve --demo --port 0 --db <fresh file>` and waits for the address it prints,
- * which carries the run's access token (the server refuses every request without it).
+ * which carries the run's access token (the server refuses every request without it). `db` serves another logbook
+ * (a file or a shared logbook's address) and `args` adds options; `demo: false` leaves the virtual board out.
  */
-export async function startDemoServer(options: { speed?: number } = {}): Promise<DemoServer> {
+export async function startDemoServer(options: { speed?: number; db?: string; demo?: boolean; args?: string[] } = {}): Promise<DemoServer> {
   const cli = join(repoRoot, 'dist', 'rampwright.js');
   if (!existsSync(cli) || !existsSync(join(repoRoot, 'dist', 'renderer', 'index.js'))) throw new Error('build first: npm run build (dist/rampwright.js and dist/renderer are missing)');
   const folder = mkdtempSync(join(tmpdir(), 'rampwright-e2e-'));
-  const logbookPath = join(folder, 'logbook.sqlite');
-  const child: ChildProcess = spawn(process.execPath, [cli, 'serve', '--demo', '--port', '0', '--db', logbookPath, '--speed', String(options.speed ?? 1)], { cwd: repoRoot, stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, XDG_DATA_HOME: folder, HOME: folder } });
+  const logbookPath = options.db ?? join(folder, 'logbook.sqlite');
+  const demo = (options.demo ?? true) ? ['--demo'] : [];
+  const child: ChildProcess = spawn(process.execPath, [cli, 'serve', ...demo, '--port', '0', '--db', logbookPath, '--speed', String(options.speed ?? 1), ...(options.args ?? [])], { cwd: repoRoot, stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, XDG_DATA_HOME: folder, HOME: folder } });
   let output = '';
   child.stdout?.on('data', (chunk: Buffer) => (output += chunk.toString('utf8')));
   child.stderr?.on('data', (chunk: Buffer) => (output += chunk.toString('utf8')));

@@ -6,6 +6,7 @@
 import { homedir } from 'node:os';
 import { join } from 'node:path';
 import { logbookDisplayLocation, resolveLogbookLocation } from '../../store/index';
+import { localFirst, pushAfterSession } from './push';
 import type { Command } from 'commander';
 import type { StepReport, Verdict } from '../../../app/contract';
 import { faultDescriptions, type FaultName } from '../../../app/sim';
@@ -17,6 +18,7 @@ import { jsonOutput } from '../jsonOutput';
 
 interface DemoOptions {
   db?: string;
+  pushTo?: string;
   json?: boolean;
 }
 
@@ -68,10 +70,12 @@ export function registerDemoCommand(program: Command): void {
   program
     .command('demo')
     .description('Commission a unit on the virtual board from start to sign-off and log it (no hardware needed)')
-    .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address (default: logbook.sqlite in your data folder)')
+    .option('--db <file|address>', 'logbook file (default: logbook.sqlite in your data folder); given a shared logbook\'s postgres:// address, the session is recorded into that default file and pushed there')
+    .option('--push-to <address>', 'push the session to a shared logbook (postgres://...) afterwards')
     .option('--json', 'print the result as JSON')
     .action(async (options: DemoOptions) => {
-      const logbookPath = resolveLogbookLocation(options.db ?? defaultLogbookPath());
+      const target = localFirst(options.db, options.pushTo, defaultLogbookPath());
+      const logbookPath = resolveLogbookLocation(target.db);
       const startedMs = Date.now();
       const context = await openBenchContext({ logbookPath, virtualPaced: false });
       let report: DemoReport;
@@ -81,6 +85,7 @@ export function registerDemoCommand(program: Command): void {
         await context.close();
       }
       const elapsedS = (Date.now() - startedMs) / 1000;
+      const pushLines = target.pushTo === undefined ? [] : await pushAfterSession(logbookPath, target.pushTo);
       if (options.json) {
         const steps = report.steps.map((step) => ({ step: step.step, status: step.status, verdict: step.verdict, readings: step.readings.map(({ key, value: reading, unit, expected, verdict }) => ({ key, value: reading, unit, expected, verdict })) }));
         const trim = report.trimPlan.suggestions[0] ?? null;
@@ -97,11 +102,12 @@ export function registerDemoCommand(program: Command): void {
               rampPeakAfterV: report.rampPeakAfterV,
               transfer: report.transferFit,
               safety: safetyNoteLines,
+              ...(target.pushTo === undefined ? {} : { pushed: pushLines }),
             },
           ),
         );
         return;
       }
-      process.stdout.write(`${[...safetyNoteLines, '', ...demoSummaryLines(report, logbookDisplayLocation(logbookPath), elapsedS)].join('\n')}\n`);
+      process.stdout.write(`${[...safetyNoteLines, '', ...demoSummaryLines(report, logbookDisplayLocation(logbookPath), elapsedS), ...pushLines].join('\n')}\n`);
     });
 }

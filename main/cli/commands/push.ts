@@ -26,12 +26,36 @@ export function pushReportLines(report: PushReport): string[] {
   if (already.length > 0) lines.push(`Already in the shared logbook (noted, not copied again): ${already.map((session) => session.sessionId).join(', ')}.`);
   for (const retry of report.retried) {
     const what = retry.sessionId === null ? 'opening the shared logbook' : `session ${retry.sessionId}`;
-    lines.push(`Retried ${what} ${retry.attempts} time${retry.attempts === 1 ? '' : 's'} after a lost connection: ${retry.reasons.join('; ')}`);
+    lines.push(`Retried ${what} ${retry.attempts} time${retry.attempts === 1 ? '' : 's'} after the connection was lost or refused (${retry.reasons.join('; ')}).`);
   }
   for (const session of refused) lines.push(`Refused: session ${session.sessionId}: ${session.reason}`);
   if (report.gaveUp) lines.push('The shared logbook stayed out of reach: the sessions not shared stay in this logbook for the next push.');
   lines.push(report.waiting === 0 ? 'Every finished session of this bench is shared.' : `Not yet shared: ${report.waiting} finished session${report.waiting === 1 ? '' : 's'}.`);
   return lines;
+}
+
+/**
+ * Where a session-recording command (record, demo) writes and pushes: always a logbook file on this bench; given a
+ * shared logbook's address as --db, the file in the data folder, pushed to that address afterwards.
+ */
+export function localFirst(db: string | undefined, pushTo: string | undefined, defaultPath: string): { db: string; pushTo: string | undefined } {
+  if (db !== undefined && isPostgresLocation(db)) {
+    if (pushTo !== undefined) throw new InputError('give this bench\'s logbook file with --db and the shared logbook with --push-to', '--db');
+    process.stderr.write(`Recording into this bench's logbook ${defaultPath}, then pushing to the shared logbook.\n`);
+    return { db: defaultPath, pushTo: db };
+  }
+  if (pushTo !== undefined && !isPostgresLocation(pushTo)) throw new InputError('give the shared logbook as a postgres:// address', '--push-to');
+  return { db: db ?? defaultPath, pushTo };
+}
+
+/** Pushes right after a session, trying for a few seconds only: the session is safe in the file already. */
+export async function pushAfterSession(db: string, pushTo: string): Promise<string[]> {
+  const local = await openLogbook(db);
+  try {
+    return pushReportLines(await pushSessions(local, pushTo, () => openLogbook(pushTo), { retryForMs: 10_000 }));
+  } finally {
+    await local.close();
+  }
 }
 
 export function registerPushCommand(program: Command): void {

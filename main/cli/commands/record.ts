@@ -14,9 +14,9 @@ import { loadBoardDesign } from '../../board/loadBoardDesign';
 import { openLoggerLink } from '../../serial/loggerLink';
 import { createLinkAccount } from '../../session/linkAccount';
 import type { LogbookWriter, SessionRow } from '../../store/logbookTypes';
-import { pushSessions } from '../../share/pushSessions';
-import { isPostgresLocation, logbookDisplayLocation, openLogbook } from '../../store/index';
-import { pushReportLines } from './push';
+import { logbookDisplayLocation, openLogbook } from '../../store/index';
+import { defaultLogbookPath } from './log';
+import { localFirst, pushAfterSession } from './push';
 
 export interface RecordOptions {
   port: string;
@@ -208,7 +208,7 @@ export function registerRecordCommand(program: Command): void {
     .command('record')
     .description('Record a session from the data logger into a logbook (Ctrl-C ends it cleanly)')
     .requiredOption('--port <path>', 'serial device of the logger, e.g. /dev/ttyACM0 or COM3')
-    .requiredOption('--db <file|address>', 'logbook file (created if missing), or a shared logbook\'s postgres:// address')
+    .requiredOption('--db <file|address>', 'this bench\'s logbook file (created if missing); given a shared logbook\'s postgres:// address, the session is recorded into the logbook in your data folder and pushed there')
     .requiredOption('--unit <serial>', 'serial number of the unit on the bench')
     .requiredOption('--design <file>', 'board design file (*.board.json)')
     .option('--seconds <n>', 'stop after this many seconds')
@@ -216,9 +216,8 @@ export function registerRecordCommand(program: Command): void {
     .option('--bench <name>', 'this bench\'s name on the session (default: RAMPWRIGHT_BENCH or the computer\'s name)')
     .option('--push-to <address>', 'after the session, push this bench\'s finished sessions to a shared logbook (postgres://...)')
     .action(async (options: { port: string; db: string; unit: string; design: string; seconds?: string; operator: string; bench?: string; pushTo?: string }) => {
-      if (options.pushTo !== undefined && (isPostgresLocation(options.db) || !isPostgresLocation(options.pushTo))) {
-        throw new InputError('record into this bench\'s own logbook file (--db) and push to a shared logbook\'s postgres:// address (--push-to)', '--push-to');
-      }
+      // A session is recorded into this bench's own logbook file first, so a server that goes away never costs it.
+      Object.assign(options, localFirst(options.db, options.pushTo, defaultLogbookPath()));
       const controller = new AbortController();
       const onInterrupt = (): void => controller.abort();
       process.once('SIGINT', onInterrupt);
@@ -244,17 +243,8 @@ export function registerRecordCommand(program: Command): void {
           `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, alpha ${fixed(row.alphaDeg, 1)} deg, ramp peak ${fixed(row.rampPeakV, 3)} V, ${linkErrorsText(row.linkErrors)}${silence ? `, ${silence}` : ''}. Logbook: ${logbookDisplayLocation(options.db)}\n`,
         );
         if (silence) process.stdout.write(`Note: the logger sent nothing for ${row.linkSilentS.toFixed(1)} s of the session; readings cover only the time it was heard (see rampwright report).\n`);
-        if (options.pushTo !== undefined) {
-          // The session is safe in this bench's logbook already: a shared logbook out of reach only delays sharing.
-          const to = options.pushTo;
-          const local = await openLogbook(options.db);
-          try {
-            const report = await pushSessions(local, to, () => openLogbook(to), { retryForMs: 10_000 });
-            process.stdout.write(`${pushReportLines(report).join('\n')}\n`);
-          } finally {
-            await local.close();
-          }
-        }
+        // The session is safe in this bench's logbook already: a shared logbook out of reach only delays sharing.
+        if (options.pushTo !== undefined) process.stdout.write(`${(await pushAfterSession(options.db, options.pushTo)).join('\n')}\n`);
       } finally {
         process.removeListener('SIGINT', onInterrupt);
       }

@@ -20,6 +20,7 @@ interface ServeOptions {
   db?: string;
   bench?: string;
   pushTo?: string;
+  pushEvery: string;
 }
 
 export function parsePort(text: string): number {
@@ -40,14 +41,18 @@ export function registerServeCommand(program: Command): void {
     .option('--speed <factor>', 'how much faster than real time the demo board runs', '1')
     .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address (default: logbook.sqlite in your data folder)')
     .option('--bench <name>', 'this bench\'s name on its sessions (default: RAMPWRIGHT_BENCH or the computer\'s name)')
-    .option('--push-to <address>', 'push finished sessions to this shared logbook (postgres://...) as the bench goes')
+    .option('--push-to <address>', 'push finished sessions to this shared logbook (postgres://...) as the bench goes (default: the RAMPWRIGHT_PUSH_TO setting)', process.env.RAMPWRIGHT_PUSH_TO?.trim() || undefined)
+    .option('--push-every <seconds>', 'how often to push with --push-to', '10')
     .action(async (options: ServeOptions) => {
+      const pushEveryS = Number(options.pushEvery);
+      if (!Number.isFinite(pushEveryS) || pushEveryS < 0.5 || pushEveryS > 86_400) throw new InputError(`"${options.pushEvery}" is not a number of seconds between 0.5 and 86400`, '--push-every');
       const speed = Number(options.speed);
       if (!Number.isFinite(speed) || speed <= 0 || speed > 1000) throw new InputError(`"${options.speed}" is not a speed factor between 0 and 1000`, '--speed');
       const running = await startBenchServe({
         logbookPath: resolveLogbookLocation(options.db ?? defaultLogbookPath()),
         bench: options.bench,
         pushTo: options.pushTo,
+        pushIntervalMs: pushEveryS * 1000,
         host: options.host,
         port: parsePort(options.port),
         demo: options.demo ?? false,

@@ -8,10 +8,20 @@ import { InputError } from '../../../app/errors';
 import type { PostgresTarget } from './connection';
 
 export class SharedLogbookUnreachable extends InputError {
-  constructor(message: string, where: string) {
-    super(message, where);
+  /** What the connection said, short (e.g. "connect ECONNREFUSED 127.0.0.1:5432"), scrubbed. */
+  readonly detail: string;
+
+  constructor(detail: string, where: string) {
+    super(`cannot reach the shared logbook (${detail}); is its server running and reachable from here?`, where);
     this.name = 'SharedLogbookUnreachable';
+    this.detail = detail;
   }
+}
+
+/** A lost connection's short reason, for reports that list many. */
+export function connectionFaultDetail(error: unknown): string {
+  if (error instanceof SharedLogbookUnreachable) return error.detail;
+  return error instanceof Error ? error.message : String(error);
 }
 
 /** Node socket codes and PostgreSQL SQLSTATEs that mean "the connection is gone or not there yet". */
@@ -49,12 +59,12 @@ function describe(error: unknown, target: PostgresTarget): Error {
   const raw = error instanceof Error ? error.message : String(error);
   const message = target.scrub(raw);
   if (error instanceof InputError) {
-    if (message === raw) return error;
+    if (message === raw || error instanceof SharedLogbookUnreachable) return error;
     const scrubbed = new InputError(message);
     scrubbed.name = error.name;
     return scrubbed;
   }
-  if (isConnectionFault(error)) return new SharedLogbookUnreachable(`cannot reach the shared logbook (${message}); is its server running and reachable from here?`, target.display);
+  if (isConnectionFault(error)) return new SharedLogbookUnreachable(message, target.display);
   switch (code) {
     case '28P01':
     case '28000':

@@ -10,7 +10,7 @@ import { createLogbookOverEngine, type LogbookEngine } from '../logbookOverEngin
 import { createBatchingWriter } from '../logbookWriter';
 import type { Logbook } from '../logbookTypes';
 import { recoverInterruptedSessions } from '../sessionRecovery';
-import { numberedPlaceholders, runAsync, type SqlProgram, type SqlStep } from '../sqlProgram';
+import { numberedPlaceholders, runAsync, type SqlProgram, type SqlStep, type SqlValue } from '../sqlProgram';
 import { postgresTarget, type PostgresTarget } from './connection';
 import { describePostgresError, sqlStateOf } from './pgErrors';
 import { latestPgSchemaVersion, pgMigrations, schemaTable } from './pgSchema';
@@ -24,14 +24,30 @@ export interface OpenPostgresOptions {
 /** The advisory lock key every opener takes while it migrates ("RAMP" in ASCII, as the SQLite application id). */
 const migrationLockKey = 0x52414d50;
 
+// SQLite keeps no NaN (it stores NULL); the shared logbook does the same so both hold equal rows.
+const boundValue = (value: SqlValue) => (typeof value === 'number' && Number.isNaN(value) ? null : value instanceof Uint8Array && !Buffer.isBuffer(value) ? Buffer.from(value.buffer, value.byteOffset, value.byteLength) : value);
+
+/** A value as JSON the server reads back exactly: doubles in shortest round-trip form, infinities and bytes as text. */
+function jsonCell(value: SqlValue): string | number | null {
+  if (value === null || typeof value === 'string') return value;
+  if (typeof value === 'number') return Number.isFinite(value) ? value : Number.isNaN(value) ? null : value > 0 ? 'Infinity' : '-Infinity';
+  return `\\x${Buffer.from(value.buffer, value.byteOffset, value.byteLength).toString('hex')}`;
+}
+
 function pgExecutor(client: pg.PoolClient): (step: SqlStep) => Promise<unknown> {
   return async (step) => {
     if (step.mode === 'lock') {
       await client.query('SELECT pg_advisory_xact_lock(hashtext($1))', [step.key]);
       return undefined;
     }
-    // SQLite keeps no NaN (it stores NULL); the shared logbook does the same so both hold equal rows.
-    const values = step.parameters.map((value) => (typeof value === 'number' && Number.isNaN(value) ? null : value instanceof Uint8Array && !Buffer.isBuffer(value) ? Buffer.from(value.buffer, value.byteOffset, value.byteLength) : value));
+    if (step.mode === 'insert') {
+      // One statement per table: the rows as one JSON parameter, read into the table's row type by the server.
+      const records = step.rows.map((row) => Object.fromEntries(step.columns.map((column, index) => [column, jsonCell(row[index])])));
+      const columns = step.columns.join(', ');
+      await client.query(`INSERT INTO ${step.table} (${columns}) SELECT ${columns} FROM json_populate_recordset(NULL::${step.table}, $1::json)`, [JSON.stringify(records)]);
+      return undefined;
+    }
+    const values = step.parameters.map(boundValue);
     const result = await client.query(numberedPlaceholders(step.sql), values);
     if (step.mode === 'all') return result.rows;
     if (step.mode === 'get') return result.rows[0];
@@ -40,11 +56,12 @@ function pgExecutor(client: pg.PoolClient): (step: SqlStep) => Promise<unknown> 
 }
 
 async function schemaVersion(client: pg.PoolClient, target: PostgresTarget): Promise<number> {
-  // A scan of the catalog, not to_regclass: its cache may not yet see a table another opener created meanwhile.
-  const ours = await client.query<{ n: number }>('SELECT count(*) AS n FROM pg_tables WHERE schemaname = current_schema() AND tablename = $1', [schemaTable]);
-  if (ours.rows[0].n === 0) {
-    const tables = await client.query<{ n: number }>("SELECT count(*) AS n FROM pg_tables WHERE schemaname = current_schema()");
-    if (tables.rows[0].n > 0) throw new InputError('is a database with tables of its own, not a Rampwright logbook; it was left untouched (give the shared logbook a database of its own)', target.display);
+  // A scan of the catalog, not to_regclass: its cache may not yet see a table another opener created meanwhile. One
+  // statement, so one snapshot: two would let another opener's first migration commit between them, and its tables
+  // would look like a database of someone else's.
+  const tables = await client.query<{ ours: number; n: number }>('SELECT count(*) FILTER (WHERE tablename = $1) AS ours, count(*) AS n FROM pg_tables WHERE schemaname = current_schema()', [schemaTable]);
+  if (Number(tables.rows[0].ours) === 0) {
+    if (Number(tables.rows[0].n) > 0) throw new InputError('is a database with tables of its own, not a Rampwright logbook; it was left untouched (give the shared logbook a database of its own)', target.display);
     return 0;
   }
   const version = await client.query<{ v: number | null }>(`SELECT max(version) AS v FROM ${schemaTable}`);

@@ -43,6 +43,17 @@ describe('parseAsciiNumber', () => {
     );
   });
 
+  it('equals Number() for whole digit strings either side of 2^53, where the one-rounding path stops', () => {
+    // 2^53 = 9007199254740992: below it the digits are exact in a double and one division rounds them.
+    for (const digits of ['9007199254740991', '9007199254740992', '9007199254740993', '9007199254740999', '8999999999999999', '90071992547409915', '9007199254740990123']) {
+      for (const point of [1, 3, 8, digits.length - 1]) {
+        const text = `${digits.slice(0, point)}.${digits.slice(point)}`;
+        expect(Object.is(parse(text), Number(text))).toBe(true);
+        expect(Object.is(parse(`-${text}`), Number(`-${text}`))).toBe(true);
+      }
+    }
+  });
+
   it('equals Number() at exact halfway points, where only the tie rule decides', () => {
     // Halfway between neighbouring doubles, each exact in 17 to 19 digits (hand-derived from 2^53 and 2^54):
     // 2^53 + 1, 2^53 + 3 (ties to even go down and up), 2^54 + 2, 2^54 + 6, and the same scaled by 10^-k.

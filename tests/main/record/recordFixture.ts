@@ -40,11 +40,11 @@ export interface RecordedSession {
   capture: SampleBlock;
 }
 
-export async function recordSweepSession(logbook: Logbook, options: { unitSerial?: string; startedAt?: Date; seconds?: number; seed?: number; steps?: boolean } = {}): Promise<RecordedSession> {
+export async function recordSweepSession(logbook: Logbook, options: { unitSerial?: string; startedAt?: Date; seconds?: number; seed?: number; steps?: boolean; bench?: string } = {}): Promise<RecordedSession> {
   const design = chargerDesign();
   const blocks = [...synthesiseCapture(design, { durationS: options.seconds ?? 1.2, sampleRateHz: 10_000, seed: options.seed ?? 7, controlSweep: { fromV: 2, toV: 6, periodS: 2.4 } })];
   const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: true });
-  const writer = await logbook.startSession({ unitSerial: options.unitSerial ?? 'RW-7731', design, operator: 'A. Tester', notes: 'sweep for the record', startedAt: options.startedAt ?? new Date('2026-11-20T08:30:00Z') });
+  const writer = await logbook.startSession({ unitSerial: options.unitSerial ?? 'RW-7731', design, operator: 'A. Tester', notes: 'sweep for the record', startedAt: options.startedAt ?? new Date('2026-11-20T08:30:00Z'), bench: options.bench });
   for (const block of blocks) {
     for (const cycle of analyzer.push(block)) {
       writer.addCycle(cycle);

@@ -2,7 +2,12 @@ import Database from 'better-sqlite3';
 import { spawnSync } from 'node:child_process';
 import { hostname } from 'node:os';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
+import { createBatchingWriter } from '../../../main/store/logbookWriter';
+import { openLogbookDatabase } from '../../../main/store/openDatabase';
+import { readSessionRow } from '../../../main/store/sessionQueries';
+import { runSync, type SqlProgram } from '../../../main/store/sqlProgram';
+import { openSqliteLogbook, sqliteExecutor } from '../../../main/store/sqliteLogbook';
+import { insertSession, saveDesign } from '../../../main/store/writeQueries';
 import { chargerDesign, cycleReading, tempFolder, type TempFolder } from './storeFixtures';
 
 let folder: TempFolder;
@@ -158,5 +163,44 @@ describe('a writer whose disk refuses writes for long', () => {
     expect(row.cycles).toBe(100);
     expect(row.linkErrors).toBe(1);
     await logbook.close();
+  });
+});
+
+describe('a batch whose answer was lost', () => {
+  it('is tried again as the same batch and, having committed, writes nothing twice', async () => {
+    // A shared logbook's connection can drop after COMMIT reached the server but before its answer came back: the
+    // writer cannot tell, tries the batch again, and the batch's stamp on the session says it is already there.
+    const path = folder.file('lost-answer.sqlite');
+    const db = openLogbookDatabase(path);
+    const execute = sqliteExecutor(db);
+    const writeNow = <T>(program: SqlProgram<T>): T => db.transaction(() => runSync(program, execute)).immediate();
+    const design = writeNow(saveDesign(chargerDesign(), Date.now()));
+    const sessionId = writeNow(insertSession({ serial: 'RW-0150', designId: design.id, designName: design.name, operator: 'bench 1', startedAtMs: Date.now(), notes: null, bench: 'bench 1', writer: { host: 'here', pid: 1 }, nowMs: Date.now() }));
+    let answersLost = 1;
+    const writer = createBatchingWriter(sessionId, {
+      flushIntervalMs: 3_600_000,
+      readRow: async (id) => runSync(readSessionRow(id, path), execute),
+      write: async (program) => {
+        const result = writeNow(program);
+        if (answersLost > 0) {
+          answersLost -= 1;
+          throw new Error('Connection terminated unexpectedly');
+        }
+        return result;
+      },
+    });
+    const count = (table: string) => (db.prepare(`SELECT count(*) AS n FROM ${table} WHERE session_id = ?`).get(sessionId) as { n: number }).n;
+    for (let i = 0; i < 50; i += 1) writer.addCycle(cycleReading(i * 0.02));
+    writer.addLinkEvent('crc-failures', 'one line', 1);
+    await expect(writer.flush()).rejects.toThrow(/Connection terminated/);
+    // It did commit; the writer does not know.
+    expect([count('cycles'), count('link_events'), writer.stats().queued]).toEqual([50, 1, 51]);
+    for (let i = 50; i < 60; i += 1) writer.addCycle(cycleReading(i * 0.02));
+    await writer.flush();
+    expect([count('cycles'), count('link_events'), writer.stats().queued]).toEqual([60, 1, 0]);
+    const seqs = (db.prepare('SELECT seq FROM cycles WHERE session_id = ? ORDER BY seq').all(sessionId) as Array<{ seq: number }>).map((row) => row.seq);
+    expect(seqs).toEqual(Array.from({ length: 60 }, (_, index) => index));
+    expect((await writer.close()).cycles).toBe(60);
+    db.close();
   });
 });

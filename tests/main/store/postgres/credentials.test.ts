@@ -49,9 +49,12 @@ afterAll(async () => {
 
 describe('a shared logbook address with a password in it', () => {
   it('records, lists and reports without ever printing the password', async () => {
-    const demo = await cli(['demo', '--db', withPassword(), '--json']);
+    // Given the shared logbook, the demo records into this bench's own logbook (data folder) and pushes from there.
+    const demo = await cli(['demo', '--db', withPassword(), '--json'], { XDG_DATA_HOME: folder.file('data') });
     expect(demo.code).toBe(0);
-    expect(JSON.parse(demo.stdout).logbook).toBe(`postgres://${user}@127.0.0.1:${cluster.port}/${database}`);
+    const result = JSON.parse(demo.stdout) as { logbook: string; pushed: string[] };
+    expect(result.logbook).toBe(folder.file('data/rampwright/logbook.sqlite'));
+    expect(result.pushed.join('\n')).toMatch(new RegExp(`Pushed 1 session \\(\\d+ cycles\\) to postgres://${user}@127\\.0\\.0\\.1:${cluster.port}/${database}`));
     const log = await cli(['log', '--db', withPassword()]);
     expect(log.code).toBe(0);
     expect(log.stdout).toMatch(/CH50H-0042/);
@@ -102,6 +105,9 @@ describe('pushing and what is stored', () => {
     const push = await cli(['push', '--db', local, '--to', withPassword()]);
     expect(push.code).toBe(0);
     expect(push.stdout).toMatch(/Pushed 1 session/);
+    // Both demos are in the shared logbook: two sessions of the demo unit.
+    const log = await cli(['log', '--db', withPassword(), '--json']);
+    expect((JSON.parse(log.stdout) as { sessions: unknown[] }).sessions).toHaveLength(2);
     for (const text of outputs) expectNoPassword(text);
 
     // Every text column of every table, in the shared logbook and in the bench's own.

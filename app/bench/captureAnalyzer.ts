@@ -133,9 +133,13 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
     return Number.isFinite(window.priorIndex) ? window.endIndex - window.priorIndex : 2 * (window.endIndex - window.startIndex);
   }
 
+  /** Samples from the window's start as an angle of the mains period, referred back to the mains crossing. */
+  function degreesOf(samples: number, periodSamples: number): number {
+    return (samples / periodSamples) * 360 + syncPhaseDeg;
+  }
+
   function analyzeWindow(window: FiringWindow): CycleReading {
     const periodSamples = windowPeriodSamples(window);
-    const toDeg = (samples: number): number => (samples / periodSamples) * 360 + syncPhaseDeg;
     const marginSamples = Math.max(2, Math.ceil(0.05 * periodSamples));
     // The ramp charges in the half-cycle that fires: the whole window full-wave, up to the falling crossing half-wave.
     const chargeEndIndex = rectifier === 'half-wave' && Number.isFinite(window.midIndex) ? window.midIndex : window.endIndex;
@@ -189,14 +193,14 @@ export function createCaptureAnalyzer(options: CaptureAnalyzerOptions): CaptureA
       t: timeOf(window.startIndex),
       halfCycle: window.direction === 'rising' ? 'positive' : 'negative',
       periodS: timed ? timed.periodS : periodSamples / sampleRateHz,
-      alphaDeg: timed?.alphaDeg ?? (firstPulse ? toDeg(firstPulse.riseIndex - window.startIndex) : null),
+      alphaDeg: timed?.alphaDeg ?? (firstPulse ? degreesOf(firstPulse.riseIndex - window.startIndex, periodSamples) : null),
       controlV: firstPulse ? firstPulse.controlV : null,
       pulses: rightHalf,
       wrongHalfCyclePulses: wrongHalf,
       rampPeakV: segment ? segment.peakV : null,
       rampFloorV: segment ? segment.floorV : null,
       slopeVPerMs: segment ? (segment.slopeVPerSample * sampleRateHz) / 1000 : null,
-      startDelayDeg: segment ? toDeg(segment.startIndex + cut.firstIndex - window.startIndex) : null,
+      startDelayDeg: segment ? degreesOf(segment.startIndex + cut.firstIndex - window.startIndex, periodSamples) : null,
       nonlinearityPct: segment ? segment.nonlinearityPct : null,
       clipped: segment ? segment.clipped : null,
       resetUs,

@@ -81,6 +81,10 @@ export class GatePulseTracker {
     let spanV = levels ? levels.highV - levels.lowV : 0;
     let mesialV = lowV + spanV / 2;
     let hysteresisV = this.hysteresisFraction * spanV;
+    // The per-sample state lives in locals for the loop (the hot path) and goes back to the fields after it.
+    let high = this.high;
+    let previous = this.previousValue;
+    let previousControl = this.previousControl;
     for (let i = 0; i < gate.length; i++) {
       const value = gate[i];
       const controlValue = control ? control[i] : Number.NaN;
@@ -96,26 +100,25 @@ export class GatePulseTracker {
         }
       }
       if (levels) {
-        const previous = this.previousValue;
         // Remember the latest mesial crossing in each direction: the edge instant once hysteresis confirms it.
         if ((previous <= mesialV) !== (value <= mesialV) && Number.isFinite(previous)) {
           const fraction = (mesialV - previous) / (value - previous);
           this.candidateIndex = index - 1 + fraction;
-          this.candidateControl = control ? this.previousControl + fraction * (controlValue - this.previousControl) : Number.NaN;
+          this.candidateControl = control ? previousControl + fraction * (controlValue - previousControl) : Number.NaN;
         }
-        if (!this.high) {
+        if (!high) {
           if (value > mesialV + hysteresisV) {
-            this.high = true;
+            high = true;
             const riseIndex = Number.isFinite(this.candidateIndex) ? this.candidateIndex : index;
             const controlV = control ? (Number.isFinite(this.candidateControl) ? this.candidateControl : controlValue) : null;
             this.open = { riseIndex, fallIndex: null, amplitudeV: 0, controlV };
             this.openSumV = 0;
             this.openCount = 0;
-            this.openControlBefore = this.previousControl;
+            this.openControlBefore = previousControl;
             started.push(this.open);
           }
         } else if (value < mesialV - hysteresisV) {
-          this.high = false;
+          high = false;
           if (this.open) {
             this.open.fallIndex = Number.isFinite(this.candidateIndex) ? this.candidateIndex : index;
             if (this.openCount === 1) {
@@ -128,7 +131,7 @@ export class GatePulseTracker {
             this.open = null;
           }
         }
-        if (this.high && this.open && value > mesialV) {
+        if (high && value > mesialV && this.open) {
           this.openSumV += value;
           this.openCount += 1;
           if (this.openCount === 1) {
@@ -137,9 +140,12 @@ export class GatePulseTracker {
           }
         }
       }
-      this.previousValue = value;
-      this.previousControl = controlValue;
+      previous = value;
+      previousControl = controlValue;
     }
+    this.high = high;
+    this.previousValue = previous;
+    this.previousControl = previousControl;
     return { started, completed };
   }
 

@@ -83,8 +83,8 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
   let endIndex = Math.min(fallCrossing, lastHighIndex + 1);
   const tailWidth = Math.max(3, Math.round(0.03 * chargingSamples));
   const tailFit = fitIndexLine(values, Math.max(riseIndex, lastHighIndex - tailWidth + 1), lastHighIndex + 1);
-  const levelAt = (index: number): number => (tailFit ? tailFit.slope * index + tailFit.intercept : values[lastHighIndex]);
-  let peakV = levelAt(endIndex);
+  // The level at a position: the tail's line, or the last high sample when the tail has no line.
+  let peakV = tailFit ? tailFit.slope * endIndex + tailFit.intercept : values[lastHighIndex];
 
   // Two passes: the floor is the median of the foot samples up to the start the line gives, and the line's
   // 10 % level depends on the floor; starting from the lowest sample, the second pass is settled.
@@ -135,7 +135,7 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
   if (options.chargeEndCrossingIndex !== undefined && Number.isFinite(options.chargeEndCrossingIndex)) {
     const symmetricEnd = options.chargeEndCrossingIndex - (startIndex - options.windowStartIndex);
     endIndex = Math.min(fallIndex, Math.max(lastHighIndex, symmetricEnd));
-    peakV = levelAt(endIndex);
+    peakV = tailFit ? tailFit.slope * endIndex + tailFit.intercept : values[lastHighIndex];
   }
 
   // Clipping: slope over the last 10 % of the interval against the linear-part slope.
@@ -177,14 +177,18 @@ export class UpCrossingFinder {
   ) {
     this.low = Math.max(0, from);
     this.high = Math.min(to, values.length - 1);
-    const count = Math.max(0, this.high - this.low);
+    const low = this.low;
+    const high = this.high;
+    const count = Math.max(0, high - low);
     if (suffixScratch.length < count) suffixScratch = new Float64Array(count * 2);
-    this.suffixMin = suffixScratch;
+    // Locals in the loop (a field read per sample costs more than the comparison).
+    const suffixMin = suffixScratch;
+    this.suffixMin = suffixMin;
     let minimum = Number.POSITIVE_INFINITY;
-    for (let j = this.high - 1; j >= this.low; j--) {
+    for (let j = high - 1; j >= low; j--) {
       const value = values[j];
       if (value < minimum) minimum = value;
-      this.suffixMin[j - this.low] = minimum;
+      suffixMin[j - low] = minimum;
     }
   }
 

@@ -11,7 +11,6 @@
  *   fewer the line is kept, and with only the two bracketing samples it is plain linear interpolation (IEEE 181
  *   crossing instants).
  */
-import { fitLine } from './leastSquares';
 
 export type CrossingDirection = 'rising' | 'falling';
 
@@ -84,6 +83,10 @@ export class ZeroCrossingTracker {
     let cycleSumV = this.cycleSumV;
     let cycleMinV = this.cycleMinV;
     let cycleMaxV = this.cycleMaxV;
+    // Most samples lie outside the band on the side already known: such a sample only becomes the band's entry
+    // sample, so its position is kept here and handed to leaveBand when the band is entered (or the block ends).
+    let state = this.state;
+    let outside = -1;
     for (let i = 0; i < values.length; i++) {
       const value = values[i];
       cycleSumV += value;
@@ -91,7 +94,13 @@ export class ZeroCrossingTracker {
       if (value > cycleMaxV) cycleMaxV = value;
       const deviation = value - offsetV;
       if (deviation > bandV) {
-        if (this.state === 'low') {
+        if (state === 'high') {
+          outside = i;
+          continue;
+        }
+        if (outside >= 0) this.leaveBand(firstIndex + outside, values[outside] - offsetV);
+        outside = -1;
+        if (state === 'low') {
           const index = firstIndex + i;
           const crossing = this.crossingIndex(index, deviation);
           crossings.push({ index: crossing, direction: 'rising' });
@@ -104,20 +113,32 @@ export class ZeroCrossingTracker {
           cycleSumV = this.cycleSumV;
           cycleMinV = this.cycleMinV;
           cycleMaxV = this.cycleMaxV;
-          this.state = 'high';
+          state = 'high';
           this.leaveBand(index, value - offsetV);
         } else {
-          this.state = 'high';
+          state = 'high';
           this.leaveBand(firstIndex + i, deviation);
         }
       } else if (deviation < -bandV) {
-        if (this.state === 'high') crossings.push({ index: this.crossingIndex(firstIndex + i, deviation), direction: 'falling' });
-        this.state = 'low';
+        if (state === 'low') {
+          outside = i;
+          continue;
+        }
+        if (outside >= 0) this.leaveBand(firstIndex + outside, values[outside] - offsetV);
+        outside = -1;
+        if (state === 'high') crossings.push({ index: this.crossingIndex(firstIndex + i, deviation), direction: 'falling' });
+        state = 'low';
         this.leaveBand(firstIndex + i, deviation);
       } else {
+        if (outside >= 0) this.leaveBand(firstIndex + outside, values[outside] - offsetV);
+        outside = -1;
+        this.state = state;
         this.enterBand(firstIndex + i, deviation);
+        state = this.state;
       }
     }
+    if (outside >= 0) this.leaveBand(firstIndex + outside, values[outside] - offsetV);
+    this.state = state;
     this.cycleSumV = cycleSumV;
     this.cycleMinV = cycleMinV;
     this.cycleMaxV = cycleMaxV;
@@ -156,8 +177,12 @@ export class ZeroCrossingTracker {
     const hasEntry = Number.isFinite(this.entryIndex);
     const count = this.bandCount + 1 + (hasEntry ? 1 : 0);
     // Positions relative to the exit sample, so a long stream's large sample numbers cost no precision.
-    const x = new Float64Array(count);
-    const y = new Float64Array(count);
+    if (fitX.length < count) {
+      fitX = new Float64Array(count * 2);
+      fitY = new Float64Array(count * 2);
+    }
+    const x = fitX;
+    const y = fitY;
     let n = 0;
     if (hasEntry) {
       x[n] = this.entryIndex - exitIndex;
@@ -169,7 +194,7 @@ export class ZeroCrossingTracker {
     }
     x[n] = 0;
     y[n] = exitValue;
-    const zero = oddCubicZero(x, y);
+    const zero = oddCubicZero(x, y, count);
     if (zero !== null && zero >= x[0] && zero <= 0) return exitIndex + zero;
     // Fallback: interpolate between the last sample before the exit and the exit sample.
     const beforeValue = count > 1 ? y[count - 2] : 0;
@@ -233,48 +258,69 @@ export function estimateSyncLevels(values: ArrayLike<number>): SyncLevels | null
   return { offsetV: sumV / (to - from), amplitudeV: rough.amplitudeV };
 }
 
-/** Zero of a line fit, refined by a fit of a + b u + c u^3 about it (Newton on the cubic); null when degenerate. */
-function oddCubicZero(x: Float64Array, y: Float64Array): number | null {
-  const count = x.length;
-  const line = fitLine(x, y);
-  if (!line || line.slope === 0) return null;
-  const lineZero = -line.intercept / line.slope;
+/** Scratch for the points of one crossing's fit (a band holds about a fifth of a cycle's samples). */
+let fitX = new Float64Array(256);
+let fitY = new Float64Array(256);
+
+/**
+ * Zero of a line fit through the first `count` points, refined by a fit of a + b u + c u^3 about it (Newton on the
+ * cubic); null when degenerate. The line is least squares about the means (as fitLine in leastSquares.ts, without
+ * the residuals this does not need).
+ */
+function oddCubicZero(x: Float64Array, y: Float64Array, count: number): number | null {
+  if (count < 2) return null;
+  let meanX = 0;
+  let meanY = 0;
+  for (let i = 0; i < count; i++) {
+    meanX += x[i];
+    meanY += y[i];
+  }
+  meanX /= count;
+  meanY /= count;
+  let sxx = 0;
+  let sxy = 0;
+  for (let i = 0; i < count; i++) {
+    const dx = x[i] - meanX;
+    sxx += dx * dx;
+    sxy += dx * (y[i] - meanY);
+  }
+  if (!(sxx > 0)) return null;
+  const slope = sxy / sxx;
+  if (slope === 0) return null;
+  const lineZero = -(meanY - slope * meanX) / slope;
   if (count < 5) return lineZero;
   // Normal equations of [1, u, u^3] with u = x - lineZero.
-  const m = [0, 0, 0, 0, 0, 0, 0];
-  const r = [0, 0, 0];
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  let s4 = 0;
+  let s6 = 0;
+  let r0 = 0;
+  let r1 = 0;
+  let r3 = 0;
   for (let i = 0; i < count; i++) {
     const u = x[i] - lineZero;
     const u2 = u * u;
     const u3 = u2 * u;
-    m[0] += 1;
-    m[1] += u;
-    m[2] += u2;
-    m[3] += u3;
-    m[4] += u2 * u2;
-    m[6] += u3 * u3;
-    r[0] += y[i];
-    r[1] += u * y[i];
-    r[2] += u3 * y[i];
+    s0 += 1;
+    s1 += u;
+    s2 += u2;
+    s3 += u3;
+    s4 += u2 * u2;
+    s6 += u3 * u3;
+    r0 += y[i];
+    r1 += u * y[i];
+    r3 += u3 * y[i];
   }
-  // Matrix [[n, S1, S3], [S1, S2, S4], [S3, S4, S6]] solved by Cramer's rule (3x3, well scaled by centring).
-  const a11 = m[0], a12 = m[1], a13 = m[3], a22 = m[2], a23 = m[4], a33 = m[6];
+  // Matrix [[n, S1, S3], [S1, S2, S4], [S3, S4, S6]] solved by Cramer's rule (3x3, well scaled by centring): each
+  // unknown is the determinant with its column replaced by the right-hand side, over the matrix's determinant.
+  const a11 = s0, a12 = s1, a13 = s3, a22 = s2, a23 = s4, a33 = s6;
   const determinant = a11 * (a22 * a33 - a23 * a23) - a12 * (a12 * a33 - a23 * a13) + a13 * (a12 * a23 - a22 * a13);
   if (!(Math.abs(determinant) > 0)) return lineZero;
-  const solve = (b1: number, b2: number, b3: number, column: number): number => {
-    const c = [
-      [a11, a12, a13],
-      [a12, a22, a23],
-      [a13, a23, a33],
-    ];
-    c[0][column] = b1;
-    c[1][column] = b2;
-    c[2][column] = b3;
-    return (c[0][0] * (c[1][1] * c[2][2] - c[1][2] * c[2][1]) - c[0][1] * (c[1][0] * c[2][2] - c[1][2] * c[2][0]) + c[0][2] * (c[1][0] * c[2][1] - c[1][1] * c[2][0])) / determinant;
-  };
-  const a = solve(r[0], r[1], r[2], 0);
-  const b = solve(r[0], r[1], r[2], 1);
-  const c = solve(r[0], r[1], r[2], 2);
+  const a = (r0 * (a22 * a33 - a23 * a23) - a12 * (r1 * a33 - a23 * r3) + a13 * (r1 * a23 - a22 * r3)) / determinant;
+  const b = (a11 * (r1 * a33 - a23 * r3) - r0 * (a12 * a33 - a23 * a13) + a13 * (a12 * r3 - r1 * a13)) / determinant;
+  const c = (a11 * (a22 * r3 - r1 * a23) - a12 * (a12 * r3 - r1 * a13) + r0 * (a12 * a23 - a22 * a13)) / determinant;
   let u = -a / b;
   for (let iteration = 0; iteration < 4; iteration++) u -= (a + b * u + c * u * u * u) / (b + 3 * c * u * u);
   return Number.isFinite(u) ? lineZero + u : lineZero;

@@ -190,7 +190,7 @@ export class BenchScreen implements Screen {
             h('span', { class: 'chip' }, 'Operator ', h('strong', {}, session.operator)),
             h('span', { class: 'chip', 'data-testid': 'session-id' }, `Session ${session.id} · open since ${new Date(session.startedAt).toLocaleTimeString()}`),
           ]
-        : h('span', { class: 'muted' }, 'No session open. The fold shows the link when it streams; readings are recorded once a session is open.'),
+        : this.noSessionLine(),
     );
     const held = state?.held ?? false;
     this.holdButton.textContent = held ? 'Release hold' : 'Hold';
@@ -201,6 +201,16 @@ export class BenchScreen implements Screen {
     this.renderSteps();
     this.renderBigReadings();
     if (this.context.store.health) this.renderLink(this.context.store.health);
+  }
+
+  /**
+   * Without a session the readings below are the link's as it is, which need not be the unit or the file being set
+   * up (a capture file chosen above is read only when the session starts): the line says whose they are.
+   */
+  private noSessionLine(): HTMLElement {
+    const source = this.context.store.health?.source ?? null;
+    const whose = source ? ` The readings below come from the ${describeLinkSource(source)}; what is chosen above is read only once the session starts.` : '';
+    return h('span', { class: 'muted', 'data-testid': 'no-session-line' }, `No session open. The fold shows the link when it streams; readings are recorded once a session is open.${whose}`);
   }
 
   private renderSteps(): void {
@@ -245,6 +255,7 @@ export class BenchScreen implements Screen {
   }
 
   private renderLink(link: LinkHealth): void {
+    if (!this.context.store.state?.session) fill(this.sessionLine, this.noSessionLine());
     const stateWords: Record<string, string> = { disconnected: 'Not connected', connecting: 'Connecting', streaming: 'Streaming', stalled: 'No data arriving', lost: 'Link lost', ended: 'Capture read to the end' };
     if (link.source?.kind !== 'capture' && this.context.store.captureProgress?.state !== 'reading') this.captureRow.hidden = true;
     const source = link.source ? capitalised(describeLinkSource(link.source)) : 'None';

@@ -59,6 +59,8 @@ describe('a capture file on the Bench screen', () => {
     await expect(page.getByTestId('capture-problem').textContent()).resolves.toMatch(/no channel for sync, ramp, gate/);
     expect(await page.getByTestId('capture-problem').textContent()).not.toContain('--map');
     expect(await page.getByTestId('capture-role-sync').getAttribute('aria-invalid')).toBe('true');
+    // The readings under the setup are the link's (the virtual board here), and the screen says so: not the file's.
+    await expect(page.getByTestId('no-session-line').textContent()).resolves.toMatch(/readings below come from the virtual board .*read only once the session starts/);
     await screenshot(page, 'capture-1-columns');
 
     await page.getByTestId('capture-role-sync').selectOption({ label: 'CH1 (V)' });
@@ -101,6 +103,8 @@ describe('a capture file on the Bench screen', () => {
     await page.getByTestId('capture-drop').dispatchEvent('drop', { dataTransfer: transfer });
     await expect.poll(() => page.getByTestId('capture-status').textContent(), { timeout: 30_000 }).toMatch(/bench3-unit43\.csv: ready to open \(roles remembered for this design\)/);
     await expect(page.getByTestId('capture-role-ramp').inputValue()).resolves.toBe('3');
+    // The readings still shown are the first file's, named as such, until the new file is opened.
+    await expect(page.getByTestId('no-session-line').textContent()).resolves.toMatch(/readings below come from the capture file bench3-unit42\.csv/);
     await screenshot(page, 'capture-5-remembered');
     expect(pageErrors).toEqual([]);
   });

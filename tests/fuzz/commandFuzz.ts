@@ -8,6 +8,7 @@
  */
 import { firstNonFiniteNumber } from '../../main/cli/jsonOutput';
 import { runCommandLine } from '../../main/cli/rampwright';
+import { joinBytes } from '../helpers/joinBytes';
 
 /** xorshift32: small, fast and reproducible from its seed (Marsaglia, "Xorshift RNGs", 2003). */
 export function createRandom(seed: number): { next(): number; below(limit: number): number; pick<T>(items: readonly T[]): T; chance(probability: number): boolean } {
@@ -39,17 +40,6 @@ export function fuzzSeed(): number {
 
 /** Bytes that matter to our formats, turning up more often than at random. */
 const telling = ['\n', '\r\n', ',', ';', '-', '.', '9e999', 'NaN', '1e-300', '99999', '"', '\u001a', '\u0000', 'Infinity', '{', '}', '[', ']', ':'].map((text) => new TextEncoder().encode(text));
-
-/** The parts one after the other in one array. */
-export function joinBytes(...parts: Uint8Array[]): Uint8Array {
-  const joined = new Uint8Array(parts.reduce((sum, part) => sum + part.length, 0));
-  let offset = 0;
-  for (const part of parts) {
-    joined.set(part, offset);
-    offset += part.length;
-  }
-  return joined;
-}
 
 /** One to four byte-level changes: flip, insert, delete, duplicate, truncate. */
 export function mutateBytes(original: Uint8Array, random: Random): Uint8Array {

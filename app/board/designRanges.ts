@@ -5,6 +5,7 @@
  * part values all take their limits from here, and DEVELOPERS.md lists them.
  */
 import { z } from 'zod';
+import { formatFarad, formatOhm } from './formatValues';
 
 export interface PhysicalRange {
   min: number;
@@ -57,9 +58,16 @@ function shown(value: number): string {
   return Number(value.toPrecision(4)).toString();
 }
 
+/** A limit as written on a part where there is a notation for it (10 Mohm, 100 pF), else number and unit. */
+function limitText(value: number, unit: string): string {
+  if (unit === 'ohm') return formatOhm(value);
+  if (unit === 'F') return formatFarad(value);
+  return `${shown(value)} ${unit}`;
+}
+
 /** The message for a value outside its range: what it must be, and why. */
 export function rangeMessage(range: PhysicalRange): string {
-  return `must be from ${shown(range.min)} to ${shown(range.max)} ${range.unit} (${range.source})`;
+  return `must be from ${limitText(range.min, range.unit)} to ${limitText(range.max, range.unit)} (${range.source})`;
 }
 
 /** A zod number limited to `range`, with the range and its source in the message. */

@@ -21,7 +21,7 @@ export const designRanges = {
    * Fixed resistors: the IEC 60063 decades resistor makers list for through-hole and chip parts, 1 ohm to 10 Mohm
    * (common practice). The emitter, bias, discharge, control-limit resistors and the control pot all sit in it.
    */
-  resistorOhm: { min: 1, max: 10e6, unit: 'ohm', source: 'the IEC 60063 decades stocked as resistors, 1 ohm to 10 Mohm (common practice)' },
+  resistorOhm: { min: 1, max: 10e6, unit: 'ohm', source: 'the IEC 60063 decades stocked as resistors (common practice)' },
   /**
    * Ramp capacitor: a 50/60 Hz ramp of a few volts charged by 10 uA to 10 mA needs C = I t / V of about 10 nF to
    * 10 uF; 100 pF to 100 uF leaves a decade either side (IEC 60063 decades of film and ceramic parts, common practice).

@@ -50,8 +50,22 @@ describe('design form', () => {
     setFieldText(draft, field('parts.rEmitter.ohm'), '7k5x');
     const check = checkDesign(draft);
     expect(check.design).toBeNull();
-    expect(problemForField(check.problems, field('parts.rEmitter.ohm'))).not.toBeNull();
+    expect(problemForField(check.problems, field('parts.rEmitter.ohm'))?.message).toBe('"7k5x" is not a number: type digits only, in Ω as the label says (no unit letters or prefixes)');
     expect(problemForField(check.problems, field('supplyV'))).toBeNull();
+  });
+
+  it('says in words that a prefixed capacitor value is not a number, naming the unit of the field', () => {
+    const draft = structuredClone(designInput) as Record<string, unknown>;
+    setFieldText(draft, field('parts.cRamp.farad'), '1p');
+    const message = problemForField(checkDesign(draft).problems, field('parts.cRamp.farad'))?.message;
+    expect(message).toMatch(/^"1p" is not a number: .* in µF /);
+    expect(message).not.toMatch(/expected number|received string/);
+  });
+
+  it('refuses an absurd resistor with its physical range written as on a part', () => {
+    const draft = structuredClone(designInput) as Record<string, unknown>;
+    setFieldText(draft, field('parts.rEmitter.ohm'), '0.5');
+    expect(problemForField(checkDesign(draft).problems, field('parts.rEmitter.ohm'))?.message).toMatch(/^must be from 1 ohm to 10 Mohm \(.*IEC 60063.*\); got 0\.5$/);
   });
 
   it('removes an emptied optional part and accepts the design', () => {

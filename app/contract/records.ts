@@ -225,6 +225,8 @@ export const fleetViewSchema = z.object({
   designVersion: z.number().int().positive(),
   units: z.number().int().nonnegative(),
   figures: z.array(fleetFigureSchema),
+  /** The same units split by the bench that did each one's latest session (a shared logbook holds a line's). */
+  benches: z.array(z.object({ bench: z.string().nullable(), units: z.number().int().positive(), rampPeakMeanV: z.number().nullable(), alphaGainMeanDegPerV: z.number().nullable() })),
 });
 export type FleetView = z.infer<typeof fleetViewSchema>;
 

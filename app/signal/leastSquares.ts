@@ -13,8 +13,11 @@ export interface LineFit {
   rmsResidual: number;
 }
 
-/** Fits points `from`..`to - 1` of the two arrays. Needs at least two distinct x values, else returns null. */
-export function fitLine(x: ArrayLike<number>, y: ArrayLike<number>, options: { from?: number; to?: number } = {}): LineFit | null {
+/**
+ * Fits points `from`..`to - 1` of the two arrays. Needs at least two distinct x values, else returns null.
+ * `residuals: false` leaves out the pass over the residuals (their figures are then 0), as in fitIndexLine.
+ */
+export function fitLine(x: ArrayLike<number>, y: ArrayLike<number>, options: { from?: number; to?: number; residuals?: boolean } = {}): LineFit | null {
   const from = Math.max(0, options.from ?? 0);
   const to = Math.min(x.length, y.length, options.to ?? x.length);
   const count = to - from;
@@ -39,10 +42,12 @@ export function fitLine(x: ArrayLike<number>, y: ArrayLike<number>, options: { f
   const intercept = meanY - slope * meanX;
   let maxAbsResidual = 0;
   let sumSquares = 0;
-  for (let i = from; i < to; i++) {
-    const residual = y[i] - (slope * x[i] + intercept);
-    sumSquares += residual * residual;
-    if (Math.abs(residual) > maxAbsResidual) maxAbsResidual = Math.abs(residual);
+  if (options.residuals ?? true) {
+    for (let i = from; i < to; i++) {
+      const residual = y[i] - (slope * x[i] + intercept);
+      sumSquares += residual * residual;
+      if (Math.abs(residual) > maxAbsResidual) maxAbsResidual = Math.abs(residual);
+    }
   }
   return { slope, intercept, count, maxAbsResidual, rmsResidual: Math.sqrt(sumSquares / count) };
 }

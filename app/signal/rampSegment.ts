@@ -72,9 +72,14 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
   const roughDistalV = lowV + 0.9 * roughSpanV;
   while (lastHighIndex > maxIndex && values[lastHighIndex] < roughDistalV) lastHighIndex -= 1;
 
-  // Foot: the samples between the previous reset's fall and this rise (below the 50 % level).
+  // Foot: the samples between the previous reset's fall and this rise (below the 50 % level). The rise is the last
+  // up-crossing of the rough 10 % level in [lowIndex, maxIndex]: from the running minimum up to the last high sample
+  // (built once, also for the passes below) when the last sample below the level comes before the maximum, which is
+  // the usual case; else by the scan. Same answer either way.
   const roughProximalV = lowV + 0.1 * roughSpanV;
-  let riseIndex = lastUpCrossing(values, roughProximalV, lowIndex, maxIndex);
+  const crossings = new UpCrossingFinder(values, 0, lastHighIndex);
+  const lastBelowRough = crossings.lastBelow(roughProximalV);
+  let riseIndex = lastBelowRough >= lowIndex && lastBelowRough < maxIndex ? lastBelowRough + 1 : lastUpCrossing(values, roughProximalV, lowIndex, maxIndex);
   if (riseIndex < 0) riseIndex = lowIndex + 1;
   let footStart = riseIndex - 1;
   while (footStart > 0 && values[footStart - 1] < roughMesialV) footStart -= 1;
@@ -88,7 +93,6 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
 
   // Two passes: the floor is the median of the foot samples up to the start the line gives, and the line's
   // 10 % level depends on the floor; starting from the lowest sample, the second pass is settled.
-  const crossings = new UpCrossingFinder(values, footStart, lastHighIndex);
   let floorV = lowV;
   let fit: LineFit | null = null;
   let previousFit: LineFit | null = null;
@@ -104,7 +108,7 @@ export function analyzeRampSegment(values: ArrayLike<number>, options: RampSegme
     const distalV = floorV + 0.9 * spanV;
     const previousFrom = linearFrom;
     const previousTo = linearTo;
-    linearFrom = crossings.lastUp(proximalV);
+    linearFrom = crossings.lastUpFrom(proximalV, footStart);
     if (linearFrom < 0) linearFrom = riseIndex;
     // The first 90 % crossing after the start. On the second pass with the same start and a level no lower, every
     // sample before the first pass's answer is below the old level and so below the new one: the search goes on
@@ -193,18 +197,31 @@ export class UpCrossingFinder {
   }
 
   lastUp(levelV: number): number {
-    const { values, low, high } = this;
-    if (!(high > low) || !(values[high] >= levelV)) return lastUpCrossing(values, levelV, this.from, this.to);
+    return this.lastUpFrom(levelV, this.from);
+  }
+
+  /** `lastUpCrossing` over [from, to] for a `from` at or after the finder's own. */
+  lastUpFrom(levelV: number, from: number): number {
+    const { values, high } = this;
+    const low = Math.max(0, from);
+    if (!(high > low) || !(values[high] >= levelV)) return lastUpCrossing(values, levelV, from, this.to);
+    const below = this.lastBelow(levelV);
+    return below < low ? -1 : below + 1;
+  }
+
+  /** The last position in [low, high - 1] whose sample is below the level, or -1 (bisection on the running minimum). */
+  lastBelow(levelV: number): number {
+    const { low, high } = this;
     // Largest j in [low, high - 1] with suffixMin below the level (suffixMin does not decrease with j).
+    if (!(high > low) || !(this.suffixMin[0] < levelV)) return -1;
     let left = low;
     let right = high - 1;
-    if (!(this.suffixMin[0] < levelV)) return -1;
     while (left < right) {
       const middle = (left + right + 1) >> 1;
       if (this.suffixMin[middle - low] < levelV) left = middle;
       else right = middle - 1;
     }
-    return left + 1;
+    return left;
   }
 }
 

@@ -11,6 +11,7 @@
  *   fewer the line is kept, and with only the two bracketing samples it is plain linear interpolation (IEEE 181
  *   crossing instants).
  */
+import { fitLine } from './leastSquares';
 
 export type CrossingDirection = 'rising' | 'falling';
 
@@ -264,30 +265,12 @@ let fitY = new Float64Array(256);
 
 /**
  * Zero of a line fit through the first `count` points, refined by a fit of a + b u + c u^3 about it (Newton on the
- * cubic); null when degenerate. The line is least squares about the means (as fitLine in leastSquares.ts, without
- * the residuals this does not need).
+ * cubic); null when degenerate.
  */
 function oddCubicZero(x: Float64Array, y: Float64Array, count: number): number | null {
-  if (count < 2) return null;
-  let meanX = 0;
-  let meanY = 0;
-  for (let i = 0; i < count; i++) {
-    meanX += x[i];
-    meanY += y[i];
-  }
-  meanX /= count;
-  meanY /= count;
-  let sxx = 0;
-  let sxy = 0;
-  for (let i = 0; i < count; i++) {
-    const dx = x[i] - meanX;
-    sxx += dx * dx;
-    sxy += dx * (y[i] - meanY);
-  }
-  if (!(sxx > 0)) return null;
-  const slope = sxy / sxx;
-  if (slope === 0) return null;
-  const lineZero = -(meanY - slope * meanX) / slope;
+  const line = fitLine(x, y, { to: count, residuals: false });
+  if (!line || line.slope === 0) return null;
+  const lineZero = -line.intercept / line.slope;
   if (count < 5) return lineZero;
   // Normal equations of [1, u, u^3] with u = x - lineZero.
   let s0 = 0;

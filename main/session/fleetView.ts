@@ -1,8 +1,10 @@
 /**
  * The fleet of a board design for the Logbook screen: main/record/recall.ts fleetReport (each unit's latest session
- * against the board model's Monte Carlo prediction) without its drawn SVG, which the screen draws itself.
+ * against the board model's Monte Carlo prediction) without its drawn SVG, which the screen draws itself, and the
+ * fleet split by bench.
  */
 import type { FleetView } from '../../app/contract';
+import { benchSummary } from '../../app/record/benchSummary';
 import { fleetReport } from '../record/recall';
 import type { ExportContext } from './exporters';
 
@@ -25,5 +27,6 @@ export async function fleetView(context: ExportContext, designName: string, unit
       outliers: figure.outliers,
       marked: figure.marked,
     })),
+    benches: benchSummary(report.members),
   };
 }

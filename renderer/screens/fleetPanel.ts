@@ -1,10 +1,13 @@
 /**
  * The fleet of the chosen unit's board design, in the Logbook screen: a histogram per figure (ramp peak, alpha
- * gain) of every unit's latest session, the board model's Monte Carlo prediction over it, and the unit marked.
+ * gain) of every unit's latest session, the board model's Monte Carlo prediction over it, and the unit marked;
+ * when the units come from more than one bench (a shared logbook), a table of each bench's units and mean figures,
+ * so a bench that reads apart from the line shows.
  */
 import type { FleetView } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { h, fill } from '../dom/h';
+import { formatSi } from '../shaping/formatSi';
 import { fleetPlacementText, histogramOutline, predictedPoints } from '../shaping/fleetShapes';
 import { runAction, type ScreenContext } from '../shell/screen';
 
@@ -49,6 +52,7 @@ export class FleetPanel {
         h('span', {}, h('span', { class: 'swatch control', 'aria-hidden': 'true' }), 'board model'),
         h('span', {}, h('span', { class: 'swatch gate', 'aria-hidden': 'true' }), 'this unit (dashed)'),
       ),
+      view.benches.length > 1 ? benchTable(view.benches) : null,
     );
     this.element.hidden = false;
     for (const { figure, canvas } of plots) {
@@ -74,4 +78,19 @@ export class FleetPanel {
       this.charts.push(chart);
     }
   }
+}
+
+function benchTable(benches: FleetView['benches']): HTMLElement {
+  return h(
+    'div',
+    { class: 'stack', 'data-testid': 'fleet-benches' },
+    h('h3', {}, 'By bench'),
+    h('p', { class: 'muted' }, 'Each unit counts once, under the bench that did its latest session.'),
+    h(
+      'table',
+      { class: 'data' },
+      h('thead', {}, h('tr', {}, ['Bench', 'Units', 'Mean ramp peak', 'Mean alpha gain'].map((title, column) => h('th', { scope: 'col', class: column > 0 ? 'number' : null }, title)))),
+      h('tbody', {}, benches.map((bench) => h('tr', {}, h('td', { class: 'nowrap' }, bench.bench ?? '–'), h('td', { class: 'number' }, String(bench.units)), h('td', { class: 'number' }, formatSi(bench.rampPeakMeanV, 'V')), h('td', { class: 'number' }, bench.alphaGainMeanDegPerV === null ? '–' : `${bench.alphaGainMeanDegPerV.toFixed(2)}°/V`)))),
+    ),
+  );
 }

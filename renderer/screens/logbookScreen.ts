@@ -13,10 +13,11 @@ import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
 import { readingsCsv } from '../shaping/readingsCsv';
 import { stepTitles } from '../shaping/stepView';
+import { localSpanText } from '../shaping/timeSpan';
 import { fitLinePoints, toPoints } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 import { FleetPanel } from './fleetPanel';
-import { localTimeNote, sharedCell, sharingStatus } from './sharingView';
+import { localTimeNote, sharedCell, sharingMoved, sharingPollMs, sharingStatus } from './sharingView';
 
 type LineChart = Chart<'line', { x: number; y: number }[]>;
 
@@ -47,6 +48,8 @@ export class LogbookScreen implements Screen {
     this.fleet = new FleetPanel(context);
     for (const control of [this.unitSelect, this.designSelect, this.fromInput, this.toInput]) control.addEventListener('change', () => void this.loadSessions());
     this.compareButton.addEventListener('click', () => void this.compare());
+    // A bench pushing as it goes: the sharing line and the Shared column follow without the screen being reopened.
+    window.setInterval(() => void this.followSharing(), sharingPollMs);
     const field = (label: string, control: HTMLElement) => {
       const id = uniqueId('filter');
       control.id = id;
@@ -104,17 +107,35 @@ export class LogbookScreen implements Screen {
     );
   }
 
-  private async loadSessions(): Promise<void> {
+  /** The sessions matching the filters and the sharing state, read again and shown; false when the list failed. */
+  private async readSessions(): Promise<boolean> {
     const dayStart = (value: string, end: boolean) => (value ? `${value}T${end ? '23:59:59' : '00:00:00'}Z` : undefined);
     const result = await runAction(this.context, null, () =>
       this.context.client.listSessions({ unitSerial: this.unitSelect.value || undefined, designName: this.designSelect.value || undefined, from: dayStart(this.fromInput.value, false), to: dayStart(this.toInput.value, true) }),
     );
-    if (!result) return;
+    if (!result) return false;
     this.sessions = result.sessions;
     this.sharing = await this.context.client.sharing().catch(() => null);
     this.renderSharing();
     this.ticked = this.ticked.filter((id) => this.sessions.some((session) => session.id === id));
     this.renderSessions();
+    return true;
+  }
+
+  private async followSharing(): Promise<void> {
+    if (this.element.hidden || document.hidden || this.sharing?.target == null) return;
+    const now = await this.context.client.sharing().catch(() => null);
+    if (!now) return;
+    if (sharingMoved(this.sharing, now)) {
+      await this.readSessions();
+      return;
+    }
+    this.sharing = now;
+    this.renderSharing();
+  }
+
+  private async loadSessions(): Promise<void> {
+    if (!(await this.readSessions())) return;
     const unitSerial = this.unitSelect.value;
     if (unitSerial) {
       void this.showDrift(unitSerial);
@@ -163,7 +184,7 @@ export class LogbookScreen implements Screen {
               { 'aria-selected': String(session.id === this.selectedId), 'data-session': session.id },
               h('td', {}, tick),
               h('td', {}, open),
-              h('td', {}, session.unit),
+              h('td', { class: 'nowrap' }, session.unit),
               h('td', { class: 'nowrap', 'data-testid': `bench-${session.id}` }, session.bench ?? '–'),
               h('td', {}, `${session.designName} v${session.designVersion}`),
               h('td', {}, session.operator),
@@ -222,7 +243,7 @@ export class LogbookScreen implements Screen {
     fill(
       this.detail,
       h('h2', {}, `Session ${row.id}: unit ${row.unit}`),
-      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${new Date(row.startedAt).toLocaleString()}${row.endedAt ? ` to ${new Date(row.endedAt).toLocaleTimeString()}` : ''} · ${row.status} · ${row.cycles} cycles`),
+      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${localSpanText(row.startedAt, row.endedAt)} · ${row.status} · ${row.cycles} cycles`),
       this.sharing?.target != null ? h('p', { 'data-testid': 'detail-shared' }, sharedCell(row)) : null,
       detail.notes ? h('p', {}, detail.notes) : null,
       h('h3', {}, 'Readings'),

@@ -6,6 +6,14 @@ import type { CallResult } from '../../app/contract';
 import type { SessionRow } from '../../app/contract/records';
 import { h } from '../dom/h';
 
+/** How often the Logbook screen asks again while it is shown and the bench pushes somewhere (ms). */
+export const sharingPollMs = 3000;
+
+/** Whether the sessions table must be read again: sessions went out, or came to wait, or the reason changed. */
+export function sharingMoved(before: CallResult<'sharing'> | null, now: CallResult<'sharing'>): boolean {
+  return before === null || before.waiting !== now.waiting || before.problem !== now.problem || before.target !== now.target;
+}
+
 /** Where this bench pushes and how many of its finished sessions wait; null when it pushes nowhere. */
 export function sharingStatus(sharing: CallResult<'sharing'> | null): HTMLElement[] | null {
   if (!sharing || sharing.target === null) return null;

@@ -2,7 +2,7 @@
  * The Logbook screen with a shared logbook, end to end in Debian's Chromium: a bench serving its own logbook and
  * pushing to a real PostgreSQL logbook (throwaway cluster) shows the bench of each session and which sessions are
  * shared; when the server goes away, a new session shows "Not yet shared" and the screen says why, and once the
- * server is back it is shared; the shared logbook served to a reviewer shows every bench's sessions of a unit and
+ * server is back the screen shows it shared without being reopened; the shared logbook served to a reviewer shows every bench's sessions of a unit and
  * its drift by bench. Screenshots go to test-output/screens/. Needs `npm run build` first.
  */
 import type { Browser, Page } from 'playwright-core';
@@ -38,9 +38,11 @@ beforeAll(async () => {
   folder = tempFolder('rampwright-e2e-line-');
   cluster = await startThrowawayCluster();
   cluster.createDatabase('line_logbook');
-  // Bench 3 commissioned unit LN-5001 in October; bench 2 (this bench) checks it again in November and does LN-5002.
+  // Bench 3 commissioned units LN-5001 and LN-4998 in October; bench 2 (this bench) checks LN-5001 again in November
+  // and does LN-5002.
   const other = await openLogbook(folder.file('bench-3.sqlite'));
   await recordSweepSession(other, { unitSerial: 'LN-5001', startedAt: new Date('2026-10-12T06:45:00Z'), seconds: 0.6, seed: 4, bench: 'bench 3' });
+  await recordSweepSession(other, { unitSerial: 'LN-4998', startedAt: new Date('2026-10-12T07:30:00Z'), seconds: 0.6, seed: 8, bench: 'bench 3' });
   await pushSessions(other, shared(), () => openLogbook(shared()));
   await other.close();
   const mine = await openLogbook(folder.file('bench-2.sqlite'));
@@ -90,10 +92,9 @@ describe('a bench pushing to the shared logbook', () => {
     await page.locator('[data-testid="detail-shared"]', { hasText: 'Not yet shared' }).waitFor();
     await screenshot(page, 'shared-2-server-away');
     await cluster.resume();
-    await expect.poll(async () => {
-      await reloadSessions();
-      return page.locator('[data-testid^="shared-"]').allTextContents();
-    }, { timeout: 30_000 }).toEqual(['✓ Shared', '✓ Shared', '✓ Shared']);
+    // The screen follows the bench's pushes by itself: no reopening.
+    await expect.poll(() => page.locator('[data-testid^="shared-"]').allTextContents(), { timeout: 30_000 }).toEqual(['✓ Shared', '✓ Shared', '✓ Shared']);
+    expect(await page.locator('[data-testid="sharing"]').textContent()).toContain('every finished session is shared');
   }, 90_000);
 });
 
@@ -111,6 +112,10 @@ describe('the shared logbook served to a reviewer', () => {
     expect(await page.locator('[data-testid="sharing"]').isHidden()).toBe(true);
     const driftBenches = await page.locator('[data-testid="drift"] tbody tr td:nth-child(2)').allTextContents();
     expect(driftBenches).toEqual(['bench 3', 'bench 2']);
+    // The fleet counts each unit once under the bench of its latest session: LN-5001, LN-5002, LN-5003 on bench 2.
+    await page.locator('[data-testid="fleet-benches"]').waitFor({ state: 'visible' });
+    const byBench = await page.locator('[data-testid="fleet-benches"] tbody tr').evaluateAll((rows) => rows.map((row) => Array.from(row.querySelectorAll('td'), (cell) => cell.textContent).slice(0, 2)));
+    expect(byBench).toEqual([['bench 2', '3'], ['bench 3', '1']]);
     await screenshot(page, 'shared-3-line-unit');
     expect(pageErrors).toEqual([]);
   }, 90_000);

@@ -75,6 +75,9 @@ describe('UpCrossingFinder: the bisected last up-crossing equals the scan', () =
           const values = Float64Array.from(samples, (value) => value / 4);
           const finder = new UpCrossingFinder(values, from, to);
           for (const level of levels) expect(finder.lastUp(level / 4)).toBe(lastUpCrossing(values, level / 4, from, to));
+          // From a later start, as the ramp's passes ask of a finder built from the first sample.
+          const later = from + Math.abs(levels[0]);
+          for (const level of levels) expect(finder.lastUpFrom(level / 4, later)).toBe(lastUpCrossing(values, level / 4, later, to));
         },
       ),
       { numRuns: 2000 },

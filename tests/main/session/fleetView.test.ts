@@ -16,9 +16,10 @@ const design = chargerDesign();
 beforeAll(async () => {
   folder = tempFolder('rampwright-fleet-');
   const sources = await openRecordSources(folder.file('logbook.sqlite'), { create: true });
-  // Eight units, one session each: ramp peaks 7.16 to 7.44 V, alpha gains 22 to 24.1 deg/V.
+  // Eight units, one session each: ramp peaks 7.16 to 7.44 V, alpha gains 22 to 24.1 deg/V; bench 5 did the first
+  // five, bench 6 the last three.
   for (let unit = 0; unit < 8; unit++) {
-    const writer = await sources.logbook.startSession({ unitSerial: `FL-${unit}`, design, operator: 'bench 5', startedAt: new Date(Date.UTC(2026, 2, 1 + unit)) });
+    const writer = await sources.logbook.startSession({ unitSerial: `FL-${unit}`, design, operator: 'A. Fitter', bench: unit < 5 ? 'bench 5' : 'bench 6', startedAt: new Date(Date.UTC(2026, 2, 1 + unit)) });
     const peakV = 7.16 + 0.04 * unit;
     for (let index = 0; index < 4; index++) writer.addCycle(cycleReading(index * 0.02, { rampPeakV: peakV, slopeVPerMs: peakV / 9.7, alphaDeg: 90 }));
     for (let index = 0; index <= 6; index++) writer.addTransferPoint({ t: index, controlV: 2 + index * 0.5, alphaDeg: 3 + (22 + 0.3 * unit) * (2 + index * 0.5) });
@@ -53,6 +54,17 @@ describe('fleet of a board design over the contract', () => {
     expect(peak.marked!.value).toBeCloseTo(7.4, 6);
     const gain = view.figures.find((figure) => figure.key === 'alphaGainDegPerV')!;
     expect(gain.marked!.value).toBeCloseTo(22 + 0.3 * 6, 6);
+  });
+
+  it('splits the fleet by the bench that did each unit (means by hand)', async () => {
+    const view = await client.fleet({ designName: design.name });
+    expect(view.benches.map((bench) => [bench.bench, bench.units])).toEqual([['bench 5', 5], ['bench 6', 3]]);
+    // bench 5: peaks 7.16, 7.20, 7.24, 7.28, 7.32 V (mean 7.24), gains 22.0 ... 23.2 deg/V (mean 22.6);
+    // bench 6: peaks 7.36, 7.40, 7.44 V (mean 7.40), gains 23.5, 23.8, 24.1 deg/V (mean 23.8).
+    expect(view.benches[0].rampPeakMeanV).toBeCloseTo(7.24, 6);
+    expect(view.benches[0].alphaGainMeanDegPerV).toBeCloseTo(22.6, 6);
+    expect(view.benches[1].rampPeakMeanV).toBeCloseTo(7.4, 6);
+    expect(view.benches[1].alphaGainMeanDegPerV).toBeCloseTo(23.8, 6);
   });
 
   it('refuses a design or unit the logbook does not hold, naming it', async () => {

@@ -7,6 +7,7 @@ import { controlLimitsOf } from './controlDivider';
 import { alphaRangeOf } from './firingAngle';
 import type { BoardDesign } from './design';
 import { theveninOf } from './operatingPoint';
+import { partName } from './partNames';
 import { boardPartValues } from './parts';
 import { predictRamp } from './rampModel';
 import { biasNetworkOf } from './transistorLaw';
@@ -39,8 +40,10 @@ export function validateBoardPhysics(design: BoardDesign): BoardPhysicsProblem[]
     error('syncResetUs', `a reset of ${format(design.syncResetUs)} us leaves no charging time in a ${format(halfCycleUs)} us half-cycle`);
   }
   if (design.alphaMinDeg >= design.alphaMaxDeg) {
-    error('alphaMinDeg', `alphaMinDeg ${format(design.alphaMinDeg)} deg must be below alphaMaxDeg ${format(design.alphaMaxDeg)} deg`);
+    error('alphaMinDeg', `the smallest alpha, ${format(design.alphaMinDeg)} deg, must be below the largest, ${format(design.alphaMaxDeg)} deg`);
   }
+  const top = partName(design, 'rBiasTop');
+  const bottom = partName(design, 'rBiasBottom');
 
   // V_TH + V_EB >= V: the emitter cannot rise above the supply, so the emitter-base junction never conducts
   // (REFERENCES.md: Malvino, I_E = (V - V_TH - V_EB)/(R_E + R_TH/(beta+1)) would be zero or negative).
@@ -48,7 +51,7 @@ export function validateBoardPhysics(design: BoardDesign): BoardPhysicsProblem[]
   if (theveninV + vebV >= design.supplyV) {
     error(
       'parts.rBiasBottom.ohm',
-      `the divider rBiasTop/rBiasBottom puts the base at ${format(theveninV)} V, less than V_EB (${format(vebV, 2)} V) below the ${format(design.supplyV)} V supply: the transistor is cut off and the ramp never charges (lower rBiasBottom or raise rBiasTop)`,
+      `the bias divider puts the base at ${format(theveninV)} V, less than V_EB (${format(vebV, 2)} V) below the ${format(design.supplyV)} V supply: the transistor is cut off and the ramp never charges (lower the ${bottom} or raise the ${top})`,
     );
     return problems;
   }
@@ -67,26 +70,26 @@ export function validateBoardPhysics(design: BoardDesign): BoardPhysicsProblem[]
   if (design.rampTargetV >= prediction.clipV && design.rampTargetV < design.supplyV) {
     error(
       'rampTargetV',
-      `the current source saturates at ${format(prediction.clipV)} V (emitter ${format(prediction.emitterV)} V minus V_EC(sat) ${format(design.transistor.vecSatV, 2)} V), below the ${format(design.rampTargetV)} V target: lower the emitter drop (raise rBiasBottom relative to rBiasTop) or the target`,
+      `the current source saturates at ${format(prediction.clipV)} V (emitter ${format(prediction.emitterV)} V minus V_EC(sat) ${format(design.transistor.vecSatV, 2)} V), below the ${format(design.rampTargetV)} V target: lower the emitter drop (raise the ${bottom} against the ${top}) or the target`,
     );
   }
   const range = alphaRangeOf(design, prediction);
   if (design.alphaMaxDeg >= range.endDeg) {
     error(
       'alphaMaxDeg',
-      `alphaMaxDeg ${format(design.alphaMaxDeg)} deg is past the end of the ramp at ${format(range.endDeg)} deg (half-cycle less half the ${format(design.syncResetUs)} us reset): the board cannot fire there`,
+      `the largest alpha, ${format(design.alphaMaxDeg)} deg, is past the end of the ramp at ${format(range.endDeg)} deg (half-cycle less half the ${format(design.syncResetUs)} us reset): the board cannot fire there`,
     );
   }
   if (design.syncPhaseDeg + design.alphaMaxDeg >= 180 && design.alphaMaxDeg < range.endDeg) {
-    warning('alphaMaxDeg', `alphaMaxDeg ${format(design.alphaMaxDeg)} deg plus the sync lag reaches the next zero crossing`);
+    warning('alphaMaxDeg', `the largest alpha, ${format(design.alphaMaxDeg)} deg, plus the sync lag reaches the next zero crossing`);
   }
 
   if (design.parts.rControlTop || design.parts.potControl) {
     const limits = controlLimitsOf(design, { prediction });
     if (limits.alphaMaxDeg === null) {
-      warning('parts.rControlTop.ohm', `at the pot's end the control (${format(limits.controlMaxV)} V) is above the ramp's end: the board stops firing instead of holding alphaMaxDeg ${format(design.alphaMaxDeg)} deg`);
+      warning('parts.rControlTop.ohm', `at the pot's end the control (${format(limits.controlMaxV)} V) is above the ramp's end: the board stops firing instead of holding the largest alpha, ${format(design.alphaMaxDeg)} deg`);
     } else if (limits.alphaMaxDeg > design.alphaMaxDeg + design.tolerances.alphaDeg) {
-      warning('parts.rControlTop.ohm', `the pot's end fires at ${format(limits.alphaMaxDeg)} deg, past alphaMaxDeg ${format(design.alphaMaxDeg)} deg`);
+      warning('parts.rControlTop.ohm', `the pot's end fires at ${format(limits.alphaMaxDeg)} deg, past the largest alpha, ${format(design.alphaMaxDeg)} deg`);
     }
   }
   const peakErrorPct = ((prediction.peakV - design.rampTargetV) / design.rampTargetV) * 100;

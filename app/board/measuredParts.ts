@@ -1,7 +1,8 @@
 /**
  * Part values the technician measured on the board (or read off the fitted part), told to the trim planner so it
- * plans from the board as built rather than from the design. Written as `ROLE=VALUE` or `REF=VALUE`
- * ("rEmitter=5k1", "R7=5.1k", "cRamp=560n"); values in ohm for resistors and farad for the capacitor.
+ * plans from the board as built rather than from the design. Written as `REF=VALUE` with the board's designator
+ * ("R7=5k1", "C3=560n"; the design file's position key works too); values in ohm for resistors and farad for the
+ * capacitor.
  *
  * A value more than ten times off its design value is refused: on the bench that is a slip of the prefix
  * ("5.1" for "5.1k") far more often than a part of that size fitted (common practice, no source).
@@ -9,7 +10,8 @@
 import { InputError } from '../errors';
 import type { BoardDesign, PartRole } from './design';
 import { designRanges, rangeMessage, withinRange } from './designRanges';
-import { formatOhm } from './formatValues';
+import { formatPartValue } from './formatValues';
+import { partName } from './partNames';
 import { parseQuantity } from './parseQuantity';
 import type { PartOverrides } from './parts';
 
@@ -22,10 +24,6 @@ export const measuredRatioLimit = 10;
 export function designValueOf(design: BoardDesign, role: PartRole): number | null {
   if (role === 'cRamp') return design.parts.cRamp.farad;
   return design.parts[role]?.ohm ?? null;
-}
-
-function formatValue(role: PartRole, value: number): string {
-  return role === 'cRamp' ? `${(value * 1e9).toPrecision(3)} nF` : formatOhm(value);
 }
 
 /** The role a name stands for: the role itself (any case) or the design's own designator for it. */
@@ -46,22 +44,22 @@ export function checkMeasuredParts(design: BoardDesign, measured: Partial<Record
     if (value === undefined) continue;
     const role = partRoleNamed(design, name);
     if (role === null) {
-      const known = partRoles.filter((candidate) => designValueOf(design, candidate) !== null).map((candidate) => design.parts[candidate]?.ref ? `${candidate} (${design.parts[candidate]?.ref})` : candidate);
-      throw new InputError(`"${name}" is not a part of the design ${design.name}; its parts are ${known.join(', ')}`, where);
+      const known = partRoles.filter((candidate) => designValueOf(design, candidate) !== null).map((candidate) => partName(design, candidate));
+      throw new InputError(`"${name}" is not a part of the design ${design.name}; its parts are the ${known.join(', the ')}`, where);
     }
-    if (!Number.isFinite(value) || value <= 0) throw new InputError(`the measured ${name} must be a positive number (got ${value})`, where);
+    if (!Number.isFinite(value) || value <= 0) throw new InputError(`the measured ${partName(design, role)} must be a positive number (got ${value})`, where);
     const designValue = designValueOf(design, role);
-    if (designValue === null) throw new InputError(`the design ${design.name} has no ${role} to measure`, where);
+    if (designValue === null) throw new InputError(`the design ${design.name} has no ${partName(design, role)} to measure`, where);
     const ratio = value / designValue;
     if (ratio > measuredRatioLimit || ratio < 1 / measuredRatioLimit) {
       throw new InputError(
-        `the measured ${name} ${formatValue(role, value)} is more than ${measuredRatioLimit} times off its design value ${formatValue(role, designValue)}: a missing or extra prefix (k, M, n, u)?`,
+        `the measured ${partName(design, role)} ${formatPartValue(role, value)} is more than ${measuredRatioLimit} times off its design value ${formatPartValue(role, designValue)}: a missing or extra multiplier letter (k, M, n, u)?`,
         where,
       );
     }
     const range = role === 'cRamp' ? designRanges.rampCapacitorFarad : designRanges.resistorOhm;
-    if (!withinRange(value, range)) throw new InputError(`the measured ${name} ${rangeMessage(range)}; got ${formatValue(role, value)}`, where);
-    if (checked[role] !== undefined) throw new InputError(`${name} is given twice`, where);
+    if (!withinRange(value, range)) throw new InputError(`the measured ${partName(design, role)} ${rangeMessage(range)}; got ${formatPartValue(role, value)}`, where);
+    if (checked[role] !== undefined) throw new InputError(`the ${partName(design, role)} is given twice`, where);
     checked[role] = value;
   }
   return checked;
@@ -73,23 +71,20 @@ export function parseMeasuredParts(design: BoardDesign, entries: readonly string
   const roles = new Set<PartRole>();
   for (const entry of entries) {
     const equals = entry.indexOf('=');
-    if (equals <= 0) throw new InputError(`"${entry}" is not NAME=VALUE (for example rEmitter=5k1 or R7=5.1k)`, where);
+    if (equals <= 0) throw new InputError(`"${entry}" is not DESIGNATOR=VALUE (for example R7=5k1 or C3=560n)`, where);
     const name = entry.slice(0, equals).trim();
     const text = entry.slice(equals + 1);
     const value = parseQuantity(text);
-    if (Number.isNaN(value)) throw new InputError(`"${text}" in "${entry}" is not a part value (for example 5k1, 5.1k, 560n)`, where);
+    if (Number.isNaN(value)) throw new InputError(`"${text}" in "${entry}" is not a part value (for example 5k1, 470R, 560n)`, where);
     const role = partRoleNamed(design, name);
-    if (role !== null && roles.has(role)) throw new InputError(`${name} is given twice`, where);
+    if (role !== null && roles.has(role)) throw new InputError(`the ${partName(design, role)} is given twice`, where);
     if (role !== null) roles.add(role);
     measured[name] = value;
   }
   return checkMeasuredParts(design, measured, where);
 }
 
-/** In words, for the plan's notes and the record: "rEmitter (R7) measured 5.1 kohm". */
+/** In words, for the plan's notes and the command line: "emitter resistor R7 taken as 5k1". */
 export function describeMeasuredParts(design: BoardDesign, measured: PartOverrides): string[] {
-  return (Object.entries(measured) as [PartRole, number][]).map(([role, value]) => {
-    const ref = design.parts[role]?.ref;
-    return `${ref ? `${role} (${ref})` : role} taken as ${formatValue(role, value)}`;
-  });
+  return (Object.entries(measured) as [PartRole, number][]).map(([role, value]) => `${partName(design, role)} taken as ${formatPartValue(role, value)}`);
 }

@@ -4,9 +4,13 @@
  * Circuit (REFERENCES.md: Malvino, divider-biased emitter current): R1 (rBiasTop) +V -> base, R2 (rBiasBottom)
  * base -> 0 V, RE (rEmitter) +V -> emitter, collector into the ramp capacitor. With V_EB held fixed this gives
  *   I_E = (V - V_TH - V_EB) / (R_E + R_TH/(beta+1)),  V_TH = V R2/(R1+R2),  R_TH = R1 R2/(R1+R2).
- * Here V_EB follows the transistor's exponential law instead (I_be = I_S (exp(V_EB/V_T) - 1), as in the
- * Gummel-Poon model SPICE uses, from memory), and the Early effect raises the collector current with V_EC:
- *   I_C = I_be (1 + V_EC/V_A), I_B = I_be/beta, which is r_o = (V_A + V_EC)/I_C (REFERENCES.md: Early effect).
+ * Here the transistor follows the static Gummel-Poon equations SPICE uses (from memory of the SPICE2 model; the
+ * reference decks run the same model in ngspice), so V_EB, beta and the Early effect move with the current:
+ *   I_be = IS (exp(V_EB/(NF V_T)) - 1)                       the junction's diode law
+ *   I_B  = I_be/BF + ISE (exp(V_EB/(NE V_T)) - 1)            ideal plus recombination base current: beta falls at low current
+ *   I_C  = I_be / q_b,  1/q_1 = 1 + V_BC/VAF,  q_b = q_1 (1 + sqrt(1 + 4 I_be/IKF))/2
+ *                                                            Early effect on the reverse-biased collector junction, high injection
+ * with the ohmic base and emitter resistances RB and RE in series with the junction.
  */
 
 export interface BiasNetwork {
@@ -16,19 +20,36 @@ export interface BiasNetwork {
   rBiasBottomOhm: number;
 }
 
+/** Gummel-Poon parameters of the ramp transistor (SPICE names in brackets). */
 export interface TransistorLaw {
-  /** Saturation current I_S of the emitter-base junction (A). */
+  /** Saturation current of the emitter-base junction, IS (A). */
   saturationCurrentA: number;
-  /** Forward current gain beta (I_be / I_B). */
-  beta: number;
+  /** Forward emission coefficient, NF. */
+  emissionCoefficient: number;
+  /** Ideal forward current gain, BF: I_be over the ideal part of the base current. */
+  idealBeta: number;
+  /** Base-emitter recombination saturation current, ISE (A). */
+  recombinationCurrentA: number;
+  /** Its emission coefficient, NE. */
+  recombinationEmission: number;
+  /** Forward knee current of high injection, IKF (A). */
+  kneeCurrentA: number;
+  /** Forward Early voltage, VAF (V). */
   earlyV: number;
+  /** Ohmic base resistance, RB (ohm). */
+  baseOhm: number;
+  /** Ohmic emitter resistance, RE (ohm). */
+  emitterOhm: number;
   /** Thermal voltage kT/q (V). */
   thermalV: number;
 }
 
 export interface OperatingPoint {
+  /** Emitter terminal (V). */
   emitterV: number;
+  /** Base terminal (V). */
   baseV: number;
+  /** Junction voltage V_EB, without the ohmic drops (V). */
   vebV: number;
   collectorCurrentA: number;
   baseCurrentA: number;
@@ -57,15 +78,22 @@ export function malvinoEmitterCurrentA(bias: BiasNetwork, vebV: number, beta: nu
   return (bias.supplyV - theveninV - vebV) / (bias.rEmitterOhm + theveninOhm / (beta + 1));
 }
 
+/** 2/(1 + sqrt(1 + 4 I_be/IKF)): the high-injection share of q_b (1 well below the knee). */
+function highInjectionFactor(law: TransistorLaw, beCurrentA: number): number {
+  return 2 / (1 + Math.sqrt(1 + (4 * Math.max(beCurrentA, 0)) / law.kneeCurrentA));
+}
+
 function pointAt(bias: BiasNetwork, law: TransistorLaw, collectorV: number, beCurrentA: number): OperatingPoint & { residualV: number } {
   const { theveninV, theveninOhm } = theveninOf(bias);
-  const baseCurrentA = beCurrentA / law.beta;
+  const vebV = beCurrentA > 0 ? law.emissionCoefficient * law.thermalV * Math.log1p(beCurrentA / law.saturationCurrentA) : 0;
+  const recombinationA = law.recombinationCurrentA * Math.expm1(vebV / (law.recombinationEmission * law.thermalV));
+  const baseCurrentA = beCurrentA / law.idealBeta + recombinationA;
   // Base current leaves a PNP's base and flows into the divider's Thevenin source, raising the base.
   const baseV = theveninV + baseCurrentA * theveninOhm;
-  const vebV = beCurrentA > 0 ? law.thermalV * Math.log1p(beCurrentA / law.saturationCurrentA) : 0;
-  const emitterV = baseV + vebV;
-  const collectorCurrentA = beCurrentA * (1 + Math.max(0, emitterV - collectorV) / law.earlyV);
+  const innerBaseV = baseV + baseCurrentA * law.baseOhm;
+  const collectorCurrentA = beCurrentA * (1 + (innerBaseV - collectorV) / law.earlyV) * highInjectionFactor(law, beCurrentA);
   const emitterCurrentA = collectorCurrentA + baseCurrentA;
+  const emitterV = innerBaseV + vebV + emitterCurrentA * law.emitterOhm;
   const residualV = bias.supplyV - emitterV - emitterCurrentA * bias.rEmitterOhm;
   return { emitterV, baseV, vebV, collectorCurrentA, baseCurrentA, emitterCurrentA, residualV };
 }
@@ -78,13 +106,15 @@ function pointAt(bias: BiasNetwork, law: TransistorLaw, collectorV: number, beCu
  */
 export function solveOperatingPoint(bias: BiasNetwork, law: TransistorLaw, collectorV: number): OperatingPoint {
   let low = 0;
-  let high = Math.max(bias.supplyV / bias.rEmitterOhm, 1e-15);
+  // Above the knee I_C grows only as sqrt(I_be IKF): the junction current may exceed V/R_E by 4 (V/R_E)/IKF times.
+  const mostEmitterA = Math.max(bias.supplyV / bias.rEmitterOhm, 1e-15);
+  let high = 2 * mostEmitterA * (1 + (4 * mostEmitterA) / law.kneeCurrentA);
   if (pointAt(bias, law, collectorV, 0).residualV <= 0) {
     const off = pointAt(bias, law, collectorV, 0);
     return { ...stripResidual(off), collectorCurrentA: 0, emitterCurrentA: 0 };
   }
-  const vebGuessV = law.thermalV * Math.log1p(Math.max(bias.supplyV / bias.rEmitterOhm / 100, 1e-12) / law.saturationCurrentA);
-  let current = Math.min(Math.max(malvinoEmitterCurrentA(bias, vebGuessV, law.beta) * (law.beta / (law.beta + 1)), high * 1e-9), high * 0.999);
+  const vebGuessV = law.emissionCoefficient * law.thermalV * Math.log1p(Math.max(bias.supplyV / bias.rEmitterOhm / 100, 1e-12) / law.saturationCurrentA);
+  let current = Math.min(Math.max(malvinoEmitterCurrentA(bias, vebGuessV, law.idealBeta) * (law.idealBeta / (law.idealBeta + 1)), high * 1e-9), high * 0.999);
   for (let iteration = 0; iteration < 200; iteration += 1) {
     const residual = pointAt(bias, law, collectorV, current).residualV;
     // A femtovolt of KCL imbalance per volt of supply is double precision's floor here.
@@ -115,26 +145,57 @@ function stripResidual(point: OperatingPoint & { residualV: number }): Operating
   };
 }
 
+/** What a design states about its transistor, at its own operating point (ramp at 0 V). */
+export interface StatedTransistor {
+  vebV: number;
+  /** I_C / I_B there, everything included. */
+  beta: number;
+  earlyV: number;
+}
+
+/** The parts of the law a design does not state: typical of small-signal transistors (transistorLaw.ts says where from). */
+export interface TransistorShape {
+  emissionCoefficient: number;
+  recombinationEmission: number;
+  /** Share of the base current that is recombination current at the design's operating point (0..1). */
+  recombinationShare: number;
+  kneeCurrentA: number;
+  baseOhm: number;
+  emitterOhm: number;
+}
+
 /**
- * The saturation current that makes V_EB equal `vebV` at the design's own operating point with the ramp at 0 V.
- * The design states V_EB as a single number; this turns it into a transistor law, so a changed resistor moves
- * V_EB by V_T ln(I'/I) as a real junction does (and the reference deck uses the same transistor).
+ * The law whose junction voltage is `vebV` and whose current gain is `beta` at the design's own operating point
+ * with the ramp at 0 V. There the current follows in closed form (V_EB and beta given):
+ *   I_C = (V - V_TH - V_EB) / ((R_TH + RB)/beta + (1 + 1/beta)(R_E + RE)),
+ * then I_be from the Early and high-injection factors (a few fixed-point passes), IS from the diode law, and the
+ * base current split between BF and ISE by the recombination share.
  */
-export function saturationCurrentFor(bias: BiasNetwork, vebV: number, beta: number, earlyV: number, thermalV: number): number {
+export function calibrateTransistorLaw(bias: BiasNetwork, stated: StatedTransistor, shape: TransistorShape, thermalV: number): TransistorLaw {
   const { theveninV, theveninOhm } = theveninOf(bias);
-  // With V_EB fixed the balance is linear in I_be apart from the small Early term: bisection again.
-  const residual = (beCurrentA: number): number => {
-    const emitterV = theveninV + (beCurrentA / beta) * theveninOhm + vebV;
-    const emitterCurrentA = beCurrentA * (1 + emitterV / earlyV) + beCurrentA / beta;
-    return bias.supplyV - emitterV - emitterCurrentA * bias.rEmitterOhm;
-  };
-  let low = 0;
-  let high = bias.supplyV / bias.rEmitterOhm;
-  for (let iteration = 0; iteration < 200 && high - low > high * 1e-15; iteration += 1) {
-    const middle = 0.5 * (low + high);
-    if (residual(middle) > 0) low = middle;
-    else high = middle;
+  const { vebV, beta, earlyV } = stated;
+  const collectorA = Math.max(
+    (bias.supplyV - theveninV - vebV) / ((theveninOhm + shape.baseOhm) / beta + (1 + 1 / beta) * (bias.rEmitterOhm + shape.emitterOhm)),
+    // A design that cuts the transistor off still gets a law (validateBoardPhysics reports the design).
+    1e-12,
+  );
+  const baseA = collectorA / beta;
+  const innerBaseV = theveninV + baseA * (theveninOhm + shape.baseOhm);
+  const earlyFactor = 1 + innerBaseV / earlyV;
+  let beA = collectorA / earlyFactor;
+  for (let pass = 0; pass < 20; pass += 1) {
+    beA = collectorA / (earlyFactor * (2 / (1 + Math.sqrt(1 + (4 * beA) / shape.kneeCurrentA))));
   }
-  const beCurrentA = 0.5 * (low + high);
-  return beCurrentA / Math.expm1(vebV / thermalV);
+  return {
+    saturationCurrentA: beA / Math.expm1(vebV / (shape.emissionCoefficient * thermalV)),
+    emissionCoefficient: shape.emissionCoefficient,
+    idealBeta: beA / ((1 - shape.recombinationShare) * baseA),
+    recombinationCurrentA: (shape.recombinationShare * baseA) / Math.expm1(vebV / (shape.recombinationEmission * thermalV)),
+    recombinationEmission: shape.recombinationEmission,
+    kneeCurrentA: shape.kneeCurrentA,
+    earlyV,
+    baseOhm: shape.baseOhm,
+    emitterOhm: shape.emitterOhm,
+    thermalV,
+  };
 }

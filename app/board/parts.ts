@@ -9,12 +9,15 @@ export type PartOverrides = Partial<Record<PartRole, number>>;
 
 /**
  * Discharge resistance in series with the reset switch when the design names none: a few ohms to tens of ohms
- * limit the switch's peak current (common practice; 10 ohm from memory).
+ * limit the switch's peak current (common practice); 22 ohm is our own middle choice, well inside that range.
  */
-export const defaultDischargeOhm = 10;
+export const defaultDischargeOhm = 22;
 
-/** Control potentiometer and its fixed top resistor when the design names none (from memory: a 4.7 kohm pot is usual). */
-export const defaultControlPotOhm = 4700;
+/**
+ * Control potentiometer when the design names none: 1k to 100k linear pots are all usual for a control divider
+ * (common practice); 10k is our own choice, light on the control supply and stiff enough for a comparator input.
+ */
+export const defaultControlPotOhm = 10000;
 
 export interface BoardPartValues {
   rEmitterOhm: number;

@@ -7,6 +7,7 @@ import { z } from 'zod';
 import { eSeriesNames } from './eSeries';
 import { transistorSchema } from './design';
 import { designRanges, rangedNumber } from './designRanges';
+import { defaultControlPotOhm } from './parts';
 
 export const sizingTargetsSchema = z.object({
   name: z.string().min(1).max(200).default('Sized board'),
@@ -29,7 +30,8 @@ export const sizingTargetsSchema = z.object({
   syncPhaseDeg: z.number().min(-90).max(90).default(0),
   syncResetUs: z.number().min(0).max(5000).default(300),
   gatePulseUs: rangedNumber(designRanges.gatePulseUs).default(200),
-  potControlOhm: rangedNumber(designRanges.resistorOhm).default(4700),
+  /** Control potentiometer (ohm). Default: the same pot a design without one is taken to have (parts.ts). */
+  potControlOhm: rangedNumber(designRanges.resistorOhm).default(defaultControlPotOhm),
   transistor: transistorSchema,
 });
 

@@ -132,7 +132,10 @@ export const benchCalls = {
   ),
   applyTrim: call(
     z.object({
-      part: nonEmpty('the part'), fromOhm: z.number().positive(), toOhm: z.number().positive(), method: z.enum(['replace', 'parallel', 'series']), addOhm: z.number().positive().nullable().default(null), reason: z.string().default(''),
+      // A resistor position takes fromOhm/toOhm, the ramp capacitor (cRamp) fromFarad/toFarad, the transistor none.
+      part: nonEmpty('the part'), fromOhm: z.number().positive().nullable().default(null), toOhm: z.number().positive().nullable().default(null),
+      fromFarad: z.number().positive().nullable().default(null), toFarad: z.number().positive().nullable().default(null),
+      method: z.enum(['replace', 'parallel', 'series']), addOhm: z.number().positive().nullable().default(null), reason: z.string().default(''),
       alsoChange: z.object({ part: nonEmpty('the second part'), fromOhm: z.number().positive(), toOhm: z.number().positive() }).strict().nullable().default(null),
     }).strict(),
     z.object({ trim: appliedTrimSchema, recheckNeeded: z.boolean() }),

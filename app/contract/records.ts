@@ -60,19 +60,28 @@ export const benchStateSchema = z.object({
 export type BenchState = z.infer<typeof benchStateSchema>;
 
 export const trimSuggestionSchema = z.object({
+  /** `repair`: a part outside its tolerance, measured and replaced with its design value; `trim`: a bias change. */
+  kind: z.enum(['repair', 'trim']),
+  /** The position (the design file's key), or `transistor` for the ramp transistor. Screens name it in words. */
   part: z.string(),
   /** The board's own designator (e.g. R7), when the design names it. */
   partRef: z.string().nullable(),
   method: z.enum(['replace', 'parallel', 'series']),
-  fromOhm: z.number().positive(),
-  /** Effective resistance of that position after the change. */
-  toOhm: z.number().positive(),
+  /** Resistor positions: the value there now (a repair: the value the ramp points to, or the one measured). */
+  fromOhm: z.number().positive().nullable(),
+  /** Resistor positions: the effective resistance after the change (a repair: the design value). */
+  toOhm: z.number().positive().nullable(),
+  /** The ramp capacitor: the value the ramp points to (or measured), and the design value it is replaced with. */
+  fromFarad: z.number().positive().nullable(),
+  toFarad: z.number().positive().nullable(),
   /** The resistor to add for parallel/series, null for replace. */
   addOhm: z.number().positive().nullable(),
   series: z.string(),
   predictedPeakV: z.number(),
   predictedAlphaMaxDeg: z.number().nullable(),
   headroomV: z.number().nullable(),
+  /** The predicted peak lies inside the design's ramp tolerance band. */
+  withinTolerance: z.boolean(),
   reason: z.string(),
   /** The model's ramp after the change over one charging interval, for drawing over the measured one. */
   predictedRamp: foldTraceSchema.nullable(),
@@ -96,6 +105,13 @@ export type KnownPart = z.infer<typeof knownPartSchema>;
 
 export const trimPlanSchema = z.object({
   inTolerance: z.boolean(),
+  /** `repair`: a part is off and its replacement comes first; `trim`: a bias trim; `no-fix`: no trim reaches the target. */
+  status: z.enum(['in-tolerance', 'repair', 'trim', 'no-fix']),
+  /** One line: how far off the ramp is and the first thing to do. */
+  summary: z.string(),
+  /** The reasoning behind it, each thing once. */
+  notes: z.array(z.string()),
+  /** Summary and notes as one paragraph. */
   message: z.string(),
   measuredPeakV: z.number().nullable(),
   targetPeakV: z.number(),
@@ -124,6 +140,7 @@ export type TrimPlanView = z.infer<typeof trimPlanSchema>;
 export const appliedTrimSchema = z.object({
   id: z.number().int().positive(),
   part: z.string(),
+  /** The part's value before and after in its own unit: ohm, or farad for the ramp capacitor (0 for the transistor). */
   fromOhm: z.number(),
   toOhm: z.number(),
   reason: z.string(),

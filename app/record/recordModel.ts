@@ -10,7 +10,8 @@
  * with "\n". `rampwright report --verify` recomputes it from the samples themselves.
  */
 import type { ReadingCheck } from '../bench/judge';
-import { formatFarad, formatOhm, formatPercent } from '../board/formatValues';
+import { formatPercent } from '../board/formatValues';
+import { recordedPartValue } from '../board/partNames';
 import type { FoldCycle, StepReport, Verdict } from '../contract/readings';
 import type { TransferSet } from './plots';
 
@@ -38,9 +39,10 @@ export interface CommissioningRecord {
   readings: { source: 'recorded' | 'judged'; rows: RecordReadingRow[] };
   fold: FoldCycle[];
   transfer: TransferSet & { maxDeviationDeg: number | null };
-  trims: Array<{ part: string; fromOhm: number; toOhm: number; method: string; reason: string; at: string }>;
-  /** Part values measured on the board (ohm; farad for cRamp). */
-  partMeasurements: Array<{ part: string; value: number; designValue: number; at: string }>;
+  /** `name`: the part in words with its designator ("emitter resistor R14"); values in the part's unit (farad for cRamp). */
+  trims: Array<{ part: string; name: string; fromOhm: number; toOhm: number; method: string; reason: string; at: string }>;
+  /** Part values measured on the board (ohm; farad for cRamp), `name` as above. */
+  partMeasurements: Array<{ part: string; name: string; value: number; designValue: number; at: string }>;
   /** Link errors (the logbook's count), seconds the logger was silent, and the events as recorded. */
   link: { errors: number; silentS: number; events: Array<{ kind: string; detail: string; count: number; at: string }> };
   captures: RecordCapture[];
@@ -122,10 +124,19 @@ export function readingRowsFromSteps(steps: readonly StepReport[]): RecordReadin
   );
 }
 
-/** A measured part as the record's table shows it: part, measured, design, how far off, when. */
+/** A measured part as the record's table shows it: part, measured, design, how far off (values as marked on parts). */
 export function partMeasurementCells(measurement: CommissioningRecord['partMeasurements'][number]): [string, string, string, string] {
-  const format = measurement.part === 'cRamp' ? formatFarad : formatOhm;
-  return [measurement.part, format(measurement.value), format(measurement.designValue), formatPercent(((measurement.value - measurement.designValue) / measurement.designValue) * 100)];
+  return [capitalised(measurement.name), recordedPartValue(measurement.part, measurement.value), recordedPartValue(measurement.part, measurement.designValue), formatPercent(((measurement.value - measurement.designValue) / measurement.designValue) * 100)];
+}
+
+/** A trim as the record's table shows it: part, from, to (the transistor has no value: "replaced"). */
+export function trimCells(trim: CommissioningRecord['trims'][number]): [string, string, string] {
+  if (trim.part === 'transistor') return [capitalised(trim.name), '-', 'replaced'];
+  return [capitalised(trim.name), recordedPartValue(trim.part, trim.fromOhm), recordedPartValue(trim.part, trim.toOhm)];
+}
+
+function capitalised(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
 }
 
 export function formatTolerance(check: ReadingCheck): string {

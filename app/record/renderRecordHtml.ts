@@ -4,7 +4,7 @@
  */
 import { escapeXml, figureToSvg } from './figure';
 import { foldFigure, transferFigure } from './plots';
-import { formatReading, linkEventCountText, linkHealthSentence, partMeasurementCells, recordLimitsNote, rowVerdictWords, type CommissioningRecord } from './recordModel';
+import { formatReading, linkEventCountText, linkHealthSentence, partMeasurementCells, recordLimitsNote, rowVerdictWords, trimCells, type CommissioningRecord } from './recordModel';
 
 const style = `
 body { font-family: Helvetica, Arial, sans-serif; color: #23262a; margin: 24px auto; max-width: 760px; line-height: 1.35; }
@@ -37,7 +37,7 @@ export function renderRecordHtml(record: CommissioningRecord): string {
     const words = rowVerdictWords(row);
     return `<tr>${recorded ? cell(row.step ?? '') : ''}${cell(row.label)}${cell(row.measured, 'number')}${cell(row.design, 'number')}${cell(row.band)}<td class="verdict ${row.verdict ?? ''}"><span aria-hidden="true">${words.symbol}</span> ${escapeXml(words.text)}</td>${cell(row.note)}</tr>`;
   });
-  const trimRows = record.trims.map((trim) => `<tr>${cell(trim.part)}${cell(formatReading(trim.fromOhm, 'ohm'), 'number')}${cell(formatReading(trim.toOhm, 'ohm'), 'number')}${cell(trim.method)}${cell(trim.reason)}${cell(when(trim.at))}</tr>`);
+  const trimRows = record.trims.map((trim) => `<tr>${trimCells(trim).map((text, index) => cell(text, index > 0 ? 'number' : '')).join('')}${cell(trim.method)}${cell(trim.reason)}${cell(when(trim.at))}</tr>`);
   const measurementRows = record.partMeasurements.map((measurement) => `<tr>${partMeasurementCells(measurement).map((text, index) => cell(text, index > 0 ? 'number' : '')).join('')}${cell(when(measurement.at))}</tr>`);
   const eventRows = record.link.events.map((event) => `<tr>${cell(event.kind)}${cell(event.detail)}${cell(linkEventCountText(event), 'number')}${cell(when(event.at))}</tr>`);
   const captureRows = record.captures.map((capture) => `<tr>${cell(capture.label ?? '-')}${cell(when(capture.startedAt))}${cell(`${capture.seconds.toFixed(3)} s at ${formatReading(capture.sampleRateHz, 'Hz')}`)}${cell(capture.roles.join(', '))}<td class="hash">${capture.sha256}</td></tr>`);
@@ -67,8 +67,8 @@ ${record.fold.length > 0 ? `<figure>${figureToSvg(foldFigure(record.fold))}<figc
 ${record.transfer.points.length > 0 ? `<figure>${figureToSvg(transferFigure([record.transfer]))}<figcaption>${escapeXml(fitText)}</figcaption></figure>` : `<p>${escapeXml(fitText)}</p>`}
 <h2>Parts measured on the board</h2>
 ${table(['Part', 'Measured', 'Design', 'Off by', 'When'], measurementRows, 'No part values were measured in this session.')}
-<h2>Trims applied</h2>
-${table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], trimRows, 'No trims were applied.')}
+<h2>Changes made to the board</h2>
+${table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], trimRows, 'No part was changed.')}
 <h2>Link health</h2>
 <p>${escapeXml(linkHealthSentence(record.link))}</p>
 ${table(['Event', 'Detail', 'Count', 'When'], eventRows, 'No link events were recorded.')}

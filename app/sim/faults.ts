@@ -13,6 +13,7 @@ export const boardFaultNames = [
   'noisy-sync',
   'clipped-ramp',
   'sync-offset',
+  'stacked-tolerances',
 ] as const;
 
 export const linkFaultNames = ['drop-blocks', 'corrupt-blocks', 'garbage', 'logger-overrun', 'unplug-after'] as const;
@@ -30,6 +31,7 @@ export const faultDescriptions: Record<FaultName, string> = {
   'noisy-sync': 'noise on the sync input: a ragged sync trace and a ramp reset that wanders, so the firing angle jitters by a couple of degrees',
   'clipped-ramp': 'current source overdriven for its supply headroom: the ramp flattens at the compliance limit before the half-cycle ends, and the control range above it is dead',
   'sync-offset': 'a DC offset of 3 % of the sync peak (a leaky coupling capacitor, an unbalanced winding): the board resets its ramp early in one half-cycle and late in the other, so the two halves of a full-wave board fire about 3.4 degrees apart and their ramps differ in height',
+  'stacked-tolerances': 'the parts of the current source inside their tolerance but on the side that lowers the ramp (lower bias resistor and ramp capacitor high): the ramp is about an eighth short, a case for a bias trim, not a new part',
   'drop-blocks': 'about 2 % of data lines never reach the host: link health shows sequence gaps and lost samples',
   'corrupt-blocks': 'about 2 % of data lines arrive with a changed character: link health shows CRC failures',
   garbage: 'bursts of noise characters between lines and glued before some lines: link health shows skipped noise',

@@ -3,7 +3,8 @@
  * model (app/board/rampModel.ts). Nothing here models the ramp a second time; faults only change part values
  * or timing.
  */
-import type { BoardDesign } from '../board/design';
+import type { BoardDesign, PartRole } from '../board/design';
+import { designValueOf } from '../board/measuredParts';
 import { boardPartValues, type PartOverrides } from '../board/parts';
 import { predictRamp, type RampPrediction } from '../board/rampModel';
 import { InputError } from '../errors';
@@ -12,6 +13,11 @@ import type { BoardFaultName } from './faults';
 /** Factors of the part faults (our own scenario values: a wrong part two preferred-value steps away). */
 export const wrongEmitterFactor = 1.5;
 export const lowCapacitorFactor = 0.7;
+/**
+ * `stacked-tolerances`: where each part sits, as a share of its own tolerance (our scenario values): all inside
+ * their tolerance, all to the side that lowers the ramp.
+ */
+export const stackedToleranceShare = { rBiasBottom: 0.8, cRamp: 0.9 } as const;
 /** Extra sync lag of `sync-phase-shift` (degrees). */
 export const syncShiftDeg = 20;
 /** DC offset of `sync-offset`, as a fraction of the sync peak (our scenario value). */
@@ -49,14 +55,41 @@ function overdrivenCapacitor(design: BoardDesign, overrides: PartOverrides): num
   return farad;
 }
 
-export function fitBoard(design: BoardDesign, faults: readonly BoardFaultName[]): FittedBoard {
+/** The positions each part fault puts a wrong value at: a new part fitted at all of them takes the fault out. */
+export const partFaultPositions: Partial<Record<BoardFaultName, readonly PartRole[]>> = {
+  'wrong-emitter-resistor': ['rEmitter'],
+  'capacitor-low': ['cRamp'],
+  'clipped-ramp': ['cRamp'],
+  'stacked-tolerances': Object.keys(stackedToleranceShare) as PartRole[],
+};
+
+/** The faults still acting once parts were fitted at `replaced` (link and timing faults always act). */
+export function faultsStillActing<Fault extends string>(faults: readonly Fault[], replaced: readonly PartRole[]): Fault[] {
+  return faults.filter((fault) => {
+    const positions = partFaultPositions[fault as BoardFaultName];
+    return !positions || !positions.every((position) => replaced.includes(position));
+  });
+}
+
+/**
+ * The board with its faults. `replaced` lists positions where the technician has fitted a new part since: a part
+ * fault no longer applies there (the design then carries the fitted value).
+ */
+export function fitBoard(design: BoardDesign, faults: readonly BoardFaultName[], replaced: readonly PartRole[] = []): FittedBoard {
   if (faults.includes('wrong-half-cycle-pulses') && design.rectifier !== 'half-wave') {
     throw new InputError('the fault wrong-half-cycle-pulses applies to half-wave boards only: a full-wave board fires in every half-cycle by design', '--fault');
   }
   const overrides: PartOverrides = {};
+  if (faults.includes('stacked-tolerances')) {
+    for (const [part, share] of Object.entries(stackedToleranceShare) as [keyof typeof stackedToleranceShare, number][]) {
+      const value = designValueOf(design, part) as number;
+      overrides[part] = value * (1 + (share * design.parts[part].tolerancePct) / 100);
+    }
+  }
   if (faults.includes('wrong-emitter-resistor')) overrides.rEmitter = design.parts.rEmitter.ohm * wrongEmitterFactor;
   if (faults.includes('capacitor-low')) overrides.cRamp = design.parts.cRamp.farad * lowCapacitorFactor;
   if (faults.includes('clipped-ramp')) overrides.cRamp = overdrivenCapacitor(design, overrides);
+  for (const part of replaced) delete overrides[part];
   const prediction = predictRamp(design, { partOverrides: overrides });
   const values = boardPartValues(design, overrides);
   return {

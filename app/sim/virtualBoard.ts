@@ -15,7 +15,7 @@
  * - control: constant, or a slow triangle sweep (a transfer curve in one capture).
  */
 import { sampleBlockLength, type SampleBlock } from '../capture/samples';
-import type { BoardDesign } from '../board/design';
+import type { BoardDesign, PartRole } from '../board/design';
 import { controlForAlpha } from '../board/firingAngle';
 import { predictRamp, rampVoltageAt, timeToReachV } from '../board/rampModel';
 import { InputError } from '../errors';
@@ -36,6 +36,8 @@ export interface VirtualBoardOptions {
   sampleRateHz?: number;
   seed?: number;
   faults?: readonly FaultName[];
+  /** Positions where a new part was fitted since the faults were set: part faults no longer apply there. */
+  replacedParts?: readonly PartRole[];
   /** Constant control voltage. Default: the voltage that fires the board as designed at 90 degrees. */
   controlV?: number;
   controlSweep?: ControlSweep;
@@ -96,7 +98,7 @@ export function createVirtualBoard(design: BoardDesign, options: VirtualBoardOpt
   const running: BoardDesign = mainsHz === design.mainsHz ? design : { ...design, mainsHz };
   const faults = options.faults ?? [];
   const boardFaults = faults.filter(isBoardFault) as BoardFaultName[];
-  const fitted = fitBoard(running, boardFaults);
+  const fitted = fitBoard(running, boardFaults, options.replacedParts);
   const prediction = fitted.prediction;
   const seed = options.seed ?? 1;
   const random = createSeededRandom(seed);

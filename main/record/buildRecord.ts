@@ -5,6 +5,7 @@
  */
 import { judgeReadings } from '../../app/bench/judge';
 import { parseStoredDesign } from '../store/storedContent';
+import { recordedPartName } from '../../app/board/partNames';
 import { InputError } from '../../app/errors';
 import { parseStepReports } from '../../app/contract';
 import { captureDigestText, orderCapturesForDigest, readingRowsFromChecks, readingRowsFromSteps, type CommissioningRecord } from '../../app/record/recordModel';
@@ -35,8 +36,8 @@ export async function buildRecord(sources: RecordSources, sessionId: number, opt
     readings: recorded && recorded.length > 0 ? { source: 'recorded', rows: readingRowsFromSteps(recorded) } : { source: 'judged', rows: readingRowsFromChecks(checks) },
     fold: stored ? foldCapture(stored.block, { cycles: options.foldCycles }) : [],
     transfer: { label: `session ${sessionId}`, points: detail.transfer.points, fit: detail.transfer.fit, maxDeviationDeg: detail.transfer.fit?.maxDeviationDeg ?? null },
-    trims: detail.trims.map(({ part, fromOhm, toOhm, method, reason, at }) => ({ part, fromOhm, toOhm, method, reason, at })),
-    partMeasurements: detail.partMeasurements.map(({ part, value, designValue, at }) => ({ part, value, designValue, at })),
+    trims: detail.trims.map(({ part, fromOhm, toOhm, method, reason, at }) => ({ part, name: recordedPartName(design, part), fromOhm, toOhm, method, reason, at })),
+    partMeasurements: detail.partMeasurements.map(({ part, value, designValue, at }) => ({ part, name: recordedPartName(design, part), value, designValue, at })),
     link: { errors: detail.row.linkErrors, silentS: detail.row.linkSilentS, events: detail.linkEvents.map(({ kind, detail: text, count, at }) => ({ kind, detail: text, count, at })) },
     captures: detail.captures.map((capture) => ({ label: capture.label, startedAt: capture.startedAt, startS: capture.startS, seconds: capture.seconds, sampleRateHz: capture.sampleRateHz, roles: capture.roles, sha256: capture.sha256 })),
     capturesSha256: detail.captures.length === 0 ? null : sha256Hex(new TextEncoder().encode(captureDigestText(detail.captures))),

@@ -5,7 +5,7 @@
  */
 import { PDFDocument, StandardFonts, type PDFFont, type PDFPage } from 'pdf-lib';
 import { foldFigure, transferFigure } from '../../app/record/plots';
-import { formatReading, linkEventCountText, linkHealthSentence, partMeasurementCells, recordLimitsNote, rowVerdictWords, type CommissioningRecord } from '../../app/record/recordModel';
+import { formatReading, linkEventCountText, linkHealthSentence, partMeasurementCells, recordLimitsNote, rowVerdictWords, trimCells, type CommissioningRecord } from '../../app/record/recordModel';
 import { drawFigure, hexColour } from './pdfFigure';
 import { wrapText } from './pdfText';
 
@@ -166,9 +166,9 @@ export async function renderRecordPdf(record: CommissioningRecord): Promise<Uint
   if (record.partMeasurements.length === 0) flow.text('No part values were measured in this session.');
   else flow.table(['Part', 'Measured', 'Design', 'Off by', 'When'], record.partMeasurements.map((measurement) => [...partMeasurementCells(measurement).map((text) => ({ text })), { text: when(measurement.at) }]), [0.16, 0.18, 0.18, 0.14, 0.34]);
 
-  flow.heading('Trims applied');
-  if (record.trims.length === 0) flow.text('No trims were applied.');
-  else flow.table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], record.trims.map((trim) => [{ text: trim.part }, { text: formatReading(trim.fromOhm, 'ohm') }, { text: formatReading(trim.toOhm, 'ohm') }, { text: trim.method }, { text: trim.reason }, { text: when(trim.at) }]), [0.1, 0.12, 0.12, 0.12, 0.32, 0.22]);
+  flow.heading('Changes made to the board');
+  if (record.trims.length === 0) flow.text('No part was changed.');
+  else flow.table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], record.trims.map((trim) => [...trimCells(trim).map((text) => ({ text })), { text: trim.method }, { text: trim.reason }, { text: when(trim.at) }]), [0.1, 0.12, 0.12, 0.12, 0.32, 0.22]);
 
   flow.heading('Link health');
   flow.text(linkHealthSentence(record.link));

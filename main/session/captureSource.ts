@@ -72,7 +72,11 @@ export async function openCaptureSource(options: CaptureSourceOptions): Promise<
         if (stopped) break;
         sink.blocks?.([block] as SampleBlock[]);
       }
-      if (stopped) return;
+      if (stopped) {
+        // Stopped between blocks (while waiting for a block's time, say): the reader never saw the cancel.
+        report('cancelled', null, capture.totalBytes);
+        return;
+      }
       report('done', capture.readAs(), capture.totalBytes);
       sink.finished?.(`end of ${options.fileName}`);
     } catch (error) {

@@ -1,14 +1,18 @@
 /**
- * The demo: a unit commissioned from start to sign-off on the virtual board, through the same contract the
- * screens use. The board's ramp capacitor is 30 % low, so its ramp is tall and steep; the usual bench cure is a
- * select-on-test emitter resistor, so the trim plan's first suggestion is fitted to the virtual board and the
- * ramp re-checked. Runs faster than real time (the virtual
- * board is pumped, not paced). Our own scenario: an invented unit serial on one of the example designs.
+ * The demo: units commissioned from start to sign-off on the virtual board, through the same contract the screens
+ * use. Two stories of our own, on one example design, with invented unit serials:
+ * - a wrong part: the ramp capacitor is 30 % low, beyond what parts in tolerance can do, so the plan says to measure
+ *   it first; the technician measures it, the plan confirms, the part is replaced with its design value, the ramp
+ *   re-checked, and the unit signed off;
+ * - parts that stack up: every part of the current source inside its tolerance but all to one side, so the ramp is
+ *   short with no part to blame; the plan's first bias trim is fitted, the ramp re-checked, and the unit signed off.
+ * Runs faster than real time (the virtual board is pumped, not paced).
  */
 import { controlForAlpha } from '../../app/board/firingAngle';
 import { controlLimitsOf } from '../../app/board/controlDivider';
+import type { PartRole } from '../../app/board/design';
 import { predictRamp } from '../../app/board/rampModel';
-import { createBenchClient, type BenchClient, type SessionRow, type StepReport, type TrimPlanView } from '../../app/contract';
+import { createBenchClient, type BenchClient, type SessionRow, type StepReport, type TrimPlanView, type TrimSuggestion } from '../../app/contract';
 import type { BenchContext } from './benchContext';
 
 export interface DemoOptions {
@@ -27,7 +31,14 @@ export interface DemoReport {
   designName: string;
   faults: string[];
   steps: StepReport[];
+  /** The plan the change was made from (after the measured part was told, when the first advice was to measure). */
   trimPlan: TrimPlanView;
+  /** The first plan, from the ramp alone. */
+  firstPlan: TrimPlanView;
+  /** Parts the technician measured before changing one (ohm; farad for the ramp capacitor). */
+  measuredParts: Partial<Record<PartRole, number>>;
+  /** The change made: the plan's first suggestion. */
+  change: TrimSuggestion | null;
   rampPeakBeforeV: number | null;
   rampVerdictBefore: StepReport['verdict'];
   rampPeakAfterV: number | null;
@@ -41,6 +52,12 @@ export const demoDefaults = {
   operator: 'Demo technician',
   faults: ['capacitor-low'],
 };
+
+/** The demo's two stories: a wrong part replaced, and parts in tolerance trimmed. */
+export const demoStories: ReadonlyArray<{ unitSerial: string; faults: string[]; story: string }> = [
+  { unitSerial: demoDefaults.unitSerial, faults: demoDefaults.faults, story: 'a wrong part: diagnosed, measured, replaced' },
+  { unitSerial: 'CH50H-0043', faults: ['stacked-tolerances'], story: 'parts in tolerance that stack up: trimmed' },
+];
 
 /** A client over the in-process dispatch: the demo drives the bench exactly as a screen would. */
 export function inProcessClient(context: BenchContext): BenchClient {
@@ -61,10 +78,13 @@ export async function runCommissioningDemo(context: BenchContext, options: DemoO
   const settleS = options.settleS ?? 1.5;
   const sweepS = options.sweepS ?? 4;
   let signalSeconds = 0;
-  const run = (seconds: number) => {
+  const virtualBoard = () => {
     const virtual = context.service.virtual();
     if (!virtual) throw new Error('the virtual board is not connected');
-    virtual.pump(seconds);
+    return virtual;
+  };
+  const run = (seconds: number) => {
+    virtualBoard().pump(seconds);
     signalSeconds += seconds;
   };
 
@@ -74,20 +94,31 @@ export async function runCommissioningDemo(context: BenchContext, options: DemoO
   await client.connect({ kind: 'virtual', designName, faults, control: { mode: 'fixed', controlV: midControlV }, seed: 42 });
   run(settleS);
 
-  // 1. sync, 2. ramp (short: the wrong emitter resistor).
+  // 1. sync, 2. ramp.
   await client.checkStep({ step: 'sync' });
   const rampBefore = await client.checkStep({ step: 'ramp' });
 
-  // 3. trim: plan, fit the first suggestion, re-check the ramp.
-  const trimPlan = await client.trimPlan({ series: 'E24' });
-  const first = trimPlan.suggestions[0];
+  // 3. trim: the plan; when it says a part is off, the technician measures that part first (on the virtual board
+  // the meter reads the part actually fitted) and tells the plan, which then says to replace it.
+  const firstPlan = await client.trimPlan({ series: 'E24' });
+  let trimPlan = firstPlan;
+  const measuredParts: Partial<Record<PartRole, number>> = {};
+  const suspect = firstPlan.suggestions[0];
+  if (suspect?.kind === 'repair' && suspect.part !== 'transistor') {
+    const role = suspect.part as PartRole;
+    measuredParts[role] = virtualBoard().partValue(role);
+    trimPlan = await client.trimPlan({ series: 'E24', measuredParts });
+  }
+  const first = trimPlan.suggestions[0] ?? null;
   if (first) {
-    await client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason, alsoChange: first.alsoChange ? { part: first.alsoChange.part, fromOhm: first.alsoChange.fromOhm, toOhm: first.alsoChange.toOhm } : null });
+    await client.applyTrim({
+      part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, fromFarad: first.fromFarad, toFarad: first.toFarad, method: first.method, addOhm: first.addOhm, reason: first.reason,
+      alsoChange: first.alsoChange ? { part: first.alsoChange.part, fromOhm: first.alsoChange.fromOhm, toOhm: first.alsoChange.toOhm } : null,
+    });
     run(settleS);
     await client.checkStep({ step: 'ramp' });
-  } else {
-    await client.checkStep({ step: 'trim' });
   }
+  await client.checkStep({ step: 'trim' });
   const state = await client.benchState();
   const rampAfter = state.steps.find((step) => step.step === 'ramp');
 
@@ -112,10 +143,20 @@ export async function runCommissioningDemo(context: BenchContext, options: DemoO
     faults,
     steps: finalState.steps,
     trimPlan,
+    firstPlan,
+    measuredParts,
+    change: first,
     rampPeakBeforeV: peakOf(rampBefore),
     rampVerdictBefore: rampBefore.verdict,
     rampPeakAfterV: peakOf(rampAfter),
     transferFit: transfer.fit ? { gainDegPerV: transfer.fit.gainDegPerV, offsetDeg: transfer.fit.offsetDeg, points: transfer.fit.points } : null,
     signalSeconds,
   };
+}
+
+/** Both stories, one unit after the other, into the same logbook. */
+export async function runDemoStories(context: BenchContext, options: Omit<DemoOptions, 'unitSerial' | 'faults'> = {}): Promise<DemoReport[]> {
+  const reports: DemoReport[] = [];
+  for (const story of demoStories) reports.push(await runCommissioningDemo(context, { ...options, unitSerial: story.unitSerial, faults: story.faults }));
+  return reports;
 }

@@ -38,9 +38,12 @@ export function withFitted(known: KnownParts, part: PartRole, toOhm: number): Kn
   return { ...known, [part]: { value: toOhm, source: 'fitted' } };
 }
 
-export function overridesOf(known: KnownParts): PartOverrides {
+/** The known values as part overrides: all of them, or only those from one source. */
+export function overridesOf(known: KnownParts, source?: KnownPartSource): PartOverrides {
   const overrides: PartOverrides = {};
-  for (const [role, entry] of Object.entries(known) as [PartRole, { value: number }][]) overrides[role] = entry.value;
+  for (const [role, entry] of Object.entries(known) as [PartRole, { value: number; source: KnownPartSource }][]) {
+    if (source === undefined || entry.source === source) overrides[role] = entry.value;
+  }
   return overrides;
 }
 

@@ -3,7 +3,9 @@
  * (recorded, fitted to the virtual board, re-check asked for), and the transfer curve so far.
  */
 import type { BoardDesign } from '../../app/board/design';
+import { formatOhm } from '../../app/board/formatValues';
 import { checkMeasuredParts } from '../../app/board/measuredParts';
+import { partName } from '../../app/board/partNames';
 import type { ResistorRole } from '../../app/board/trimCandidates';
 import { BenchFault } from '../../app/contract';
 import type { Logbook } from '../store/logbookTypes';
@@ -49,35 +51,55 @@ export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandl
       }
       if (open) open.knownParts = known;
       const window = link.link.pipeline.lastWindow();
-      const plan = planFromWindow(design, window, series, overridesOf(known));
+      const plan = planFromWindow(design, window, series, overridesOf(known), overridesOf(known, 'measured'));
       const fold = link.link.pipeline.fold();
       return trimPlanView(design, plan, window, fold.length > 0 ? fold[fold.length - 1].ramp : null, knownPartViews(design, known));
     },
-    async applyTrim({ part, fromOhm, toOhm, method, addOhm, reason, alsoChange }) {
+    async applyTrim({ part, fromOhm, toOhm, fromFarad, toFarad, method, addOhm, reason, alsoChange }) {
       const open = requireSession();
       const design = open.design;
       const resistorPosition = (name: string, field: string): ResistorRole => {
         if (!(name in design.parts) || name === 'cRamp') throw new BenchFault('input', `"${name}" is not a resistor position of the design ${design.name}`, field);
         return name as ResistorRole;
       };
-      const first = resistorPosition(part, 'part');
-      const second = alsoChange ? { ...alsoChange, role: resistorPosition(alsoChange.part, 'alsoChange.part') } : null;
-      if (second?.role === first) throw new BenchFault('input', `the second change must be at another position than ${part}`, 'alsoChange.part');
-      const methodWords = method === 'replace' ? 'replaced' : `${addOhm ?? '?'} ohm added in ${method}`;
-      open.writer.addTrim({ part, fromOhm, toOhm, method: `trim plan: ${methodWords}`, reason });
+      const virtual = context.link()?.virtual;
+      let recorded: { part: string; fromValue: number; toValue: number; method: string };
+      let second: { role: ResistorRole; fromOhm: number; toOhm: number } | null = null;
+      if (part === 'transistor' || part === 'cRamp') {
+        // A part put back to its design value: the ramp transistor, or the ramp capacitor (values in farad).
+        if (method !== 'replace') throw new BenchFault('input', `the ${partName(design, part)} can only be replaced`, 'method');
+        if (alsoChange) throw new BenchFault('input', `the ${partName(design, part)} is replaced on its own`, 'alsoChange');
+        if (part === 'cRamp') {
+          if (toFarad === null) throw new BenchFault('input', 'a new ramp capacitor needs its value in farad (toFarad)', 'toFarad');
+          recorded = { part, fromValue: fromFarad ?? open.knownParts.cRamp?.value ?? design.parts.cRamp.farad, toValue: toFarad, method: 'trim plan: replaced' };
+          virtual?.fitCapacitor(toFarad);
+          open.knownParts = withFitted(open.knownParts, 'cRamp', toFarad);
+        } else {
+          recorded = { part, fromValue: 0, toValue: 0, method: 'trim plan: replaced' };
+          virtual?.fitTransistor();
+        }
+      } else {
+        const first = resistorPosition(part, 'part');
+        if (fromOhm === null || toOhm === null) throw new BenchFault('input', `a change of the ${partName(design, first)} needs fromOhm and toOhm`, fromOhm === null ? 'fromOhm' : 'toOhm');
+        second = alsoChange ? { ...alsoChange, role: resistorPosition(alsoChange.part, 'alsoChange.part') } : null;
+        if (second?.role === first) throw new BenchFault('input', `the second change must be at another position than the ${partName(design, first)}`, 'alsoChange.part');
+        const methodWords = method === 'replace' ? 'replaced' : `${addOhm === null ? '?' : formatOhm(addOhm)} added in ${method}`;
+        recorded = { part: first, fromValue: fromOhm, toValue: toOhm, method: `trim plan: ${methodWords}` };
+        // The virtual board gets the parts (and refuses a change it cannot make before anything is recorded); a
+        // real board got them from the technician's soldering iron.
+        virtual?.fitResistor(first, { method, toOhm, addOhm });
+        if (second) virtual?.fitResistor(second.role, { method: 'replace', toOhm: second.toOhm, addOhm: null });
+        open.knownParts = withFitted(open.knownParts, first, toOhm);
+        if (second) open.knownParts = withFitted(open.knownParts, second.role, second.toOhm);
+      }
+      open.writer.addTrim({ part: recorded.part, fromOhm: recorded.fromValue, toOhm: recorded.toValue, method: recorded.method, reason });
       if (second) open.writer.addTrim({ part: second.role, fromOhm: second.fromOhm, toOhm: second.toOhm, method: 'trim plan: replaced (with the change above)', reason });
       open.trimsApplied += 1;
       open.recheckNeeded = true;
-      open.knownParts = withFitted(open.knownParts, first, toOhm);
-      if (second) open.knownParts = withFitted(open.knownParts, second.role, second.toOhm);
       delete open.recorded.ramp;
       delete open.recorded.trim;
       // The logbook forgets them too: a ramp recorded before the change no longer describes the board.
       saveRecordedSteps(open);
-      // The virtual board gets the parts; a real board got them from the technician's soldering iron.
-      const virtual = context.link()?.virtual;
-      virtual?.fitResistor(first, { method, toOhm, addOhm });
-      if (second) virtual?.fitResistor(second.role, { method: 'replace', toOhm: second.toOhm, addOhm: null });
       context.link()?.link.pipeline.restartReadings();
       await open.writer.flush();
       const detail = await logbook.session(open.open.id);

@@ -12,8 +12,10 @@ import type { FoldTrace, KnownPart, TrimPlanView } from '../../app/contract';
 import { BenchFault } from '../../app/contract';
 
 /** The model's ramp after a change, over its charging interval, in degrees from the sync zero crossing. */
-export function predictedRampTrace(design: BoardDesign, suggestion: Pick<TrimSuggestion, 'part' | 'toOhm' | 'predictedPeakV' | 'alsoChange'>, points = 60): FoldTrace {
-  const overrides = { [suggestion.part]: suggestion.toOhm, ...(suggestion.alsoChange ? { [suggestion.alsoChange.part]: suggestion.alsoChange.toOhm } : {}) };
+export function predictedRampTrace(design: BoardDesign, suggestion: Pick<TrimSuggestion, 'part' | 'toOhm' | 'toFarad' | 'predictedPeakV' | 'alsoChange'>, points = 60): FoldTrace {
+  const overrides: PartOverrides = {};
+  if (suggestion.part !== 'transistor') overrides[suggestion.part] = suggestion.toFarad ?? suggestion.toOhm ?? undefined;
+  if (suggestion.alsoChange) overrides[suggestion.alsoChange.part] = suggestion.alsoChange.toOhm;
   const prediction = predictRamp(design, { partOverrides: overrides });
   const degPerS = 360 * design.mainsHz;
   // The planner predicts from its estimate of the actual board (fitted parts, V_EB); the design-based shape is
@@ -30,18 +32,21 @@ export function predictedRampTrace(design: BoardDesign, suggestion: Pick<TrimSug
   return { deg, v };
 }
 
-/** The plan for the last window's ramp; `fitted` holds the parts known to differ from the design. */
-export function planFromWindow(design: BoardDesign, window: CaptureReadings | null, series: ESeriesName, fitted: PartOverrides = {}): TrimPlan {
+/** The plan for the last window's ramp; `fitted` holds the parts known to differ from the design, `measured` those of them measured. */
+export function planFromWindow(design: BoardDesign, window: CaptureReadings | null, series: ESeriesName, fitted: PartOverrides = {}, measured: PartOverrides = {}): TrimPlan {
   const ramp = window?.ramp;
   if (!ramp || ramp.peakV === null || ramp.floorV === null || ramp.slopeVPerMs === null) {
     throw new BenchFault('not-ready', 'no ramp measured yet: connect the board and wait a second for the ramp readings');
   }
-  return planTrim(design, { floorV: ramp.floorV, peakV: ramp.peakV, slopeVPerMs: ramp.slopeVPerMs, startDelayDeg: ramp.startDelayDeg ?? undefined, clipped: ramp.clipped, alphaMaxDeg: window?.pulse.alphaMaxDeg ?? null }, { series, fitted });
+  return planTrim(design, { floorV: ramp.floorV, peakV: ramp.peakV, slopeVPerMs: ramp.slopeVPerMs, startDelayDeg: ramp.startDelayDeg ?? undefined, clipped: ramp.clipped, alphaMaxDeg: window?.pulse.alphaMaxDeg ?? null }, { series, fitted, measured });
 }
 
 export function trimPlanView(design: BoardDesign, plan: TrimPlan, window: CaptureReadings | null, measuredRamp: FoldTrace | null, knownParts: KnownPart[] = []): TrimPlanView {
   return {
     inTolerance: plan.status === 'in-tolerance',
+    status: plan.status,
+    summary: plan.summary,
+    notes: plan.notes,
     message: [plan.summary, ...plan.notes].join(' '),
     measuredPeakV: window?.ramp.peakV ?? null,
     targetPeakV: design.rampTargetV,
@@ -54,17 +59,21 @@ export function trimPlanView(design: BoardDesign, plan: TrimPlan, window: Captur
       ambiguity: plan.estimate.ambiguity,
     },
     suggestions: plan.suggestions.map((suggestion) => ({
+      kind: suggestion.kind,
       part: suggestion.part,
       partRef: suggestion.ref,
       method: suggestion.method,
       fromOhm: suggestion.fromOhm,
       toOhm: suggestion.toOhm,
+      fromFarad: suggestion.fromFarad,
+      toFarad: suggestion.toFarad,
       addOhm: suggestion.addOhm,
       series: suggestion.series,
       predictedPeakV: suggestion.predictedPeakV,
       predictedAlphaMaxDeg: suggestion.predictedAlphaRangeDeg.maxDeg,
       headroomV: suggestion.headroomV,
-      // The planner's reason names the second change too ("... and rEmitter (R7) 7.5 kohm with 8.2 kohm").
+      withinTolerance: suggestion.withinTolerance,
+      // The planner's reason names the second change too ("... and the emitter resistor R7 (7k5) with 8k2").
       reason: suggestion.reason,
       predictedRamp: predictedRampTrace(design, suggestion),
       alsoChange: suggestion.alsoChange ? { part: suggestion.alsoChange.part, partRef: suggestion.alsoChange.ref, fromOhm: suggestion.alsoChange.fromOhm, toOhm: suggestion.alsoChange.toOhm } : null,

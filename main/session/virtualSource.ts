@@ -4,10 +4,13 @@
  * Fitting a part or moving the control voltage rebuilds the virtual logger, as a power cycle of the board would:
  * it greets again and restarts its block count, so analysis restarts cleanly after the change.
  */
-import type { BoardDesign } from '../../app/board/design';
+import type { BoardDesign, PartRole } from '../../app/board/design';
+import { designValueOf } from '../../app/board/measuredParts';
+import { partName } from '../../app/board/partNames';
 import type { LinkSource, VirtualControl } from '../../app/contract';
 import { BenchFault } from '../../app/contract';
 import { createVirtualLogger, parseFaults, type FaultName, type VirtualLogger } from '../../app/sim';
+import { faultsStillActing } from '../../app/sim/fittedBoard';
 import type { ResistorRole } from '../../app/board/trimCandidates';
 import type { LineSink } from './liveLink';
 
@@ -37,15 +40,19 @@ export interface VirtualSource {
    * a parallel or series resistor `addOhm` combines with the part actually fitted, which may not be the design's.
    */
   fitResistor(part: ResistorRole, change: { method: 'replace' | 'parallel' | 'series'; toOhm: number; addOhm: number | null }): number;
+  /** The technician replaced the ramp capacitor: `farad` there from now on (and the wrong part taken out). */
+  fitCapacitor(farad: number): number;
+  /** What a meter reads at a position on the virtual board: the part actually fitted there (ohm; farad for cRamp). */
+  partValue(part: PartRole): number;
+  /** The technician replaced the ramp transistor with one of the design's type (the virtual board has no transistor fault, so nothing changes). */
+  fitTransistor(): void;
   control(): VirtualControl | null;
 }
 
-/** Faults that a new part at this position removes (the wrong part was taken out). */
-const faultsFixedBy: Partial<Record<ResistorRole, readonly string[]>> = { rEmitter: ['wrong-emitter-resistor'] };
 
 export function createVirtualSource(options: VirtualSourceOptions): VirtualSource {
   let design = options.design;
-  let faults = [...options.faults];
+  const faults = [...options.faults];
   // Checked now, so a typo in a fault name is an expected fault at connect, not a crash later.
   const parsed = parseFaults(faults, 'faults');
   let control: VirtualControl | null = options.control ?? null;
@@ -56,10 +63,12 @@ export function createVirtualSource(options: VirtualSourceOptions): VirtualSourc
   let logger: VirtualLogger;
   let signalS = 0;
   let ended = false;
+  // Positions where a part was fitted since the start: the board's part faults no longer touch them.
+  const replaced = new Set<PartRole>();
 
   const build = (): void => {
     const controlOptions = control === null ? {} : control.mode === 'fixed' ? { controlV: control.controlV } : { controlSweep: { fromV: control.fromV, toV: control.toV, periodS: control.periodS } };
-    logger = createVirtualLogger(design, { faults: faults as FaultName[], seed: options.seed ?? 1, unplugAfterS: parsed.unplugAfterS ?? undefined, ...controlOptions });
+    logger = createVirtualLogger(design, { faults: faults as FaultName[], replacedParts: [...replaced], seed: options.seed ?? 1, unplugAfterS: parsed.unplugAfterS ?? undefined, ...controlOptions });
     signalS = 0;
   };
   build();
@@ -75,7 +84,8 @@ export function createVirtualSource(options: VirtualSourceOptions): VirtualSourc
     }
   };
 
-  const description = (): LinkSource => ({ kind: 'virtual', designName: design.name, faults: [...faults] });
+  // The faults a replaced part took out no longer describe the board.
+  const description = (): LinkSource => ({ kind: 'virtual', designName: design.name, faults: faultsStillActing(faults, [...replaced]) });
 
   return {
     get description() {
@@ -99,8 +109,7 @@ export function createVirtualSource(options: VirtualSourceOptions): VirtualSourc
     },
     fitResistor(part, change) {
       const current = design.parts[part];
-      if (!current) throw new BenchFault('input', `the design has no ${part} position`, part);
-      const fixed = faultsFixedBy[part] ?? [];
+      if (!current) throw new BenchFault('input', `the design has no ${partName(design, part)}`, part);
       // The value actually on the board: the fault's wrong part when one is fitted there.
       const actualOhm = logger.board.fitted.partOverrides[part] ?? current.ohm;
       let ohm = change.toOhm;
@@ -110,9 +119,25 @@ export function createVirtualSource(options: VirtualSourceOptions): VirtualSourc
       }
       if (!(ohm > 0) || !Number.isFinite(ohm)) throw new BenchFault('input', `a fitted resistor must be above 0 ohm (got ${ohm})`, part);
       design = { ...design, parts: { ...design.parts, [part]: { ...current, ohm } } };
-      faults = faults.filter((fault) => !fixed.includes(fault));
+      replaced.add(part);
       build();
       return ohm;
+    },
+    fitCapacitor(farad) {
+      if (!(farad > 0) || !Number.isFinite(farad)) throw new BenchFault('input', `a fitted capacitor must be above 0 F (got ${farad})`, 'toFarad');
+      design = { ...design, parts: { ...design.parts, cRamp: { ...design.parts.cRamp, farad } } };
+      replaced.add('cRamp');
+      build();
+      return farad;
+    },
+    fitTransistor() {
+      build();
+    },
+    partValue(part) {
+      const fitted = logger.board.fitted;
+      const value = fitted.partOverrides[part] ?? designValueOf(design, part);
+      if (value === null || value === undefined) throw new BenchFault('input', `the design has no ${partName(design, part)}`, part);
+      return value;
     },
     control: () => control,
   };

@@ -92,6 +92,10 @@ export interface TransferFitRecord {
 export interface TrimRecord {
   id: number;
   part: string;
+  /**
+   * The part's value before and after, in its own unit as the part measurements keep them: ohm, or farad for the ramp
+   * capacitor (`cRamp`, replaced with its design value); 0 for `transistor` (a replaced ramp transistor has no value).
+   */
   fromOhm: number;
   toOhm: number;
   /** How the value was chosen: 'trim plan', 'by hand', ... */

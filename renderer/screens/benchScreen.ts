@@ -245,7 +245,7 @@ export class BenchScreen implements Screen {
   /** The capture file's reading: a bar while it reads, the outcome when it has ended. */
   private renderCaptureProgress(progress: CaptureProgress): void {
     const isCapture = this.context.store.health?.source?.kind === 'capture';
-    this.captureRow.hidden = !isCapture && progress.state !== 'reading';
+    this.captureRow.hidden = !isCapture && !this.captureOutcomeShown(progress.state, this.context.store.health);
     this.captureBar.max = Math.max(1, progress.totalBytes);
     this.captureBar.value = progress.state === 'done' ? progress.totalBytes : progress.bytesRead;
     const share = progress.totalBytes > 0 ? Math.floor((100 * (progress.state === 'done' ? progress.totalBytes : progress.bytesRead)) / progress.totalBytes) : 0;
@@ -254,10 +254,19 @@ export class BenchScreen implements Screen {
     this.cancelButton.hidden = progress.state !== 'reading';
   }
 
+  /**
+   * Whether the capture row stays in view once its link is gone: while it reads, and after a stop or a failure until
+   * another source connects (where the reading stopped is part of what the technician must see).
+   */
+  private captureOutcomeShown(state: CaptureProgress['state'], link: LinkHealth | null): boolean {
+    return state === 'reading' || ((state === 'cancelled' || state === 'failed') && !link?.source);
+  }
+
   private renderLink(link: LinkHealth): void {
     if (!this.context.store.state?.session) fill(this.sessionLine, this.noSessionLine());
     const stateWords: Record<string, string> = { disconnected: 'Not connected', connecting: 'Connecting', streaming: 'Streaming', stalled: 'No data arriving', lost: 'Link lost', ended: 'Capture read to the end' };
-    if (link.source?.kind !== 'capture' && this.context.store.captureProgress?.state !== 'reading') this.captureRow.hidden = true;
+    const progressState = this.context.store.captureProgress?.state;
+    if (link.source?.kind !== 'capture' && !(progressState && this.captureOutcomeShown(progressState, link))) this.captureRow.hidden = true;
     const source = link.source ? capitalised(describeLinkSource(link.source)) : 'None';
     const cell = (label: string, value: string, testId?: string, wide = false) => h('div', { 'data-testid': testId ?? null, class: wide ? 'wide' : null }, h('span', {}, label), h('strong', {}, value));
     fill(

@@ -20,6 +20,7 @@ const faultLabels: Record<BoardFaultName, string> = {
   'noisy-sync': 'Noisy sync',
   'clipped-ramp': 'Ramp clipping',
   'sync-offset': 'DC offset on the sync (full-wave halves fire apart)',
+  'stacked-tolerances': 'Parts in tolerance that stack up (ramp short, trim needed)',
 };
 const virtualFaults: readonly { id: string; label: string }[] = [
   { id: '', label: 'No fault: a board built to its design' },

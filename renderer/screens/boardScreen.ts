@@ -9,7 +9,8 @@ import { predictRamp } from '../../app/board/rampModel';
 import type { ESeriesName } from '../../app/board/eSeries';
 import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { h, fill, uniqueId } from '../dom/h';
-import { checkDesign, designFieldGroups, fieldValueText, problemForField, setFieldText, type DesignField } from '../shaping/designForm';
+import { checkDesign, designFieldGroups, fieldValueText, pathWords, problemForField, setFieldText, type DesignField } from '../shaping/designForm';
+import { formatOhm } from '../../app/board/formatValues';
 import { formatFixed, formatSi } from '../shaping/formatSi';
 import { predictedRampPoints } from '../shaping/predictedRamp';
 import { sizeEmitterResistor } from '../shaping/sizeEmitter';
@@ -96,7 +97,7 @@ export class BoardScreen implements Screen {
         input.addEventListener('input', () => this.onEdit(field, input));
         input.addEventListener('change', () => this.onEdit(field, input));
         this.inputs.set(field.path, { input, problem, field });
-        grid.appendChild(h('label', { class: 'field', for: id }, field.label, input, problem));
+        grid.appendChild(h('label', { class: field.wide ? 'field wide' : 'field', for: id }, field.label, input, problem));
       }
       this.form.appendChild(h('fieldset', {}, h('legend', {}, group.title), grid));
     }
@@ -147,7 +148,7 @@ export class BoardScreen implements Screen {
       if (found?.severity === 'error') errors += 1;
     }
     const unplaced = [...result.problems.entries()].filter(([path]) => ![...this.inputs.values()].some(({ field }) => problemForField(new Map([[path, { severity: 'error', message: '' }]]), field)));
-    this.formStatus.textContent = errors + unplaced.length === 0 ? (result.design ? 'The design is valid.' : '') : `${errors + unplaced.length} problem${errors + unplaced.length === 1 ? '' : 's'} to fix before saving.${unplaced.map(([path, problem]) => ` ${path || 'design'}: ${problem.message}.`).join('')}`;
+    this.formStatus.textContent = errors + unplaced.length === 0 ? (result.design ? 'The design is valid.' : '') : `${errors + unplaced.length} problem${errors + unplaced.length === 1 ? '' : 's'} to fix before saving.${unplaced.map(([path, problem]) => ` ${pathWords(path)}: ${problem.message}.`).join('')}`;
     this.saveButton.disabled = result.design === null || [...result.problems.values()].some((problem) => problem.severity === 'error');
     if (result.design && !this.sizingTarget.value) this.sizingTarget.value = String(result.design.rampTargetV);
     this.drawPrediction();
@@ -192,7 +193,7 @@ export class BoardScreen implements Screen {
       entry('Headroom to clipping', prediction.clipped ? 'clipped: current too high for the supply' : formatSi(prediction.headroomV, 'V')),
       entry('Ramp spans', `${formatFixed(alphaRange.startDeg, '°')} to ${formatFixed(alphaRange.endDeg, '°')}`),
       entry('α at the pot’s end', limits.alphaMaxDeg === null ? 'past the ramp: the board can stop firing' : formatFixed(limits.alphaMaxDeg, '°')),
-      entry('Limit resistor for α max', formatSi(limits.limitResistorOhm, 'Ω')),
+      entry('Limit resistor for α max', limits.limitResistorOhm === null ? '–' : formatOhm(limits.limitResistorOhm)),
     );
   }
 
@@ -209,14 +210,14 @@ export class BoardScreen implements Screen {
     }
     const sizing = sizeEmitterResistor(design, targetV, this.sizingSeries.value as ESeriesName);
     if (!sizing) {
-      fill(this.sizingResult, h('p', { class: 'field-problem' }, `No emitter resistor from 10 Ω to 10 MΩ gives ${formatSi(targetV, 'V')} with this divider and capacitor.`));
+      fill(this.sizingResult, h('p', { class: 'field-problem' }, `No emitter resistor from 10R to 10M gives ${formatSi(targetV, 'V')} with this divider and capacitor.`));
       return;
     }
-    const use = h('button', { class: 'secondary', type: 'button' }, `Use ${formatSi(sizing.standardOhm, 'Ω')}`);
+    const use = h('button', { class: 'secondary', type: 'button' }, `Use ${formatOhm(sizing.standardOhm)}`);
     use.addEventListener('click', () => {
       const entry = this.inputs.get('parts.rEmitter.ohm');
       if (!entry) return;
-      entry.input.value = String(sizing.standardOhm);
+      entry.input.value = formatOhm(sizing.standardOhm, 6);
       this.onEdit(entry.field, entry.input);
     });
     fill(
@@ -225,9 +226,9 @@ export class BoardScreen implements Screen {
         'dl',
         { class: 'stat-list' },
         h('dt', {}, 'Exact value'),
-        h('dd', {}, formatSi(sizing.exactOhm, 'Ω', { digits: 4 })),
+        h('dd', {}, formatOhm(sizing.exactOhm, 4)),
         h('dt', {}, `Nearest ${sizing.series}`),
-        h('dd', {}, formatSi(sizing.standardOhm, 'Ω')),
+        h('dd', {}, formatOhm(sizing.standardOhm)),
         h('dt', {}, 'Predicted peak'),
         h('dd', {}, `${formatSi(sizing.standard.peakV, 'V')}${sizing.standard.clipped ? ' (clipped)' : ''}`),
         h('dt', {}, 'Headroom'),

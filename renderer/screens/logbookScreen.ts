@@ -4,6 +4,8 @@
  * names the bench that did it (a shared logbook holds a whole line's); a bench that pushes to a shared logbook shows
  * which of its sessions are not yet shared. Times are shown in local time; the logbook keeps UTC.
  */
+import type { BoardDesign } from '../../app/board/design';
+import { recordedPartName, recordedPartValue } from '../../app/board/partNames';
 import type { CallResult } from '../../app/contract';
 import type { SessionComparison, SessionDetail, SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
@@ -235,6 +237,18 @@ export class LogbookScreen implements Screen {
       },
       () => undefined, // no registered formats: the CSV button stays
     );
+    // Parts in words, with the designators once the session's design version is at hand.
+    const measuredList = h('ul', { 'data-testid': 'detail-measured' });
+    const trimList = h('ul', { 'data-testid': 'detail-trims' });
+    const fillParts = (design: BoardDesign | null): void => {
+      fill(measuredList, detail.partMeasurements.map((measured) => h('li', {}, `${capitalised(recordedPartName(design, measured.part))}: ${recordedPartValue(measured.part, measured.value)} measured, design ${recordedPartValue(measured.part, measured.designValue)}, ${new Date(measured.at).toLocaleTimeString()}`)));
+      // What changed and when first; the plan's reason (its own sentence) after it.
+      fill(trimList, detail.trims.map((trim) => h('li', {}, `${capitalised(recordedPartName(design, trim.part))}: ${trim.part === 'transistor' ? 'replaced' : `${recordedPartValue(trim.part, trim.fromOhm)} → ${recordedPartValue(trim.part, trim.toOhm)}`} at ${new Date(trim.at).toLocaleTimeString()}. ${trim.reason || 'No reason given.'}`)));
+    };
+    fillParts(null);
+    if (detail.partMeasurements.length + detail.trims.length > 0) {
+      void this.context.client.getDesign({ name: row.designName, version: row.designVersion }).then((stored) => fillParts(stored.design), () => undefined);
+    }
     const readingRows = detail.steps.flatMap((step) =>
       step.readings.map((reading) =>
         h('tr', {}, h('td', {}, stepTitles[step.step]), h('td', {}, reading.label), h('td', { class: 'number', 'data-reading': reading.key }, formatReading(reading.value, reading.unit)), h('td', { class: 'number' }, formatReading(reading.expected, reading.unit)), h('td', {}, reading.verdict ? verdictBadge(reading.verdict) : h('span', { class: 'muted' }, 'for information'))),
@@ -250,14 +264,10 @@ export class LogbookScreen implements Screen {
       readingRows.length > 0 ? h('table', { class: 'data', 'data-testid': 'detail-readings' }, h('thead', {}, h('tr', {}, ['Step', 'Reading', 'Value', 'Design', 'Verdict'].map((title) => h('th', { scope: 'col' }, title)))), h('tbody', {}, readingRows)) : h('p', { class: 'empty' }, 'No step was recorded in this session.'),
       h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), h('div', { class: 'plot small' }, transferCanvas)), h('div', {}, h('h3', {}, perCycleTitle), peaks.length + alphas.length > 0 ? h('div', { class: 'plot small' }, cycleCanvas) : h('p', { class: 'empty' }, 'No per-cycle readings were kept.'))),
       detail.partMeasurements.length > 0 ? h('h3', {}, 'Parts measured on the board') : null,
-      detail.partMeasurements.length > 0
-        ? h('ul', { 'data-testid': 'detail-measured' }, detail.partMeasurements.map((measured) => {
-          const unit = measured.part === 'cRamp' ? 'F' : 'Ω';
-          return h('li', {}, `${measured.part}: ${formatSi(measured.value, unit)} measured, design ${formatSi(measured.designValue, unit)}, ${new Date(measured.at).toLocaleTimeString()}`);
-        }))
-        : null,
-      h('h3', {}, 'Trims applied'),
-      detail.trims.length > 0 ? h('ul', {}, detail.trims.map((trim) => h('li', {}, `${trim.part}: ${formatSi(trim.fromOhm, 'Ω')} → ${formatSi(trim.toOhm, 'Ω')} (${trim.reason || 'no reason given'}), ${new Date(trim.at).toLocaleTimeString()}`))) : h('p', { class: 'empty' }, 'None.'),
+      detail.partMeasurements.length > 0 ? measuredList : null,
+      // A part replaced is no trim: the heading covers both kinds of change.
+      h('h3', {}, 'Changes made to the board'),
+      detail.trims.length > 0 ? trimList : h('p', { class: 'empty' }, 'None.'),
       h('h3', {}, 'Link events'),
       detail.linkEvents.length > 0 ? h('ul', {}, detail.linkEvents.slice(0, 20).map((event) => h('li', {}, `${new Date(event.at).toLocaleTimeString()} ${event.kind}: ${event.detail}`))) : h('p', { class: 'empty' }, 'None: the link was clean.'),
       exportArea,
@@ -374,4 +384,8 @@ function driftForecast(warnings: readonly string[], sessions: number): HTMLEleme
     { class: 'drift-warnings', role: 'alert', 'data-testid': 'drift-forecast' },
     warnings.map((warning) => h('p', {}, h('span', { 'aria-hidden': 'true' }, '⚠ '), h('strong', {}, 'Trend warning: '), warning)),
   );
+}
+
+function capitalised(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
 }

@@ -8,18 +8,29 @@ import type { KnownPart, TrimPlanView, TrimSuggestion } from '../../app/contract
 import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { h, fill, uniqueId } from '../dom/h';
 import { formatSi } from '../shaping/formatSi';
+import { formatFarad, formatOhm, formatPartValue, formatVolt } from '../../app/board/formatValues';
 import { designValueOf } from '../../app/board/measuredParts';
+import { isBoardPart, partNameCapitalised, recordedPartName, recordedPartValue } from '../../app/board/partNames';
 import { measurableParts, partValueText, readMeasuredFields } from '../shaping/measuredPartsForm';
 import { foldTracePoints } from '../shaping/foldPoints';
-import { trimEstimateText } from '../shaping/trimEstimateText';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 
-const methodWords: Record<TrimSuggestion['method'], string> = { replace: 'Replace', parallel: 'Add in parallel', series: 'Add in series' };
-const partWords: Record<string, string> = { rEmitter: 'Emitter resistor', rBiasTop: 'Bias divider, top', rBiasBottom: 'Bias divider, bottom', rControlTop: 'Control limit resistor', cRamp: 'Ramp capacitor' };
+const methodWords: Record<TrimSuggestion['method'], string> = { replace: 'Replace', parallel: 'Add across', series: 'Add in series' };
 
-function knownPartText(part: KnownPart): string {
-  const unit = part.part === 'cRamp' ? 'F' : 'Ω';
-  return `${part.partRef ?? partWords[part.part] ?? part.part} ${formatSi(part.value, unit)} ${part.source === 'measured' ? 'measured' : 'fitted'} (design ${formatSi(part.designValue, unit)})`;
+function partText(design: BoardDesign | null, part: string): string {
+  return isBoardPart(part) ? partNameCapitalised(design, part) : part;
+}
+
+function knownPartText(design: BoardDesign | null, part: KnownPart): string {
+  return `${partText(design, part.part)} ${formatPartValue(part.part, part.value)} ${part.source === 'measured' ? 'measured' : 'fitted'} (design ${formatPartValue(part.part, part.designValue)})`;
+}
+
+/** The Value cell: what goes in, in the drawing code. */
+function changeValueText(suggestion: TrimSuggestion): string {
+  if (suggestion.part === 'transistor') return 'one of the design\'s type';
+  if (suggestion.toFarad !== null) return `${suggestion.fromFarad === null ? '' : `${formatFarad(suggestion.fromFarad)} → `}${formatFarad(suggestion.toFarad)}`;
+  if (suggestion.addOhm !== null) return `${formatOhm(suggestion.addOhm)} ${suggestion.series} → ${formatOhm(suggestion.toOhm ?? Number.NaN)}`;
+  return `${suggestion.fromOhm === null ? '' : `${formatOhm(suggestion.fromOhm)} → `}${formatOhm(suggestion.toOhm ?? Number.NaN)}${suggestion.kind === 'trim' ? ` ${suggestion.series}` : ''}`;
 }
 
 export class TrimScreen implements Screen {
@@ -135,15 +146,14 @@ export class TrimScreen implements Screen {
     this.partInputs.clear();
     const labels = measurableParts.map((role) => {
       const designValue = designValueOf(design, role) ?? Number.NaN;
-      const ref = design.parts[role]?.ref;
       const id = uniqueId(`measured-${role}`);
-      const input = h('input', { id, type: 'text', inputmode: 'decimal', autocomplete: 'off', spellcheck: 'false', placeholder: `as designed: ${partValueText(designValue)}`, 'data-testid': `measured-${role}` });
+      const input = h('input', { id, type: 'text', inputmode: 'text', autocomplete: 'off', spellcheck: 'false', placeholder: `as designed: ${partValueText(role, designValue)}`, 'data-testid': `measured-${role}` });
       const problem = h('span', { class: 'field-problem', 'aria-live': 'polite' });
       const fitted = h('span', { class: 'muted small' });
       input.setAttribute('aria-describedby', `${id}-problem`);
       problem.id = `${id}-problem`;
       this.partInputs.set(role, { input, problem, fitted });
-      return h('label', { class: 'field', for: id }, `${partWords[role] ?? role}${ref ? ` (${ref})` : ''}, ${role === 'cRamp' ? 'F' : 'Ω'}`, input, fitted, problem);
+      return h('label', { class: 'field', for: id }, partNameCapitalised(design, role), input, fitted, problem);
     });
     fill(this.partsForm, labels);
   }
@@ -152,10 +162,10 @@ export class TrimScreen implements Screen {
   private renderParts(known: readonly KnownPart[]): void {
     for (const [role, field] of this.partInputs) {
       const entry = known.find((part) => part.part === role);
-      field.input.value = entry?.source === 'measured' ? partValueText(entry.value) : '';
+      field.input.value = entry?.source === 'measured' ? partValueText(role, entry.value) : '';
       field.input.setAttribute('aria-invalid', 'false');
       field.problem.textContent = '';
-      field.fitted.textContent = entry?.source === 'fitted' ? `fitted this session: ${formatSi(entry.value, role === 'cRamp' ? 'F' : 'Ω')}` : '';
+      field.fitted.textContent = entry?.source === 'fitted' ? `fitted this session: ${formatPartValue(role, entry.value)}` : '';
     }
   }
 
@@ -186,39 +196,41 @@ export class TrimScreen implements Screen {
     fill(
       this.summary,
       h('p', { class: 'big-reading' }, h('span', { class: 'label' }, 'Ramp peak now'), h('span', { class: 'value', 'data-testid': 'trim-measured' }, formatSi(plan.measuredPeakV, 'V')), h('span', { class: 'design' }, ` target ${formatSi(plan.targetPeakV, 'V')}`)),
-      h('p', { 'data-testid': 'trim-message' }, plan.message),
-      plan.estimate ? h('p', { class: 'muted', 'data-testid': 'trim-estimate' }, trimEstimateText(plan.estimate)) : null,
-      plan.knownParts.length > 0 ? h('p', { 'data-testid': 'trim-known' }, h('strong', {}, 'Planned for the board as built: '), plan.knownParts.map(knownPartText).join('; '), '.') : null,
+      h('p', { class: 'trim-summary-line', 'data-testid': 'trim-message' }, h('strong', {}, plan.summary)),
+      plan.knownParts.length > 0 ? h('p', { 'data-testid': 'trim-known' }, h('strong', {}, 'Planned for the board as built: '), plan.knownParts.map((part) => knownPartText(this.design, part)).join('; '), '.') : null,
+      plan.notes.length > 0 ? h('ul', { class: 'trim-notes', 'data-testid': 'trim-notes' }, plan.notes.filter((note) => !note.startsWith('Planned for the board as built')).map((note) => h('li', {}, note))) : null,
     );
     if (plan.suggestions.length === 0) {
       fill(this.table, h('p', { class: 'empty', 'data-testid': 'trim-none' }, plan.inTolerance ? 'The ramp is in tolerance: nothing to change.' : 'No standard value brings the ramp to its target; check the parts against the design.'));
       this.draw();
       return;
     }
+    const measuredParts = new Set(plan.knownParts.filter((part) => part.source === 'measured').map((part) => part.part));
     fill(
       this.table,
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Rank', 'Part', 'Change', 'Value', 'Predicted peak', 'Headroom', 'Why', ''].map((title) => h('th', { scope: 'col' }, title)))),
+        h('thead', {}, h('tr', {}, ['Rank', 'Part', 'Change', 'Value', 'Predicted peak', 'Headroom', 'What and why', ''].map((title) => h('th', { scope: 'col' }, title)))),
         h(
           'tbody',
           {},
           plan.suggestions.map((suggestion, index) => {
-            const fitted = h('button', { class: index === 0 ? 'primary' : 'secondary', type: 'button', 'data-testid': `fitted-${index}` }, 'I fitted this');
+            const fitted = h('button', { class: index === 0 ? 'primary' : 'secondary', type: 'button', 'data-testid': `fitted-${index}` }, suggestion.kind === 'repair' ? 'I replaced it' : 'I fitted this');
             fitted.addEventListener('click', (event) => {
               event.stopPropagation();
               void this.applyTrim(suggestion, fitted);
             });
             return h(
               'tr',
-              { class: 'clickable', 'aria-selected': String(index === this.chosen), onclick: () => { this.chosen = index; this.render(); } },
+              { class: `clickable ${suggestion.kind}${suggestion.withinTolerance ? '' : ' outside-band'}`, 'aria-selected': String(index === this.chosen), 'data-kind': suggestion.kind, onclick: () => { this.chosen = index; this.render(); } },
               h('td', { class: 'number' }, index + 1),
-              h('td', {}, `${partWords[suggestion.part] ?? suggestion.part}${suggestion.partRef ? ` (${suggestion.partRef})` : ''}`),
-              h('td', {}, methodWords[suggestion.method]),
-              h('td', { class: 'number' }, suggestion.addOhm !== null ? `${formatSi(suggestion.addOhm, 'Ω')} ${suggestion.series} → ${formatSi(suggestion.toOhm, 'Ω')}` : `${formatSi(suggestion.fromOhm, 'Ω')} → ${formatSi(suggestion.toOhm, 'Ω')} ${suggestion.series}`),
-              h('td', { class: 'number' }, formatSi(suggestion.predictedPeakV, 'V')),
-              h('td', { class: 'number' }, formatSi(suggestion.headroomV, 'V')),
+              h('td', {}, partText(this.design, suggestion.part)),
+              h('td', {}, suggestion.kind === 'repair' ? (measuredParts.has(suggestion.part) || suggestion.part === 'transistor' ? 'Replace' : 'Measure, replace') : methodWords[suggestion.method]),
+              h('td', { class: 'number' }, changeValueText(suggestion)),
+              // Volts as the reason beside them says them (7.40 V, not 7.4 V): one column reads evenly.
+              h('td', { class: 'number' }, formatVolt(suggestion.predictedPeakV), suggestion.withinTolerance ? null : h('div', { class: 'field-problem' }, 'outside the band')),
+              h('td', { class: 'number' }, suggestion.headroomV === null ? '–' : formatVolt(suggestion.headroomV)),
               h('td', {}, suggestion.reason),
               h('td', {}, fitted),
             );
@@ -231,8 +243,9 @@ export class TrimScreen implements Screen {
 
   private async applyTrim(suggestion: TrimSuggestion, button: HTMLButtonElement): Promise<void> {
     await runAction(this.context, button, async () => {
-      const result = await this.context.client.applyTrim({ part: suggestion.part, fromOhm: suggestion.fromOhm, toOhm: suggestion.toOhm, method: suggestion.method, addOhm: suggestion.addOhm, reason: suggestion.reason, alsoChange: suggestion.alsoChange ? { part: suggestion.alsoChange.part, fromOhm: suggestion.alsoChange.fromOhm, toOhm: suggestion.alsoChange.toOhm } : null });
-      this.context.notices.show('info', `Recorded: ${partWords[result.trim.part] ?? result.trim.part} ${formatSi(result.trim.fromOhm, 'Ω')} → ${formatSi(result.trim.toOhm, 'Ω')}. Check the ramp again.`);
+      const result = await this.context.client.applyTrim({ part: suggestion.part, fromOhm: suggestion.fromOhm, toOhm: suggestion.toOhm, fromFarad: suggestion.fromFarad, toFarad: suggestion.toFarad, method: suggestion.method, addOhm: suggestion.addOhm, reason: suggestion.reason, alsoChange: suggestion.alsoChange ? { part: suggestion.alsoChange.part, fromOhm: suggestion.alsoChange.fromOhm, toOhm: suggestion.alsoChange.toOhm } : null });
+      const change = result.trim.part === 'transistor' ? 'replaced' : `${recordedPartValue(result.trim.part, result.trim.fromOhm)} → ${recordedPartValue(result.trim.part, result.trim.toOhm)}`;
+      this.context.notices.show('info', `Recorded: ${recordedPartName(this.design, result.trim.part)} ${change}. Check the ramp again.`);
       await this.context.store.refresh();
     });
   }

@@ -5,6 +5,9 @@
  */
 import { boardDesignSchema, type BoardDesign } from '../../app/board/design';
 import { validateBoardPhysics } from '../../app/board/boardPhysics';
+import { formatFarad, formatOhm } from '../../app/board/formatValues';
+import { parseQuantity } from '../../app/board/parseQuantity';
+import { isBoardPart, partNameCapitalised } from '../../app/board/partNames';
 
 export interface DesignField {
   /** Dotted path in the design file, e.g. `parts.rEmitter.ohm`. */
@@ -12,9 +15,12 @@ export interface DesignField {
   label: string;
   /** Unit the number is typed in; `kind` says how it is stored. */
   unit: string;
-  kind: 'number' | 'text' | 'choice';
+  /** `part`: a part value typed and shown in the drawing code (6k8, 390n), stored in ohm or farad. */
+  kind: 'number' | 'text' | 'choice' | 'part';
   choices?: readonly string[];
   optional?: boolean;
+  /** Takes two columns: a name read whole, not cut off. */
+  wide?: boolean;
 }
 
 export interface DesignFieldGroup {
@@ -22,16 +28,22 @@ export interface DesignFieldGroup {
   fields: readonly DesignField[];
 }
 
+// Each part on one row: its value, its designator and its tolerance. The tolerance is what the trim planner weighs
+// a reading against (a part far outside its own tolerance is replaced, not compensated), so it is the design's to say;
+// left empty, the schema's default (5 % for a resistor, 10 % for the ramp capacitor) applies.
+const tolerance = (role: string, label: string): DesignField => ({ path: `parts.${role}.tolerancePct`, label: `${label} ± (%)`, unit: '%', kind: 'number', optional: true });
+
 const resistor = (role: string, label: string, optional = false): DesignField[] => [
-  { path: `parts.${role}.ohm`, label: `${label} (Ω)`, unit: 'ohm', kind: 'number', optional },
+  { path: `parts.${role}.ohm`, label, unit: 'ohm', kind: 'part', optional },
   { path: `parts.${role}.ref`, label: `${label}, ref`, unit: '', kind: 'text', optional: true },
+  tolerance(role, label),
 ];
 
 export const designFieldGroups: readonly DesignFieldGroup[] = [
   {
     title: 'Board',
     fields: [
-      { path: 'name', label: 'Design name', unit: '', kind: 'text' },
+      { path: 'name', label: 'Design name', unit: '', kind: 'text', wide: true },
       { path: 'mainsHz', label: 'Mains (Hz)', unit: 'Hz', kind: 'number' },
       { path: 'rectifier', label: 'Rectifier', unit: '', kind: 'choice', choices: ['half-wave', 'full-wave'] },
       { path: 'supplyV', label: 'Source supply (V)', unit: 'V', kind: 'number' },
@@ -46,17 +58,18 @@ export const designFieldGroups: readonly DesignFieldGroup[] = [
   {
     title: 'Current source and ramp',
     fields: [
-      ...resistor('rEmitter', 'Emitter resistor'),
-      ...resistor('rBiasTop', 'Bias divider, top'),
-      ...resistor('rBiasBottom', 'Bias divider, bottom'),
-      { path: 'parts.cRamp.farad', label: 'Ramp capacitor (µF)', unit: 'uF', kind: 'number' },
-      { path: 'parts.cRamp.ref', label: 'Ramp capacitor, ref', unit: '', kind: 'text', optional: true },
-      ...resistor('rDischarge', 'Discharge resistor', true),
+      ...resistor('rEmitter', partNameCapitalised(null, 'rEmitter')),
+      ...resistor('rBiasTop', partNameCapitalised(null, 'rBiasTop')),
+      ...resistor('rBiasBottom', partNameCapitalised(null, 'rBiasBottom')),
+      { path: 'parts.cRamp.farad', label: partNameCapitalised(null, 'cRamp'), unit: 'F', kind: 'part' },
+      { path: 'parts.cRamp.ref', label: `${partNameCapitalised(null, 'cRamp')}, ref`, unit: '', kind: 'text', optional: true },
+      tolerance('cRamp', partNameCapitalised(null, 'cRamp')),
+      ...resistor('rDischarge', partNameCapitalised(null, 'rDischarge'), true),
     ],
   },
   {
     title: 'Control divider',
-    fields: [...resistor('rControlTop', 'Control limit resistor', true), ...resistor('potControl', 'Control potentiometer', true)],
+    fields: [...resistor('rControlTop', partNameCapitalised(null, 'rControlTop'), true), ...resistor('potControl', partNameCapitalised(null, 'potControl'), true)],
   },
   {
     title: 'Transistor',
@@ -70,13 +83,13 @@ export const designFieldGroups: readonly DesignFieldGroup[] = [
     title: 'Power stage (optional: for the latching check)',
     fields: [
       { path: 'load.mainsRmsV', label: 'Mains at the anode (V rms)', unit: 'V', kind: 'number', optional: true },
-      { path: 'load.ohm', label: 'Load resistance (Ω)', unit: 'ohm', kind: 'number', optional: true },
+      { path: 'load.ohm', label: 'Load resistance', unit: 'ohm', kind: 'part', optional: true },
       { path: 'load.henry', label: 'Load inductance (mH)', unit: 'mH', kind: 'number', optional: true },
       { path: 'load.latchingCurrentA', label: 'Latching current (mA)', unit: 'mA', kind: 'number', optional: true },
     ],
   },
   {
-    title: 'Tolerances',
+    title: 'Reading tolerances (a reading inside passes)',
     fields: [
       { path: 'tolerances.rampPeakPct', label: 'Ramp peak (%)', unit: '%', kind: 'number', optional: true },
       { path: 'tolerances.alphaDeg', label: 'Firing angle (°)', unit: 'deg', kind: 'number', optional: true },
@@ -86,14 +99,16 @@ export const designFieldGroups: readonly DesignFieldGroup[] = [
 ];
 
 /**
- * Typed in microfarads, stored in farads: a technician reads "0.47" off the part, not "4.7e-7". Likewise
- * millihenry and milliampere, as data sheets and load plates give them.
+ * Typed in millihenry and milliampere, stored in henry and ampere, as data sheets and load plates give them. Part
+ * values are typed and shown as marked on the part (IEC 60062 code, app/board/formatValues.ts): 6k8, 390n.
  */
-const typedScale: Record<string, number> = { uF: 1e-6, mH: 1e-3, mA: 1e-3 };
+const typedScale: Record<string, number> = { mH: 1e-3, mA: 1e-3 };
 
 export function fieldValueText(design: unknown, field: DesignField): string {
   const value = getPath(design, field.path);
   if (value === undefined || value === null) return '';
+  // Six digits so an odd value from a file survives an edit of another field unchanged.
+  if (typeof value === 'number' && field.kind === 'part') return field.unit === 'F' ? formatFarad(value, 6) : formatOhm(value, 6);
   if (typeof value === 'number') {
     const scale = typedScale[field.unit] ?? 1;
     return String(Number((value / scale).toPrecision(12)));
@@ -108,6 +123,12 @@ export function fieldValueText(design: unknown, field: DesignField): string {
 export function setFieldText(design: Record<string, unknown>, field: DesignField, text: string): void {
   const trimmed = text.trim();
   if (trimmed === '' && field.optional) return deletePath(design, field.path);
+  if (field.kind === 'part') {
+    const value = parseQuantity(trimmed);
+    // A capacitance needs its letter: "0.47" could be microfarads or farads (kept as text, so the field says so).
+    const plain = !/[a-zµ]/i.test(trimmed.replace(/e[-+]?\d+$/i, ''));
+    return setPath(design, field.path, Number.isFinite(value) && value > 0 && !(field.unit === 'F' && plain) ? value : trimmed);
+  }
   if (field.kind !== 'number') return setPath(design, field.path, trimmed);
   const number = Number(trimmed.replace(',', '.'));
   setPath(design, field.path, trimmed !== '' && Number.isFinite(number) ? number * (typedScale[field.unit] ?? 1) : trimmed);
@@ -133,8 +154,8 @@ export function checkDesign(input: unknown): DesignCheck {
     for (const issue of parsed.error.issues) {
       const path = issue.path.map(String).join('.');
       const typed = getPath(input, path);
-      const message = issue.code === 'invalid_type' && issue.expected === 'number' && typeof typed === 'string' ? notANumber(typed, path) : issue.message;
-      if (!problems.has(path)) problems.set(path, { severity: 'error', message });
+      const notNumber = issue.code === 'invalid_type' && issue.expected === 'number' && typeof typed === 'string' ? notANumber(typed, path) : null;
+      if (!problems.has(path)) problems.set(path, { severity: 'error', message: partTextProblem(input, path) ?? notNumber ?? issue.message });
     }
     return { design: null, problems };
   }
@@ -142,6 +163,23 @@ export function checkDesign(input: unknown): DesignCheck {
     if (!problems.has(problem.field) || problem.severity === 'error') problems.set(problem.field, { severity: problem.severity, message: problem.message });
   }
   return { design: parsed.data, problems };
+}
+
+/** Where a problem sits, in the words of the form (a field's label, or the part in words), never the file's key. */
+export function pathWords(path: string): string {
+  const field = designFieldGroups.flatMap((group) => group.fields).find((candidate) => candidate.path === path || candidate.path.startsWith(`${path}.`));
+  if (field) return field.label;
+  const part = /^parts\.([A-Za-z]+)/.exec(path)?.[1];
+  if (part && isBoardPart(part)) return partNameCapitalised(null, part);
+  return path === '' ? 'The design' : path.split('.').pop() ?? path;
+}
+
+/** A part value field holding text that is not a value: say how to write it. */
+function partTextProblem(input: unknown, path: string): string | null {
+  const field = designFieldGroups.flatMap((group) => group.fields).find((candidate) => candidate.path === path && candidate.kind === 'part');
+  const text = getPath(input, path);
+  if (!field || typeof text !== 'string') return null;
+  return field.unit === 'F' ? `"${text}" is not a capacitance: write it as marked, with its letter (390n, 4u7, 220p)` : `"${text}" is not a resistance: write it as marked (6k8, 470R, 1M5) or in ohms`;
 }
 
 /** A problem reported against a parent path (`parts.rEmitter`) belongs to its first field (`parts.rEmitter.ohm`). */

@@ -1,8 +1,12 @@
 /**
  * Readings with SI prefixes (the SI Brochure's decimal prefixes, p to G), so a value is read without counting
- * zeros: 0.00047 F shows as "470 µF", 7500 ohm as "7.5 kΩ". Significant digits are fixed, trailing zeros dropped.
+ * zeros: 0.00047 F shows as "470 µF", 7.5 V per ms as "7.5 V/ms". Significant digits are fixed, trailing zeros dropped.
+ * Part values (resistances, the ramp capacitor) are not shown with it: they use the drawing code of
+ * app/board/formatValues.ts ("7k5"), one notation everywhere.
  * DOM-free so it is unit-tested in Node.
  */
+import { formatOhm } from '../../app/board/formatValues';
+
 const prefixes: readonly { exponent: number; symbol: string }[] = [
   { exponent: 9, symbol: 'G' },
   { exponent: 6, symbol: 'M' },
@@ -88,7 +92,8 @@ export function formatReading(value: number | null | undefined, unit: string, di
     case 'ms':
       return formatSi(value == null ? value : value * 1e-3, 's', { digits });
     case 'ohm':
-      return formatSi(value, 'Ω', { digits });
+      // A resistance is a part value: the one notation of app/board/formatValues.ts (IEC 60062 code, "7k5").
+      return value == null || !Number.isFinite(value) ? '–' : formatOhm(value, digits);
     case 'deg/V':
       // Degrees are not an SI unit: no prefixes ("0.61°/V", never "605 mdeg/V").
       return value == null || !Number.isFinite(value) ? '–' : `${formatFixed(value, '°', 2)}/V`;

@@ -5,15 +5,15 @@
  */
 import type { BoardDesign, PartRole } from '../../app/board/design';
 import { checkMeasuredParts } from '../../app/board/measuredParts';
+import { formatPartValue } from '../../app/board/formatValues';
 import { parseQuantity } from '../../app/board/parseQuantity';
-import { formatSi } from './formatSi';
 
 /** The parts that set the ramp: the ones worth measuring when the ramp misses. */
 export const measurableParts: readonly PartRole[] = ['rEmitter', 'rBiasTop', 'rBiasBottom', 'cRamp'];
 
-/** A value as typed on the bench: "8.2k", "560n", "1.5M" (no unit, no space), to put back in a field. */
-export function partValueText(value: number): string {
-  return formatSi(value, '', { digits: 4 }).replace(/\s+/g, '').replace('µ', 'u');
+/** A value as marked on the part (IEC 60062 code: "8k2", "560n", "1M5"), to put back in a field; four digits kept. */
+export function partValueText(role: PartRole, value: number): string {
+  return formatPartValue(role, value, 4);
 }
 
 export interface MeasuredFieldsResult {
@@ -30,7 +30,7 @@ export function readMeasuredFields(design: BoardDesign, texts: Partial<Record<Pa
     if (text === '') continue;
     const value = parseQuantity(text);
     if (Number.isNaN(value)) {
-      problems[role] = `"${text}" is not a part value: write it as printed, for example ${role === 'cRamp' ? '470n or 0.47u' : '5k1 or 5.1k'}`;
+      problems[role] = `"${text}" is not a part value: write it as marked, for example ${role === 'cRamp' ? '470n or 4u7' : '5k1 or 470R'}`;
       continue;
     }
     try {

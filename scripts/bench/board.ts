@@ -12,7 +12,7 @@ import { planTrim } from '../../app/board/trimPlan';
 
 const board = boardDesignSchema.parse({
   name: 'Bench figure board', mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 5.5, alphaMaxDeg: 165,
-  parts: { rEmitter: { ohm: 7500, ref: 'R7' }, rBiasTop: { ohm: 22000 }, rBiasBottom: { ohm: 100000 }, cRamp: { farad: 4.7e-7 }, rControlTop: { ohm: 8200 }, potControl: { ohm: 4700 } },
+  parts: { rEmitter: { ohm: 7500, ref: 'R7' }, rBiasTop: { ohm: 22000 }, rBiasBottom: { ohm: 100000 }, cRamp: { farad: 4.7e-7 }, rControlTop: { ohm: 18000 }, potControl: { ohm: 10000 } },
 });
 
 function timed(label: string, repeats: number, work: () => void): void {

@@ -108,4 +108,31 @@ describe('a capture file on the Bench screen', () => {
     await screenshot(page, 'capture-5-remembered');
     expect(pageErrors).toEqual([]);
   });
+
+  it('stops reading a file part-way with Stop reading, and keeps what was read', async () => {
+    const text = instrumentCsv(12, 23);
+    const transfer = await page.evaluateHandle((content) => {
+      const data = new DataTransfer();
+      data.items.add(new File([content], 'bench3-unit44.csv', { type: 'text/csv' }));
+      return data;
+    }, text);
+    await page.getByTestId('capture-drop').dispatchEvent('drop', { dataTransfer: transfer });
+    await expect.poll(() => page.getByTestId('capture-status').textContent(), { timeout: 30_000 }).toMatch(/bench3-unit44\.csv: ready to open/);
+    await page.getByTestId('setup-unit').fill('CH50H-0209');
+    await page.getByTestId('start-session').click();
+    // Played as recorded (12 s): stopped while it reads, the bar says where it stopped.
+    const share = async (): Promise<number> => Number(/^(\d+) % of bench3-unit44\.csv/.exec((await page.getByTestId('capture-progress-text').textContent()) ?? '')?.[1] ?? -1);
+    await expect.poll(share, { timeout: 30_000 }).toBeGreaterThanOrEqual(20);
+    await page.getByTestId('capture-cancel').click();
+    await expect.poll(() => page.getByTestId('capture-progress-text').textContent(), { timeout: 20_000 }).toMatch(/bench3-unit44\.csv: stopped at \d+ %/);
+    await expect(page.getByTestId('capture-progress-text').isVisible()).resolves.toBe(true);
+    const stoppedAt = Number(/stopped at (\d+) %/.exec((await page.getByTestId('capture-progress-text').textContent()) ?? '')?.[1]);
+    expect(stoppedAt).toBeLessThan(100);
+    // What was read before the stop stays measured on the screen.
+    await expect(page.getByTestId('big-frequencyHz').textContent()).resolves.toMatch(/(49|50)\.\d+ Hz|50 Hz/);
+    await screenshot(page, 'capture-6-stopped');
+    await page.getByTestId('stop-session').click();
+    await page.getByTestId('setup-source').waitFor({ state: 'visible', timeout: 20_000 });
+    expect(pageErrors).toEqual([]);
+  });
 });

@@ -6,6 +6,7 @@
  */
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { roleIdentifiersIn } from '../roleIdentifiers';
 import { canvasColourShare, canvasInk, collectPageErrors, launchChromium, screenshot, startDemoServer, type DemoServer } from './browserMode';
 
 const unitSerial = 'RW-E2E-0417'; // our own invented serial number
@@ -23,6 +24,13 @@ async function goScreen(name: 'Board' | 'Bench' | 'Transfer' | 'Trim' | 'Logbook
 
 async function stepVerdict(step: string): Promise<string | null> {
   return page.locator(`[data-step="${step}"] header .verdict`).getAttribute('data-verdict');
+}
+
+/** The text a person reads on the screen shown now names parts in words, never by the design file's keys (issue 11). */
+async function expectPartsInWords(screen: 'Board' | 'Bench' | 'Transfer' | 'Trim' | 'Logbook'): Promise<void> {
+  const text = await page.locator(`#screen-${screen.toLowerCase()}`).innerText();
+  expect(text.length).toBeGreaterThan(50);
+  expect(roleIdentifiersIn(text), `${screen} screen`).toEqual([]);
 }
 
 /** Record the selected step with its button and wait until the step list shows it recorded. */
@@ -71,7 +79,11 @@ describe('browser mode with the virtual board', () => {
     expect(await canvasColourShare(page, '[data-testid="predicted-canvas"]', '#d9622b')).toBeGreaterThan(0.001);
     await expect(page.getByTestId('prediction').textContent()).resolves.toMatch(/Peak at half-cycle end\s*[\d.]+ V/);
     await page.getByTestId('size-emitter').click();
-    await expect(page.getByTestId('sizing-result').textContent()).resolves.toMatch(/Nearest E24\s*[\d.]+ k?Ω/);
+    // Part values as marked on parts (IEC 60062 code), in the form and in the sizing result.
+    await expect(page.locator('#design-parts-rEmitter-ohm').inputValue()).resolves.toBe('6k8');
+    await expect(page.locator('#design-parts-cRamp-farad').inputValue()).resolves.toBe('390n');
+    await expect(page.getByTestId('sizing-result').textContent()).resolves.toMatch(/Nearest E24\s*\d+k\d*/);
+    await expectPartsInWords('Board');
     await screenshot(page, '2-board');
   });
 
@@ -91,6 +103,7 @@ describe('browser mode with the virtual board', () => {
     await expect.poll(() => page.locator('[data-testid="big-rampPeakV"] .verdict').getAttribute('data-verdict'), { timeout: 15_000 }).toBe('out-of-tolerance');
     await expect(page.getByTestId('link-state').textContent()).resolves.toMatch(/Streaming/);
     await expect(page.getByTestId('link-crc').textContent()).resolves.toMatch(/CRC errors\s*\d+/);
+    await expectPartsInWords('Bench');
     await screenshot(page, '3-bench-fault');
 
     // Hold freezes the fold (H on the keyboard), Keep capture stores the last seconds in the session.
@@ -117,17 +130,21 @@ describe('browser mode with the virtual board', () => {
     await expect(page.getByTestId('trim-message').textContent()).resolves.not.toBe('');
     expect(await canvasInk(page, '[data-testid="trim-canvas"]')).toBeGreaterThan(0.02);
     // The technician measured the ramp capacitor: a slipped prefix is named beside the field and nothing is sent;
-    // the value as measured (470 nF design, 30 % low on the demo board) reaches the plan.
+    // the value as measured (390 nF design, 30 % low on the demo board) reaches the plan.
     const capacitor = page.getByTestId('measured-cRamp');
     await capacitor.fill('330');
     await page.getByTestId('trim-parts-plan').click();
     await expect.poll(() => capacitor.getAttribute('aria-invalid')).toBe('true');
-    await expect(page.locator('label.field', { has: capacitor }).locator('.field-problem').textContent()).resolves.toMatch(/more than 10 times off its design value 470 nF/);
-    await capacitor.fill('330n');
+    await expect(page.locator('label.field', { has: capacitor }).locator('.field-problem').textContent()).resolves.toMatch(/more than 10 times off its design value 390n/);
+    await capacitor.fill('273n');
     await page.getByTestId('trim-parts-plan').click();
-    await expect.poll(() => page.getByTestId('trim-known').textContent(), { timeout: 15_000 }).toMatch(/Planned for the board as built: C6 330 nF measured \(design 470 nF\)/);
+    await expect.poll(() => page.getByTestId('trim-known').textContent(), { timeout: 15_000 }).toMatch(/Planned for the board as built: Ramp capacitor C6 273n measured \(design 390n\)/);
+    // Measured 30 % low, far outside its tolerance: the first advice is to replace it with its design value.
+    await expect(page.getByTestId('trim-message').textContent()).resolves.toMatch(/replace the ramp capacitor C6 with 390n\./);
+    await expect(page.locator('[data-testid="trim-plan"] tbody tr').first().getAttribute('data-kind')).resolves.toBe('repair');
+    await expectPartsInWords('Trim');
     expect(await capacitor.getAttribute('aria-invalid')).toBe('false');
-    await expect(capacitor.inputValue()).resolves.toBe('330n');
+    await expect(capacitor.inputValue()).resolves.toBe('273n');
     await screenshot(page, '4-trim-plan');
     await page.getByTestId('fitted-0').click();
     await page.getByTestId('trim-recheck').waitFor({ state: 'visible' });
@@ -181,9 +198,11 @@ describe('browser mode with the virtual board', () => {
     expect(text).toMatch(/In tolerance/);
     expect(Number(await page.getByTestId('detail-transfer-canvas').getAttribute('data-points'))).toBeGreaterThan(20);
     expect(await canvasInk(page, '[data-testid="detail-transfer-canvas"]')).toBeGreaterThan(0.02);
-    await expect(page.getByTestId('session-detail').textContent()).resolves.toMatch(/Trims applied.*→/s);
+    await expect(page.getByTestId('session-detail').textContent()).resolves.toMatch(/Changes made to the board.*→/s);
     // The ramp capacitor measured on the Trim screen is in the logbook beside its design value.
-    await expect(page.getByTestId('detail-measured').textContent()).resolves.toMatch(/cRamp: 330 nF measured, design 470 nF/);
+    await expect.poll(() => page.getByTestId('detail-measured').textContent(), { timeout: 10_000 }).toMatch(/Ramp capacitor C6: 273n measured, design 390n/);
+    await expect.poll(() => page.getByTestId('detail-trims').textContent(), { timeout: 10_000 }).toMatch(/Ramp capacitor C6: 273n → 390n/);
+    await expectPartsInWords('Logbook');
     await screenshot(page, '8-logbook-session');
   });
 

@@ -14,7 +14,8 @@ export const referenceBoards: Record<string, BoardDesign> = {
   /** 50 Hz full-wave, 15 V, weak divider: the parts of issue 3's example, target set to what they give. */
   fullWave50: design({
     name: 'Test board A (50 Hz full-wave)', mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 5.5, alphaMaxDeg: 165,
-    parts: { rEmitter: { ohm: 7500, ref: 'R7' }, rBiasTop: { ohm: 22000, ref: 'R5' }, rBiasBottom: { ohm: 100000, ref: 'R6' }, cRamp: { farad: 4.7e-7, ref: 'C3' } },
+    // rDischarge pinned at 10 ohm (the default before it became 22 ohm) so the analysis suites keep their board.
+    parts: { rEmitter: { ohm: 7500, ref: 'R7' }, rBiasTop: { ohm: 22000, ref: 'R5' }, rBiasBottom: { ohm: 100000, ref: 'R6' }, cRamp: { farad: 4.7e-7, ref: 'C3' }, rDischarge: { ohm: 10 } },
     transistor: { vebV: 0.65, beta: 150, earlyV: 60 },
   }),
   /** 60 Hz half-wave, 12 V, stiffer divider, shorter Early voltage. */
@@ -26,7 +27,7 @@ export const referenceBoards: Record<string, BoardDesign> = {
   /** 50 Hz full-wave, 24 V supply, large emitter drop, low beta. */
   fullWave50Drive: design({
     name: 'Test board C (50 Hz full-wave drive)', mainsHz: 50, rectifier: 'full-wave', supplyV: 24, rampTargetV: 10.5, alphaMaxDeg: 170, syncResetUs: 400,
-    parts: { rEmitter: { ohm: 15000, ref: 'R3' }, rBiasTop: { ohm: 39000, ref: 'R1' }, rBiasBottom: { ohm: 68000, ref: 'R2' }, cRamp: { farad: 4.7e-7, ref: 'C1' } },
+    parts: { rEmitter: { ohm: 15000, ref: 'R3' }, rBiasTop: { ohm: 39000, ref: 'R1' }, rBiasBottom: { ohm: 68000, ref: 'R2' }, cRamp: { farad: 4.7e-7, ref: 'C1' }, rDischarge: { ohm: 10 } },
     transistor: { vebV: 0.68, beta: 80, earlyV: 90 },
   }),
 };

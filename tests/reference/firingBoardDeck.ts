@@ -9,9 +9,10 @@
  *   it has syncResetUs/2 either side of each crossing; half-wave holds it while sync is below that level on the
  *   positive side, so through the whole negative half-cycle. Both charge for a half-cycle minus syncResetUs.
  *   The switch is a smooth conductance (tanh edges of about 2 us, for convergence) in series with rDischarge.
- * - current source: R1 rBiasTop +V -> base, R2 rBiasBottom base -> 0, RE rEmitter +V -> emitter, a PNP with BF = beta,
- *   VAF = earlyV set explicitly (the SPICE default has no Early effect, REFERENCES.md) and IS chosen so V_EB equals
- *   the design's vebV at its own operating point (app/board/transistorLaw.ts), charging cRamp.
+ * - current source: R1 rBiasTop +V -> base, R2 rBiasBottom base -> 0, RE rEmitter +V -> emitter, a Gummel-Poon PNP
+ *   (IS, NF, BF, ISE, NE, IKF, VAF, RB, RE: app/board/transistorLaw.ts gives each value and its source) whose V_EB
+ *   and beta are the design's at its own operating point, with VAF = earlyV set explicitly (the SPICE default has no
+ *   Early effect, REFERENCES.md), charging cRamp.
  * - comparator ramp vs control (tanh, 5 mV wide), then a differentiator (1 nF, tau = gatePulseUs/ln 2) and a
  *   threshold at half its step: a gate pulse of gatePulseUs between 50 % points, starting at the crossing.
  * The deck runs at 25 C (.temp and tnom) so the junction law matches the model's nominal temperature.
@@ -66,7 +67,7 @@ function number(value: number): string {
 
 export function buildFiringBoardDeck(design: BoardDesign, options: FiringBoardDeckOptions): FiringBoardDeck {
   const values = boardPartValues(design, options.partOverrides);
-  const law = transistorLawOf(design, { vebShiftV: options.vebShiftV });
+  const law = transistorLawOf(design, { vebShiftV: options.vebShiftV, beta: options.beta });
   const mainsHz = design.mainsHz;
   const stopS = options.cycles / mainsHz;
   const syncAmplitudeV = options.syncAmplitudeV ?? 5;
@@ -98,7 +99,10 @@ export function buildFiringBoardDeck(design: BoardDesign, options: FiringBoardDe
     `R2 base 0 ${number(values.rBiasBottomOhm)}`,
     `RE vcc emit ${number(values.rEmitterOhm)}`,
     `Q1 ramp base emit QRAMP`,
-    `.model QRAMP PNP(IS=${number(law.saturationCurrentA)} BF=${number(options.beta ?? design.transistor.beta)} VAF=${number(design.transistor.earlyV)} BR=1 NF=1)`,
+    // Gummel-Poon parameters (app/board/transistorLaw.ts names each source): IS and BF calibrated so V_EB and beta are
+    // the design's at its operating point; NF, ISE/NE, IKF, RB, RE the small-signal shape; VAF the design's Early
+    // voltage, set explicitly (the default has none, REFERENCES.md); BR 1 and NR 1 (reverse region, unused; from memory).
+    `.model QRAMP PNP(IS=${number(law.saturationCurrentA)} NF=${number(law.emissionCoefficient)} BF=${number(law.idealBeta)} ISE=${number(law.recombinationCurrentA)} NE=${number(law.recombinationEmission)} IKF=${number(law.kneeCurrentA)} VAF=${number(law.earlyV)} RB=${number(law.baseOhm)} RE=${number(law.emitterOhm)} BR=1 NR=1)`,
     `Cramp ramp 0 ${number(values.cRampFarad)}`,
     `Bdischarge ramp 0 I=v(reset)*v(ramp)/${number(values.rDischargeOhm)}`,
     control,

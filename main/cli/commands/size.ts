@@ -5,6 +5,7 @@
 import type { Command } from 'commander';
 import { formatFarad, formatOhm, formatPercent, formatVolt } from '../../../app/board/formatValues';
 import { parseQuantity } from '../../../app/board/parseQuantity';
+import { partName } from '../../../app/board/partNames';
 import { sizeBoard, type SizingResult } from '../../../app/board/sizeBoard';
 import { sizingTargetsSchema } from '../../../app/board/sizingTargets';
 import { InputError } from '../../../app/errors';
@@ -52,13 +53,13 @@ function printHuman(result: SizingResult, out: string | undefined): void {
   const parts = design.parts;
   const lines = [
     `Sized board: ${design.name} (${design.mainsHz} Hz ${design.rectifier}, ${design.supplyV} V supply)`,
-    `  rEmitter     ${formatOhm(parts.rEmitter.ohm).padEnd(10)} exact ${formatOhm(result.exactOhm.rEmitter)}, ${parts.rEmitter.tolerancePct} %`,
-    `  rBiasTop     ${formatOhm(parts.rBiasTop.ohm).padEnd(10)} exact ${formatOhm(result.exactOhm.rBiasTop)}`,
-    `  rBiasBottom  ${formatOhm(parts.rBiasBottom.ohm).padEnd(10)} exact ${formatOhm(result.exactOhm.rBiasBottom)}`,
-    `  cRamp        ${formatFarad(parts.cRamp.farad).padEnd(10)} chosen`,
+    `  ${partName(design, 'rEmitter').padEnd(24)} ${formatOhm(parts.rEmitter.ohm).padEnd(6)} exact ${formatOhm(result.exactOhm.rEmitter, 4)}, ${parts.rEmitter.tolerancePct} %`,
+    `  ${partName(design, 'rBiasTop').padEnd(24)} ${formatOhm(parts.rBiasTop.ohm).padEnd(6)} exact ${formatOhm(result.exactOhm.rBiasTop, 4)}`,
+    `  ${partName(design, 'rBiasBottom').padEnd(24)} ${formatOhm(parts.rBiasBottom.ohm).padEnd(6)} exact ${formatOhm(result.exactOhm.rBiasBottom, 4)}`,
+    `  ${partName(design, 'cRamp').padEnd(24)} ${formatFarad(parts.cRamp.farad).padEnd(6)} chosen`,
   ];
   if (parts.rControlTop && result.exactOhm.rControlTop !== null) {
-    lines.push(`  rControlTop  ${formatOhm(parts.rControlTop.ohm).padEnd(10)} exact ${formatOhm(result.exactOhm.rControlTop)} (pot ${formatOhm(parts.potControl?.ohm ?? 0)}, limits alpha to ${design.alphaMaxDeg} deg)`);
+    lines.push(`  ${partName(design, 'rControlTop').padEnd(24)} ${formatOhm(parts.rControlTop.ohm).padEnd(6)} exact ${formatOhm(result.exactOhm.rControlTop, 4)} (${partName(design, 'potControl')} ${formatOhm(parts.potControl?.ohm ?? 0)}, limits alpha to ${design.alphaMaxDeg} deg)`);
   }
   lines.push(
     `Predicted: charging current ${(prediction.chargingCurrentA * 1e3).toFixed(3)} mA, slope ${(prediction.slopeVPerS / 1000).toFixed(3)} V/ms, ` +

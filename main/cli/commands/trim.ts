@@ -1,13 +1,13 @@
 /**
- * `rampwright trim --design <file> --capture <file>`: measure the capture, estimate what the board's current
- * source does, and list the resistor changes (standard values) that bring the ramp to its target
- * (app/board/trimPlan.ts). The capture is read block by block (main/capture) into the analysis engine (app/bench).
+ * `rampwright trim --design <file> --capture <file>`: measure the capture, say whether a part is off (measure and
+ * replace it) or the parts stack up (a bias trim), and list the changes in standard values that bring the ramp to
+ * its target (app/board/trimPlan.ts). The capture is read block by block (main/capture) into the analysis engine (app/bench).
  */
 import type { Command } from 'commander';
 import type { ESeriesName } from '../../../app/board/eSeries';
 import { formatVolt } from '../../../app/board/formatValues';
 import type { RampReadings } from '../../../app/board/rampReadings';
-import { describeMeasuredParts, parseMeasuredParts } from '../../../app/board/measuredParts';
+import { parseMeasuredParts } from '../../../app/board/measuredParts';
 import type { PartOverrides } from '../../../app/board/parts';
 import { planTrim, type TrimPlan } from '../../../app/board/trimPlan';
 import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
@@ -38,18 +38,14 @@ export function rampReadingsOf(readings: CaptureReadings, capturePath: string): 
   return { floorV: ramp.floorV, peakV: ramp.peakV, slopeVPerMs: ramp.slopeVPerMs, startDelayDeg: ramp.startDelayDeg ?? undefined, clipped: ramp.clipped };
 }
 
-function printHuman(plan: TrimPlan, ramp: RampReadings, measuredWords: readonly string[]): void {
+function printHuman(plan: TrimPlan, ramp: RampReadings): void {
   const lines = [
-    ...(measuredWords.length > 0 ? [`Parts as measured on the board: ${measuredWords.join(', ')}`] : []),
     `Measured ramp: floor ${(ramp.floorV * 1000).toFixed(1)} mV, peak ${formatVolt(ramp.peakV)}, slope ${ramp.slopeVPerMs.toFixed(3)} V/ms${ramp.clipped ? ', clipped' : ''}`,
-    `Estimate: charging current ${(plan.estimate.chargingCurrentA * 1e3).toFixed(3)} mA (design ${(plan.estimate.designCurrentA * 1e3).toFixed(3)} mA), ` +
-      (plan.estimate.explanation === 'veb'
-        ? `effective V_EB ${plan.estimate.vebV.toFixed(3)} V`
-        : `too far off for V_EB: ramp capacitor ${plan.estimate.capacitanceErrorPct.toFixed(0)} % off, or a wrong emitter resistor`),
     plan.summary,
   ];
   plan.suggestions.forEach((suggestion, index) => lines.push(`  ${index + 1}. ${suggestion.reason}`));
   if (plan.controlLimit) lines.push(`Control limit: ${plan.controlLimit.reason}`);
+  // The reasoning after the advice, each thing once (the plan's notes).
   for (const note of plan.notes) lines.push(`Note: ${note}`);
   process.stdout.write(`${lines.join('\n')}\n`);
 }
@@ -61,7 +57,7 @@ export function registerTrimCommand(program: Command): void {
     .requiredOption('--design <file>', 'board design (*.board.json)')
     .requiredOption('--capture <file>', 'capture (.csv, or COMTRADE .cfg/.dat)')
     .option('--series <name>', 'E-series to pick values from: E12, E24 or E96', 'E24')
-    .option('--part <name=value>', 'a part value measured on the board, by role or designator (rEmitter=5k1, R7=5.1k, cRamp=560n); repeat for more', (entry: string, entries: string[]) => [...entries, entry], [])
+    .option('--part <designator=value>', 'a part value measured on the board, by its designator as marked (R7=5k1, C3=560n); repeat for more', (entry: string, entries: string[]) => [...entries, entry], [])
     .option('--json', 'print the plan as JSON');
   addCaptureOptions(command).action(async (options: TrimOptions) => {
     const series = options.series.toUpperCase();
@@ -84,11 +80,11 @@ export function registerTrimCommand(program: Command): void {
       throw new InputError(`the capture's mains is ${readings.frequencyHz.toFixed(1)} Hz but ${options.design} is a ${design.mainsHz} Hz design: wrong design file?`, options.capture);
     }
     const ramp = rampReadingsOf(readings, options.capture);
-    const plan = planTrim(design, ramp, { series: series as ESeriesName, fitted: measured });
+    const plan = planTrim(design, ramp, { series: series as ESeriesName, fitted: measured, measured });
     if (options.json) {
       process.stdout.write(jsonOutput({ ...plan, design: options.design, capture: options.capture, measuredParts: measured, ramp: readings.ramp }));
     } else {
-      printHuman(plan, ramp, describeMeasuredParts(design, measured));
+      printHuman(plan, ramp);
     }
   });
 }

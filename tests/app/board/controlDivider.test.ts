@@ -11,7 +11,7 @@ const board = boardDesignSchema.parse({
   name: 'example', mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 5.5, alphaMaxDeg: 165,
   parts: {
     rEmitter: { ohm: 7500 }, rBiasTop: { ohm: 22000 }, rBiasBottom: { ohm: 100000 }, cRamp: { farad: 4.7e-7 },
-    rControlTop: { ohm: 8200, ref: 'R9' }, potControl: { ohm: 4700, ref: 'RV1' },
+    rControlTop: { ohm: 18000, ref: 'R9' }, potControl: { ohm: 10000, ref: 'RV1' },
   },
   transistor: { vebV: 0.65, beta: 150, earlyV: 1000 },
 });
@@ -63,9 +63,9 @@ describe('firing angle (ramp-and-comparator, common practice)', () => {
 
 describe('control divider', () => {
   it('largest control voltage is V pot/(top + pot) (voltage divider)', () => {
-    // 15 x 4700/12900 = 5.4651 V.
+    // 15 x 10000/28000 = 5.3571 V.
     const limits = controlLimitsOf(board);
-    expect(limits.controlMaxV).toBeCloseTo(5.4651, 4);
+    expect(limits.controlMaxV).toBeCloseTo(5.3571, 4);
     expect(limits.alphaMaxDeg).not.toBeNull();
   });
 

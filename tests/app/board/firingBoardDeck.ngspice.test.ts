@@ -46,7 +46,9 @@ describe('firing-board deck', () => {
       expect(Math.abs(gate.falling[index] - risingS - 150e-6)).toBeLessThan(2e-6);
     });
     const spacings = gate.rising.slice(1).map((risingS, index) => risingS - gate.rising[index]);
-    for (const spacingS of spacings) expect(Math.abs(spacingS - 0.01)).toBeLessThan(2e-6);
+    // Within 3 us (0.054 deg): the solver's step (up to the 5 us print step) falls anywhere on the comparator's
+    // edge, so one edge may land up to about half a step off; the half-cycles average it out.
+    for (const spacingS of spacings) expect(Math.abs(spacingS - 0.01)).toBeLessThan(3e-6);
   });
 
   it.skipIf(!ngspiceAvailable())('half-wave: the ramp is held at its floor through the negative half-cycle and fires only in the positive one', () => {

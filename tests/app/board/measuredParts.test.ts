@@ -31,21 +31,21 @@ describe('measured part values', () => {
   });
 
   it('refuses what is not a measurement of this board, naming it', () => {
-    expectInputError(() => parseMeasuredParts(board, ['5k1']), '--part', 'is not NAME=VALUE');
+    expectInputError(() => parseMeasuredParts(board, ['5k1']), '--part', 'is not DESIGNATOR=VALUE');
     expectInputError(() => parseMeasuredParts(board, ['R7=five']), '--part', '"five" in "R7=five" is not a part value');
     expectInputError(() => parseMeasuredParts(board, ['R9=1k']), '--part', '"R9" is not a part of the design bench board');
     // 5.1 ohm for a 7.5 kohm part: a forgotten k.
-    expectInputError(() => parseMeasuredParts(board, ['R7=5.1']), '--part', 'more than 10 times off its design value 7.5 k');
+    expectInputError(() => parseMeasuredParts(board, ['R7=5.1']), '--part', 'the measured emitter resistor R7 5R1 is more than 10 times off its design value 7k5');
     expectInputError(() => parseMeasuredParts(board, ['C3=560']), '--part', 'more than 10 times off');
-    expectInputError(() => parseMeasuredParts(board, ['R7=5k1', 'rEmitter=5k6']), '--part', 'rEmitter is given twice');
-    expectInputError(() => parseMeasuredParts(board, ['R7=5k1', 'R7=5k6']), '--part', 'R7 is given twice');
+    expectInputError(() => parseMeasuredParts(board, ['R7=5k1', 'rEmitter=6k8']), '--part', 'the emitter resistor R7 is given twice');
+    expectInputError(() => parseMeasuredParts(board, ['R7=5k1', 'R7=6k8']), '--part', 'the emitter resistor R7 is given twice');
     // The design names no control resistor: nothing to measure there.
-    expectInputError(() => checkMeasuredParts(board, { rControlTop: 8200 }, 'measuredParts'), 'measuredParts', 'has no rControlTop');
+    expectInputError(() => checkMeasuredParts(board, { rControlTop: 8200 }, 'measuredParts'), 'measuredParts', 'has no control limit resistor');
     expectInputError(() => checkMeasuredParts(board, { R7: -1 }, 'measuredParts'), 'measuredParts', 'must be a positive number');
     expectInputError(() => checkMeasuredParts(board, { R7: Number.NaN }, 'measuredParts'), 'measuredParts', 'must be a positive number');
   });
 
   it('says in words what the planner was told', () => {
-    expect(describeMeasuredParts(board, { rEmitter: 5100, cRamp: 5.6e-7, rBiasBottom: 82000 })).toEqual(['rEmitter (R7) taken as 5.1 kohm', 'cRamp (C3) taken as 560 nF', 'rBiasBottom taken as 82 kohm']);
+    expect(describeMeasuredParts(board, { rEmitter: 5100, cRamp: 5.6e-7, rBiasBottom: 82000 })).toEqual(['emitter resistor R7 taken as 5k1', 'ramp capacitor C3 taken as 560n', 'lower bias resistor taken as 82k']);
   });
 });

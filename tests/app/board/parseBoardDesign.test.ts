@@ -15,7 +15,7 @@ const example = {
     rBiasTop: { ohm: 22000, tolerancePct: 5 },
     rBiasBottom: { ohm: 100000, tolerancePct: 5 },
     cRamp: { farad: 4.7e-7, tolerancePct: 10 },
-    rDischarge: { ohm: 10 }, rControlTop: { ohm: 8200 }, potControl: { ohm: 4700 },
+    rDischarge: { ohm: 27 }, rControlTop: { ohm: 18000 }, potControl: { ohm: 10000 },
   },
   transistor: { vebV: 0.65, beta: 150, earlyV: 60 },
   tolerances: { rampPeakPct: 3, alphaDeg: 2, startDelayDeg: 3 },

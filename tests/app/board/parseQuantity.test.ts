@@ -13,6 +13,10 @@ describe('parseQuantity (part values as written on parts, common practice)', () 
     expect(parseQuantity('2M2')).toBe(2.2e6);
     expect(parseQuantity('200uA')).toBeCloseTo(2e-4, 15);
     expect(parseQuantity('10kohm')).toBe(10000);
+    // IEC 60062 letter-and-digit code for ohms (REFERENCES.md): R stands for the decimal point of a value in ohm.
+    expect(parseQuantity('4R7')).toBeCloseTo(4.7, 12);
+    expect(parseQuantity('470R')).toBe(470);
+    expect(parseQuantity('R47')).toBeCloseTo(0.47, 12);
   });
 
   it('gives NaN for anything else', () => {

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { validateBoardPhysics } from '../../../app/board/boardPhysics';
 import { controlLimitsOf } from '../../../app/board/controlDivider';
-import { isStandardValue } from '../../../app/board/eSeries';
+import { isStandardValue, standardValueNeighbours } from '../../../app/board/eSeries';
 import { parseBoardDesign } from '../../../app/board/parseBoardDesign';
 import { sizeBoard } from '../../../app/board/sizeBoard';
 import { sizingTargetsSchema, type SizingTargetsInput } from '../../../app/board/sizingTargets';
@@ -40,11 +40,14 @@ describe('sizing', () => {
       // coarse series moves it more.
       const dropFraction = (design.supplyV - prediction.emitterV) / design.supplyV;
       expect(Math.abs(dropFraction - targets.emitterDropFraction)).toBeLessThan(coarse ? 0.06 : 0.03);
-      // The control limit keeps alpha at or below alphaMaxDeg, and close to it: rounding the limit resistor up to
-      // the next value costs up to one series step of control voltage (E12: about 10 deg near the ramp's end).
+      // The control limit keeps alpha at or below alphaMaxDeg, and is the smallest standard value that does: the
+      // next value down lets the pot's end fire past alphaMaxDeg (or past the ramp's end).
       const limits = controlLimitsOf(design, { prediction });
       expect(limits.alphaMaxDeg ?? 999).toBeLessThanOrEqual(targets.alphaMaxDeg + 1e-9);
-      expect(limits.alphaMaxDeg ?? 0).toBeGreaterThan(targets.alphaMaxDeg - (coarse ? 12 : 6));
+      expect(limits.alphaMaxDeg ?? 0).toBeGreaterThan(targets.alphaMaxDeg - (coarse ? 15 : 8));
+      const smaller = standardValueNeighbours((design.parts.rControlTop?.ohm ?? NaN) * 0.999, targets.series as 'E12' | 'E24' | 'E96').below;
+      const tighter = controlLimitsOf(design, { prediction, partOverrides: { rControlTop: smaller } });
+      expect(tighter.alphaMaxDeg ?? 999).toBeGreaterThan(targets.alphaMaxDeg);
       expect(result.tolerance.peakV.standardDeviation).toBeGreaterThan(0);
       expect(result.tolerance.worstCase.peakLowV).toBeLessThan(prediction.peakV);
     }

@@ -1,85 +1,122 @@
 /**
- * Advice that works (issue 3): a board of our own with a wrong part fitted is simulated by ngspice (outside
- * reference), its ramp read straight from the traces, the trim plan made from those readings alone, the first
- * suggestion applied to the simulated board, and ngspice run again: the ramp must land within 5 % of target.
+ * Advice that works, checked in ngspice (an outside reference) on held-out boards: designs sized here by the sizing
+ * code from targets of our own, in no fixture or other test. Each board is simulated with the parts actually fitted,
+ * its ramp read straight from the traces, the plan made from those readings alone, its first suggestion applied to
+ * the simulated board, and ngspice run again (issue 11):
+ * - a part far outside its tolerance (a capacitor 30 % low, every other part as designed) is named first, to be
+ *   measured and replaced with its design value;
+ * - parts inside their tolerance that stack up (and a transistor a little off the design's) get a bias trim first,
+ *   which lands within 5 % of the target, its predicted peak within 1 % of the simulated one.
  */
 import { describe, expect, it } from 'vitest';
 import type { BoardDesign } from '../../../app/board/design';
-import type { ESeriesName } from '../../../app/board/eSeries';
 import type { PartOverrides } from '../../../app/board/parts';
 import type { RampReadings } from '../../../app/board/rampReadings';
+import { sizeBoard } from '../../../app/board/sizeBoard';
+import { sizingTargetsSchema, type SizingTargetsInput } from '../../../app/board/sizingTargets';
 import { planTrim, type TrimSuggestion } from '../../../app/board/trimPlan';
-import { readDeckRamp, referenceBoards } from '../../reference/boardCases';
+import { readDeckRamp } from '../../reference/boardCases';
 import { simulateFiringBoard } from '../../reference/firingBoardDeck';
 import { ngspiceAvailable } from '../../reference/ngspice';
 
-interface Fault {
-  label: string;
-  board: BoardDesign;
-  /** Parts actually on the simulated board. */
+const heldOutTargets: SizingTargetsInput[] = [
+  { name: 'held-out P (50 Hz half-wave)', mainsHz: 50, rectifier: 'half-wave', supplyV: 12, rampTargetV: 5, cRampFarad: 6.8e-7 },
+  { name: 'held-out Q (60 Hz full-wave, E96)', mainsHz: 60, rectifier: 'full-wave', supplyV: 24, rampTargetV: 9, cRampFarad: 2.2e-7, series: 'E96', emitterDropFraction: 0.2 },
+  { name: 'held-out R (50 Hz full-wave, E12)', mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 6, cRampFarad: 1e-6, series: 'E12', transistor: { vebV: 0.63, beta: 200, earlyV: 45 } },
+];
+const heldOut: BoardDesign[] = heldOutTargets.map((targets) => sizeBoard(sizingTargetsSchema.parse(targets)).design);
+
+/** What is really on the simulated board: part values and the transistor. */
+interface Board {
   fitted: PartOverrides;
   vebShiftV?: number;
-  series: ESeriesName;
-  /** What the technician tells the planner (a part measured in circuit). */
-  known?: PartOverrides;
-  expectClipped?: boolean;
+  beta?: number;
 }
 
-const faults: Fault[] = [
-  { label: 'board A: 560 nF ramp capacitor fitted for 470 nF (E24)', board: referenceBoards.fullWave50, fitted: { cRamp: 5.6e-7 }, series: 'E24' },
-  { label: 'board A: 82 kohm fitted for rBiasBottom 100 kohm (E12)', board: referenceBoards.fullWave50, fitted: { rBiasBottom: 82000 }, series: 'E12' },
-  { label: 'board B: 3.9 kohm for rBiasTop 4.7 kohm and a transistor needing 30 mV more V_EB (E96)', board: referenceBoards.halfWave60, fitted: { rBiasTop: 3900 }, vebShiftV: 0.03, series: 'E96' },
-  { label: 'board C: 220 nF for 470 nF, the ramp clips (E24)', board: referenceBoards.fullWave50Drive, fitted: { cRamp: 2.2e-7 }, series: 'E24', expectClipped: true },
-  { label: 'board A: the emitter resistor itself is 5.1 kohm, measured and told to the planner (E24)', board: referenceBoards.fullWave50, fitted: { rEmitter: 5100 }, known: { rEmitter: 5100 }, series: 'E24' },
-];
-
-function chargingIndex(board: BoardDesign): number {
-  return board.rectifier === 'full-wave' ? 4 : 2;
-}
-
-function readRamp(board: BoardDesign, fitted: PartOverrides, vebShiftV: number | undefined): RampReadings {
-  const traces = simulateFiringBoard(board, { controlV: 100, cycles: 3, partOverrides: fitted, vebShiftV });
-  const reading = readDeckRamp(traces, board, chargingIndex(board));
+function readRamp(design: BoardDesign, board: Board): RampReadings {
+  const traces = simulateFiringBoard(design, { controlV: 100, cycles: 3, partOverrides: board.fitted, vebShiftV: board.vebShiftV, beta: board.beta });
+  const reading = readDeckRamp(traces, design, design.rectifier === 'full-wave' ? 4 : 2);
   const chargingS = reading.rampEndS - reading.rampStartS;
   return { floorV: reading.floorV, peakV: reading.peakV, slopeVPerMs: reading.slopeVPerS / 1000, clipped: reading.clipOnsetS !== null && reading.clipOnsetS < chargingS };
 }
 
 /** The simulated board after the change: an added resistor goes across or in line with the part actually fitted. */
-function applied(board: BoardDesign, fitted: PartOverrides, suggestion: TrimSuggestion): PartOverrides {
-  const actualOhm = fitted[suggestion.part] ?? board.parts[suggestion.part]?.ohm ?? NaN;
+function applied(design: BoardDesign, board: Board, suggestion: TrimSuggestion): Board {
+  if (suggestion.part === 'transistor') return { fitted: board.fitted };
+  if (suggestion.part === 'cRamp') return { ...board, fitted: { ...board.fitted, cRamp: suggestion.toFarad ?? NaN } };
+  const actualOhm = board.fitted[suggestion.part] ?? design.parts[suggestion.part]?.ohm ?? NaN;
   const added = suggestion.addOhm ?? NaN;
-  const newOhm = suggestion.method === 'replace' ? suggestion.toOhm : suggestion.method === 'parallel' ? (actualOhm * added) / (actualOhm + added) : actualOhm + added;
-  const result: PartOverrides = { ...fitted, [suggestion.part]: newOhm };
-  if (suggestion.alsoChange) result[suggestion.alsoChange.part] = suggestion.alsoChange.toOhm;
-  return result;
+  const newOhm = suggestion.method === 'replace' ? (suggestion.toOhm ?? NaN) : suggestion.method === 'parallel' ? (actualOhm * added) / (actualOhm + added) : actualOhm + added;
+  const fitted: PartOverrides = { ...board.fitted, [suggestion.part]: newOhm };
+  if (suggestion.alsoChange) fitted[suggestion.alsoChange.part] = suggestion.alsoChange.toOhm;
+  return { ...board, fitted };
 }
 
-describe.skipIf(!ngspiceAvailable())('trim advice checked in ngspice', () => {
-  for (const fault of faults) {
-    it(fault.label, () => {
-      const { board } = fault;
-      const before = readRamp(board, fault.fitted, fault.vebShiftV);
-      expect(before.clipped).toBe(fault.expectClipped ?? false);
-      // The fault must matter: outside the design's tolerance before the trim.
-      expect(Math.abs(before.peakV / board.rampTargetV - 1) * 100).toBeGreaterThan(board.tolerances.rampPeakPct);
+/** Inside their tolerances, stacking up (our scenarios): each ramp well outside its 3 % band. */
+function stackUps(design: BoardDesign): Array<{ label: string; board: Board }> {
+  const { rEmitter, rBiasBottom, rBiasTop, cRamp } = design.parts;
+  const edge = (value: number, tolerancePct: number, share: number): number => value * (1 + (share * tolerancePct) / 100);
+  return [
+    {
+      label: 'capacitor and lower bias resistor high, emitter resistor low, transistor 15 mV and 20 % gain off',
+      board: { fitted: { cRamp: edge(cRamp.farad, cRamp.tolerancePct, 0.85), rBiasBottom: edge(rBiasBottom.ohm, rBiasBottom.tolerancePct, 0.8), rEmitter: edge(rEmitter.ohm, rEmitter.tolerancePct, 0.4) }, vebShiftV: 0.015, beta: design.transistor.beta * 0.8 },
+    },
+    {
+      label: 'capacitor low, upper bias resistor high, emitter resistor low',
+      board: { fitted: { cRamp: edge(cRamp.farad, cRamp.tolerancePct, -0.9), rBiasTop: edge(rBiasTop.ohm, rBiasTop.tolerancePct, 0.7), rEmitter: edge(rEmitter.ohm, rEmitter.tolerancePct, -0.6) } },
+    },
+  ];
+}
 
-      const plan = planTrim(board, before, { series: fault.series, fitted: fault.known });
-      expect(plan.status).toBe('trim');
-      if (fault.expectClipped) expect(plan.summary).toContain('too high for the supply headroom');
-      const best = plan.suggestions[0];
-
-      const after = readRamp(board, applied(board, fault.fitted, best), fault.vebShiftV);
-      // Issue 3: within 5 % of the target. The plan's own prediction must also hold in ngspice to 2 %
-      // (the model's peak tolerance against ngspice).
-      expect(Math.abs(after.peakV / board.rampTargetV - 1)).toBeLessThan(0.05);
-      expect(Math.abs(after.peakV / best.predictedPeakV - 1)).toBeLessThan(0.02);
-      expect(after.clipped).toBe(false);
+describe.skipIf(!ngspiceAvailable())('trim advice on held-out boards, checked in ngspice', () => {
+  for (const design of heldOut) {
+    it(`${design.name}: a capacitor 30 % low is named first, to be replaced with its design value, and that lands on target`, () => {
+      const board: Board = { fitted: { cRamp: design.parts.cRamp.farad * 0.7 } };
+      const plan = planTrim(design, readRamp(design, board));
+      expect(plan.status).toBe('repair');
+      const first = plan.suggestions[0];
+      expect(first).toMatchObject({ kind: 'repair', part: 'cRamp', method: 'replace', toFarad: design.parts.cRamp.farad });
+      const after = readRamp(design, applied(design, board, first));
+      expect(Math.abs(after.peakV / design.rampTargetV - 1)).toBeLessThan(0.05);
+      expect(Math.abs(first.predictedPeakV / after.peakV - 1)).toBeLessThan(0.01);
     });
-  }
 
-  it('board A: the emitter resistor itself wrong and not known to the planner is flagged for a parts check', () => {
-    const board = referenceBoards.fullWave50;
-    const plan = planTrim(board, readRamp(board, { rEmitter: 5100 }, undefined));
-    expect(plan.notes[0]).toContain('check that rEmitter (R7)');
-  });
+    it(`${design.name}: a clipped ramp (emitter resistor at 0.42x, told as fitted): the first change is predicted within 1 % of ngspice`, () => {
+      // The case that drifted before V_EB, beta and the Early effect followed the current: a change of more than 2x.
+      const board: Board = { fitted: { rEmitter: design.parts.rEmitter.ohm * 0.42 } };
+      const before = readRamp(design, board);
+      expect(before.clipped).toBe(true);
+      const plan = planTrim(design, before, { fitted: board.fitted });
+      const first = plan.suggestions[0];
+      expect(first).toMatchObject({ kind: 'trim', part: 'rEmitter' });
+      const after = readRamp(design, applied(design, board, first));
+      expect(Math.abs(after.peakV / design.rampTargetV - 1)).toBeLessThan(0.05);
+      expect(Math.abs(first.predictedPeakV / after.peakV - 1)).toBeLessThan(0.01);
+    });
+
+    for (const stackUp of stackUps(design)) {
+      it(`${design.name}: ${stackUp.label}: a bias trim first, within 5 % of target, predicted within 1 %`, () => {
+        const before = readRamp(design, stackUp.board);
+        expect(Math.abs(before.peakV / design.rampTargetV - 1) * 100).toBeGreaterThan(design.tolerances.rampPeakPct);
+        const series = design.parts.rEmitter.tolerancePct <= 1 ? 'E96' : 'E24';
+        let plan = planTrim(design, before, { series });
+        expect(plan.diagnosis.consistent).toBe(true);
+        expect(plan.status).toBe('trim');
+        // When the part to change could move the result by a third of the band (10 % parts), the advice says to
+        // measure it first: the technician does, tells the plan, and takes its first advice then.
+        const asked = plan.suggestions[0];
+        if (asked.part !== 'transistor' && asked.part !== 'cRamp' && asked.reason.includes('measure it first')) {
+          const measured = { [asked.part]: stackUp.board.fitted[asked.part] ?? design.parts[asked.part]?.ohm ?? NaN };
+          plan = planTrim(design, before, { series, fitted: measured, measured });
+        }
+        const first = plan.suggestions[0];
+        expect(first.kind).toBe('trim');
+        const after = readRamp(design, applied(design, stackUp.board, first));
+        // Issue 11: within 5 % of the target, and the plan's own prediction within 1 % of ngspice.
+        expect(Math.abs(after.peakV / design.rampTargetV - 1)).toBeLessThan(0.05);
+        expect(Math.abs(first.predictedPeakV / after.peakV - 1)).toBeLessThan(0.01);
+        expect(after.clipped).toBe(false);
+      });
+    }
+  }
 });

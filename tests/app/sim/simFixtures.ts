@@ -29,7 +29,7 @@ export function fullWaveBoard(overrides: Record<string, unknown> = {}): BoardDes
     alphaMaxDeg: 160,
     syncPhaseDeg: 8,
     gatePulseUs: 300,
-    parts: { rEmitter: { ohm: 5600 }, rBiasTop: { ohm: 15000 }, rBiasBottom: { ohm: 68000 }, cRamp: { farad: 2.2e-7 } },
+    parts: { rEmitter: { ohm: 6200 }, rBiasTop: { ohm: 15000 }, rBiasBottom: { ohm: 68000 }, cRamp: { farad: 2.2e-7 } },
     ...overrides,
   });
 }

@@ -25,43 +25,64 @@ describe('rampwright demo', () => {
     expect(stdout).toMatch(/differential or isolated probes/);
     expect(stdout).toMatch(/local electrical codes and licensed practice/);
     for (const step of ['1 Sync', '2 Ramp', '3 Trim', '4 Transfer', '5 Limits', '6 Sign-off']) expect(stdout).toContain(step);
-    expect(stdout).toMatch(/before the trim \(\[x\] out of tolerance\)/);
-    expect(stdout).toMatch(/fitted: .*rEmitter \(R14\)/);
+    expect(stdout.match(/before the change \(\[x\] out of tolerance\)/g)).toHaveLength(2);
+    // Two stories: a wrong part diagnosed, measured and replaced; parts in tolerance that stack up, trimmed.
+    expect(stdout).toContain('Unit CH50H-0042: a wrong part: diagnosed, measured, replaced');
+    expect(stdout).toMatch(/First plan: .*more than parts within tolerance allow: measure the ramp capacitor C6 and replace it with 390n\./);
+    expect(stdout).toMatch(/repaired: Replace the ramp capacitor C6 with 390n: measured 273n/);
+    expect(stdout).not.toMatch(/273n.*273n/);
+    expect(stdout).toContain('Unit CH50H-0043: parts in tolerance that stack up: trimmed');
+    expect(stdout).toMatch(/First plan: .*within what parts in tolerance allow: /);
+    expect(stdout).toMatch(/trimmed: .*emitter resistor R14/);
+    expect(stdout.match(/6 Sign-off +\[ok\] signed off/g)).toHaveLength(2);
 
     const logbook = await openSqliteLogbook(logbookPath);
     try {
       const sessions = await logbook.listSessions();
-      expect(sessions).toHaveLength(1);
-      expect(sessions[0]).toMatchObject({ unit: 'CH50H-0042', status: 'closed' });
-      const detail = await logbook.session(sessions[0].id);
-      expect(detail?.trims).toHaveLength(1);
-      expect(detail?.transfer.points.length).toBeGreaterThan(100);
+      expect(sessions).toHaveLength(2);
+      expect(sessions.map((session) => [session.unit, session.status]).sort()).toEqual([['CH50H-0042', 'closed'], ['CH50H-0043', 'closed']]);
+      for (const session of sessions) {
+        const detail = await logbook.session(session.id);
+        expect(detail?.trims).toHaveLength(1);
+        expect(detail?.transfer.points.length).toBeGreaterThan(100);
+      }
     } finally {
       await logbook.close();
     }
   });
 
-  it('with --db and --json: every step in tolerance after the trim, the ramp on its target', async () => {
+  it('with --db and --json: both units in tolerance at every step after their change, the ramp on its target', async () => {
     const dbPath = join(folder, 'json', 'bench.sqlite');
     const { code, stdout } = await runInProcess(['demo', '--db', dbPath, '--json'], {});
     expect(code).toBe(0);
-    const result = JSON.parse(stdout) as {
-      logbook: string;
-      session: { status: string; cycles: number };
+    interface Unit {
+      session: { id: number; status: string; cycles: number };
       steps: Array<{ step: string; verdict: string | null }>;
+      firstPlan: { status: string };
+      measuredParts: Record<string, number>;
+      change: { kind: string; part: string; toFarad: number | null; series: string } | null;
       rampPeakBeforeV: number;
       rampPeakAfterV: number;
-      trim: { part: string; series: string } | null;
-      safety: string[];
-    };
+    }
+    const result = JSON.parse(stdout) as { logbook: string; units: Unit[]; safety: string[] };
     expect(result.logbook).toBe(dbPath);
-    expect(result.session.status).toBe('closed');
-    // The fault: the ramp capacitor 30 % low makes the ramp about 1/0.7 times its 7.3 V target (board model).
-    expect(result.rampPeakBeforeV).toBeGreaterThan(7.3 * 1.3);
-    // After the first suggestion: within the design's 3 % ramp peak tolerance (fixtures/boards/charger-ch50h).
-    expect(Math.abs(result.rampPeakAfterV - 7.3) / 7.3).toBeLessThan(0.03);
-    expect(result.trim).toMatchObject({ part: 'rEmitter', series: 'E24' });
-    expect(result.steps.filter((step) => step.step !== 'sign-off').map((step) => step.verdict)).toEqual(['in-tolerance', 'in-tolerance', 'in-tolerance', 'in-tolerance', 'in-tolerance']);
+    const [wrongPart, stackUp] = result.units;
+    // The wrong part: the ramp capacitor 30 % low makes the ramp about 1/0.7 times its 7.3 V target (board model);
+    // the plan says to measure it, the measurement (273n of 390n) confirms, and it is replaced with 390n.
+    expect(wrongPart.rampPeakBeforeV).toBeGreaterThan(7.3 * 1.3);
+    expect(wrongPart.firstPlan.status).toBe('repair');
+    expect(wrongPart.measuredParts.cRamp).toBeCloseTo(3.9e-7 * 0.7, 12);
+    expect(wrongPart.change).toMatchObject({ kind: 'repair', part: 'cRamp', toFarad: 3.9e-7 });
+    // The stack-up: about an eighth short with every part in tolerance; a bias trim of the emitter resistor.
+    expect(stackUp.rampPeakBeforeV).toBeLessThan(7.3 * 0.9);
+    expect(stackUp.firstPlan.status).toBe('trim');
+    expect(stackUp.change).toMatchObject({ kind: 'trim', part: 'rEmitter', series: 'E24' });
+    for (const unit of result.units) {
+      expect(unit.session.status).toBe('closed');
+      // After the change: within the design's 3 % ramp peak tolerance (fixtures/boards/charger-ch50h).
+      expect(Math.abs(unit.rampPeakAfterV - 7.3) / 7.3).toBeLessThan(0.03);
+      expect(unit.steps.filter((step) => step.step !== 'sign-off').map((step) => step.verdict)).toEqual(['in-tolerance', 'in-tolerance', 'in-tolerance', 'in-tolerance', 'in-tolerance']);
+    }
     expect(result.safety.length).toBeGreaterThan(3);
 
     // The logbook keeps every cycle, and a transfer curve of the trimmed board only: the charging ramp is linear
@@ -69,10 +90,11 @@ describe('rampwright demo', () => {
     // tolerance; points from before the trim (a ramp 43 % taller) would sit tens of degrees off that line.
     const logbook = await openSqliteLogbook(dbPath);
     try {
-      const stored = await logbook.listSessions();
-      const detail = await logbook.session(stored[0].id);
-      expect(detail?.transfer.fit?.maxDeviationDeg).toBeLessThan(2);
-      expect((await logbook.cycleReadings(stored[0].id)).length).toBe(result.session.cycles);
+      for (const unit of result.units) {
+        const detail = await logbook.session(unit.session.id);
+        expect(detail?.transfer.fit?.maxDeviationDeg).toBeLessThan(2);
+        expect((await logbook.cycleReadings(unit.session.id)).length).toBe(unit.session.cycles);
+      }
     } finally {
       await logbook.close();
     }

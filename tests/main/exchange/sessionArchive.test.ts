@@ -173,7 +173,7 @@ describe('session archive', () => {
     expect(json.version).toBe(1);
     expect(archiveContentHash(json.session)).toBe(json.contentSha256);
     expect(json.session.partMeasurements.columns).toEqual(['part', 'value', 'design_value', 'at_ms']);
-    expect(json.session.partMeasurements.rows.map((row: unknown[]) => row.slice(0, 3))).toEqual([['rEmitter', 5490, 5600], ['cRamp', 4.42e-7, 4.7e-7]]);
+    expect(json.session.partMeasurements.rows.map((row: unknown[]) => row.slice(0, 3))).toEqual([['rEmitter', 6650, 6800], ['cRamp', 4.42e-7, 4.7e-7]]);
   });
 
   it('leaves the measured parts out of a session that has none, so its content hash is what it always was', async () => {

@@ -68,10 +68,13 @@ describe('commissioning record', () => {
     expect(html).toContain('Ramp peak');
     expect(html).toMatch(/class="verdict (in-tolerance|marginal|out-of-tolerance)"><span aria-hidden="true">[\u2713\u26a0\u2717]<\/span> (in tolerance|marginal|out of tolerance)/);
     expect(html).toContain('does not certify');
-    // The measured parts beside their design values, in the units printed on parts: (5490 - 5600)/5600 = -2.0 %,
+    // The measured parts beside their design values, in the units printed on parts: (6650 - 6800)/6800 = -2.2 %,
     // (442 - 470)/470 = -6.0 % (hand values).
-    expect(html).toMatch(/<td>rEmitter<\/td><td class="number">5\.49 kohm<\/td><td class="number">5\.6 kohm<\/td><td class="number">-2\.0 %<\/td>/);
-    expect(html).toMatch(/<td>cRamp<\/td><td class="number">442 nF<\/td><td class="number">470 nF<\/td><td class="number">-6\.0 %<\/td>/);
+    // Parts in words with their designators, values as marked on parts (IEC 60062 code).
+    expect(html).toMatch(/<td>Emitter resistor R14<\/td><td class="number">6k65<\/td><td class="number">6k8<\/td><td class="number">-2\.2 %<\/td>/);
+    expect(html).toMatch(/<td>Ramp capacitor C6<\/td><td class="number">442n<\/td><td class="number">470n<\/td><td class="number">-6\.0 %<\/td>/);
+    // A trim recorded under a designator (older sessions) keeps it, with its values in the same code.
+    expect(html).toMatch(/<td>R14<\/td><td class="number">6k8<\/td><td class="number">7k5<\/td>/);
     expect((await verifyRecordFile(sources, path)).matches).toBe(true);
   });
 
@@ -101,7 +104,7 @@ describe('commissioning record', () => {
     expect(text).toMatch(/in tolerance|marginal|out of tolerance/);
     expect(text).toContain(record.capturesSha256 as string);
     expect(text).toContain('Parts measured on the board');
-    expect(text).toMatch(/rEmitter\s+5\.49 kohm\s+5\.6 kohm\s+-2\.0 %/);
+    expect(text).toMatch(/Emitter resistor R14\s+6k65\s+6k8\s+-2\.2 %/);
     expect((await verifyRecordFile(sources, path)).matches).toBe(true);
   });
 
@@ -142,7 +145,7 @@ describe('commissioning record', () => {
     const text = execFileSync('pdftotext', [folder.file('bare.pdf'), '-'], { encoding: 'utf8' });
     expect(text).toContain('No readings were stored with this session.');
     expect(text).toContain('No capture was kept in this session');
-    expect(text).toContain('No trims were applied.');
+    expect(text).toContain('No part was changed.');
     expect(text).toContain('No part values were measured in this session.');
   });
 });

@@ -109,7 +109,7 @@ describe('session service on the virtual board', () => {
     expect(frame.fold[0].sync.deg.length).toBeLessThanOrEqual(480);
   });
 
-  it('fits the first trim suggestion to the virtual board and the re-checked ramp lands on target', async () => {
+  it('fits the first suggestion (the low ramp capacitor replaced) to the virtual board and the re-checked ramp lands on target', async () => {
     const { design } = await client.getDesign({ name: demoDefaults.designName });
     await client.startSession({ unitSerial: 'TEST-0002', designName: design.name, operator: 'Tess' });
     await client.connect({ kind: 'virtual', designName: design.name, faults: ['capacitor-low'], seed: 11 });
@@ -118,10 +118,12 @@ describe('session service on the virtual board', () => {
     expect(plan.inTolerance).toBe(false);
     expect(plan.suggestions.length).toBeGreaterThan(0);
     const first = plan.suggestions[0];
-    expect(first.part).toBe('rEmitter');
+    // A capacitor 30 % low is a part off, not a stack-up: measure and replace it with its design value.
+    expect(first).toMatchObject({ kind: 'repair', part: 'cRamp', method: 'replace', toFarad: design.parts.cRamp.farad });
+    expect(plan.status).toBe('repair');
     expect(first.predictedRamp?.deg.length).toBeGreaterThan(10);
 
-    const applied = await client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason });
+    const applied = await client.applyTrim({ part: first.part, fromFarad: first.fromFarad, toFarad: first.toFarad, method: first.method, reason: first.reason });
     expect(applied.recheckNeeded).toBe(true);
     expect((await client.benchState()).currentStep).toBe('ramp');
     pump(1.5);
@@ -142,7 +144,8 @@ describe('session service on the virtual board', () => {
     expect(detail.steps.find((step) => step.step === 'ramp')).toEqual(recheck);
     expect(detail.steps.map((step) => step.step)).toEqual(['sync', 'ramp', 'trim', 'sign-off'].filter((step) => detail.steps.some((report) => report.step === step)));
     expect(detail.trims).toHaveLength(1);
-    expect(detail.trims[0]).toMatchObject({ part: 'rEmitter', toOhm: first.toOhm });
+    // The capacitor's values are kept in its own unit, farad.
+    expect(detail.trims[0]).toMatchObject({ part: 'cRamp', toOhm: design.parts.cRamp.farad });
     expect(detail.captures).toHaveLength(1);
     expect(detail.notes).toContain('signed off without sync, transfer, limits');
     // Link events read as words in the logbook, not as raw data.

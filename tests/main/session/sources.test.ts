@@ -86,7 +86,7 @@ describe('bench pipeline under link faults', () => {
 describe('predictedRampTrace', () => {
   it('runs from the ramp start to the end of the charging interval and ends at the predicted peak', () => {
     const prediction = predictRamp(design, { partOverrides: { rEmitter: 9100 } });
-    const trace = predictedRampTrace(design, { part: 'rEmitter', toOhm: 9100, predictedPeakV: 5.4, alsoChange: null }, 30);
+    const trace = predictedRampTrace(design, { part: 'rEmitter', toOhm: 9100, toFarad: null, predictedPeakV: 5.4, alsoChange: null }, 30);
     expect(trace.deg).toHaveLength(31);
     expect(trace.deg[0]).toBeCloseTo(360 * 60 * prediction.startDelayS, 9);
     expect(trace.deg[30]).toBeCloseTo(360 * 60 * (prediction.startDelayS + prediction.chargingIntervalS), 9);

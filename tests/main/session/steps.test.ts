@@ -14,7 +14,7 @@ const design = parseBoardDesign({
   supplyV: 15,
   rampTargetV: 6,
   alphaMaxDeg: 165,
-  parts: { rEmitter: { ohm: 7500, ref: 'R7' }, rBiasTop: { ohm: 22000 }, rBiasBottom: { ohm: 100000 }, cRamp: { farad: 4.7e-7 }, rControlTop: { ohm: 8200 }, potControl: { ohm: 4700 } },
+  parts: { rEmitter: { ohm: 7500, ref: 'R7' }, rBiasTop: { ohm: 22000 }, rBiasBottom: { ohm: 100000 }, cRamp: { farad: 4.7e-7 }, rControlTop: { ohm: 18000 }, potControl: { ohm: 10000 } },
 });
 
 function readings(overrides: { peakV?: number; alphaDeg?: number; controlV?: number } = {}): CaptureReadings {
@@ -148,7 +148,7 @@ describe('idealTransfer', () => {
     const line = idealTransfer(design);
     expect(line.length).toBeGreaterThan(30);
     for (let index = 1; index < line.length; index++) expect(line[index].alphaDeg).toBeGreaterThan(line[index - 1].alphaDeg);
-    // Control divider top: 15 V * 4700 / (8200 + 4700) (REFERENCES.md: divider; controlDivider.ts).
-    expect(line[line.length - 1].controlV).toBeCloseTo((15 * 4700) / 12900, 6);
+    // Control divider top: 15 V * 10000 / (18000 + 10000) (REFERENCES.md: divider; controlDivider.ts).
+    expect(line[line.length - 1].controlV).toBeCloseTo((15 * 10000) / 28000, 6);
   });
 });

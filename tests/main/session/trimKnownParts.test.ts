@@ -8,6 +8,8 @@ import { predictRamp } from '../../../app/board/rampModel';
 import { wrongEmitterFactor } from '../../../app/sim/fittedBoard';
 import { BenchCallError, type BenchClient } from '../../../app/contract';
 import { demoDefaults } from '../../../main/session/commissioningDemo';
+import type { PartRole } from '../../../app/board/design';
+import { partName } from '../../../app/board/partNames';
 import { openTestBench, type TestBench } from './benchClientKit';
 
 let folder = '';
@@ -42,17 +44,18 @@ describe('trim plans for the board as built', () => {
     await client.connect({ kind: 'virtual', designName: design.name, faults: ['wrong-emitter-resistor'], seed: 21 });
     pump(1.5);
 
-    // Not told: the ramp alone cannot show that the emitter resistor itself is wrong, so the plan asks for a check.
+    // Not told: the ramp alone cannot tell which part is off, so the plan lists the parts to measure, this one among them.
     const blind = await client.trimPlan({});
     expect(blind.knownParts).toEqual([]);
-    expect(blind.message).toContain(`check that rEmitter (${emitter.ref})`);
+    expect(blind.status).toBe('repair');
+    expect(blind.suggestions.filter((suggestion) => suggestion.kind === 'repair').map((suggestion) => suggestion.part)).toContain('rEmitter');
 
     // Told by designator: the plan says what it took, and starts from the measured value.
     const plan = await client.trimPlan({ measuredParts: { [emitter.ref ?? 'rEmitter']: actualOhm } });
     expect(plan.knownParts).toEqual([{ part: 'rEmitter', partRef: emitter.ref ?? null, value: actualOhm, designValue: emitter.ohm, source: 'measured' }]);
     const first = plan.suggestions[0];
-    expect(first.part).toBe('rEmitter');
-    expect(first.fromOhm).toBe(actualOhm);
+    // Measured outside its tolerance: replace it with its design value.
+    expect(first).toMatchObject({ kind: 'repair', part: 'rEmitter', method: 'replace', fromOhm: actualOhm, toOhm: emitter.ohm });
     // Left out, the session keeps what it was told; told the same again, the logbook gets it once.
     expect((await client.trimPlan({})).knownParts).toHaveLength(1);
     await client.trimPlan({ measuredParts: { rEmitter: actualOhm } });
@@ -78,16 +81,18 @@ describe('trim plans for the board as built', () => {
     await client.startSession({ unitSerial: 'TEST-K002', designName: design.name, operator: 'Tess' });
     await client.connect({ kind: 'virtual', designName: design.name, faults: ['capacitor-low'], seed: 22 });
     pump(1.5);
+    // The emitter resistor measured good, the capacitor 30 % low: the plan says to replace the capacitor.
     const measuredC = design.parts.cRamp.farad * 0.7;
-    expect((await client.trimPlan({ measuredParts: { cRamp: measuredC } })).knownParts.map((part) => part.part)).toEqual(['cRamp']);
-    const first = (await client.trimPlan({})).suggestions[0];
-    await client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason, alsoChange: null });
+    const told = await client.trimPlan({ measuredParts: { rEmitter: design.parts.rEmitter.ohm, cRamp: measuredC } });
+    expect(told.knownParts.map((part) => part.part)).toEqual(['rEmitter', 'cRamp']);
+    const first = told.suggestions[0];
+    expect(first).toMatchObject({ kind: 'repair', part: 'cRamp', fromFarad: measuredC, toFarad: design.parts.cRamp.farad });
+    await client.applyTrim({ part: first.part, fromFarad: first.fromFarad, toFarad: first.toFarad, method: first.method, reason: first.reason, alsoChange: null });
     pump(1.5);
     const known = (await client.trimPlan({})).knownParts;
-    // In the design's part order: the emitter resistor before the capacitor.
-    expect(first.part).toBe('rEmitter');
-    expect(known.map((part) => [part.part, part.source])).toEqual([['rEmitter', 'fitted'], ['cRamp', 'measured']]);
-    expect((await client.trimPlan({ measuredParts: {} })).knownParts.map((part) => [part.part, part.source])).toEqual([[first.part, 'fitted']]);
+    // In the design's part order: the emitter resistor before the capacitor; the capacitor now as fitted.
+    expect(known.map((part) => [part.part, part.source])).toEqual([['rEmitter', 'measured'], ['cRamp', 'fitted']]);
+    expect((await client.trimPlan({ measuredParts: {} })).knownParts.map((part) => [part.part, part.source])).toEqual([['cRamp', 'fitted']]);
 
     for (const [measuredParts, words] of [
       [{ rEmitter: design.parts.rEmitter.ohm / 1000 }, 'more than 10 times off'],
@@ -117,7 +122,7 @@ describe('trim plans for the board as built', () => {
     const paired = plan.suggestions.find((suggestion) => suggestion.alsoChange !== null);
     expect(paired, 'the plan offers a divider change with its emitter resistor').toBeDefined();
     const second = paired!.alsoChange!;
-    expect(paired!.reason).toContain(`${second.partRef ? `${second.part} (${second.partRef})` : second.part}`);
+    expect(paired!.reason).toContain(partName(design, second.part as PartRole));
     const applied = await client.applyTrim({ part: paired!.part, fromOhm: paired!.fromOhm, toOhm: paired!.toOhm, method: paired!.method, addOhm: paired!.addOhm, reason: paired!.reason, alsoChange: { part: second.part, fromOhm: second.fromOhm, toOhm: second.toOhm } });
     expect(applied.trim).toMatchObject({ part: paired!.part, toOhm: paired!.toOhm });
     const peakV = await peakAfterRecheck();

@@ -63,13 +63,13 @@ describe('logbook writer', () => {
   it('writes trims, link events, notes and readings with the session', async () => {
     const logbook = await openSqliteLogbook(folder.file('extras.sqlite'));
     const writer = await logbook.startSession({ unitSerial: 'RW-0207', design: chargerDesign(), operator: 'bench 3', notes: 'first look' });
-    writer.addTrim({ part: 'rEmitter', fromOhm: 5600, toOhm: 5100, method: 'trim plan', reason: 'ramp peak 6.6 V, 9.6 % low', at: new Date('2026-03-04T10:00:00Z') });
+    writer.addTrim({ part: 'rEmitter', fromOhm: 6800, toOhm: 6200, method: 'trim plan', reason: 'ramp peak 6.6 V, 9.6 % low', at: new Date('2026-03-04T10:00:00Z') });
     writer.addLinkEvent('sequence-gap', '2 blocks lost', 2);
     writer.setNotes('R14 replaced');
     await writer.close();
     const detail = await logbook.session(writer.sessionId);
     expect(detail?.trims).toEqual([
-      { id: 1, part: 'rEmitter', fromOhm: 5600, toOhm: 5100, method: 'trim plan', reason: 'ramp peak 6.6 V, 9.6 % low', at: '2026-03-04T10:00:00.000Z' },
+      { id: 1, part: 'rEmitter', fromOhm: 6800, toOhm: 6200, method: 'trim plan', reason: 'ramp peak 6.6 V, 9.6 % low', at: '2026-03-04T10:00:00.000Z' },
     ]);
     expect(detail?.linkEvents.map((event) => [event.kind, event.count])).toEqual([['sequence-gap', 2]]);
     expect(detail?.notes).toBe('R14 replaced');

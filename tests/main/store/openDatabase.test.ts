@@ -70,10 +70,10 @@ describe('openLogbookDatabase', () => {
     old.close();
     const logbook = await openSqliteLogbook(path);
     const writer = await logbook.startSession({ unitSerial: 'RW-0143', design: chargerDesign(), operator: 'bench 2' });
-    writer.addPartMeasurement({ part: 'rEmitter', value: 8200, designValue: 5600 });
+    writer.addPartMeasurement({ part: 'rEmitter', value: 8200, designValue: 6800 });
     const row = await writer.close();
     const detail = await logbook.session(row.id);
-    expect(detail?.partMeasurements.map(({ part, value, designValue }) => ({ part, value, designValue }))).toEqual([{ part: 'rEmitter', value: 8200, designValue: 5600 }]);
+    expect(detail?.partMeasurements.map(({ part, value, designValue }) => ({ part, value, designValue }))).toEqual([{ part: 'rEmitter', value: 8200, designValue: 6800 }]);
     await logbook.close();
     const db = new Database(path);
     expect(db.pragma('user_version', { simple: true })).toBe(latestSchemaVersion);

@@ -58,7 +58,7 @@ describe('formatFixed and formatReading', () => {
     expect(formatReading(0, 'us')).toBe('0 µs');
     expect(formatReading(20, 'ms')).toBe('20 ms');
     expect(formatReading(91.25, 'deg')).toBe('91.3°');
-    expect(formatReading(7500, 'ohm')).toBe('7.5 kΩ');
+    expect(formatReading(7500, 'ohm')).toBe('7k5');
     expect(formatReading(3, '')).toBe('3');
     expect(formatReading(1.234, 'V/ms')).toBe('1.23 V/ms');
     // Mains drift matters in hundredths of a hertz (common practice): four significant digits for Hz.

@@ -2,6 +2,7 @@ import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { formatOhm } from '../../../../app/board/formatValues';
 import { parseBoardDesign } from '../../../../app/board/parseBoardDesign';
 import { predictRamp } from '../../../../app/board/rampModel';
 import { runCli } from '../cliRun';
@@ -20,10 +21,11 @@ describe('rampwright size', () => {
     const result = await runCli([...base, '--name', 'Sized bench board', '--out', out]);
     expect(result.stderr).toBe('');
     expect(result.code).toBe(0);
-    expect(result.stdout).toContain('rEmitter');
-    expect(result.stdout).toContain('kohm');
     expect(result.stdout).toContain(`Written to ${out}`);
     const design = parseBoardDesign(JSON.parse(readFileSync(out, 'utf8')), out);
+    // The part set in words, its values as marked on parts (IEC 60062 code).
+    expect(result.stdout).toMatch(new RegExp(`emitter resistor +${formatOhm(design.parts.rEmitter.ohm)} +exact \\d+k\\d*, 5 %`));
+    expect(result.stdout).toMatch(/ramp capacitor +470n +chosen/);
     expect(design.name).toBe('Sized bench board');
     expect(Math.abs(predictRamp(design).peakV / 6 - 1)).toBeLessThan(0.03);
   });

@@ -1,12 +1,15 @@
 /**
- * `rampwright trim` end to end: a board of our own with a wrong capacitor fitted is simulated by ngspice (outside
- * reference), written as a CSV capture, measured by the analysis engine through the command, and the first
- * suggestion applied in a second ngspice run must bring the ramp within 5 % of the target (issue 3).
+ * `rampwright trim` end to end: boards of our own with parts off are simulated by ngspice (outside reference),
+ * written as CSV captures, measured by the analysis engine through the command, and the first suggestion applied in
+ * a second ngspice run must bring the ramp within 5 % of the target (issue 3). On a held-out board (sized here, in
+ * no fixture) with its ramp capacitor 30 % low, the plan names the capacitor first, to be replaced (issue 11).
  */
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { sizeBoard } from '../../../../app/board/sizeBoard';
+import { sizingTargetsSchema } from '../../../../app/board/sizingTargets';
 import type { TrimPlan } from '../../../../app/board/trimPlan';
 import { readDeckRamp, referenceBoards } from '../../../reference/boardCases';
 import { type FiringBoardTraces, simulateFiringBoard } from '../../../reference/firingBoardDeck';
@@ -62,7 +65,7 @@ describe('rampwright trim', () => {
     expect(plan.estimate.vebV).toBeGreaterThan(0);
 
     const added = best.addOhm ?? NaN;
-    const newOhm = best.method === 'replace' ? best.toOhm : best.method === 'parallel' ? (7500 * added) / (7500 + added) : 7500 + added;
+    const newOhm = best.method === 'replace' ? (best.toOhm ?? NaN) : best.method === 'parallel' ? (7500 * added) / (7500 + added) : 7500 + added;
     const after = simulateFiringBoard(board, { controlV: 100, cycles: 3, partOverrides: { ...fitted, rEmitter: newOhm } });
     const reading = readDeckRamp(after, board, 4);
     expect(Math.abs(reading.peakV / board.rampTargetV - 1)).toBeLessThan(0.05);
@@ -82,7 +85,7 @@ describe('rampwright trim', () => {
     expect(unknown.stderr).toContain('"R99" is not a part of the design');
     const bare = await runCli(['trim', '--design', join(folder, 'board-a.board.json'), '--capture', join(folder, 'board-a.csv'), '--part', '5k1']);
     expect(bare.code).toBe(2);
-    expect(bare.stderr).toContain('is not NAME=VALUE');
+    expect(bare.stderr).toContain('is not DESIGNATOR=VALUE');
 
     // The 60 Hz heater design against this 50 Hz capture: refused, not planned.
     const wrongDesign = await runCli(['trim', '--design', join(__dirname, '../../../../fixtures/boards/heater-ht60f.board.json'), '--capture', join(folder, 'board-a.csv')]);
@@ -97,9 +100,10 @@ describe('rampwright trim', () => {
     writeCsv(join(folder, 'board-a-r7.csv'), traces);
     const args = ['trim', '--design', join(folder, 'board-a.board.json'), '--capture', join(folder, 'board-a-r7.csv'), '--json'];
 
-    // Not told: the planner cannot see a wrong R7 from the ramp alone and asks for a parts check.
+    // Not told: the ramp alone cannot tell which part is off; R7 is among the parts the plan says to measure.
     const blind = JSON.parse((await runCli(args)).stdout) as TrimPlan;
-    expect(blind.notes.join(' ')).toContain('check that rEmitter (R7)');
+    expect(blind.status).toBe('repair');
+    expect(blind.suggestions.filter((suggestion) => suggestion.kind === 'repair').map((suggestion) => suggestion.part)).toContain('rEmitter');
 
     // Told by designator with the prefix as decimal point: the plan starts from 5.1 kohm.
     const told = await runCli([...args, '--part', 'R7=5k1']);
@@ -109,18 +113,41 @@ describe('rampwright trim', () => {
     expect(plan.measuredParts).toEqual({ rEmitter: 5100 });
     const best = plan.suggestions[0];
     // Back to the design value: the planner found that R7 itself is the fault.
-    expect(best).toMatchObject({ part: 'rEmitter', method: 'replace', fromOhm: 5100, toOhm: 7500 });
-    // Applied to the simulated board as fitted (an added resistor goes with the 5.1 kohm actually there).
-    const actualOhm = fitted.rEmitter;
-    const added = best.addOhm ?? NaN;
-    const newOhm = best.method === 'replace' ? best.toOhm : best.method === 'parallel' ? (actualOhm * added) / (actualOhm + added) : actualOhm + added;
-    const overrides = { ...fitted, [best.part]: best.part === 'rEmitter' ? newOhm : best.toOhm, ...(best.alsoChange ? { [best.alsoChange.part]: best.alsoChange.toOhm } : {}) };
-    const reading = readDeckRamp(simulateFiringBoard(board, { controlV: 100, cycles: 3, partOverrides: overrides }), board, 4);
+    expect(best).toMatchObject({ kind: 'repair', part: 'rEmitter', method: 'replace', fromOhm: 5100, toOhm: 7500 });
+    const reading = readDeckRamp(simulateFiringBoard(board, { controlV: 100, cycles: 3, partOverrides: { rEmitter: best.toOhm ?? NaN } }), board, 4);
     // Issue 3: within 5 % of the target, checked in ngspice (outside reference).
     expect(Math.abs(reading.peakV / board.rampTargetV - 1)).toBeLessThan(0.05);
 
-    const human = await runCli(['trim', '--design', join(folder, 'board-a.board.json'), '--capture', join(folder, 'board-a-r7.csv'), '--part', 'rEmitter=5.1k']);
+    const human = await runCli(['trim', '--design', join(folder, 'board-a.board.json'), '--capture', join(folder, 'board-a-r7.csv'), '--part', 'R7=5.1k']);
     expect(human.code).toBe(0);
-    expect(human.stdout).toContain('Parts as measured on the board: rEmitter (R7) taken as 5.1');
+    expect(human.stdout).toContain('Planned for the board as built: emitter resistor R7 taken as 5k1.');
+    expect(human.stdout).toContain('Replace the emitter resistor R7 with 7k5: measured 5k1');
+  });
+
+  it.skipIf(!ngspiceAvailable())('a held-out board with its ramp capacitor 30 % low: trim --json names the capacitor first, to be replaced', async () => {
+    // Sized here from targets of our own: 60 Hz full-wave, 18 V, 330 nF, E24; every part as designed but C.
+    const heldOut = { ...sizeBoard(sizingTargetsSchema.parse({ name: 'Held-out board H (60 Hz full-wave)', mainsHz: 60, rectifier: 'full-wave', supplyV: 18, rampTargetV: 7.5, cRampFarad: 3.3e-7, syncPhaseDeg: 5 })).design };
+    heldOut.parts = { ...heldOut.parts, cRamp: { ...heldOut.parts.cRamp, ref: 'C9' }, rEmitter: { ...heldOut.parts.rEmitter, ref: 'R21' } };
+    writeFileSync(join(folder, 'held-out.board.json'), JSON.stringify(heldOut));
+    const fitted = { cRamp: heldOut.parts.cRamp.farad * 0.7 };
+    writeCsv(join(folder, 'held-out.csv'), simulateFiringBoard(heldOut, { controlV: 3, cycles: 16, partOverrides: fitted, stepS: 1e-5 }));
+    const result = await runCli(['trim', '--design', join(folder, 'held-out.board.json'), '--capture', join(folder, 'held-out.csv'), '--json']);
+    expect(result.stderr).toBe('');
+    expect(result.code).toBe(0);
+    const plan = JSON.parse(result.stdout) as TrimPlan;
+    expect(plan.status).toBe('repair');
+    expect(plan.suggestions[0]).toMatchObject({ kind: 'repair', part: 'cRamp', method: 'replace', toFarad: heldOut.parts.cRamp.farad });
+    // Replaced with its design value in ngspice, the ramp lands on target as predicted.
+    const after = readDeckRamp(simulateFiringBoard(heldOut, { controlV: 100, cycles: 3 }), heldOut, 4);
+    expect(Math.abs(after.peakV / heldOut.rampTargetV - 1)).toBeLessThan(0.05);
+    expect(Math.abs(plan.suggestions[0].predictedPeakV / after.peakV - 1)).toBeLessThan(0.01);
+    // In words: the capacitor by its designator, its value as marked, which part to measure first and why.
+    const human = await runCli(['trim', '--design', join(folder, 'held-out.board.json'), '--capture', join(folder, 'held-out.csv')]);
+    expect(human.stdout).toContain('measure the ramp capacitor C9 and replace it with 330n');
+    expect(human.stdout).toMatch(/Note: Measure the ramp capacitor C9 first \(.*emitter resistor R21.*\): capacitors drift and fail far more often than resistors/);
+    // Its sync lags the mains 5 deg by design and its ramp starts on time: no false alarm about the sync circuit.
+    expect(human.stdout).not.toContain('sync and reset');
+    // After the capacitor is replaced the control limit is the design's own: no resistor change to hide the fault.
+    expect(plan.controlLimit).toBeNull();
   });
 });

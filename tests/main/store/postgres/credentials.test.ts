@@ -54,12 +54,13 @@ describe('a shared logbook address with a password in it', () => {
     expect(demo.code).toBe(0);
     const result = JSON.parse(demo.stdout) as { logbook: string; pushed: string[] };
     expect(result.logbook).toBe(folder.file('data/rampwright/logbook.sqlite'));
-    expect(result.pushed.join('\n')).toMatch(new RegExp(`Pushed 1 session \\(\\d+ cycles\\) to postgres://${user}@127\\.0\\.0\\.1:${cluster.port}/${database}`));
+    // The demo commissions two units (a part replaced, a stack-up trimmed): both sessions pushed.
+    expect(result.pushed.join('\n')).toMatch(new RegExp(`Pushed 2 sessions \\(\\d+ cycles\\) to postgres://${user}@127\\.0\\.0\\.1:${cluster.port}/${database}`));
     const log = await cli(['log', '--db', withPassword()]);
     expect(log.code).toBe(0);
     expect(log.stdout).toMatch(/CH50H-0042/);
     const json = await cli(['log', '--db', withPassword(), '--json']);
-    expect(JSON.parse(json.stdout).sessions).toHaveLength(1);
+    expect(JSON.parse(json.stdout).sessions).toHaveLength(2);
     const record = folder.file('record.html');
     expect((await cli(['report', '--db', withPassword(), '--session', '1', '--out', record])).code).toBe(0);
     outputs.push(readFileSync(record, 'utf8'));
@@ -104,10 +105,10 @@ describe('pushing and what is stored', () => {
     expect((await cli(['demo', '--db', local])).code).toBe(0);
     const push = await cli(['push', '--db', local, '--to', withPassword()]);
     expect(push.code).toBe(0);
-    expect(push.stdout).toMatch(/Pushed 1 session/);
-    // Both demos are in the shared logbook: two sessions of the demo unit.
+    expect(push.stdout).toMatch(/Pushed 2 sessions/);
+    // Both demos are in the shared logbook: two sessions each (the demo commissions two units).
     const log = await cli(['log', '--db', withPassword(), '--json']);
-    expect((JSON.parse(log.stdout) as { sessions: unknown[] }).sessions).toHaveLength(2);
+    expect((JSON.parse(log.stdout) as { sessions: unknown[] }).sessions).toHaveLength(4);
     for (const text of outputs) expectNoPassword(text);
 
     // Every text column of every table, in the shared logbook and in the bench's own.

@@ -88,7 +88,7 @@ describe('design form', () => {
   it('refuses an absurd resistor with its physical range written as on a part', () => {
     const draft = structuredClone(designInput) as Record<string, unknown>;
     setFieldText(draft, field('parts.rEmitter.ohm'), '0.5');
-    expect(problemForField(checkDesign(draft).problems, field('parts.rEmitter.ohm'))?.message).toMatch(/^must be from 1 ohm to 10 Mohm \(.*IEC 60063.*\); got 0\.5$/);
+    expect(problemForField(checkDesign(draft).problems, field('parts.rEmitter.ohm'))?.message).toMatch(/^must be from 1R0 to 10M \(.*IEC 60063.*\); got 0\.5$/);
   });
 
   it('removes an emptied optional part and accepts the design', () => {

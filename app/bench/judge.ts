@@ -5,7 +5,7 @@
  * alpha min) is judged on how far the reading passes it. Expected values come from the design and the board model
  * (app/board: predicted ramp start, firing angle for the measured control voltage).
  */
-import type { Verdict } from '../contract/readings';
+import type { MeasuredVerdict, Verdict } from '../contract/readings';
 import type { BoardDesign } from '../board/design';
 import { alphaForControl } from '../board/firingAngle';
 import { predictRamp } from '../board/rampModel';
@@ -20,8 +20,8 @@ export interface ReadingCheck {
   /** Allowed deviation in the reading's unit; 0 for counts that must be exact; null for yes/no checks. */
   toleranceAbs: number | null;
   unit: string;
-  /** Null when there was nothing to measure. */
-  verdict: Verdict | null;
+  /** "not-measured" while the reading has no measurement: a check is never judged on a value it does not have. */
+  verdict: Verdict;
   /** One line for the technician (a diagnosis, what the limit is for); never a marker. */
   note: string | null;
   /** The expected value is a limit the reading must stay under ('at-most') or above ('at-least'), not a target. */
@@ -43,30 +43,31 @@ const pulseWidthTolerancePct = 20;
  */
 const latchMarginFactor = 2;
 
-export function verdictFor(deviation: number, toleranceAbs: number): Verdict {
+export function verdictFor(deviation: number, toleranceAbs: number): MeasuredVerdict {
   const size = Math.abs(deviation);
   if (toleranceAbs <= 0) return size === 0 ? 'in-tolerance' : 'out-of-tolerance';
   if (size > toleranceAbs) return 'out-of-tolerance';
   return size > marginalFraction * toleranceAbs ? 'marginal' : 'in-tolerance';
 }
 
-function against(key: string, label: string, unit: string, measured: number | null, expected: number, toleranceAbs: number, note: string | null = null): ReadingCheck {
-  return { key, label, measured, expected, toleranceAbs, unit, verdict: measured === null ? null : verdictFor(measured - expected, toleranceAbs), note };
+/** A reading against an expected value +- a tolerance (in the reading's unit). */
+export function checkAgainst(key: string, label: string, unit: string, measured: number | null, expected: number, toleranceAbs: number, note: string | null = null): ReadingCheck {
+  return { key, label, measured, expected, toleranceAbs, unit, verdict: measured === null ? 'not-measured' : verdictFor(measured - expected, toleranceAbs), note };
 }
 
 function limit(key: string, label: string, unit: string, measured: number | null, limitValue: number, toleranceAbs: number, side: 'max' | 'min'): ReadingCheck {
   const beyond = measured === null ? 0 : side === 'max' ? Math.max(0, measured - limitValue) : Math.max(0, limitValue - measured);
   // Approaching the limit from inside is fine; passing it is judged by how far.
-  return { key, label, measured, expected: limitValue, toleranceAbs, unit, verdict: measured === null ? null : verdictFor(beyond, toleranceAbs), note: null, limit: side === 'max' ? 'at-most' : 'at-least' };
+  return { key, label, measured, expected: limitValue, toleranceAbs, unit, verdict: measured === null ? 'not-measured' : verdictFor(beyond, toleranceAbs), note: null, limit: side === 'max' ? 'at-most' : 'at-least' };
 }
 
 export function judgeReadings(readings: CaptureReadings, design: BoardDesign): ReadingCheck[] {
   const checks: ReadingCheck[] = [];
   const prediction = predictRamp(design);
-  checks.push(against('frequencyHz', 'Mains frequency', 'Hz', readings.frequencyHz, design.mainsHz, (design.mainsHz * mainsTolerancePct) / 100));
-  checks.push(against('rampPeakV', 'Ramp peak', 'V', readings.ramp.peakV, design.rampTargetV, (design.rampTargetV * design.tolerances.rampPeakPct) / 100));
+  checks.push(checkAgainst('frequencyHz', 'Mains frequency', 'Hz', readings.frequencyHz, design.mainsHz, (design.mainsHz * mainsTolerancePct) / 100));
+  checks.push(checkAgainst('rampPeakV', 'Ramp peak', 'V', readings.ramp.peakV, design.rampTargetV, (design.rampTargetV * design.tolerances.rampPeakPct) / 100));
   const expectedStartDeg = design.syncPhaseDeg + 360 * design.mainsHz * prediction.startDelayS;
-  checks.push(against('rampStartDelayDeg', 'Ramp start after zero crossing', 'deg', readings.ramp.startDelayDeg, expectedStartDeg, design.tolerances.startDelayDeg));
+  checks.push(checkAgainst('rampStartDelayDeg', 'Ramp start after zero crossing', 'deg', readings.ramp.startDelayDeg, expectedStartDeg, design.tolerances.startDelayDeg));
   checks.push({
     key: 'rampClipped',
     label: 'Ramp clipping',
@@ -74,7 +75,7 @@ export function judgeReadings(readings: CaptureReadings, design: BoardDesign): R
     expected: false,
     toleranceAbs: null,
     unit: '',
-    verdict: readings.ramp.chargingIntervals === 0 ? null : readings.ramp.clipped ? 'out-of-tolerance' : 'in-tolerance',
+    verdict: readings.ramp.chargingIntervals === 0 ? 'not-measured' : readings.ramp.clipped ? 'out-of-tolerance' : 'in-tolerance',
     note: readings.ramp.clippedIntervals > 0 ? `${readings.ramp.clippedIntervals} of ${readings.ramp.chargingIntervals} ramps flatten before the half-cycle ends` : null,
   });
   const alphaToleranceDeg = design.tolerances.alphaDeg;
@@ -84,26 +85,26 @@ export function judgeReadings(readings: CaptureReadings, design: BoardDesign): R
       const expected = alphaForControl(design, controlV, { prediction });
       if (expected === null) continue;
       const fitted = readings.transfer.offsetDeg + readings.transfer.gainDegPerV * controlV;
-      checks.push(against(`alphaAtControl${end}Deg`, `Alpha at ${controlV.toFixed(2)} V control`, 'deg', fitted, expected, alphaToleranceDeg));
+      checks.push(checkAgainst(`alphaAtControl${end}Deg`, `Alpha at ${controlV.toFixed(2)} V control`, 'deg', fitted, expected, alphaToleranceDeg));
     }
   } else if (readings.pulse.controlV !== null) {
     const expected = alphaForControl(design, readings.pulse.controlV, { prediction });
-    if (expected !== null) checks.push(against('alphaDeg', `Alpha at ${readings.pulse.controlV.toFixed(2)} V control`, 'deg', readings.pulse.alphaDeg, expected, alphaToleranceDeg));
+    if (expected !== null) checks.push(checkAgainst('alphaDeg', `Alpha at ${readings.pulse.controlV.toFixed(2)} V control`, 'deg', readings.pulse.alphaDeg, expected, alphaToleranceDeg));
   }
   checks.push(limit('alphaMaxDeg', 'Largest alpha', 'deg', readings.pulse.alphaMaxDeg, design.alphaMaxDeg, alphaToleranceDeg, 'max'));
   checks.push(limit('alphaMinDeg', 'Smallest alpha', 'deg', readings.pulse.alphaMinDeg, design.alphaMinDeg, alphaToleranceDeg, 'min'));
-  checks.push(against('pulseWidthUs', 'Gate pulse width', 'us', readings.pulse.widthUs, design.gatePulseUs, (design.gatePulseUs * pulseWidthTolerancePct) / 100));
+  checks.push(checkAgainst('pulseWidthUs', 'Gate pulse width', 'us', readings.pulse.widthUs, design.gatePulseUs, (design.gatePulseUs * pulseWidthTolerancePct) / 100));
   if (readings.balance) {
     // Both half-cycles of a full-wave board should fire alike (halfCycleBalance.ts): judged with the design's own
     // alpha and ramp-peak tolerances (our rule).
-    checks.push(against('alphaBalanceDeg', 'Alpha, positive minus negative half-cycle', 'deg', readings.balance.alphaDeg, 0, alphaToleranceDeg, balanceNote(readings.balance.alphaDeg)));
-    checks.push(against('rampPeakBalanceV', 'Ramp peak, positive minus negative half-cycle', 'V', readings.balance.rampPeakV, 0, (design.rampTargetV * design.tolerances.rampPeakPct) / 100));
+    checks.push(checkAgainst('alphaBalanceDeg', 'Alpha, positive minus negative half-cycle', 'deg', readings.balance.alphaDeg, 0, alphaToleranceDeg, balanceNote(readings.balance.alphaDeg)));
+    checks.push(checkAgainst('rampPeakBalanceV', 'Ramp peak, positive minus negative half-cycle', 'V', readings.balance.rampPeakV, 0, (design.rampTargetV * design.tolerances.rampPeakPct) / 100));
   }
   if (design.load) checks.push(latchCheck(readings, design));
   const counted = readings.firingIntervals > 0;
-  checks.push(against('wrongHalfCyclePulses', 'Pulses in the wrong half-cycle', '', counted ? readings.pulse.wrongHalfCycle : null, 0, 0));
-  checks.push(against('missingPulses', 'Missing pulses', '', counted ? readings.pulse.missing : null, 0, 0));
-  checks.push(against('multiplePulses', 'Half-cycles with more than one pulse', '', counted ? readings.pulse.multiplePulses : null, 0, 0));
+  checks.push(checkAgainst('wrongHalfCyclePulses', 'Pulses in the wrong half-cycle', '', counted ? readings.pulse.wrongHalfCycle : null, 0, 0));
+  checks.push(checkAgainst('missingPulses', 'Missing pulses', '', counted ? readings.pulse.missing : null, 0, 0));
+  checks.push(checkAgainst('multiplePulses', 'Half-cycles with more than one pulse', '', counted ? readings.pulse.multiplePulses : null, 0, 0));
   return checks;
 }
 
@@ -122,17 +123,17 @@ function latchCheck(readings: CaptureReadings, design: BoardDesign): ReadingChec
   if (!Number.isFinite(minimumUs)) {
     return {
       key: 'pulseLatchUs', label, measured, expected: null, toleranceAbs: null, unit: 'us',
-      verdict: measured === null ? null : 'out-of-tolerance',
+      verdict: measured === null ? 'not-measured' : 'out-of-tolerance',
       note: `at ${alphaDeg.toFixed(1)} deg the anode sees ${anodeV.toFixed(1)} V, so the load current (at most ${((anodeV / load.ohm) * 1000).toFixed(0)} mA) never reaches the ${(load.latchingCurrentA * 1000).toFixed(0)} mA latching current: no pulse width fires it; lower the largest alpha`,
     };
   }
   if (minimumUs === 0) {
     return {
-      key: 'pulseLatchUs', label, measured, expected: null, toleranceAbs: null, unit: 'us', verdict: measured === null ? null : 'in-tolerance',
+      key: 'pulseLatchUs', label, measured, expected: null, toleranceAbs: null, unit: 'us', verdict: measured === null ? 'not-measured' : 'in-tolerance',
       note: 'a resistive load carries its full current as soon as the gate fires: any pulse that fires it latches it',
     };
   }
-  const verdict = measured === null ? null : measured < minimumUs ? 'out-of-tolerance' : measured < latchMarginFactor * minimumUs ? 'marginal' : 'in-tolerance';
+  const verdict: Verdict = measured === null ? 'not-measured' : measured < minimumUs ? 'out-of-tolerance' : measured < latchMarginFactor * minimumUs ? 'marginal' : 'in-tolerance';
   return {
     // Tolerance 0 past the limit: the band starts at the minimum (the margin rule above makes "marginal").
     key: 'pulseLatchUs', label, measured, expected: minimumUs, toleranceAbs: 0, unit: 'us', verdict, limit: 'at-least',

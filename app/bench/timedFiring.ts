@@ -21,7 +21,7 @@ export interface SampledFiring {
 
 export interface TimedFiring {
   periodS: number;
-  /** Null when no pulse fired or its rising edge was not timed. */
+  /** Null when no pulse fired, its rising edge was not timed, or the starting crossing could not be put on the mains zero. */
   alphaDeg: number | null;
 }
 
@@ -41,8 +41,8 @@ export function timedFiring(book: TimedEdgeBook, sampled: SampledFiring): TimedF
   const periodS = periodTo.timeS - periodFrom.timeS;
   if (!(periodS > 0)) return null;
   const rise = sampled.riseS === null ? null : book.nearest('gate', 'rising', sampled.riseS, toleranceS);
-  if (!rise) return { periodS, alphaDeg: null };
   const crossingS = book.syncCrossingS(start, periodS / 2);
+  if (!rise || crossingS === null) return { periodS, alphaDeg: null };
   return { periodS, alphaDeg: (360 * (rise.timeS - crossingS)) / periodS + sampled.syncPhaseDeg };
 }
 

@@ -18,6 +18,8 @@ export const liveFrameSchema = z.object({
   /** Live readings of the steps (not yet recorded; `checkStep` records them). */
   steps: z.array(stepReportSchema),
   link: linkHealthSchema,
+  /** The service's state count when the frame was made (`stateSerial` of the bench state). */
+  stateSerial: z.number().int().nonnegative(),
 });
 export type LiveFrame = z.infer<typeof liveFrameSchema>;
 

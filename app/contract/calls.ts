@@ -70,6 +70,8 @@ export const portInfoSchema = z.object({
   serialNumber: z.string().nullable(),
   vendorId: z.string().nullable(),
   productId: z.string().nullable(),
+  /** The port is on a USB-serial bridge loggers are commonly built on (listed first): what the bridge is. */
+  loggerBridge: z.string().nullable().default(null),
 });
 export type PortInfo = z.infer<typeof portInfoSchema>;
 
@@ -98,7 +100,12 @@ export const benchCalls = {
   listDesigns: call(empty, z.object({ designs: z.array(designSummarySchema) }), 'Stored board designs, latest version of each.'),
   getDesign: call(z.object({ name: nonEmpty('the design name'), version: z.number().int().positive().optional() }).strict(), storedDesignSchema, 'One stored design (latest version unless one is named).'),
   /** `design` is checked by the schema and then by the board physics; a design that fails either is not saved. */
-  saveDesign: call(z.object({ design: boardDesignSchema }).strict(), storedDesignSchema, 'Save a design as a new version (unchanged designs keep their version).'),
+  saveDesign: call(
+    z.object({ design: boardDesignSchema }).strict(),
+    /** `saved` is false when the design equals a stored version of its name: nothing was saved. */
+    storedDesignSchema.extend({ saved: z.boolean() }),
+    'Save a design as a new version; an unchanged design saves nothing and says so.',
+  ),
   validateDesign: call(z.object({ design: z.unknown() }).strict(), z.object({ ok: z.boolean(), problems: z.array(designProblemSchema) }), 'Check a design as typed, field by field, without saving.'),
 
   // Units
@@ -115,7 +122,18 @@ export const benchCalls = {
   setHold: call(z.object({ held: z.boolean() }).strict(), z.object({ held: z.boolean() }), 'Freeze or release the live plot (data keeps flowing into the session).'),
   keepCapture: call(z.object({ seconds: z.number().positive().max(10).default(2), label: z.string().optional() }).strict(), z.object({ captureId: z.number().int().positive(), seconds: z.number() }), 'Keep the last seconds of raw samples in the session.'),
   checkStep: call(z.object({ step: commissioningStepSchema }).strict(), stepReportSchema, 'Take the step\'s readings now, judge them against the design and record them in the session.'),
-  signOff: call(z.object({ notes: z.string().optional() }).strict(), sessionRowSchema, 'Record the sign-off step and close the session.'),
+  signOff: call(
+    z.object({
+      notes: z.string().optional(),
+      /**
+       * Given, the session may be signed off with exceptions (steps missing, unmeasured or out of tolerance) and this
+       * is the written reason the record keeps. Without it the service refuses a sign-off the gate does not clear.
+       */
+      exceptionsReason: z.string().max(2000, 'the reason must stay under 2000 characters').optional(),
+    }).strict(),
+    sessionRowSchema,
+    'Sign off and close the session: at once when every step is recorded and within tolerance, otherwise only with exceptions and a written reason.',
+  ),
 
   // Trim
   trimPlan: call(
@@ -143,7 +161,17 @@ export const benchCalls = {
   ),
 
   // Transfer curve
-  transferPoints: call(z.object({ sessionId: sessionId.optional() }).strict(), z.object({ points: z.array(transferPointSchema), fit: transferFitSchema.nullable(), ideal: z.array(transferPointSchema) }), 'Transfer points so far (open session unless one is named), the fit and the design\'s ideal line.'),
+  transferPoints: call(
+    z.object({ sessionId: sessionId.optional() }).strict(),
+    z.object({
+      points: z.array(transferPointSchema),
+      fit: transferFitSchema.nullable(),
+      ideal: z.array(transferPointSchema),
+      /** The control range the design allows (app/board/controlRange.ts): the default sweep, and where the Transfer and Limits steps judge. */
+      controlRange: z.object({ lowV: z.number(), highV: z.number(), alphaAtLowDeg: z.number().nullable(), alphaAtHighDeg: z.number().nullable() }).nullable(),
+    }),
+    'Transfer points so far (open session unless one is named), the fit, the design\'s ideal line and its control range.',
+  ),
   clearTransfer: call(empty, z.object({ cleared: z.number().int().nonnegative() }), 'Start the transfer curve again in the open session.'),
 
   // Logbook

@@ -5,6 +5,7 @@
  */
 export * from './errors';
 export * from './readings';
+export * from './verdicts';
 export * from './records';
 export * from './calls';
 export * from './bench-events';

@@ -5,13 +5,30 @@
  */
 import { z } from 'zod';
 
-export const verdictSchema = z.enum(['in-tolerance', 'marginal', 'out-of-tolerance']);
+/**
+ * The four states of a check (NAMING.md): three verdicts a measurement earns, and "not measured yet" for a check
+ * whose measurement does not exist (no tick, no cross). A reading that is only for information has no verdict at
+ * all (null); a step is "not measured yet" until every check it carries has its measurement.
+ */
+export const verdictSchema = z.enum(['in-tolerance', 'marginal', 'out-of-tolerance', 'not-measured']);
 export type Verdict = z.infer<typeof verdictSchema>;
+/** A verdict a measurement earned: anything but "not measured yet". */
+export type MeasuredVerdict = Exclude<Verdict, 'not-measured'>;
 
 /** The commissioning steps of NAMING.md, in bench order. */
 export const commissioningStepNames = ['sync', 'ramp', 'trim', 'transfer', 'limits', 'sign-off'] as const;
 export const commissioningStepSchema = z.enum(commissioningStepNames);
 export type CommissioningStep = z.infer<typeof commissioningStepSchema>;
+
+/** The steps' titles as every screen, record and command prints them (DEVELOPERS.md, "Names we added"). */
+export const commissioningStepTitles: Record<CommissioningStep, string> = {
+  sync: 'Check sync',
+  ramp: 'Check ramp',
+  trim: 'Trim if needed',
+  transfer: 'Record transfer curve',
+  limits: 'Check limits and pulses',
+  'sign-off': 'Sign off',
+};
 
 export const readingSchema = z.object({
   /** Stable key, e.g. `frequencyHz`, `rampPeakV`, `alphaMaxDeg`. */
@@ -26,6 +43,7 @@ export const readingSchema = z.object({
   /** Limits of the in-tolerance band, when there is one. */
   low: z.number().nullable(),
   high: z.number().nullable(),
+  /** The check's state; null for a reading shown for information only (no tolerance applies to it). */
   verdict: verdictSchema.nullable(),
   /** One line a technician understands, e.g. "ramp flattens 14 deg before the half-cycle ends". */
   note: z.string().nullable(),
@@ -36,8 +54,11 @@ export const stepReportSchema = z.object({
   step: commissioningStepSchema,
   /** waiting: not enough data yet; measuring: readings are live; done: checked and recorded in the session. */
   status: z.enum(['waiting', 'measuring', 'done']),
-  /** The worst verdict of the step's readings, null while waiting. */
-  verdict: verdictSchema.nullable(),
+  /**
+   * The worst verdict of the step's checks once each has its measurement, else "not measured yet". Logbooks
+   * written before that state existed kept null for a step without a verdict: read as "not measured yet".
+   */
+  verdict: verdictSchema.nullable().transform((verdict): Verdict => verdict ?? 'not-measured'),
   readings: z.array(readingSchema),
   /** Cycles the readings are based on. */
   cycles: z.number().int().nonnegative(),
@@ -58,7 +79,18 @@ export function parseStepReports(json: string | null): StepReport[] | null {
     return null;
   }
   const parsed = z.array(stepReportSchema).safeParse(stored);
-  return parsed.success ? parsed.data : null;
+  return parsed.success ? parsed.data.map(withNotMeasuredChecks) : null;
+}
+
+/**
+ * Older logbooks wrote a check without its measurement as a null verdict, like a reading for information; a
+ * reading with a tolerance band (or a limit) but no value was such a check: it reads as "not measured yet".
+ */
+function withNotMeasuredChecks(report: StepReport): StepReport {
+  return {
+    ...report,
+    readings: report.readings.map((reading) => (reading.verdict === null && reading.value === null && (reading.low !== null || reading.high !== null) ? { ...reading, verdict: 'not-measured' } : reading)),
+  };
 }
 
 /** One signal of one folded cycle, after min-max decimation (each bucket keeps its minimum and maximum so peaks survive). */

@@ -37,6 +37,49 @@ export type UnitSummary = z.infer<typeof unitSummarySchema>;
 
 export const sessionStatusSchema = z.enum(['open', 'closed', 'interrupted']);
 
+/**
+ * How a session ended, as the logbook keeps it: signed off (every step recorded and within tolerance), signed off
+ * with exceptions (steps missing or failing, with the technician's written reason), closed without sign-off,
+ * interrupted (the recorder stopped), or still open.
+ */
+export const sessionOutcomes = ['signed-off', 'signed-off-with-exceptions', 'closed', 'interrupted', 'open'] as const;
+export const sessionOutcomeSchema = z.enum(sessionOutcomes);
+export type SessionOutcome = z.infer<typeof sessionOutcomeSchema>;
+
+/** Outcomes in words, for every screen, record and command: `text` starts a sentence, `phrase` sits inside one. */
+export const outcomeWords: Record<SessionOutcome, { text: string; phrase: string }> = {
+  'signed-off': { text: 'Signed off', phrase: 'signed off' },
+  'signed-off-with-exceptions': { text: 'Signed off with exceptions', phrase: 'signed off with exceptions' },
+  closed: { text: 'Closed without sign-off', phrase: 'closed without sign-off' },
+  interrupted: { text: 'Interrupted', phrase: 'interrupted' },
+  open: { text: 'Open', phrase: 'still open' },
+};
+
+/** "2 signed off, 1 closed without sign-off": the outcomes that occur, in these words. */
+export function outcomeCounts(outcomes: Record<SessionOutcome, number>): string {
+  const present = sessionOutcomes.filter((outcome) => outcomes[outcome] > 0).map((outcome) => `${outcomes[outcome]} ${outcomeWords[outcome].phrase}`);
+  return present.length > 0 ? present.join(', ') : 'no sessions';
+}
+
+/** A step the sign-off gate stopped at: not recorded, recorded without its measurement, or out of tolerance. */
+export const signOffExceptionSchema = z.object({
+  step: commissioningStepSchema,
+  problem: z.enum(['not-recorded', 'not-measured', 'out-of-tolerance']),
+  /** Labels of the readings behind it (the failing or unmeasured checks); empty for a step not recorded. */
+  readings: z.array(z.string()),
+});
+export type SignOffException = z.infer<typeof signOffExceptionSchema>;
+
+/** The sign-off gate as the bench sees it before signing: what stands in the way of a plain sign-off. */
+export const signOffGateSchema = z.object({
+  /** True when every step is recorded and within tolerance: "Sign off" needs nothing more. */
+  clear: z.boolean(),
+  exceptions: z.array(signOffExceptionSchema),
+  /** Shortest written reason accepted for signing off with exceptions (characters). */
+  reasonMinimumCharacters: z.number().int().positive(),
+});
+export type SignOffGate = z.infer<typeof signOffGateSchema>;
+
 export const openSessionSchema = z.object({
   id: z.number().int().positive(),
   unitSerial: z.string(),
@@ -47,17 +90,7 @@ export const openSessionSchema = z.object({
 });
 export type OpenSession = z.infer<typeof openSessionSchema>;
 
-export const benchStateSchema = z.object({
-  session: openSessionSchema.nullable(),
-  link: linkHealthSchema,
-  /** The screen's plot is frozen; data still flows into the session. */
-  held: z.boolean(),
-  steps: z.array(stepReportSchema),
-  currentStep: commissioningStepSchema,
-  /** True after "I fitted this" until the ramp has been checked again. */
-  recheckNeeded: z.boolean(),
-});
-export type BenchState = z.infer<typeof benchStateSchema>;
+
 
 export const trimSuggestionSchema = z.object({
   /** `repair`: a part outside its tolerance, measured and replaced with its design value; `trim`: a bias change. */
@@ -155,11 +188,22 @@ export const sessionRowSchema = z.object({
   designVersion: z.number().int().positive(),
   operator: z.string(),
   status: sessionStatusSchema,
+  outcome: sessionOutcomeSchema,
+  /** The technician's written reason for signing off with exceptions; null otherwise. */
+  signOffReason: z.string().nullable(),
+  /** What was excepted at sign-off; empty unless the outcome is signed-off-with-exceptions. */
+  signOffExceptions: z.array(signOffExceptionSchema),
   startedAt: isoTimeSchema,
   endedAt: isoTimeSchema.nullable(),
+  /** Cycles measured over the whole session: a count, never judged. */
   cycles: z.number().int().nonnegative(),
-  alphaDeg: z.number().nullable(),
+  /** Ramp peak as recorded at the ramp step (after any trim and its re-check). */
   rampPeakV: z.number().nullable(),
+  /** Smallest and largest alpha as recorded at the limits step. */
+  alphaMinDeg: z.number().nullable(),
+  alphaMaxDeg: z.number().nullable(),
+  /** Over every cycle of the session (before and after a trim, a whole sweep): shown only labelled as such. */
+  wholeSession: z.object({ rampPeakMedianV: z.number().nullable(), alphaMeanDeg: z.number().nullable() }),
   linkErrors: z.number().int().nonnegative(),
   /** Seconds the logger sent nothing (stretches over 2 s), 0 for a link that never went quiet. */
   linkSilentS: z.number().nonnegative(),
@@ -169,6 +213,30 @@ export const sessionRowSchema = z.object({
   sharedAt: isoTimeSchema.nullable(),
 });
 export type SessionRow = z.infer<typeof sessionRowSchema>;
+
+export const benchStateSchema = z.object({
+  session: openSessionSchema.nullable(),
+  link: linkHealthSchema,
+  /** The screen's plot is frozen; data still flows into the session. */
+  held: z.boolean(),
+  steps: z.array(stepReportSchema),
+  currentStep: commissioningStepSchema,
+  /** True after "I fitted this" until the ramp has been checked again. */
+  recheckNeeded: z.boolean(),
+  /** What stands between the open session and a plain sign-off (the service checks the same at sign-off). */
+  signOffGate: signOffGateSchema,
+  /**
+   * The session closed last at this bench (signed off or not), with its steps as recorded, until the next one
+   * starts: what the Bench screen shows instead of live verdicts once no session is open.
+   */
+  lastSession: z.object({ row: sessionRowSchema, steps: z.array(stepReportSchema) }).nullable(),
+  /**
+   * Counts the service's state changes (a step recorded, a session opened or closed...). A live frame carries the
+   * count it was made under: a screen lays a frame's step reports over this state only when its count is not older.
+   */
+  stateSerial: z.number().int().nonnegative(),
+});
+export type BenchState = z.infer<typeof benchStateSchema>;
 
 export const linkEventSchema = z.object({ at: isoTimeSchema, kind: z.string(), detail: z.string() });
 
@@ -199,6 +267,10 @@ export const sessionComparisonSchema = z.object({
       a: z.number().nullable(),
       b: z.number().nullable(),
       difference: z.number().nullable(),
+      /** 'recorded': as recorded at the steps; 'whole-session': over every cycle, shown labelled as such. */
+      scope: z.enum(['recorded', 'whole-session']),
+      /** True when the design gives the figure a tolerance; a count or a whole-session figure is never judged. */
+      judged: z.boolean(),
       /** True when the difference is larger than the design's tolerance for that reading. */
       beyondTolerance: z.boolean(),
     }),
@@ -208,14 +280,18 @@ export const sessionComparisonSchema = z.object({
 });
 export type SessionComparison = z.infer<typeof sessionComparisonSchema>;
 
+/** A unit's figures at one session, as recorded at its steps (the board as signed for). */
 export const driftPointSchema = z.object({
   sessionId: z.number().int().positive(),
   startedAt: isoTimeSchema,
+  /** How the session ended: a trend read across signed and abandoned sessions alike must say which is which. */
+  outcome: sessionOutcomeSchema,
   rampPeakV: z.number().nullable(),
   slopeVPerMs: z.number().nullable(),
   alphaGainDegPerV: z.number().nullable(),
   alphaOffsetDeg: z.number().nullable(),
-  alphaStdDeg: z.number().nullable(),
+  /** Firing jitter at a held control, as recorded at the ramp step. */
+  alphaJitterDeg: z.number().nullable(),
 });
 export type DriftPoint = z.infer<typeof driftPointSchema>;
 
@@ -241,6 +317,8 @@ export const fleetViewSchema = z.object({
   designName: z.string(),
   designVersion: z.number().int().positive(),
   units: z.number().int().nonnegative(),
+  /** How each unit's latest session ended, counted by outcome. */
+  outcomes: z.record(sessionOutcomeSchema, z.number().int().nonnegative()),
   figures: z.array(fleetFigureSchema),
   /** The same units split by the bench that did each one's latest session (a shared logbook holds a line's). */
   benches: z.array(z.object({ bench: z.string().nullable(), units: z.number().int().positive(), rampPeakMeanV: z.number().nullable(), alphaGainMeanDegPerV: z.number().nullable() })),

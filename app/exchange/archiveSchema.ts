@@ -69,8 +69,21 @@ export const archiveSessionSchema = z
         stepsJson: z.string().optional(),
         /** The bench that recorded it; left out when unknown (sessions from before benches were named keep their hash). */
         bench: z.string().min(1).optional(),
+        /**
+         * How a closed session was signed off; left out for one closed without sign-off (and for interrupted ones),
+         * so sessions exported before sign-offs were kept keep their hash. The reason and the exceptions (JSON of
+         * the contract's SignOffException[]) come only with 'signed-off-with-exceptions'.
+         */
+        signOff: z.enum(['signed-off', 'signed-off-with-exceptions']).optional(),
+        signOffReason: z.string().min(1).optional(),
+        signOffExceptionsJson: z.string().min(2).optional(),
       })
-      .strict(),
+      .strict()
+      .refine((record) => record.signOff === undefined || record.status === 'closed', { message: 'only a closed session can carry a sign-off', path: ['signOff'] })
+      .refine((record) => (record.signOff === 'signed-off-with-exceptions') === (record.signOffReason !== undefined && record.signOffExceptionsJson !== undefined), {
+        message: 'a sign-off with exceptions carries its reason and its exceptions, and only it does',
+        path: ['signOffReason'],
+      }),
     cycles: tableSchema(archiveColumns.cycles),
     transferPoints: tableSchema(archiveColumns.transferPoints),
     captures: z.array(archiveCaptureSchema),

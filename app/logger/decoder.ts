@@ -6,6 +6,7 @@
 import type { SampleBlock, TimedEdge } from '../capture/samples';
 import { base64Length, decodeBase64Into } from './base64';
 import { parseHex32, unframeLine, withoutCarriageReturn } from './frame';
+import { alignToFrame } from './scanSkew';
 import { parseGreetingBody, sameGreeting } from './greeting';
 import { parseEdgesBody, parseReplyBody, parseStatusBody } from './encode';
 import { emptyLinkHealth, type LinkHealth, type LinkProblem, type LinkProblemCode } from './health';
@@ -61,6 +62,8 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
   let lastOverruns = 0;
   let lastEdgesLost = 0;
   let pendingEdges: LoggerEdge[] = [];
+  /** Each channel's last value in the block before, for putting a skewed channel back on the frame instants. */
+  let previousLastV: Array<number | null> = [];
   let bytes = new Uint8Array(0);
   let partial = '';
   let discardingOversize = false;
@@ -167,7 +170,8 @@ export function createLoggerDecoder(options: LoggerDecoderOptions = {}): LoggerD
     lastRawSequence = sequence;
     const startS = stretch.startS + (stretch.lastSequence - stretch.firstSequence) * blockS;
     nextStartS = startS + blockS;
-    const block = toSampleBlock(greeting, bytes, startS, afterGap);
+    const block = toSampleBlock(greeting, bytes, startS, afterGap, afterGap ? [] : previousLastV);
+    previousLastV = lastSampleVolts(greeting, bytes);
     if (pendingEdges.length > 0 && greeting.edgeTiming) {
       block.edges = placeEdges(pendingEdges, greeting.edgeTiming.clockHz, sequence, blockS, startS);
       pendingEdges = [];
@@ -339,7 +343,15 @@ function placeEdges(edges: readonly LoggerEdge[], clockHz: number, sequence: num
   });
 }
 
-function toSampleBlock(greeting: LoggerGreeting, bytes: Uint8Array, startS: number, afterGap: boolean): SampleBlock {
+/** Each channel's last sample in volts, as sampled (before any skew alignment). */
+function lastSampleVolts(greeting: LoggerGreeting, bytes: Uint8Array): number[] {
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const lastFrame = (greeting.blockSamples - 1) * greeting.channels.length * 2;
+  return greeting.channels.map((scale, channel) => scale.offsetV + scale.gainV * view.getInt16(lastFrame + channel * 2, true));
+}
+
+/** Rows of volts per role; channels sampled after the frame's instant (greeting skew=) are moved onto it. */
+function toSampleBlock(greeting: LoggerGreeting, bytes: Uint8Array, startS: number, afterGap: boolean, previousLastV: ReadonlyArray<number | null>): SampleBlock {
   const samples = greeting.blockSamples;
   const channelCount = greeting.channels.length;
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
@@ -359,6 +371,7 @@ function toSampleBlock(greeting: LoggerGreeting, bytes: Uint8Array, startS: numb
     for (let sample = 0, at = channel * 2; sample < samples; sample++, at += channelCount * 2) {
       volts[sample] = scale.offsetV + scale.gainV * view.getInt16(at, true);
     }
+    if (greeting.scanSkew) alignToFrame(volts, greeting.scanSkew[channel], previousLastV[channel] ?? null);
     block[scale.role] = volts;
   }
   return block;

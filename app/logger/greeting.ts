@@ -21,10 +21,11 @@ export function encodeGreetingBody(greeting: LoggerGreeting): string {
   const roles = greeting.channels.map((channel) => channel.role).join(',');
   const gains = greeting.channels.map((channel) => formatNumber(channel.gainV)).join(',');
   const offsets = greeting.channels.map((channel) => formatNumber(channel.offsetV)).join(',');
+  const skew = greeting.scanSkew ? ` skew=${greeting.scanSkew.map(formatNumber).join(',')}` : '';
   const timing = greeting.edgeTiming ? ` edges=${greeting.edgeTiming.roles.join(',')} clock=${formatNumber(greeting.edgeTiming.clockHz)}` : '';
   return (
     `H ${protocolName}/${greeting.version} id=${greeting.loggerId} rate=${formatNumber(greeting.sampleRateHz)} ` +
-    `bits=${greeting.adcBits} block=${greeting.blockSamples} ch=${roles} gain=${gains} offset=${offsets}${timing}`
+    `bits=${greeting.adcBits} block=${greeting.blockSamples} ch=${roles} gain=${gains} offset=${offsets}${skew}${timing}`
   );
 }
 
@@ -86,6 +87,13 @@ export function parseGreetingBody(body: string): GreetingParse {
   if (!offsets || offsets.length !== roles.length) return fail(`offset= needs ${roles.length} values in volts, one per channel`);
   const channels: ChannelScale[] = roles.map((role, index) => ({ role, gainV: gains[index], offsetV: offsets[index] }));
   const greeting: LoggerGreeting = { version: protocolVersion, loggerId, sampleRateHz: rate[0], adcBits, blockSamples, channels };
+  if (fields.has('skew')) {
+    const skew = parseDecimals(fields.get('skew'));
+    if (!skew || skew.length !== roles.length || skew.some((fraction) => !(fraction >= 0 && fraction < 1))) {
+      return fail(`skew= needs ${roles.length} fractions of the sample period from 0 to below 1, one per channel`);
+    }
+    greeting.scanSkew = skew;
+  }
   const edges = fields.get('edges');
   const clock = fields.get('clock');
   if (edges !== undefined || clock !== undefined) {
@@ -111,6 +119,7 @@ export function sameGreeting(a: LoggerGreeting, b: LoggerGreeting): boolean {
       const other = b.channels[index];
       return channel.role === other.role && channel.gainV === other.gainV && channel.offsetV === other.offsetV;
     }) &&
+    a.scanSkew?.join(',') === b.scanSkew?.join(',') &&
     a.edgeTiming?.clockHz === b.edgeTiming?.clockHz &&
     a.edgeTiming?.roles.join(',') === b.edgeTiming?.roles.join(',')
   );

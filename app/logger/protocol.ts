@@ -34,6 +34,12 @@ export interface LoggerGreeting {
   blockSamples: number;
   /** In the order the samples are interleaved in a data line. */
   channels: ChannelScale[];
+  /**
+   * When each channel is sampled after the frame's first, as a fraction of the sample period (greeting `skew=`, one
+   * per channel from 0 to below 1), for a logger that converts its channels one after another; absent when all are
+   * sampled together.
+   */
+  scanSkew?: number[];
   /** The inputs the logger times with its timer (greeting `edges=`), with the timer's rate (`clock=`, Hz); absent when it times none. */
   edgeTiming?: { roles: EdgeRole[]; clockHz: number };
 }

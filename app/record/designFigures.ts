@@ -5,21 +5,22 @@
  * - ramp slope: the model's slope +- the same percentage (peak = slope x charging time, so the same parts move both);
  * - alpha gain and offset: the model's transfer line through the firing angles at 60 and 120 degrees; gain +- the
  *   ramp percentage (gain is inverse to slope), offset +- the design's alpha tolerance;
- * - firing jitter: at most half the alpha tolerance (our rule: jitter eats the margin a reading needs).
+ * - firing jitter at a held control: at most half the alpha tolerance (our rule: jitter eats the margin a reading
+ *   needs). Never the spread of alpha over a session: a control sweep spreads alpha by design.
  */
 import type { BoardDesign } from '../board/design';
 import { controlForAlpha } from '../board/firingAngle';
 import { predictRamp } from '../board/rampModel';
 import type { DriftLimits } from './drift';
 
-export type TrendedFigure = 'rampPeakV' | 'slopeVPerMs' | 'alphaGainDegPerV' | 'alphaOffsetDeg' | 'alphaStdDeg';
+export type TrendedFigure = 'rampPeakV' | 'slopeVPerMs' | 'alphaGainDegPerV' | 'alphaOffsetDeg' | 'alphaJitterDeg';
 
 export const trendedFigures: ReadonlyArray<{ key: TrendedFigure; label: string; unit: string }> = [
   { key: 'rampPeakV', label: 'Ramp peak', unit: 'V' },
   { key: 'slopeVPerMs', label: 'Ramp slope', unit: 'V/ms' },
   { key: 'alphaGainDegPerV', label: 'Alpha gain', unit: 'deg/V' },
   { key: 'alphaOffsetDeg', label: 'Alpha offset', unit: 'deg' },
-  { key: 'alphaStdDeg', label: 'Firing jitter', unit: 'deg' },
+  { key: 'alphaJitterDeg', label: 'Firing jitter at a held control', unit: 'deg' },
 ];
 
 export interface DesignFigure {
@@ -44,6 +45,6 @@ export function designFigures(design: BoardDesign): Record<TrendedFigure, Design
     slopeVPerMs: band(slope, slope * fraction),
     alphaGainDegPerV: band(gain, gain === null ? null : Math.abs(gain) * fraction),
     alphaOffsetDeg: band(offset, design.tolerances.alphaDeg),
-    alphaStdDeg: { nominal: 0, limits: { low: null, high: design.tolerances.alphaDeg / 2 } },
+    alphaJitterDeg: { nominal: 0, limits: { low: null, high: design.tolerances.alphaDeg / 2 } },
   };
 }

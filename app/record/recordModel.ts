@@ -12,7 +12,9 @@
 import type { ReadingCheck } from '../bench/judge';
 import { formatPercent } from '../board/formatValues';
 import { recordedPartValue } from '../board/partNames';
-import type { FoldCycle, StepReport, Verdict } from '../contract/readings';
+import { commissioningStepTitles, type FoldCycle, type StepReport, type Verdict } from '../contract/readings';
+import type { SessionOutcome, SignOffException } from '../contract/records';
+import { verdictWords as verdictText } from '../contract/verdicts';
 import type { TransferSet } from './plots';
 
 export interface RecordCapture {
@@ -29,7 +31,20 @@ export interface CommissioningRecord {
   generatedAt: string;
   unit: { serial: string };
   design: { name: string; version: number; contentHash: string };
-  session: { id: number; operator: string; status: string; startedAt: string; endedAt: string | null; notes: string | null; cycles: number };
+  session: {
+    id: number;
+    operator: string;
+    status: string;
+    /** How the session ended: signed off, signed off with exceptions, closed without sign-off, interrupted, open. */
+    outcome: SessionOutcome;
+    /** The written reason of a sign-off with exceptions; null otherwise. */
+    signOffReason: string | null;
+    signOffExceptions: SignOffException[];
+    startedAt: string;
+    endedAt: string | null;
+    notes: string | null;
+    cycles: number;
+  };
   /** Readings judged against the design version the session used (app/bench/judge.ts); empty without readings. */
   checks: ReadingCheck[];
   /**
@@ -61,13 +76,15 @@ export function captureDigestText(captures: ReadonlyArray<{ startedAt: string; s
   return [captureDigestVersion, ...orderCapturesForDigest(captures).map((capture) => capture.sha256.toLowerCase())].map((line) => `${line}\n`).join('');
 }
 
-/** Verdicts in words and a symbol, never colour alone (NAMING.md). */
+/** Verdicts in words and a symbol, never colour alone (NAMING.md); "not measured yet" has neither tick nor cross. */
 export const verdictWords: Record<Verdict, { text: string; symbol: string; plain: string }> = {
-  'in-tolerance': { text: 'in tolerance', symbol: '\u2713', plain: 'OK' },
-  marginal: { text: 'marginal', symbol: '\u26a0', plain: '!' },
-  'out-of-tolerance': { text: 'out of tolerance', symbol: '\u2717', plain: 'X' },
+  'in-tolerance': { text: verdictText['in-tolerance'].phrase, symbol: '\u2713', plain: 'OK' },
+  marginal: { text: verdictText.marginal.phrase, symbol: '\u26a0', plain: '!' },
+  'out-of-tolerance': { text: verdictText['out-of-tolerance'].phrase, symbol: '\u2717', plain: 'X' },
+  'not-measured': { text: verdictText['not-measured'].phrase, symbol: '\u2013', plain: '-' },
 };
 
+/** A reading for information whose value is absent: neither a verdict nor a value. */
 export const notMeasuredWords = { text: 'not measured', symbol: '\u2013', plain: '-' };
 
 /** A reading the design sets no tolerance for: measured and shown, not judged. */
@@ -100,7 +117,6 @@ export interface RecordReadingRow {
   note: string;
 }
 
-const stepWords: Record<StepReport['step'], string> = { sync: 'Sync', ramp: 'Ramp', trim: 'Trim', transfer: 'Transfer', limits: 'Limits', 'sign-off': 'Sign-off' };
 
 export function readingRowsFromChecks(checks: readonly ReadingCheck[]): RecordReadingRow[] {
   return checks.map((check) => ({
@@ -119,7 +135,9 @@ export function readingRowsFromSteps(steps: readonly StepReport[]): RecordReadin
     report.readings.map((reading) => {
       const format = (value: number | null) => formatReading(value, reading.unit);
       const band = reading.low !== null && reading.high !== null ? `${format(reading.low)} to ${format(reading.high)}` : reading.low !== null ? `at least ${format(reading.low)}` : reading.high !== null ? `at most ${format(reading.high)}` : '';
-      return { step: stepWords[report.step], label: reading.label, measured: format(reading.value), design: format(reading.expected), band, verdict: reading.verdict, note: reading.note ?? '' };
+      // A judged check without a number (yes/no, a step as recorded) is its words, never a dash beside a verdict.
+      const worded = reading.value === null && reading.unit === '' && reading.verdict !== null && reading.note ? reading.note : null;
+      return { step: commissioningStepTitles[report.step], label: reading.label, measured: worded ?? format(reading.value), design: format(reading.expected), band, verdict: reading.verdict, note: worded === null ? (reading.note ?? '') : '' };
     }),
   );
 }

@@ -4,14 +4,31 @@
  */
 import { escapeXml, figureToSvg } from './figure';
 import { foldFigure, transferFigure } from './plots';
+import { outcomeStatement } from './outcomeStatement';
 import { formatReading, linkEventCountText, linkHealthSentence, partMeasurementCells, recordLimitsNote, rowVerdictWords, trimCells, type CommissioningRecord } from './recordModel';
+import { outcomeWords } from '../contract/records';
+
+/** The outcome first, in a box a reviewer cannot miss (app/record/outcomeStatement.ts words it). */
+function outcomeHtml(record: CommissioningRecord): string {
+  const statement = outcomeStatement(record.session);
+  const symbol = statement.tone === 'accepted' ? '\u2713' : statement.tone === 'excepted' ? '\u26a0' : '\u2013';
+  return `<section class="outcome ${statement.tone}" data-outcome="${record.session.outcome}">
+<h2><span aria-hidden="true">${symbol}</span> ${escapeXml(statement.heading)}</h2>
+${statement.lines.map((line) => `<p>${escapeXml(line)}</p>`).join('\n')}
+${statement.reason === null ? '' : `<p>Reason written at sign-off:</p><blockquote>${escapeXml(statement.reason)}</blockquote>`}
+${statement.exceptions.length === 0 ? '' : `<p>Exceptions:</p><ul>${statement.exceptions.map((line) => `<li>${escapeXml(line)}</li>`).join('')}</ul>`}
+</section>`;
+}
 
 const style = `
 body { font-family: Helvetica, Arial, sans-serif; color: #23262a; margin: 24px auto; max-width: 760px; line-height: 1.35; }
 h1 { font-size: 22px; margin: 0 0 4px; } h2 { font-size: 16px; margin: 22px 0 6px; border-bottom: 1px solid #c9ccd1; padding-bottom: 2px; }
 table { border-collapse: collapse; width: 100%; font-size: 13px; } th, td { text-align: left; padding: 3px 6px; border-bottom: 1px solid #e2e4e7; vertical-align: top; }
 th { background: #f1f2f4; } td.number { text-align: right; font-variant-numeric: tabular-nums; }
-.verdict { font-weight: bold; white-space: nowrap; } .in-tolerance { color: #2f7d5b; } .marginal { color: #9a5b00; } .out-of-tolerance { color: #b02a2a; }
+.verdict { font-weight: bold; white-space: nowrap; } .in-tolerance { color: #2f7d5b; } .marginal { color: #9a5b00; } .out-of-tolerance { color: #b02a2a; } .not-measured { color: #555; }
+.outcome { border: 2px solid #5b6b82; border-left-width: 8px; padding: 8px 12px; margin: 12px 0; } .outcome h2 { border: none; margin: 0 0 4px; font-size: 18px; }
+.outcome.accepted { border-color: #2f7d5b; } .outcome.excepted { border-color: #b02a2a; background: #fbf1f0; } .outcome.not-certified { border-color: #8a8f96; background: #f4f4f2; }
+.outcome blockquote { margin: 6px 0; padding: 4px 10px; border-left: 3px solid #b02a2a; background: #fff; font-style: italic; }
 .identity td:first-child { width: 30%; color: #555; } .hash { font-family: monospace; font-size: 11px; word-break: break-all; }
 .note { font-size: 12px; color: #444; background: #f6f6f4; border-left: 3px solid #5b6b82; padding: 6px 10px; }
 svg { max-width: 100%; height: auto; } figure { margin: 8px 0; } figcaption { font-size: 12px; color: #555; }
@@ -25,7 +42,7 @@ export function renderRecordHtml(record: CommissioningRecord): string {
     ['Unit (serial number)', record.unit.serial],
     ['Board design', `${record.design.name}, version ${record.design.version}`],
     ['Design content hash (sha-256)', record.design.contentHash, 'hash'],
-    ['Session', `${record.session.id} (${record.session.status})`],
+    ['Session', `${record.session.id} (${outcomeWords[record.session.outcome].phrase})`],
     ['Operator', record.session.operator],
     ['Started', when(record.session.startedAt)],
     ['Ended', when(record.session.endedAt)],
@@ -35,7 +52,7 @@ export function renderRecordHtml(record: CommissioningRecord): string {
   const recorded = record.readings.source === 'recorded';
   const readingRows = record.readings.rows.map((row) => {
     const words = rowVerdictWords(row);
-    return `<tr>${recorded ? cell(row.step ?? '') : ''}${cell(row.label)}${cell(row.measured, 'number')}${cell(row.design, 'number')}${cell(row.band)}<td class="verdict ${row.verdict ?? ''}"><span aria-hidden="true">${words.symbol}</span> ${escapeXml(words.text)}</td>${cell(row.note)}</tr>`;
+    return `<tr>${recorded ? cell(row.step ?? '') : ''}${cell(row.label)}${cell(row.measured, 'number')}${cell(row.design, 'number')}${cell(row.band)}<td class="verdict ${row.verdict ?? 'information'}"><span aria-hidden="true">${words.symbol}</span> ${escapeXml(words.text)}</td>${cell(row.note)}</tr>`;
   });
   const trimRows = record.trims.map((trim) => `<tr>${trimCells(trim).map((text, index) => cell(text, index > 0 ? 'number' : '')).join('')}${cell(trim.method)}${cell(trim.reason)}${cell(when(trim.at))}</tr>`);
   const measurementRows = record.partMeasurements.map((measurement) => `<tr>${partMeasurementCells(measurement).map((text, index) => cell(text, index > 0 ? 'number' : '')).join('')}${cell(when(measurement.at))}</tr>`);
@@ -56,6 +73,7 @@ export function renderRecordHtml(record: CommissioningRecord): string {
 <body>
 <h1>Commissioning record</h1>
 <p>${escapeXml(record.unit.serial)} &middot; ${escapeXml(record.design.name)} &middot; ${escapeXml(when(record.session.startedAt))}</p>
+${outcomeHtml(record)}
 <h2>Unit and design</h2>
 <table class="identity"><tbody>${identity.map(([name, value, className]) => `<tr>${cell(name)}${cell(value, className ?? '')}</tr>`).join('\n')}</tbody></table>
 ${record.session.notes ? `<p>Notes: ${escapeXml(record.session.notes)}</p>` : ''}

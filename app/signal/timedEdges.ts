@@ -62,13 +62,14 @@ export class TimedEdgeBook {
 
   /**
    * The sync crossing `crossing` moved onto the offset-free zero, using the opposite crossings on either side
-   * within `halfCycleS` x 1.5; the crossing as timed when either neighbour is missing.
+   * within `halfCycleS` x 1.5; null when either neighbour is missing (the first crossing of a run), since the offset
+   * is then unknown.
    */
-  syncCrossingS(crossing: TimedEdge, halfCycleS: number): number {
+  syncCrossingS(crossing: TimedEdge, halfCycleS: number): number | null {
     const opposite = crossing.direction === 'rising' ? 'falling' : 'rising';
     const before = this.neighbour(opposite, crossing.timeS, -1, 1.5 * halfCycleS);
     const after = this.neighbour(opposite, crossing.timeS, 1, 1.5 * halfCycleS);
-    if (before === null || after === null) return crossing.timeS;
+    if (before === null || after === null) return null;
     // Rising: high half-cycle after it, low before; falling: high before, low after.
     const highS = crossing.direction === 'rising' ? after - crossing.timeS : crossing.timeS - before;
     const lowS = crossing.direction === 'rising' ? crossing.timeS - before : after - crossing.timeS;

@@ -67,8 +67,9 @@
  *   the link kept for edge lines (about 900 timed edges per second) and 50 bytes/s for status lines,
  *   (100 000 - 10 000 - 50) / 11.37 = 7 913 samples per second per channel;
  * - timer: the rate must divide 4 000 000 (4 000 000 = 2^8 x 5^6); the largest divisor at or below 7 913 is
- *   6 400, the next 6 250. We take 6 250 (a trigger every 640 ticks, 40 us), which leaves 13 us after each 27 us
- *   conversion for the ADC interrupt to prepare the next trigger, and a round 160 us sample period.
+ *   6 400, the next 6 250. We take 6 250 (a trigger every 640 ticks, 40 us: a round 160 us sample period).
+ * Each trigger's compare interrupt sets up the next one, a whole 40 us ahead (sampler.c), and each conversion's
+ * result has until the next conversion ends to be stored, so neither waits on the 13 us a conversion leaves free.
  * So RATE_MAX_HZ = 6 250. The CPU load at that rate is measured in the simulator (the tests print it). */
 #define TIMER_HZ F_CPU
 #define TIMER_PRESCALER_BITS 1 /* CS12:0 = 001, clock / 1 */

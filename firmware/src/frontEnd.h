@@ -15,6 +15,9 @@
 #define GREETING_ROLES "sync,gate,ramp,control"
 #define GREETING_GAINS "0.03919847,0.02492,0.02492,0.02492"
 #define GREETING_OFFSETS "-19.96089,0.01246,0.01246,0.01246"
+/* One trigger converts one channel, in ch= order, a quarter of the sample period apart (config.h, "Sampling"):
+ * each channel's sampling instant after the frame's, as a fraction of the sample period. */
+#define GREETING_SKEW "0,0.25,0.5,0.75"
 #define GREETING_EDGES "sync,gate"
 #define ADC_BITS 10
 

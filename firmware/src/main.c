@@ -54,7 +54,7 @@ static void sendGreeting(void) {
   lineDecimal(ADC_BITS);
   lineText(PSTR(" block="));
   lineDecimal(BLOCK);
-  lineText(PSTR(" ch=" GREETING_ROLES " gain=" GREETING_GAINS " offset=" GREETING_OFFSETS " edges=" GREETING_EDGES " clock="));
+  lineText(PSTR(" ch=" GREETING_ROLES " gain=" GREETING_GAINS " offset=" GREETING_OFFSETS " skew=" GREETING_SKEW " edges=" GREETING_EDGES " clock="));
   lineDecimal(TIMER_HZ);
   lineEnd();
 }

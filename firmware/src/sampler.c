@@ -68,6 +68,7 @@ void samplerStop(void) {
   ATOMIC_BLOCK(ATOMIC_RESTORESTATE) {
     ADCSRA = _BV(ADEN) | _BV(ADIF) | ADC_PRESCALER_BITS;
     ADCSRB = 0;
+    TIMSK1 = _BV(TOIE1);
     fullSlots = 0;
   }
 }
@@ -95,6 +96,7 @@ void samplerStart(uint32_t rateHz) {
     OCR1B = firstTrigger;
     nextTrigger = firstTrigger;
     TIFR1 = _BV(OCF1B);
+    TIMSK1 = _BV(TOIE1) | _BV(OCIE1B);
     ADCSRA = _BV(ADEN) | _BV(ADATE) | _BV(ADIE) | _BV(ADIF) | ADC_PRESCALER_BITS;
   }
 }
@@ -115,19 +117,17 @@ static inline void blockDone(void) {
 }
 
 /*
- * One conversion done. Interrupts are enabled at once (ISR_NOBLOCK) so the edge interrupts wait at most a few
- * cycles; only the Timer1 register accesses run with interrupts off, because the edge interrupts read TCNT1 and
- * every 16-bit Timer1 access shares one TEMP register (datasheet, "Accessing 16-bit Registers").
- * The codes go into the slot in conversion order, which is the protocol's interleaved order (PROTOCOL.md "Data"),
- * little-endian as the protocol and the AVR both store 16-bit words.
+ * A trigger has just started a conversion. Everything the next trigger needs is set here, a whole trigger period
+ * ahead of it (the conversion itself takes 27 of the 40 us at the highest rate, so doing it when the conversion
+ * ends would leave 13 us, and an edge interrupt or two in between could use them up):
+ * - the next compare value. Interrupts are enabled at once (ISR_NOBLOCK) so the edge interrupts wait at most a few
+ *   cycles; only the Timer1 register accesses run with interrupts off, because the edge interrupts read TCNT1 and
+ *   every 16-bit Timer1 access shares one TEMP register (datasheet, "Accessing 16-bit Registers");
+ * - the next channel. ADMUX may change once the running conversion is one ADC clock (32 cycles) old (datasheet,
+ *   "Changing Channel or Reference Selection"); the interrupt response and the lines before it take longer.
+ * Executing this vector clears OCF1B, so the next compare match is a fresh rising edge that triggers the ADC.
  */
-ISR(ADC_vect, ISR_NOBLOCK) {
-  uint8_t low = ADCL;
-  uint8_t high = ADCH;
-  /* The next trigger converts the next channel (CHANNELS is 4: the MUX bits wrap by masking). ADMUX may change now,
-     before the trigger flag is cleared (datasheet, "Changing Channel or Reference Selection"). */
-  ADMUX = ADMUX_BASE | ((ADMUX + 1) & (CHANNELS - 1));
-  TIFR1 = _BV(OCF1B);
+ISR(TIMER1_COMPB_vect, ISR_NOBLOCK) {
   uint16_t trigger = nextTrigger + triggerTicks;
   nextTrigger = trigger;
   cli();
@@ -135,6 +135,18 @@ ISR(ADC_vect, ISR_NOBLOCK) {
   uint16_t now = TCNT1;
   sei();
   if ((uint16_t)(now - trigger) < 0x8000) lateTrigger = 1;
+  /* CHANNELS is 4: the MUX bits wrap by masking. */
+  ADMUX = ADMUX_BASE | ((ADMUX + 1) & (CHANNELS - 1));
+}
+
+/*
+ * One conversion done: its code goes into the slot in conversion order, which is the protocol's interleaved order
+ * (PROTOCOL.md "Data"), little-endian as the protocol and the AVR both store 16-bit words. It has until the next
+ * conversion ends, a whole trigger period.
+ */
+ISR(ADC_vect, ISR_NOBLOCK) {
+  uint8_t low = ADCL;
+  uint8_t high = ADCH;
   uint8_t *at = fillAt;
   if (at) {
     at[0] = low;

@@ -8,7 +8,8 @@ import { basename, dirname, extname, join } from 'node:path';
 import { judgeReadings } from '../../app/bench/judge';
 import { parseStoredDesign } from '../store/storedContent';
 import { InputError } from '../../app/errors';
-import { readingsCsv, transferPointsCsv } from '../../app/exchange/recordCsv';
+import { parseStepReports } from '../../app/contract/readings';
+import { readingsCsv, stepReadingsCsv, transferPointsCsv } from '../../app/exchange/recordCsv';
 import { writeCaptureFile, type CaptureWriteFormat } from '../capture/writeCaptureFile';
 import type { RecordSources } from '../record/buildRecord';
 import type { BenchKey } from './benchKey';
@@ -64,7 +65,14 @@ export async function exportSessionFile(sources: RecordSources, sessionId: numbe
       return [outPath];
     }
     case 'readings-csv': {
+      // As recorded at each step; a session from before steps were kept: its stored readings judged against the
+      // design version it used.
       const detail = await sessionDetail(sources, sessionId);
+      const recorded = parseStepReports(detail.stepsJson);
+      if (recorded !== null && recorded.length > 0) {
+        await writeWholeFile(outPath, stepReadingsCsv(recorded));
+        return [outPath];
+      }
       if (!detail.readings) throw new InputError(`session ${sessionId} has no stored readings to export`, outPath);
       const design = parseStoredDesign((await sources.logbook.designVersion(detail.designId)).designJson, `${sources.logbook.location}: session ${sessionId}`);
       await writeWholeFile(outPath, readingsCsv(judgeReadings(detail.readings, design)));

@@ -12,7 +12,8 @@ import { gunzipSync, gzipSync } from 'node:zlib';
 import { describeSchemaIssues } from '../../app/contract';
 import { InputError } from '../../app/errors';
 import { archiveContentProblems } from '../../app/exchange/archiveContent';
-import { archiveFormatName, archiveFormatVersion, sessionArchiveSchema, signedArchiveMessage, type SessionArchive } from '../../app/exchange/archiveSchema';
+import { archiveFormatName, archiveFormatVersion, sessionArchiveSchema, signedArchiveMessage, type ArchiveSession, type SessionArchive } from '../../app/exchange/archiveSchema';
+import { legacySignOffOf } from '../../app/exchange/legacySignOff';
 import { archiveContentHash } from '../store/canonicalJson';
 import { decodeCapture } from '../store/captureCodec';
 import type { ArchiveImportResult, Logbook } from '../store/logbookTypes';
@@ -123,6 +124,21 @@ function checkSignature(archive: SessionArchive, where: string): ArchiveSigner |
 
 export type ImportResult = ArchiveImportResult & { signer: ArchiveSigner | null };
 
+/**
+ * An archive written before sign-offs were kept, of a session that was signed off then: its sign-off as the
+ * upgraded logbook classifies it (app/exchange/legacySignOff.ts). Any other archive comes back as it is.
+ */
+export function withLegacySignOff(session: ArchiveSession): ArchiveSession {
+  if (session.record.status !== 'closed' || session.record.signOff !== undefined) return session;
+  const legacy = legacySignOffOf(session.record.stepsJson);
+  if (!legacy) return session;
+  const record = { ...session.record, signOff: legacy.kind };
+  return {
+    ...session,
+    record: legacy.kind === 'signed-off' ? record : { ...record, signOffReason: legacy.reason, signOffExceptionsJson: JSON.stringify(legacy.exceptions) },
+  };
+}
+
 export async function importSessionArchive(logbook: Logbook, bytes: Uint8Array, where: string, options: { signedBy?: string } = {}): Promise<ImportResult> {
   const { archive, captureData, signer } = decodeSessionArchive(bytes, where);
   if (options.signedBy !== undefined) {
@@ -131,6 +147,8 @@ export async function importSessionArchive(logbook: Logbook, bytes: Uint8Array, 
     if (given === null) throw new InputError(`the archive is not signed, and --signed-by asks for bench key ${options.signedBy}; nothing was imported`, where);
     if (given !== wanted) throw new InputError(`the archive is signed by bench key ${signer?.fingerprint}, not ${options.signedBy}; nothing was imported`, where);
   }
-  const result = await logbook.importArchiveSession({ session: archive.session, captureData, contentSha256: archive.contentSha256, where });
+  // The store keeps the session as the upgraded logbook would hold it; its import rule also takes that session's
+  // hash as "the same session" (archiveImport.ts), so an archive from before sign-offs were kept imports once.
+  const result = await logbook.importArchiveSession({ session: withLegacySignOff(archive.session), captureData, contentSha256: archive.contentSha256, where });
   return { ...result, signer };
 }

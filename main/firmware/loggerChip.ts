@@ -57,8 +57,6 @@ export interface LoggerChip {
   readonly referenceV: number;
   /** SRAM bytes below the stack that the stack never reached, given the static data size (avr-size "Data"). */
   untouchedSramBytes(staticDataBytes: number): number;
-  /** Conversions started by the timer so far. */
-  conversions(): number;
   /** Called at each timer-triggered conversion's sample-and-hold instant (chip cycle, ADC channel). */
   onSampleHold: ((cycle: number, channel: number) => void) | null;
 }
@@ -80,7 +78,6 @@ export function createLoggerChip(image: Uint8Array, options: { referenceV?: numb
 
   let readAnalog: (channel: number, cycle: number) => number = () => 0;
   let converting = false;
-  let conversions = 0;
 
   function prescaler(): number {
     const bits = cpu.data[adcsra] & 7;
@@ -97,7 +94,6 @@ export function createLoggerChip(image: Uint8Array, options: { referenceV?: numb
     const channel = cpu.data[admux] & 0x0f;
     const adcClock = prescaler();
     converting = true;
-    conversions++;
     let code = 0;
     const holdCycle = matchCycle + holdAdcClocks * adcClock;
     cpu.addClockEvent(() => {
@@ -171,7 +167,6 @@ export function createLoggerChip(image: Uint8Array, options: { referenceV?: numb
       for (let address = sramStart + staticDataBytes; address < sramStart + sramBytes && cpu.data[address] === stackPaint; address++) untouched++;
       return untouched;
     },
-    conversions: () => conversions,
   };
   return chip;
 }

@@ -31,7 +31,10 @@ export async function buildRecord(sources: RecordSources, sessionId: number, opt
     generatedAt: (options.now ?? new Date()).toISOString(),
     unit: { serial: detail.row.unit },
     design: { name: version.name, version: version.version, contentHash: version.contentHash },
-    session: { id: detail.row.id, operator: detail.row.operator, status: detail.row.status, startedAt: detail.row.startedAt, endedAt: detail.row.endedAt, notes: detail.notes, cycles: detail.row.cycles },
+    session: {
+      id: detail.row.id, operator: detail.row.operator, status: detail.row.status, outcome: detail.row.outcome, signOffReason: detail.row.signOffReason, signOffExceptions: detail.row.signOffExceptions,
+      startedAt: detail.row.startedAt, endedAt: detail.row.endedAt, notes: detail.notes, cycles: detail.row.cycles,
+    },
     checks,
     readings: recorded && recorded.length > 0 ? { source: 'recorded', rows: readingRowsFromSteps(recorded) } : { source: 'judged', rows: readingRowsFromChecks(checks) },
     fold: stored ? foldCapture(stored.block, { cycles: options.foldCycles }) : [],

@@ -3,6 +3,7 @@
  * sessions with the trend warning, and a board design's fleet against the board model's Monte Carlo prediction.
  * Each returns plain data plus its plot as an SVG string (app/record/plots.ts), ready for a screen or a page.
  */
+import type { SessionOutcome } from '../../app/contract/records';
 import type { BoardDesign } from '../../app/board/design';
 import { analyseTolerances } from '../../app/board/toleranceAnalysis';
 import { InputError, isInputError } from '../../app/errors';
@@ -101,6 +102,8 @@ export interface FleetReport {
   designName: string;
   designVersion: number;
   units: number;
+  /** How the units' latest sessions ended: a fleet of abandoned sessions reads differently from a signed one. */
+  outcomes: Record<SessionOutcome, number>;
   figures: Array<FleetFigure & { svg: string; marked: UnitInFleet | null }>;
   /** Each unit's latest session, the one its figures come from, with the bench that did it. */
   members: RecalledSession[];
@@ -135,6 +138,11 @@ export async function fleetReport(sources: RecordSources, designName: string, op
     if (figures?.alphaGainDegPerV !== null && figures?.alphaGainDegPerV !== undefined) gains.push(figures.alphaGainDegPerV);
     if (unit === options.unitSerial && figures) Object.assign(chosen, { rampPeakV: figures.rampPeakV, alphaGainDegPerV: figures.alphaGainDegPerV });
   }
+  const outcomes: Record<SessionOutcome, number> = { 'signed-off': 0, 'signed-off-with-exceptions': 0, closed: 0, interrupted: 0, open: 0 };
+  for (const { sessionId } of latest) {
+    const outcome = rows.get(sessionId)?.outcome;
+    if (outcome) outcomes[outcome] += 1;
+  }
   const tolerance = analyseTolerances(design, { runs: options.runs ?? 500, seed: options.seed ?? 1 });
   const nominalGain = designFigures(design).alphaGainDegPerV.nominal;
   const peakFigure = fleetFigure('rampPeakV', peaks, { nominal: tolerance.peakV.nominal, mean: tolerance.peakV.mean, standardDeviation: tolerance.peakV.standardDeviation }, options);
@@ -143,6 +151,7 @@ export async function fleetReport(sources: RecordSources, designName: string, op
     designName,
     designVersion: version.version,
     units: latest.length,
+    outcomes,
     members,
     figures: [peakFigure, gainFigure].map((figure) => {
       const value = chosen[figure.key];

@@ -1,4 +1,5 @@
 /** Recall reports (recall.ts) as HTML pages: comparison, drift and fleet, for the report command and the screens. */
+import { outcomeCounts } from '../../app/contract/records';
 import { benchSummary } from '../../app/record/benchSummary';
 import { localTimeText } from '../../app/record/localTime';
 import { formatReading } from '../../app/record/recordModel';
@@ -25,10 +26,16 @@ export function comparisonPage(report: ComparisonReport, options: { now?: Date }
   const section: RecallSection = {
     heading: `Unit ${comparison.a.unit}: session ${comparison.a.id} (${comparison.a.startedAt.slice(0, 10)}) against session ${comparison.b.id} (${comparison.b.startedAt.slice(0, 10)})`,
     warnings: report.flagged.length > 0 ? [`differences beyond the design tolerance: ${report.flagged.join(', ')}.`] : [],
-    paragraphs: report.flagged.length === 0 ? ['No difference goes beyond the design tolerance.'] : [],
+    paragraphs: [
+      ...(report.flagged.length === 0 ? ['No difference goes beyond the design tolerance.'] : []),
+      'Figures are as recorded at each step (the board as signed for, after any trim); those marked "whole session" are over every cycle, before and after a trim and through the whole sweep, and are not judged. A count is never judged.',
+    ],
     table: {
-      head: ['Reading', `Session ${comparison.a.id}`, `Session ${comparison.b.id}`, 'Difference', 'Beyond tolerance'],
-      rows: comparison.rows.map((row) => [row.label, number(row.a, row.unit), number(row.b, row.unit), number(row.difference, row.unit), row.beyondTolerance ? 'yes (flagged)' : 'no']),
+      head: ['Reading', 'Taken', `Session ${comparison.a.id}`, `Session ${comparison.b.id}`, 'Difference', 'Beyond tolerance'],
+      rows: comparison.rows.map((row) => [
+        row.label, row.scope === 'recorded' ? 'as recorded' : 'whole session', number(row.a, row.unit), number(row.b, row.unit), number(row.difference, row.unit),
+        !row.judged || row.difference === null ? 'not judged' : row.beyondTolerance ? 'yes (flagged)' : 'no',
+      ]),
       flaggedRows: comparison.rows.flatMap((row, index) => (row.beyondTolerance ? [index] : [])),
     },
     svgs: [report.transferSvg],
@@ -69,6 +76,7 @@ export function fleetPage(report: FleetReport, options: { now?: Date; timeZone?:
     heading: `${figure.label} over ${figure.values.length} units`,
     warnings: figure.outliers > 0 ? [`${figure.outliers} unit(s) lie beyond three standard deviations of the prediction.`] : [],
     paragraphs: [
+      `Each unit's latest session, as recorded at its steps; how they ended: ${outcomeCounts(report.outcomes)}.`,
       figure.prediction
         ? `Monte Carlo prediction of the board model (version ${report.designVersion}): mean ${number(figure.prediction.mean, figure.unit)}, standard deviation ${number(figure.prediction.standardDeviation, figure.unit)}, design ${number(figure.prediction.nominal, figure.unit)}.`
         : 'No prediction for this figure.',

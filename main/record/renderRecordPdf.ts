@@ -6,6 +6,8 @@
 import { PDFDocument, StandardFonts, type PDFFont, type PDFPage } from 'pdf-lib';
 import { foldFigure, transferFigure } from '../../app/record/plots';
 import { formatReading, linkEventCountText, linkHealthSentence, partMeasurementCells, recordLimitsNote, rowVerdictWords, trimCells, type CommissioningRecord } from '../../app/record/recordModel';
+import { outcomeWords } from '../../app/contract/records';
+import { outcomeStatement, type OutcomeStatement } from '../../app/record/outcomeStatement';
 import { drawFigure, hexColour } from './pdfFigure';
 import { wrapText } from './pdfText';
 
@@ -14,7 +16,8 @@ const margin = 40;
 const contentWidth = pageSize[0] - 2 * margin;
 export const digestKeywordPrefix = 'rampwright-captures-sha256:';
 
-const verdictInk = { 'in-tolerance': '#2f7d5b', marginal: '#9a5b00', 'out-of-tolerance': '#b02a2a' } as const;
+const verdictInk = { 'in-tolerance': '#2f7d5b', marginal: '#9a5b00', 'out-of-tolerance': '#b02a2a', 'not-measured': '#555555' } as const;
+const outcomeInk = { accepted: '#2f7d5b', excepted: '#b02a2a', 'not-certified': '#8a8f96' } as const;
 
 class PdfFlow {
   page: PDFPage;
@@ -75,6 +78,31 @@ class PdfFlow {
     for (const row of rows) draw(row, false);
     this.y -= 4;
   }
+  /** The outcome in a framed box with a thick left bar in the tone's ink (one page: the box is never split). */
+  outcomeBox(statement: OutcomeStatement): void {
+    const ink = outcomeInk[statement.tone];
+    const width = contentWidth - 24;
+    const blocks: Array<{ text: string; size: number; bold: boolean; indent: number }> = [
+      { text: statement.heading, size: 14, bold: true, indent: 0 },
+      ...statement.lines.map((text) => ({ text, size: 9.5, bold: false, indent: 0 })),
+      ...(statement.reason === null ? [] : [{ text: 'Reason written at sign-off:', size: 9.5, bold: true, indent: 0 }, { text: `"${statement.reason}"`, size: 10, bold: false, indent: 10 }]),
+      ...(statement.exceptions.length === 0 ? [] : [{ text: 'Exceptions:', size: 9.5, bold: true, indent: 0 }, ...statement.exceptions.map((text) => ({ text: `- ${text}`, size: 9.5, bold: false, indent: 10 }))]),
+    ];
+    const laid = blocks.map((block) => ({ ...block, lines: wrapText(block.text, (candidate) => (block.bold ? this.bold : this.font).widthOfTextAtSize(candidate, block.size), width - block.indent) }));
+    const height = laid.reduce((sum, block) => sum + block.lines.length * block.size * 1.35, 0) + 16;
+    this.ensure(height + 8);
+    const top = this.y - 4;
+    this.page.drawRectangle({ x: margin, y: top - height, width: contentWidth, height, borderColor: hexColour(ink), borderWidth: 1.6, color: hexColour(statement.tone === 'excepted' ? '#fbf1f0' : '#ffffff') });
+    this.page.drawRectangle({ x: margin, y: top - height, width: 7, height, color: hexColour(ink) });
+    let y = top - 8;
+    for (const block of laid) {
+      for (const line of block.lines) {
+        this.page.drawText(line, { x: margin + 16 + block.indent, y: y - block.size, size: block.size, font: block.bold ? this.bold : this.font, color: hexColour(block.bold && block.size > 10 ? ink : '#23262a') });
+        y -= block.size * 1.35;
+      }
+    }
+    this.y = top - height - 8;
+  }
   figure(figure: Parameters<typeof drawFigure>[1]): void {
     const height = (figure.heightPx * contentWidth) / figure.widthPx;
     this.ensure(height + 4);
@@ -82,11 +110,15 @@ class PdfFlow {
   }
 }
 
-/** A shape per verdict, so the PDF never relies on colour alone: disc (in tolerance), triangle (marginal), square with a cross (out). */
+/**
+ * A shape per verdict, so the PDF never relies on colour alone: disc (in tolerance), triangle (marginal), square
+ * with a cross (out), a short dash for "not measured yet" (no tick, no cross).
+ */
 function drawVerdictIcon(page: PDFPage, verdict: keyof typeof verdictInk, centreX: number, centreY: number): void {
   const colour = hexColour(verdictInk[verdict]);
   if (verdict === 'in-tolerance') page.drawCircle({ x: centreX, y: centreY, size: 3.2, color: colour });
   else if (verdict === 'marginal') page.drawSvgPath('M0 -3.8 L4 3.2 L-4 3.2 Z', { x: centreX, y: centreY, color: colour });
+  else if (verdict === 'not-measured') page.drawLine({ start: { x: centreX - 3.3, y: centreY }, end: { x: centreX + 3.3, y: centreY }, thickness: 1.2, color: colour });
   else {
     page.drawRectangle({ x: centreX - 3.3, y: centreY - 3.3, width: 6.6, height: 6.6, borderColor: colour, borderWidth: 1 });
     page.drawLine({ start: { x: centreX - 2.4, y: centreY - 2.4 }, end: { x: centreX + 2.4, y: centreY + 2.4 }, thickness: 1, color: colour });
@@ -110,12 +142,13 @@ export async function renderRecordPdf(record: CommissioningRecord): Promise<Uint
 
   flow.text('Commissioning record', { size: 20, bold: true });
   flow.text(`${record.unit.serial} - ${record.design.name} - ${when(record.session.startedAt)}`, { size: 10, colour: '#555555', gapAfter: 6 });
+  flow.outcomeBox(outcomeStatement(record.session));
   flow.heading('Unit and design');
   const identity: Array<[string, string]> = [
     ['Unit (serial number)', record.unit.serial],
     ['Board design', `${record.design.name}, version ${record.design.version}`],
     ['Design content hash', record.design.contentHash],
-    ['Session', `${record.session.id} (${record.session.status})`],
+    ['Session', `${record.session.id} (${outcomeWords[record.session.outcome].phrase})`],
     ['Operator', record.session.operator],
     ['Started / ended', `${when(record.session.startedAt)} / ${when(record.session.endedAt)}`],
     ['Cycles measured', String(record.session.cycles)],
@@ -142,7 +175,7 @@ export async function renderRecordPdf(record: CommissioningRecord): Promise<Uint
           { text: row.note },
         ];
       }),
-      recorded ? [0.09, 0.23, 0.11, 0.11, 0.14, 0.16, 0.16] : [0.3, 0.12, 0.12, 0.16, 0.17, 0.13],
+      recorded ? [0.12, 0.21, 0.1, 0.1, 0.13, 0.16, 0.18] : [0.3, 0.12, 0.12, 0.16, 0.17, 0.13],
     );
   }
 

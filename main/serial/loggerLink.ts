@@ -14,9 +14,12 @@ import { createLinkQueue } from './linkQueue';
 import { checkDevicePath, LinkError, linkErrorFromMessage } from './linkErrors';
 import { listPorts, sameUsbDevice, type PortInfo } from './listPorts';
 
+/** The reference logger's serial rate: 16 MHz / (8 x 2) with U2X, an exact 1 Mbaud (firmware/src/config.h). */
+export const defaultBaudRate = 1_000_000;
+
 export interface LoggerLinkOptions {
   path: string;
-  /** Default 921600; a USB CDC logger ignores it, a UART bridge needs it. */
+  /** Default 1 000 000, the reference firmware's (firmware/README.md); a USB CDC logger ignores it, a UART bridge needs it. */
   baudRate?: number;
   /** Longest line kept (bytes, terminator excluded); longer ones are cut and reported. Default 4096 (PROTOCOL.md). */
   maxLineBytes?: number;
@@ -107,7 +110,7 @@ async function identify(path: string): Promise<PortInfo | null> {
 }
 
 export async function openLoggerLink(options: LoggerLinkOptions): Promise<LoggerLink> {
-  const baudRate = options.baudRate ?? 921_600;
+  const baudRate = options.baudRate ?? defaultBaudRate;
   const maxLineBytes = options.maxLineBytes ?? 4096;
   const noDataTimeoutMs = options.noDataTimeoutMs ?? 3000;
   const reopenIntervalMs = options.reopenIntervalMs ?? 250;

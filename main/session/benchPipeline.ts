@@ -6,6 +6,7 @@
  * plus the transfer points and the alpha extremes since the last restart (a trim, a cleared curve).
  * Memory is bounded: the ring holds seconds, the analyzers keep constant-size statistics.
  */
+import { controlRangeOf, controlWithinRange, type ControlRange, type SweepExtent } from '../../app/board/controlRange';
 import type { BoardDesign } from '../../app/board/design';
 import { createCaptureAnalyzer, type CaptureAnalyzer } from '../../app/bench/captureAnalyzer';
 import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
@@ -38,11 +39,17 @@ export interface PipelineStep {
   greeting: LoggerGreeting | null;
 }
 
-export interface AlphaExtremes {
-  alphaMinDeg: number | null;
-  alphaMaxDeg: number | null;
+/**
+ * What the control sweep has covered since the last restart: the control voltage's extremes over every cycle, and
+ * alpha's extremes over the cycles fired inside the control range the design allows (app/board/controlRange.ts;
+ * every cycle when there is no control channel). Cycles fired below that range are counted, not judged.
+ */
+export interface AlphaExtremes extends SweepExtent {
   cycles: number;
+  cyclesBelowRange: number;
 }
+
+export const noExtremes: AlphaExtremes = { alphaMinDeg: null, alphaMaxDeg: null, controlMinV: null, controlMaxV: null, cycles: 0, cyclesBelowRange: 0 };
 
 export interface BenchPipeline {
   pushLines(lines: readonly string[]): PipelineStep;
@@ -89,7 +96,8 @@ export function createBenchPipeline(initialDesign: BoardDesign, options: BenchPi
   let lastWindow: CaptureReadings | null = null;
   let transfer = new TransferCurveAccumulator();
   let points: TransferPoint[] = [];
-  let extremes: AlphaExtremes = { alphaMinDeg: null, alphaMaxDeg: null, cycles: 0 };
+  let extremes: AlphaExtremes = noExtremes;
+  let controlRange: ControlRange = controlRangeOf(design);
   let pendingFolds: PendingFold[] = [];
   let cycleIndex = 0;
   let newestS = 0;
@@ -120,13 +128,23 @@ export function createBenchPipeline(initialDesign: BoardDesign, options: BenchPi
     pendingFolds = still.slice(-8);
   }
 
+  function addToExtremes(alphaDeg: number, controlV: number | null): void {
+    const lower = (was: number | null, value: number) => (was === null ? value : Math.min(was, value));
+    const higher = (was: number | null, value: number) => (was === null ? value : Math.max(was, value));
+    const counted = controlV === null || controlWithinRange(controlRange, controlV);
+    extremes = {
+      alphaMinDeg: counted ? lower(extremes.alphaMinDeg, alphaDeg) : extremes.alphaMinDeg,
+      alphaMaxDeg: counted ? higher(extremes.alphaMaxDeg, alphaDeg) : extremes.alphaMaxDeg,
+      controlMinV: controlV === null ? extremes.controlMinV : lower(extremes.controlMinV, controlV),
+      controlMaxV: controlV === null ? extremes.controlMaxV : higher(extremes.controlMaxV, controlV),
+      cycles: extremes.cycles + 1,
+      cyclesBelowRange: extremes.cyclesBelowRange + (counted ? 0 : 1),
+    };
+  }
+
   function addTransferPoint(cycle: CycleReading): void {
     if (cycle.alphaDeg === null) return;
-    extremes = {
-      alphaMinDeg: extremes.alphaMinDeg === null ? cycle.alphaDeg : Math.min(extremes.alphaMinDeg, cycle.alphaDeg),
-      alphaMaxDeg: extremes.alphaMaxDeg === null ? cycle.alphaDeg : Math.max(extremes.alphaMaxDeg, cycle.alphaDeg),
-      cycles: extremes.cycles + 1,
-    };
+    addToExtremes(cycle.alphaDeg, cycle.controlV);
     if (cycle.controlV === null) return;
     transfer.add(cycle.controlV, cycle.alphaDeg);
     points.push({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
@@ -158,7 +176,7 @@ export function createBenchPipeline(initialDesign: BoardDesign, options: BenchPi
     windowAnalyzer = createCaptureAnalyzer(analyzerOptions);
     windowStartS = null;
     lastWindow = null;
-    extremes = { alphaMinDeg: null, alphaMaxDeg: null, cycles: 0 };
+    extremes = noExtremes;
     if (!restart.keepTransfer) {
       transfer = new TransferCurveAccumulator();
       points = [];
@@ -204,6 +222,7 @@ export function createBenchPipeline(initialDesign: BoardDesign, options: BenchPi
     newestS: () => newestS,
     retarget(next) {
       design = next;
+      controlRange = controlRangeOf(design);
       analyzerOptions = { rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false };
       sessionAnalyzer = createCaptureAnalyzer(analyzerOptions);
       restartReadings();

@@ -8,7 +8,7 @@ import type { CycleReading } from '../../app/bench/readings';
 import { commissioningStepNames, type CommissioningStep, type OpenSession, type StepReport } from '../../app/contract';
 import type { LinkProblem } from '../../app/logger';
 import { linkEventKindOfProblem, type LogbookWriter } from '../store/logbookTypes';
-import type { BenchPipeline } from './benchPipeline';
+import { noExtremes, type BenchPipeline } from './benchPipeline';
 import type { KnownParts } from './knownParts';
 import { currentStepOf, recordStep, stepReports, type StepInputs } from './steps';
 
@@ -47,7 +47,7 @@ export function stepInputsOf(session: BenchSession | null, design: BoardDesign, 
     design: session?.design ?? design,
     window: pipeline?.lastWindow() ?? null,
     transferFit: pipeline?.transferFit() ?? null,
-    extremes: pipeline?.alphaExtremes() ?? { alphaMinDeg: null, alphaMaxDeg: null, cycles: 0 },
+    extremes: pipeline?.alphaExtremes() ?? noExtremes,
     recorded: session?.recorded ?? {},
     recheckNeeded: session?.recheckNeeded ?? false,
     trimsApplied: session?.trimsApplied ?? 0,
@@ -61,24 +61,30 @@ export function saveRecordedSteps(session: BenchSession): void {
   session.writer.setStepsJson(JSON.stringify(reports));
 }
 
-/** Records the live report of a step; null when it has nothing measured yet. */
-export function checkSessionStep(session: BenchSession, pipeline: BenchPipeline, step: CommissioningStep): StepReport | null {
+/**
+ * Records the live report of a step. Refused, with the reason in words, while the step has nothing measured or
+ * its checks lack their measurement.
+ */
+export function checkSessionStep(session: BenchSession, pipeline: BenchPipeline, step: CommissioningStep): { recorded: StepReport } | { refused: string } {
   const inputs = stepInputsOf(session, session.design, pipeline);
   const live = stepReports({ ...inputs, recorded: {}, recheckNeeded: false }).find((report) => report.step === step);
-  const recorded = live ? recordStep(live) : null;
-  if (!recorded) return null;
+  if (!live) throw new Error(`no live report for the ${step} step`);
+  const outcome = recordStep(live);
+  if ('refused' in outcome) return outcome;
+  const recorded = outcome.recorded;
   session.recorded[step] = recorded;
   if (step === 'ramp' && session.recheckNeeded) {
     session.recheckNeeded = false;
     // The re-checked ramp answers the trim step too: it now shows the result of the change.
     const trim = stepReports({ ...stepInputsOf(session, session.design, pipeline), recorded: {} }).find((report) => report.step === 'trim');
-    if (trim && trim.status !== 'waiting') session.recorded.trim = { ...trim, status: 'done' };
+    const trimOutcome = trim ? recordStep(trim) : null;
+    if (trimOutcome && 'recorded' in trimOutcome) session.recorded.trim = trimOutcome.recorded;
   }
   const window = pipeline.lastWindow();
   const fit = pipeline.transferFit();
   if (window) session.writer.setReadings({ ...window, transfer: fit ?? window.transfer });
   saveRecordedSteps(session);
-  return recorded;
+  return { recorded };
 }
 
 export function currentStep(session: BenchSession | null): CommissioningStep {

@@ -8,11 +8,10 @@
  *   short with no part to blame; the plan's first bias trim is fitted, the ramp re-checked, and the unit signed off.
  * Runs faster than real time (the virtual board is pumped, not paced).
  */
+import { controlRangeOf } from '../../app/board/controlRange';
 import { controlForAlpha } from '../../app/board/firingAngle';
-import { controlLimitsOf } from '../../app/board/controlDivider';
 import type { PartRole } from '../../app/board/design';
-import { predictRamp } from '../../app/board/rampModel';
-import { createBenchClient, type BenchClient, type SessionRow, type StepReport, type TrimPlanView, type TrimSuggestion } from '../../app/contract';
+import { BenchCallError, createBenchClient, type BenchClient, type CommissioningStep, type SessionRow, type SignOffGate, type StepReport, type TrimPlanView, type TrimSuggestion } from '../../app/contract';
 import type { BenchContext } from './benchContext';
 
 export interface DemoOptions {
@@ -43,6 +42,8 @@ export interface DemoReport {
   rampVerdictBefore: StepReport['verdict'];
   rampPeakAfterV: number | null;
   transferFit: { gainDegPerV: number; offsetDeg: number; points: number } | null;
+  /** The sign-off gate as the bench showed it before signing: with exceptions the demo closes without sign-off. */
+  signOffGate: SignOffGate;
   signalSeconds: number;
 }
 
@@ -67,7 +68,7 @@ export function inProcessClient(context: BenchContext): BenchClient {
   });
 }
 
-function peakOf(report: StepReport | undefined): number | null {
+function peakOf(report: StepReport | null | undefined): number | null {
   return report?.readings.find((reading) => reading.key === 'rampPeakV')?.value ?? null;
 }
 
@@ -94,9 +95,19 @@ export async function runCommissioningDemo(context: BenchContext, options: DemoO
   await client.connect({ kind: 'virtual', designName, faults, control: { mode: 'fixed', controlV: midControlV }, seed: 42 });
   run(settleS);
 
+  // A step the bench refuses to record (nothing measured yet) stays unrecorded: the sign-off gate then lists it.
+  const record = async (step: CommissioningStep): Promise<StepReport | null> => {
+    try {
+      return await client.checkStep({ step });
+    } catch (error) {
+      if (error instanceof BenchCallError && error.code === 'not-ready') return null;
+      throw error;
+    }
+  };
+
   // 1. sync, 2. ramp.
-  await client.checkStep({ step: 'sync' });
-  const rampBefore = await client.checkStep({ step: 'ramp' });
+  await record('sync');
+  const rampBefore = await record('ramp');
 
   // 3. trim: the plan; when it says a part is off, the technician measures that part first (on the virtual board
   // the meter reads the part actually fitted) and tells the plan, which then says to replace it.
@@ -116,26 +127,26 @@ export async function runCommissioningDemo(context: BenchContext, options: DemoO
       alsoChange: first.alsoChange ? { part: first.alsoChange.part, fromOhm: first.alsoChange.fromOhm, toOhm: first.alsoChange.toOhm } : null,
     });
     run(settleS);
-    await client.checkStep({ step: 'ramp' });
+    await record('ramp');
   }
-  await client.checkStep({ step: 'trim' });
+  await record('trim');
   const state = await client.benchState();
   const rampAfter = state.steps.find((step) => step.step === 'ramp');
 
-  // 4. transfer: sweep the control over the pot's range, floor to top; 5. limits from the same sweep.
-  const prediction = predictRamp(design);
-  const { controlMaxV } = controlLimitsOf(design, { prediction });
-  const fromV = prediction.floorV + 0.05 * (controlMaxV - prediction.floorV);
-  await client.setVirtualControl({ mode: 'sweep', fromV, toV: controlMaxV, periodS: sweepS });
+  // 4. transfer: sweep the control over the range the design allows; 5. limits from the same sweep.
+  const range = controlRangeOf(design);
+  await client.setVirtualControl({ mode: 'sweep', fromV: range.lowV, toV: range.highV, periodS: sweepS });
   await client.clearTransfer();
   run(sweepS + 0.5);
-  await client.checkStep({ step: 'transfer' });
-  await client.checkStep({ step: 'limits' });
+  await record('transfer');
+  await record('limits');
   const transfer = await client.transferPoints({});
   const finalState = await client.benchState();
 
-  // 6. sign-off.
-  const session = await client.signOff({ notes: 'commissioned on the virtual board' });
+  // 6. sign-off, through the gate: a step missing or failing is never signed off on the technician's behalf (no
+  // reason is ever written for them), so the demo then closes the session without sign-off and says why.
+  const notes = 'commissioned on the virtual board';
+  const session = finalState.signOffGate.clear ? await client.signOff({ notes }) : await client.stopSession({ notes });
   await client.disconnect();
   return {
     session,
@@ -147,9 +158,10 @@ export async function runCommissioningDemo(context: BenchContext, options: DemoO
     measuredParts,
     change: first,
     rampPeakBeforeV: peakOf(rampBefore),
-    rampVerdictBefore: rampBefore.verdict,
+    rampVerdictBefore: rampBefore?.verdict ?? 'not-measured',
     rampPeakAfterV: peakOf(rampAfter),
     transferFit: transfer.fit ? { gainDegPerV: transfer.fit.gainDegPerV, offsetDeg: transfer.fit.offsetDeg, points: transfer.fit.points } : null,
+    signOffGate: finalState.signOffGate,
     signalSeconds,
   };
 }

@@ -3,6 +3,7 @@
  * own, kept as `*.board.json` files in the data folder. Each distinct content gets a version from the logbook
  * (content-hashed there), so a session refers to the exact version it used.
  */
+import { canonicalJson } from '../store/canonicalJson';
 import { mkdirSync, readdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { boardDesignSchema, type BoardDesign } from '../../app/board/design';
@@ -14,7 +15,8 @@ import type { Logbook } from '../store/logbookTypes';
 export interface DesignCatalog {
   list(): Promise<DesignSummary[]>;
   get(name: string, version?: number): Promise<StoredDesign>;
-  save(design: BoardDesign): Promise<StoredDesign>;
+  /** Saves a new version; a design equal to a stored version of its name saves nothing (`saved` false). */
+  save(design: BoardDesign): Promise<StoredDesign & { saved: boolean }>;
   validate(input: unknown): { ok: boolean; problems: DesignProblem[] };
 }
 
@@ -103,6 +105,9 @@ export function createDesignCatalog(options: DesignCatalogOptions): DesignCatalo
     async save(design) {
       await load();
       const checked = parseBoardDesign(design, 'design');
+      // Nothing changed: the version it equals stays the latest word, and no file or version is written.
+      const same = [...(versions.get(checked.name)?.values() ?? [])].find((known) => canonicalJson(known.design) === canonicalJson(checked));
+      if (same) return { ...same, saved: false };
       const stored = await remember(checked);
       if (options.saveFolder) {
         mkdirSync(options.saveFolder, { recursive: true });
@@ -110,7 +115,7 @@ export function createDesignCatalog(options: DesignCatalogOptions): DesignCatalo
         writeFileSync(`${file}.tmp`, `${JSON.stringify(checked, null, 2)}\n`);
         renameSync(`${file}.tmp`, file);
       }
-      return stored;
+      return { ...stored, saved: true };
     },
     validate: validateDesignInput,
   };

@@ -17,6 +17,7 @@ export async function fleetView(context: ExportContext, designName: string, unit
     designName: report.designName,
     designVersion: report.designVersion,
     units: report.units,
+    outcomes: report.outcomes,
     figures: report.figures.map((figure) => ({
       key: figure.key,
       label: figure.label,

@@ -69,7 +69,7 @@ export function createLiveLink(source: LineSource, design: BoardDesign, options:
         droppedBlocks: decoder.blocksLost + decoder.loggerOverruns,
         droppedSamples: decoder.samplesLost,
         crcErrors: decoder.crcFailures,
-        badLines: decoder.garbageLines + decoder.oversizeLines + decoder.badDataLines + decoder.badGreetings + decoder.unknownVersions + decoder.dataBeforeGreeting,
+        badLines: decoder.garbageLines + decoder.oversizeLines + decoder.badDataLines + decoder.badGreetings + decoder.unknownVersions + decoder.dataBeforeGreeting + decoder.badEdgeLines,
         lastDataAgoMs: lastDataMs === null ? null : Math.max(0, nowMs - lastDataMs),
         message: message ?? decoder.lastProblem?.message ?? null,
       };

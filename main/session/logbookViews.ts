@@ -27,11 +27,11 @@ async function stepsOf(detail: StoredDetail, designs: DesignCatalog): Promise<St
     design: stored.design,
     window: readings,
     transferFit: fit,
-    extremes: { alphaMinDeg: readings.pulse.alphaMinDeg, alphaMaxDeg: readings.pulse.alphaMaxDeg, cycles: readings.firingIntervals },
+    extremes: { alphaMinDeg: readings.pulse.alphaMinDeg, alphaMaxDeg: readings.pulse.alphaMaxDeg, controlMinV: fit?.controlMinV ?? null, controlMaxV: fit?.controlMaxV ?? null, cycles: readings.firingIntervals, cyclesBelowRange: 0 },
     recorded: {},
     recheckNeeded: false,
     trimsApplied: detail.trims.length,
-    signedOff: detail.row.status === 'closed',
+    signedOff: detail.row.outcome === 'signed-off' || detail.row.outcome === 'signed-off-with-exceptions',
   };
   return stepReports(inputs).map((report) => ({ ...report, status: 'done' as const }));
 }
@@ -68,16 +68,18 @@ export async function compareView(logbook: Logbook, aId: number, bId: number): P
 
 export async function driftView(logbook: Logbook, unitSerial: string): Promise<{ unitSerial: string; points: DriftPoint[] }> {
   const drift = await logbook.unitDrift(unitSerial);
+  const outcomeOf = new Map((await logbook.listSessions({ unitSerial })).map((row) => [row.id, row.outcome]));
   return {
     unitSerial,
     points: drift.points.map((point) => ({
       sessionId: point.sessionId,
       startedAt: point.startedAt,
+      outcome: outcomeOf.get(point.sessionId) ?? 'open',
       rampPeakV: point.rampPeakV,
       slopeVPerMs: point.slopeVPerMs,
       alphaGainDegPerV: point.alphaGainDegPerV,
       alphaOffsetDeg: point.alphaOffsetDeg,
-      alphaStdDeg: point.alphaStdDeg,
+      alphaJitterDeg: point.alphaJitterDeg,
     })),
   };
 }

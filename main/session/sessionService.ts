@@ -4,8 +4,8 @@
  * store's writer, so the link never waits on the disk), and sends throttled live frames to the screens.
  */
 import type { BoardDesign } from '../../app/board/design';
-import { BenchFault, describeLinkSource, type BenchState, type EventData, type LinkHealth, type PortInfo, type TransferPoint } from '../../app/contract';
-import type { Logbook } from '../store/logbookTypes';
+import { BenchFault, commissioningStepNames, describeLinkSource, type BenchState, type SessionRow, type StepReport, type EventData, type LinkHealth, type PortInfo, type TransferPoint } from '../../app/contract';
+import type { Logbook, SessionSignOff } from '../store/logbookTypes';
 import { checkSessionStep, currentStep, recordMeasurements, saveRecordedSteps, stepInputsOf, type BenchSession } from './benchSession';
 import type { BenchPipelineOptions, PipelineStep } from './benchPipeline';
 import type { DesignCatalog } from './designCatalog';
@@ -17,6 +17,7 @@ import { createRecallHandlers } from './recallHandlers';
 import type { SharePusher } from '../share/sharePusher';
 import { createTrimHandlers, type CurrentLink } from './trimHandlers';
 import { stepReports } from './steps';
+import { normalisedReason, reasonProblem, signOffExceptionText, signOffGateOf } from '../../app/bench/signOffGate';
 import { createThrottle, systemClock, type ClockLike } from './throttle';
 import { createVirtualSource, type VirtualSource } from './virtualSource';
 import { createCaptureHandlers } from './captureHandlers';
@@ -74,6 +75,13 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
   let current: Current | null = null;
   let session: BenchSession | null = null;
   let held = false;
+  /** Counts state changes; live frames carry it so a screen can tell a frame from before a change (see the contract). */
+  let stateSerial = 0;
+  let lastSession: BenchState['lastSession'] = null;
+  /** Keeps the session just closed, with its steps as recorded, for the Bench screen's summary. */
+  const keepClosed = (closed: BenchSession, row: SessionRow): void => {
+    lastSession = { row, steps: commissioningStepNames.map((step) => closed.recorded[step]).filter((report): report is StepReport => report !== undefined) };
+  };
 
   const health = (): LinkHealth => current?.link.health() ?? disconnectedHealth();
   const stateOf = (): BenchState => {
@@ -86,9 +94,15 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       steps: design ? stepReports(stepInputsOf(session, design, current?.link.pipeline ?? null)) : [],
       currentStep: currentStep(session),
       recheckNeeded: session?.recheckNeeded ?? false,
+      signOffGate: signOffGateOf(session?.recorded ?? {}),
+      lastSession,
+      stateSerial,
     };
   };
-  const emitState = () => hub.emit('state', stateOf());
+  const emitState = () => {
+    stateSerial += 1;
+    hub.emit('state', stateOf());
+  };
 
   /** Transfer points since the last live frame: sent in one batch with it (also while the plot is held). */
   let pendingTransfer: TransferPoint[] = [];
@@ -100,7 +114,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       }
       if (!current || held) return;
       const inputs = stepInputsOf(session, session?.design ?? current.design, current.link.pipeline);
-      const frame: EventData<'live'> = { sessionId: session?.open.id ?? null, t: current.link.pipeline.newestS(), fold: current.link.pipeline.fold(), steps: stepReports(inputs), link: current.link.health() };
+      const frame: EventData<'live'> = { sessionId: session?.open.id ?? null, t: current.link.pipeline.newestS(), fold: current.link.pipeline.fold(), steps: stepReports(inputs), link: current.link.health(), stateSerial };
       hub.emit('live', frame);
     },
     options.liveIntervalMs ?? 50,
@@ -273,6 +287,7 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
         signedOff: false,
         knownParts: {},
       };
+      lastSession = null;
       followDesign(stored.design);
       if (current) writer.addLinkEvent('opened', `link to the ${describeLinkSource(current.link.source.description)} opened`);
       emitState();
@@ -282,9 +297,10 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       const open = requireSession();
       if (notes) open.writer.setNotes(notes);
       session = null;
-      const row = await open.writer.close('closed');
+      const row = sessionRowView(await open.writer.close('closed'));
+      keepClosed(open, row);
       emitState();
-      return sessionRowView(row);
+      return row;
     },
     benchState: async () => stateOf(),
     async setHold({ held: next }) {
@@ -309,26 +325,37 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
       const open = requireSession();
       if (step === 'sign-off') throw new BenchFault('input', 'sign off with the sign-off action, which also closes the session', 'step');
       const link = requireLink();
-      const recorded = checkSessionStep(open, link.link.pipeline, step);
-      if (!recorded) throw new BenchFault('not-ready', `nothing measured for the ${step} step yet: wait for readings`, 'step');
+      const outcome = checkSessionStep(open, link.link.pipeline, step);
+      if ('refused' in outcome) throw new BenchFault('not-ready', outcome.refused, 'step');
       await open.writer.flush();
       emitState();
-      return recorded;
+      return outcome.recorded;
     },
-    async signOff({ notes }) {
+    async signOff({ notes, exceptionsReason }) {
       const open = requireSession();
+      // The gate: every step recorded and within tolerance, or an explicit sign-off with exceptions and a reason.
+      const gate = signOffGateOf(open.recorded);
+      let signOff: SessionSignOff = { kind: 'signed-off' };
+      if (!gate.clear) {
+        const listed = gate.exceptions.map(signOffExceptionText).join('; ');
+        if (exceptionsReason === undefined) {
+          throw new BenchFault('not-ready', `sign-off refused: ${listed}. Record the missing steps, or sign off with exceptions and write why`, 'exceptionsReason');
+        }
+        const problem = reasonProblem(exceptionsReason);
+        if (problem) throw new BenchFault('input', `${problem}; the exceptions are: ${listed}`, 'exceptionsReason');
+        signOff = { kind: 'signed-off-with-exceptions', reason: normalisedReason(exceptionsReason), exceptions: gate.exceptions };
+      }
       open.signedOff = true;
       const inputs = stepInputsOf(open, open.design, current?.link.pipeline ?? null);
       const report = stepReports(inputs).find((step) => step.step === 'sign-off');
       if (report) open.recorded['sign-off'] = { ...report, status: 'done' };
       saveRecordedSteps(open);
-      const missing = (['sync', 'ramp', 'trim', 'transfer', 'limits'] as const).filter((step) => !open.recorded[step]);
-      const summary = missing.length === 0 ? 'signed off with every step recorded' : `signed off without ${missing.join(', ')}`;
-      open.writer.setNotes([notes, summary].filter(Boolean).join('\n'));
+      if (notes) open.writer.setNotes(notes);
       session = null;
-      const row = await open.writer.close('closed');
+      const row = sessionRowView(await open.writer.close('closed', signOff));
+      keepClosed(open, row);
       emitState();
-      return sessionRowView(row);
+      return row;
     },
     ...createCaptureHandlers({ uploads, designs }),
     ...createTrimHandlers({ logbook, designs, session: () => session, link: () => current, requireSession, requireLink, emitState }),

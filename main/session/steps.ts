@@ -1,17 +1,23 @@
 /**
  * The commissioning steps of NAMING.md as plain functions: which readings belong to which step, each judged
  * against the design by app/bench (judgeReadings), and the step's state (waiting for data, measuring, done).
+ * A step gives a verdict only once its own measurement exists; until then it is "not measured yet".
  * No transport, no timers: the session service calls these with what the pipeline has measured.
  */
-import type { BoardDesign } from '../../app/board/design';
-import { predictRamp } from '../../app/board/rampModel';
 import { controlLimitsOf } from '../../app/board/controlDivider';
+import { controlRangeOf } from '../../app/board/controlRange';
+import type { BoardDesign } from '../../app/board/design';
 import { alphaForControl } from '../../app/board/firingAngle';
-import { judgeReadings, type ReadingCheck } from '../../app/bench/judge';
+import { predictRamp } from '../../app/board/rampModel';
+import { judgeReadings } from '../../app/bench/judge';
 import type { CaptureReadings, TransferSummary } from '../../app/bench/readings';
-import { averageOutputV } from '../../app/power/rectifierOutput';
-import { commissioningStepNames, type CommissioningStep, type Reading, type StepReport, type Verdict } from '../../app/contract';
+import { signOffExceptionText, signOffGateOf, stepsBeforeSignOff } from '../../app/bench/signOffGate';
+import { commissioningStepNames, commissioningStepTitles, type CommissioningStep, type Reading, type StepReport } from '../../app/contract';
 import type { AlphaExtremes } from './benchPipeline';
+import { infoReading, pickChecks, stepReport } from './stepReadings';
+import { limitsStep, transferStep } from './sweepSteps';
+
+export { infoReading, readingFromCheck } from './stepReadings';
 
 export interface StepInputs {
   design: BoardDesign;
@@ -27,46 +33,6 @@ export interface StepInputs {
   signedOff: boolean;
 }
 
-const verdictRank: Record<Verdict, number> = { 'in-tolerance': 0, marginal: 1, 'out-of-tolerance': 2 };
-
-export function worstVerdict(verdicts: ReadonlyArray<Verdict | null>): Verdict | null {
-  let worst: Verdict | null = null;
-  for (const verdict of verdicts) if (verdict && (worst === null || verdictRank[verdict] > verdictRank[worst])) worst = verdict;
-  return worst;
-}
-
-/** A judged check as the screens show it: the band is the expected value plus or minus the tolerance, or a limit. */
-export function readingFromCheck(check: ReadingCheck): Reading {
-  const value = typeof check.measured === 'number' ? check.measured : null;
-  const expected = typeof check.expected === 'number' ? check.expected : null;
-  let low: number | null = null;
-  let high: number | null = null;
-  if (expected !== null && check.toleranceAbs !== null) {
-    if (check.limit === 'at-most') high = expected + check.toleranceAbs;
-    else if (check.limit === 'at-least') low = expected - check.toleranceAbs;
-    else {
-      low = expected - check.toleranceAbs;
-      high = expected + check.toleranceAbs;
-    }
-  }
-  let note = check.note;
-  if (typeof check.measured === 'boolean') note = check.note ?? (check.measured ? 'yes' : 'no');
-  return { key: check.key, label: check.label, unit: check.unit, value, expected, low, high, verdict: check.verdict, note };
-}
-
-/** A reading shown for information, without a verdict. */
-export function infoReading(key: string, label: string, unit: string, value: number | null, expected: number | null = null, note: string | null = null): Reading {
-  return { key, label, unit, value, expected, low: null, high: null, verdict: null, note };
-}
-
-function report(step: CommissioningStep, readings: Reading[], cycles: number, note: string | null, waiting: boolean): StepReport {
-  return { step, status: waiting ? 'waiting' : 'measuring', verdict: waiting ? null : worstVerdict(readings.map((reading) => reading.verdict)), readings, cycles, note };
-}
-
-function pick(checks: readonly ReadingCheck[], keys: readonly string[]): Reading[] {
-  return keys.flatMap((key) => checks.filter((check) => check.key === key).map(readingFromCheck));
-}
-
 /** Live reports of every step, before what `checkStep` recorded is laid over them. */
 export function measureSteps(inputs: StepInputs): Record<CommissioningStep, StepReport> {
   const { design, window } = inputs;
@@ -75,74 +41,45 @@ export function measureSteps(inputs: StepInputs): Record<CommissioningStep, Step
   const prediction = predictRamp(design);
   const windowChecks = window ? judgeReadings(window, design) : [];
 
-  const sync = report(
+  const sync = stepReport(
     'sync',
-    [...pick(windowChecks, ['frequencyHz']), infoReading('periodJitterUs', 'Period jitter', 'us', window?.periodJitterUs ?? null), infoReading('syncAmplitudeV', 'Sync amplitude', 'V', window?.syncAmplitudeV ?? null), infoReading('gaps', 'Gaps in the samples', '', window ? window.gaps : null)],
+    [...pickChecks(windowChecks, ['frequencyHz']), infoReading('periodJitterUs', 'Period jitter', 'us', window?.periodJitterUs ?? null), infoReading('syncAmplitudeV', 'Sync amplitude', 'V', window?.syncAmplitudeV ?? null), infoReading('gaps', 'Gaps in the samples', '', window ? window.gaps : null)],
     cycles,
     waiting ? 'waiting for sync zero crossings' : null,
     window === null || window.cycles === 0,
   );
 
   const rampReadings = [
-    ...pick(windowChecks, ['rampPeakV', 'rampStartDelayDeg', 'rampClipped', 'rampPeakBalanceV']),
+    ...pickChecks(windowChecks, ['rampPeakV', 'rampStartDelayDeg', 'rampClipped', 'rampPeakBalanceV']),
     infoReading('slopeVPerMs', 'Ramp slope', 'V/ms', window?.ramp.slopeVPerMs ?? null, prediction.slopeVPerS / 1000),
     infoReading('rampFloorV', 'Ramp floor', 'V', window?.ramp.floorV ?? null, prediction.floorV),
     infoReading('nonlinearityPct', 'Ramp nonlinearity', '%', window?.ramp.nonlinearityPct ?? null),
+    // Jitter only while the control is held: a window whose control moved has a transfer line, and its alpha spread
+    // is the sweep's, not jitter.
+    infoReading('alphaJitterDeg', 'Firing jitter at a held control', 'deg', window && window.transfer === null ? window.pulse.alphaStdDeg : null, null, window?.transfer ? 'the control is moving: no jitter reading while it does' : null),
   ];
-  const ramp = report('ramp', rampReadings, cycles, inputs.recheckNeeded ? 'a part was changed: check the ramp again' : null, waiting || window?.ramp.chargingIntervals === 0);
+  const ramp = stepReport('ramp', rampReadings, cycles, inputs.recheckNeeded ? 'a part was changed: check the ramp again' : null, waiting || window?.ramp.chargingIntervals === 0);
 
   const peak = rampReadings.find((reading) => reading.key === 'rampPeakV');
   const trimNeeded = peak?.verdict === 'out-of-tolerance' || peak?.verdict === 'marginal' || ramp.verdict === 'out-of-tolerance';
   const trimNote = waiting ? null : inputs.recheckNeeded ? 're-check the ramp after the change you fitted' : trimNeeded ? 'the ramp misses its target: open the trim plan' : 'the ramp is on target: no trim needed';
-  const trim = report('trim', [...(peak ? [{ ...peak, label: 'Ramp peak against its target' }] : []), infoReading('trimsApplied', 'Changes fitted this session', '', inputs.trimsApplied)], cycles, trimNote, waiting);
-  if (!waiting && inputs.recheckNeeded) trim.verdict = null;
+  const trim = stepReport('trim', [...(peak ? [{ ...peak, label: 'Ramp peak against its target' }] : []), infoReading('trimsApplied', 'Changes fitted this session', '', inputs.trimsApplied)], cycles, trimNote, waiting);
+  // After a fitted change the trim step waits for the ramp's re-check: the readings are of the changed board.
+  if (!waiting && inputs.recheckNeeded) trim.verdict = 'not-measured';
 
-  let transfer: StepReport;
-  if (inputs.transferFit && window) {
-    const checks = judgeReadings({ ...window, transfer: inputs.transferFit }, design);
-    transfer = report(
-      'transfer',
-      [
-        ...pick(checks, ['alphaAtControlLowDeg', 'alphaAtControlHighDeg']),
-        infoReading('gainDegPerV', 'Transfer gain', 'deg/V', inputs.transferFit.gainDegPerV),
-        infoReading('offsetDeg', 'Transfer offset', 'deg', inputs.transferFit.offsetDeg),
-        infoReading('maxDeviationDeg', 'Largest deviation from a line', 'deg', inputs.transferFit.maxDeviationDeg),
-        infoReading('controlMinV', 'Control swept from', 'V', inputs.transferFit.controlMinV),
-        infoReading('controlMaxV', 'Control swept to', 'V', inputs.transferFit.controlMaxV),
-      ],
-      inputs.transferFit.points,
-      null,
-      false,
-    );
-  } else {
-    transfer = report('transfer', pick(windowChecks, ['alphaDeg']), cycles, 'sweep the control voltage over its range to record the transfer curve', true);
-  }
+  const range = controlRangeOf(design, { prediction });
+  const transfer = transferStep(design, window, inputs.transferFit, range);
+  const limits = limitsStep(design, window, inputs.extremes, range);
 
-  let limitChecks: ReadingCheck[] = [];
-  if (window) {
-    const swept = inputs.extremes.cycles > 0 ? { alphaMinDeg: inputs.extremes.alphaMinDeg, alphaMaxDeg: inputs.extremes.alphaMaxDeg } : {};
-    limitChecks = judgeReadings({ ...window, pulse: { ...window.pulse, ...swept } }, design);
-  }
-  const limits = report(
-    'limits',
-    [...pick(limitChecks, ['alphaMaxDeg', 'alphaMinDeg', 'alphaBalanceDeg', 'pulseWidthUs', 'pulseLatchUs', 'wrongHalfCyclePulses', 'missingPulses', 'multiplePulses']), ...loadReadings(design, limitChecks)],
-    cycles,
-    waiting ? null : 'turn the control to both ends so the largest and smallest alpha are seen',
-    waiting,
-  );
-
-  const earlier = [sync, ramp, trim, transfer, limits];
-  const signOff = report(
-    'sign-off',
-    earlier.map((step) => {
-      const shown = inputs.recorded[step.step] ?? step;
-      return { key: `${step.step}Verdict`, label: `Step: ${step.step}`, unit: '', value: null, expected: null, low: null, high: null, verdict: shown.verdict, note: inputs.recorded[step.step] ? 'recorded' : 'not recorded yet' };
-    }),
-    cycles,
-    inputs.signedOff ? 'signed off' : null,
-    false,
-  );
-  return { sync, ramp, trim, transfer, limits, 'sign-off': signOff };
+  const earlier = { sync, ramp, trim, transfer, limits };
+  const gate = signOffGateOf(inputs.recorded);
+  const signOffReadings: Reading[] = stepsBeforeSignOff.map((step) => {
+    const recorded = inputs.recorded[step];
+    return { key: `${step}Verdict`, label: commissioningStepTitles[step], unit: '', value: null, expected: null, low: null, high: null, verdict: recorded?.verdict ?? 'not-measured', note: recorded ? 'recorded' : 'not recorded' };
+  });
+  const gateNote = inputs.signedOff ? 'signed off' : gate.clear ? 'every step is recorded and within tolerance: ready to sign off' : `to sign off now needs a written reason for: ${gate.exceptions.map(signOffExceptionText).join('; ')}`;
+  const signOff = stepReport('sign-off', signOffReadings, cycles, gateNote, false);
+  return { ...earlier, 'sign-off': signOff };
 }
 
 /** What the screens see: recorded steps stay done, except the ramp and trim after a part was changed. */
@@ -163,10 +100,18 @@ export function currentStepOf(inputs: Pick<StepInputs, 'recorded' | 'recheckNeed
   return commissioningStepNames.find((step) => !inputs.recorded[step]) ?? 'sign-off';
 }
 
-/** The recorded form of a step: its live report marked done. Refused while there is nothing to record. */
-export function recordStep(live: StepReport): StepReport | null {
-  if (live.status === 'waiting') return null;
-  return { ...live, status: 'done' };
+/**
+ * The recorded form of a step: its live report marked done. Refused, with the reason in words, while the step has
+ * nothing to record or its checks lack their measurement (a step is never recorded before it was measured).
+ */
+export function recordStep(live: StepReport): { recorded: StepReport } | { refused: string } {
+  const title = commissioningStepTitles[live.step].toLowerCase();
+  if (live.status === 'waiting') return { refused: `nothing measured for the step "${title}" yet: wait for readings${live.note ? ` (${live.note})` : ''}` };
+  if (live.verdict === 'not-measured') {
+    const missing = live.readings.filter((reading) => reading.verdict === 'not-measured').map((reading) => reading.label);
+    return { refused: `the step "${title}" is not measured yet${missing.length > 0 ? ` (${missing.join(', ')})` : ''}${live.note ? `: ${live.note}` : ''}` };
+  }
+  return { recorded: { ...live, status: 'done' } };
 }
 
 /** The design's transfer curve from the board model, over the control pot's range (for drawing the ideal line). */
@@ -180,23 +125,4 @@ export function idealTransfer(design: BoardDesign, points = 40): Array<{ t: numb
     if (alphaDeg !== null) line.push({ t: 0, controlV, alphaDeg });
   }
   return line;
-}
-
-/**
- * What the measured alpha range means at the load, when the design names it: the average load voltage at the
- * smallest and largest alpha (resistive load, app/power/rectifierOutput.ts), for information.
- */
-function loadReadings(design: BoardDesign, limitChecks: readonly ReadingCheck[]): Reading[] {
-  const load = design.load;
-  if (!load) return [];
-  const measured = (key: string): number | null => {
-    const value = limitChecks.find((check) => check.key === key)?.measured;
-    return typeof value === 'number' ? value : null;
-  };
-  const outputAt = (alphaDeg: number | null): number | null => (alphaDeg === null ? null : averageOutputV(design.rectifier, load.mainsRmsV, alphaDeg));
-  const note = load.henry > 0 ? 'resistive-load formula; an inductive load conducting past the zero crossing gives less' : null;
-  return [
-    infoReading('loadAtAlphaMinV', 'Average load voltage at the smallest alpha', 'V', outputAt(measured('alphaMinDeg')), outputAt(design.alphaMinDeg), note),
-    infoReading('loadAtAlphaMaxV', 'Average load voltage at the largest alpha', 'V', outputAt(measured('alphaMaxDeg')), outputAt(design.alphaMaxDeg), note),
-  ];
 }

@@ -2,6 +2,7 @@
  * The trim and transfer calls of the session service: the trim plan from the last window's ramp, "I fitted this"
  * (recorded, fitted to the virtual board, re-check asked for), and the transfer curve so far.
  */
+import { controlRangeOf } from '../../app/board/controlRange';
 import type { BoardDesign } from '../../app/board/design';
 import { formatOhm } from '../../app/board/formatValues';
 import { checkMeasuredParts } from '../../app/board/measuredParts';
@@ -34,6 +35,11 @@ export interface TrimHandlerContext {
   emitState(): void;
 }
 
+function rangeView(design: BoardDesign): { lowV: number; highV: number; alphaAtLowDeg: number | null; alphaAtHighDeg: number | null } {
+  const { lowV, highV, alphaAtLowDeg, alphaAtHighDeg } = controlRangeOf(design);
+  return { lowV, highV, alphaAtLowDeg, alphaAtHighDeg };
+}
+
 export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandlers, 'trimPlan' | 'applyTrim' | 'transferPoints' | 'clearTransfer'> {
   const { logbook, designs, requireSession, requireLink, emitState } = context;
   return {
@@ -62,6 +68,8 @@ export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandl
         if (!(name in design.parts) || name === 'cRamp') throw new BenchFault('input', `"${name}" is not a resistor position of the design ${design.name}`, field);
         return name as ResistorRole;
       };
+      // "I fitted this" once per plan: the next change is planned from the ramp as the last one left it.
+      if (open.recheckNeeded) throw new BenchFault('not-ready', 'a change was already recorded and the ramp not checked since: record the ramp step again, then plan the next change from the ramp as it is', 'part');
       const virtual = context.link()?.virtual;
       let recorded: { part: string; fromValue: number; toValue: number; method: string };
       let second: { role: ResistorRole; fromOhm: number; toOhm: number } | null = null;
@@ -116,10 +124,10 @@ export function createTrimHandlers(context: TrimHandlerContext): Pick<BenchHandl
         const detail = await logbook.session(sessionId);
         if (!detail) throw new BenchFault('not-found', `there is no session ${sessionId} in the logbook`, 'sessionId');
         const stored = await designs.get(detail.row.designName, detail.row.designVersion).catch(() => null);
-        return { points: detail.transfer.points, fit: detail.transfer.fit, ideal: stored ? idealTransfer(stored.design) : [] };
+        return { points: detail.transfer.points, fit: detail.transfer.fit, ideal: stored ? idealTransfer(stored.design) : [], controlRange: stored ? rangeView(stored.design) : null };
       }
       const pipeline = requireLink().link.pipeline;
-      return { points: pipeline.transferPoints(), fit: pipeline.transferFit(), ideal: design ? idealTransfer(design) : [] };
+      return { points: pipeline.transferPoints(), fit: pipeline.transferFit(), ideal: design ? idealTransfer(design) : [], controlRange: design ? rangeView(design) : null };
     },
     async clearTransfer() {
       const pipeline = requireLink().link.pipeline;

@@ -4,13 +4,17 @@
  * with other content is a conflict, because a finished session never changes; otherwise the session is new.
  */
 import { InputError } from '../../app/errors';
+import { archiveContentHash } from './canonicalJson';
 import type { ArchiveImportRequest } from './logbookTypes';
 
 export type ImportDecision = { kind: 'present'; sessionId: number } | { kind: 'insert' };
 
 /** `candidates`: the finished sessions of the archive's unit that started at the same instant, with their hashes. */
 export function decideImport(request: ArchiveImportRequest, candidates: ReadonlyArray<{ sessionId: number; contentSha256: string }>): ImportDecision {
-  const same = candidates.find((candidate) => candidate.contentSha256 === request.contentSha256);
+  // The archive's own hash, or that of its session as this logbook keeps it: an archive written before sign-offs
+  // were kept arrives classified (sessionArchive.ts withLegacySignOff), as the upgraded logbook holds the same session.
+  const sameContent = new Set([request.contentSha256, archiveContentHash(request.session)]);
+  const same = candidates.find((candidate) => sameContent.has(candidate.contentSha256));
   if (same) return { kind: 'present', sessionId: same.sessionId };
   if (candidates.length > 0) {
     const { serial } = request.session.unit;

@@ -21,6 +21,7 @@ function* table(name: string, columns: readonly string[], sessionId: number, ord
 export function* readArchiveSession(sessionId: number): SqlProgram<ArchiveSessionContent> {
   const head = yield* get<Row>(
     `SELECT s.operator, s.started_at_ms, s.ended_at_ms, s.status, s.notes, s.readings_json, s.steps_json, s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v, s.bench,
+       s.sign_off, s.sign_off_reason, s.sign_off_exceptions_json,
        u.serial, u.design_name, u.created_at_ms AS unit_created_at_ms, d.name AS design_name_version, d.content_hash, d.design_json, d.saved_at_ms
      FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id WHERE s.id = ?`,
     [sessionId],
@@ -46,6 +47,11 @@ export function* readArchiveSession(sessionId: number): SqlProgram<ArchiveSessio
       rampPeakMedianV: (head.ramp_peak_median_v as number | null) ?? null,
       ...(head.steps_json === null || head.steps_json === undefined ? {} : { stepsJson: String(head.steps_json) }),
       ...(head.bench === null || head.bench === undefined ? {} : { bench: String(head.bench) }),
+      // Only when signed off: a session closed without sign-off (or exported before sign-offs were kept) hashes as before.
+      ...(head.sign_off === null || head.sign_off === undefined ? {} : { signOff: head.sign_off as 'signed-off' | 'signed-off-with-exceptions' }),
+      ...(head.sign_off_reason === null || head.sign_off_reason === undefined ? {} : { signOffReason: String(head.sign_off_reason) }),
+      // Written compact, whichever store wrote it (PostgreSQL's jsonb text has spaces), so both hash it alike.
+      ...(head.sign_off_exceptions_json === null || head.sign_off_exceptions_json === undefined ? {} : { signOffExceptionsJson: compactJson(String(head.sign_off_exceptions_json)) }),
     },
     cycles: yield* table('cycles', archiveColumns.cycles, sessionId, 'seq'),
     transferPoints: yield* table('transfer_points', archiveColumns.transferPoints, sessionId, 'seq'),
@@ -79,6 +85,15 @@ function* insertTable(name: string, sessionId: number, section: { columns: strin
   yield* insertRows(name, sessionId, section.columns, section.rows.map((row) => row.map(fromArchiveCell)));
 }
 
+/** JSON text without white space between tokens; text that does not parse is kept as it is. */
+function compactJson(text: string): string {
+  try {
+    return JSON.stringify(JSON.parse(text));
+  } catch {
+    return text;
+  }
+}
+
 /** Finished sessions of a unit that started at that instant: the candidates an imported session may already be. */
 function* sessionsOfUnitAt(serial: string, startedAtMs: number): SqlProgram<Array<{ id: number; contentSha256: string | null }>> {
   return yield* all<{ id: number; contentSha256: string | null }>(
@@ -95,9 +110,13 @@ function* insertArchiveSession(session: ArchiveSession, captureData: readonly Ui
   const record = session.record;
   // Inserted open, its rows added, then given its status: a shared logbook refuses rows for a finished session.
   const inserted = yield* get<{ id: number }>(
-    `INSERT INTO sessions (unit_id, design_id, operator, started_at_ms, ended_at_ms, status, notes, readings_json, steps_json, cycle_count, alpha_mean_deg, ramp_peak_median_v, bench, content_sha256)
-     VALUES (?, ?, ?, ?, ?, 'open', ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id`,
-    [unitId, design.id, record.operator, record.startedAtMs, record.endedAtMs, record.notes, record.readingsJson, record.stepsJson ?? null, record.cycleCount, record.alphaMeanDeg, record.rampPeakMedianV, record.bench ?? null, contentSha256],
+    `INSERT INTO sessions (unit_id, design_id, operator, started_at_ms, ended_at_ms, status, notes, readings_json, steps_json, cycle_count, alpha_mean_deg, ramp_peak_median_v, bench, content_sha256,
+       sign_off, sign_off_reason, sign_off_exceptions_json)
+     VALUES (?, ?, ?, ?, ?, 'open', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id`,
+    [
+      unitId, design.id, record.operator, record.startedAtMs, record.endedAtMs, record.notes, record.readingsJson, record.stepsJson ?? null, record.cycleCount, record.alphaMeanDeg, record.rampPeakMedianV, record.bench ?? null, contentSha256,
+      record.signOff ?? null, record.signOffReason ?? null, record.signOffExceptionsJson ?? null,
+    ],
   );
   const sessionId = (inserted as { id: number }).id;
   yield* insertTable('cycles', sessionId, session.cycles);
@@ -125,5 +144,7 @@ export function* importArchive(request: ArchiveImportRequest): SqlProgram<Archiv
   }
   const decision = decideImport(request, candidates);
   if (decision.kind === 'present') return { sessionId: decision.sessionId, contentSha256, imported: false };
-  return { sessionId: yield* insertArchiveSession(session, captureData, contentSha256), contentSha256, imported: true };
+  // Kept with the hash of the session as stored: an archive from before sign-offs were kept arrives classified
+  // (sessionArchive.ts withLegacySignOff), as the bench that recorded it holds the same session once upgraded.
+  return { sessionId: yield* insertArchiveSession(session, captureData, archiveContentHash(session)), contentSha256, imported: true };
 }

@@ -11,9 +11,19 @@ import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
 import type { BoardDesign } from '../../app/board/design';
 import type { SampleBlock, SignalRole } from '../../app/capture/samples';
 import type { LinkProblemCode } from '../../app/logger';
+import type { SessionOutcome, SignOffException } from '../../app/contract/records';
+import type { RecordedFigures } from './recordedFigures';
 import type { ArchiveSession } from '../../app/exchange/archiveSchema';
 
 export type SessionStatus = 'open' | 'closed' | 'interrupted';
+
+/** How a session ended (app/contract/records.ts): its status, or for a closed one whether and how it was signed off. */
+export type { SessionOutcome, SignOffException } from '../../app/contract/records';
+
+/** What `close` records with a sign-off (app/bench/signOffGate.ts decides which kind). */
+export type SessionSignOff =
+  | { kind: 'signed-off' }
+  | { kind: 'signed-off-with-exceptions'; reason: string; exceptions: SignOffException[] };
 
 export interface DesignVersion {
   id: number;
@@ -49,13 +59,26 @@ export interface SessionRow {
   designVersion: number;
   operator: string;
   status: SessionStatus;
+  /** The status, or for a closed session whether it was signed off, plainly or with exceptions. */
+  outcome: SessionOutcome;
+  /** The written reason of a sign-off with exceptions; null otherwise. */
+  signOffReason: string | null;
+  /** The steps excepted at sign-off; empty unless signed off with exceptions. */
+  signOffExceptions: SignOffException[];
   startedAt: string;
   endedAt: string | null;
+  /** Cycles measured over the whole session: a count, judged by nothing. */
   cycles: number;
-  /** Mean firing angle over the session's cycles (the analysis' `pulse.alphaDeg`). */
-  alphaDeg: number | null;
-  /** Median per-cycle ramp peak (the analysis' `ramp.peakV`). */
+  /** Ramp peak as recorded at the ramp step (after any trim, re-checked): recordedFigures.ts. */
   rampPeakV: number | null;
+  /** Smallest and largest alpha as recorded at the limits step. */
+  alphaMinDeg: number | null;
+  alphaMaxDeg: number | null;
+  /**
+   * Over every cycle of the session, before and after a trim and through a whole sweep: the median per-cycle ramp
+   * peak (the analysis' `ramp.peakV`) and the mean firing angle. Not the board as signed for; labelled so.
+   */
+  wholeSession: { rampPeakMedianV: number | null; alphaMeanDeg: number | null };
   /** Sum of the counts of link events that mean something went wrong (see linkErrorKinds). */
   linkErrors: number;
   /** Seconds the logger sent nothing (the `link-silent` rows), 0 for a link that never went quiet. */
@@ -213,27 +236,41 @@ export interface SessionFilter {
   to?: string;
 }
 
-/** The figures a unit's sessions are compared and trended by. */
-export interface SessionFigures {
+/**
+ * The figures a unit's sessions are compared, trended and placed in a fleet by: as recorded at each step (the board
+ * as signed for, recordedFigures.ts), and apart from them the whole session's figures, labelled as such.
+ */
+export interface SessionFigures extends RecordedFigures {
   sessionId: number;
   startedAt: string;
+  /** Cycles measured over the whole session: a count. */
   cycles: number;
-  rampPeakV: number | null;
-  slopeVPerMs: number | null;
-  alphaDeg: number | null;
-  alphaStdDeg: number | null;
-  alphaGainDegPerV: number | null;
-  alphaOffsetDeg: number | null;
+  wholeSession: WholeSessionFigures;
+}
+
+/** Over every cycle of a session (before and after a trim, a whole control sweep included). */
+export interface WholeSessionFigures {
+  /** Median of the per-cycle ramp peaks. */
+  rampPeakMedianV: number | null;
+  /** Mean of the per-cycle slopes. */
+  slopeMeanVPerMs: number | null;
+  alphaMeanDeg: number | null;
+  /** Sample standard deviation of alpha over the session: the spread of a control sweep, not firing jitter. */
+  alphaSpreadDeg: number | null;
 }
 
 export interface ComparisonRow {
-  key: keyof Omit<SessionFigures, 'sessionId' | 'startedAt'>;
+  key: string;
   label: string;
   unit: string;
+  /** 'recorded': as recorded at the steps; 'whole-session': over every cycle, labelled so on screen. */
+  scope: 'recorded' | 'whole-session';
   a: number | null;
   b: number | null;
   difference: number | null;
-  /** True when |b - a| exceeds the tolerance of the design version session a used (null tolerance: never). */
+  /** True when the design gives this figure a tolerance, so a difference can be judged; counts never are. */
+  judged: boolean;
+  /** True when |b - a| exceeds the tolerance of the design version session a used (never when not judged). */
   beyondTolerance: boolean;
 }
 
@@ -319,11 +356,12 @@ export interface LogbookWriter {
   /** Writes everything queued now. */
   flush(): Promise<void>;
   /**
-   * Writes everything queued, then ends the session with this status (default 'closed'). After a write failure
-   * (stats().writeFailure) what is queued is given up, and the session is ended with `note` added to its notes
-   * (why it stopped), using the space the writer kept in reserve.
+   * Writes everything queued, then ends the session with this status (default 'closed'); a sign-off goes with a
+   * closed session only, in the same transaction as its end. After a write failure (stats().writeFailure) what is
+   * queued is given up, and the session is ended with `note` added to its notes (why it stopped), using the space
+   * the writer kept in reserve.
    */
-  close(status?: Exclude<SessionStatus, 'open'>, options?: { note?: string }): Promise<SessionRow>;
+  close(status?: Exclude<SessionStatus, 'open'>, signOff?: SessionSignOff, options?: { note?: string }): Promise<SessionRow>;
 }
 
 /** A finished session in the archive's shape (app/exchange/ARCHIVE.md): rows without local ids, captures' stored bytes. */

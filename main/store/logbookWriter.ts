@@ -14,8 +14,8 @@ import type { SampleBlock } from '../../app/capture/samples';
 import { captureEncoding, encodeCapture } from './captureCodec';
 import { insertRows } from './exchangeRows';
 import type { SessionWriterOptions } from './logbookOverEngine';
-import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
-import { storeSessionSummary } from './sessionSummary';
+import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionSignOff, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
+import { storeSessionSummary, storeSignOff } from './sessionSummary';
 import type { SpaceReserve } from './spaceReserve';
 import { get, run, type SqlProgram, type SqlValue } from './sqlProgram';
 import type { StorageFault } from './storageFaults';
@@ -101,8 +101,9 @@ function* writeBatch(sessionId: number, batch: readonly QueueItem[], firstSeq: {
   yield* run('UPDATE sessions SET heartbeat_at_ms = ? WHERE id = ?', [stamp, sessionId]);
 }
 
-/** Ends the session: its summary, and a note of why it stopped added to its notes. */
-function* endSession(sessionId: number, status: Exclude<SessionStatus, 'open'>, note: string | null): SqlProgram<void> {
+/** Ends the session: its sign-off if any, its summary, and a note of why it stopped added to its notes. */
+function* endSession(sessionId: number, status: Exclude<SessionStatus, 'open'>, signOff: SessionSignOff | null, note: string | null): SqlProgram<void> {
+  if (signOff) yield* storeSignOff(sessionId, signOff);
   yield* storeSessionSummary(sessionId, status, Date.now());
   if (note !== null) {
     yield* run("UPDATE sessions SET notes = CASE WHEN notes IS NULL OR notes = '' THEN ? ELSE notes || ? END WHERE id = ?", [note, `\n${note}`, sessionId]);
@@ -195,8 +196,9 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
     setNotes: (notes) => enqueue({ kind: 'notes', notes }),
     stats: () => ({ ...stats, queued: queue.length + (refused?.items.length ?? 0) }),
     flush: flushAll,
-    async close(status: Exclude<SessionStatus, 'open'> = 'closed', closeOptions: { note?: string } = {}) {
+    async close(status: Exclude<SessionStatus, 'open'> = 'closed', signOff?: SessionSignOff, closeOptions: { note?: string } = {}) {
       if (closed) return options.readRow(sessionId);
+      if (signOff && status !== 'closed') throw new Error(`a sign-off ends a session as closed, not ${status}`);
       // A storage fault (disk full...) ends the flushing: what the store refused stays unwritten.
       const flushUnlessFaulted = async (): Promise<void> => {
         if (stats.writeFailure !== null) return;
@@ -216,7 +218,8 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
         options.reserve?.release();
       }
       try {
-        await options.write(endSession(sessionId, status, closeOptions.note ?? null));
+        // The sign-off and the end in one write, the sign-off first: a finished session is never changed after.
+        await options.write(endSession(sessionId, status, signOff ?? null, closeOptions.note ?? null));
       } catch (error) {
         const fault = options.faultOf?.(error) ?? null;
         if (!fault) throw error;

@@ -4,7 +4,8 @@
  */
 import { InputError } from '../../app/errors';
 import { driftTrend } from './driftTrend';
-import type { ComparisonRow, SessionComparison, SessionFigures, UnitDrift } from './logbookTypes';
+import { comparisonRows } from './comparisonRows';
+import type { SessionComparison, SessionFigures, UnitDrift } from './logbookTypes';
 import { readSessionRow, transferCurve } from './sessionQueries';
 import { sessionFigures } from './sessionSummary';
 import { parseStoredDesign } from './storedContent';
@@ -17,23 +18,10 @@ export function* compareSessions(aId: number, bId: number, location: string): Sq
   const b = (yield* sessionFigures(bId)) as SessionFigures;
   const designJson = ((yield* get<{ json: string }>('SELECT d.design_json AS "json" FROM sessions s JOIN board_designs d ON d.id = s.design_id WHERE s.id = ?', [aId])) as { json: string }).json;
   const design = parseStoredDesign(designJson, `${location}: session ${aId}`);
-  const rampToleranceV = (design.tolerances.rampPeakPct / 100) * design.rampTargetV;
-  const row = (key: ComparisonRow['key'], label: string, unit: string, toleranceAbs: number | null): ComparisonRow => {
-    const difference = a[key] !== null && b[key] !== null ? (b[key] as number) - (a[key] as number) : null;
-    return { key, label, unit, a: a[key], b: b[key], difference, beyondTolerance: toleranceAbs !== null && difference !== null && Math.abs(difference) > toleranceAbs };
-  };
   return {
     a: rowA,
     b: rowB,
-    rows: [
-      row('rampPeakV', 'Ramp peak', 'V', rampToleranceV),
-      row('slopeVPerMs', 'Ramp slope', 'V/ms', null),
-      row('alphaDeg', 'Firing angle (mean)', 'deg', design.tolerances.alphaDeg),
-      row('alphaStdDeg', 'Firing jitter', 'deg', null),
-      row('alphaGainDegPerV', 'Alpha gain', 'deg/V', null),
-      row('alphaOffsetDeg', 'Alpha offset', 'deg', design.tolerances.alphaDeg),
-      row('cycles', 'Cycles', '', null),
-    ],
+    rows: comparisonRows(a, b, design),
     transferA: yield* transferCurve(aId),
     transferB: yield* transferCurve(bId),
   };

@@ -144,6 +144,45 @@ export const migrations: readonly string[] = [
     PRIMARY KEY (session_id, target)
   );
   `,
+  // 4: how a closed session ended. `sign_off` is null for a session closed without sign-off; a signed-off session
+  // says whether every step was recorded and within tolerance ('signed-off') or not ('signed-off-with-exceptions',
+  // with the technician's written reason and the steps excepted, JSON of the contract's SignOffException[]).
+  // Sessions signed off before this schema (their recorded steps include the sign-off step) are classified from
+  // their recorded steps: any step missing, unmeasured or out of tolerance makes them "with exceptions", with a
+  // reason saying that no reason was asked for then. Nothing already stored changes; an arrived session so classified
+  // forgets its archive hash (its content now holds the sign-off), so it is hashed from its rows again. Mirrored in
+  // postgres/pgSchema.ts.
+  `
+  ALTER TABLE sessions ADD COLUMN sign_off TEXT CHECK (sign_off IN ('signed-off', 'signed-off-with-exceptions'));
+  ALTER TABLE sessions ADD COLUMN sign_off_reason TEXT;
+  ALTER TABLE sessions ADD COLUMN sign_off_exceptions_json TEXT;
+  CREATE TEMP TABLE signed_before (id INTEGER PRIMARY KEY, exceptions TEXT NOT NULL);
+  INSERT INTO signed_before (id, exceptions)
+    SELECT s.id,
+      (SELECT json_group_array(json_object(
+          'step', wanted.step,
+          'problem', CASE WHEN got.value IS NULL THEN 'not-recorded'
+                          WHEN json_extract(got.value, '$.verdict') IS NULL OR json_extract(got.value, '$.verdict') = 'not-measured' THEN 'not-measured'
+                          ELSE 'out-of-tolerance' END,
+          'readings', json(coalesce((SELECT json_group_array(json_extract(reading.value, '$.label')) FROM json_each(json_extract(got.value, '$.readings')) AS reading
+                       WHERE json_extract(reading.value, '$.verdict') = 'out-of-tolerance'), '[]'))))
+       FROM (SELECT 'sync' AS step, 1 AS n UNION ALL SELECT 'ramp', 2 UNION ALL SELECT 'trim', 3 UNION ALL SELECT 'transfer', 4 UNION ALL SELECT 'limits', 5) AS wanted
+       LEFT JOIN json_each(s.steps_json) AS got ON json_extract(got.value, '$.step') = wanted.step
+       WHERE got.value IS NULL OR coalesce(json_extract(got.value, '$.verdict'), '') NOT IN ('in-tolerance', 'marginal')
+       ORDER BY wanted.n)
+    FROM sessions s
+    WHERE s.status = 'closed' AND json_valid(s.steps_json)
+      AND EXISTS (SELECT 1 FROM json_each(s.steps_json) AS step WHERE json_extract(step.value, '$.step') = 'sign-off');
+  UPDATE sessions SET
+    sign_off = CASE WHEN (SELECT json_array_length(exceptions) FROM signed_before b WHERE b.id = sessions.id) = 0 THEN 'signed-off' ELSE 'signed-off-with-exceptions' END,
+    sign_off_reason = CASE WHEN (SELECT json_array_length(exceptions) FROM signed_before b WHERE b.id = sessions.id) = 0 THEN NULL
+      ELSE 'No reason was written: this session was signed off before Rampwright checked the steps at sign-off; the exceptions were found from its recorded steps when the logbook was upgraded.' END,
+    sign_off_exceptions_json = CASE WHEN (SELECT json_array_length(exceptions) FROM signed_before b WHERE b.id = sessions.id) = 0 THEN NULL
+      ELSE (SELECT exceptions FROM signed_before b WHERE b.id = sessions.id) END,
+    content_sha256 = NULL
+  WHERE id IN (SELECT id FROM signed_before);
+  DROP TABLE signed_before;
+  `,
 ];
 
 export const latestSchemaVersion = migrations.length;

@@ -2,11 +2,14 @@
  * Reading sessions: rows with their figures, a session's detail, its transfer curve, thinned cycles and stored
  * captures, the units. Query programs (sqlProgram.ts): the same SQL on SQLite and PostgreSQL.
  */
+import { z } from 'zod';
 import type { SignalRole } from '../../app/capture/samples';
+import { signOffExceptionSchema, type SignOffException } from '../../app/contract/records';
 import { InputError } from '../../app/errors';
 import { decodeCapture } from './captureCodec';
 import type { CaptureInfo, CycleRecord, LinkEventKind, SessionDetail, SessionFilter, SessionRow, StoredCapture, TransferPointRecord, UnitRecord } from './logbookTypes';
 import { linkErrorKinds } from './logbookTypes';
+import { recordedFiguresOf } from './recordedFigures';
 import { computeSessionTotals, transferFit } from './sessionSummary';
 import { parseStoredReadings } from './storedContent';
 import { all, get, type SqlProgram, type SqlValue } from './sqlProgram';
@@ -35,6 +38,11 @@ interface SessionJoinRow {
   linkSilentMs: number;
   bench: string | null;
   sharedAtMs: number | null;
+  signOff: 'signed-off' | 'signed-off-with-exceptions' | null;
+  signOffReason: string | null;
+  signOffExceptionsJson: string | null;
+  stepsJson: string | null;
+  readingsJson: string | null;
 }
 
 const errorKindsSql = linkErrorKinds.map((kind) => `'${kind}'`).join(', ');
@@ -42,6 +50,8 @@ const sessionSelect = `
   SELECT s.id, u.serial AS "unit", d.name AS "designName", d.version AS "designVersion", s.operator, s.status,
     s.started_at_ms AS "startedAtMs", s.ended_at_ms AS "endedAtMs", s.cycle_count AS "cycleCount",
     s.alpha_mean_deg AS "alphaMean", s.ramp_peak_median_v AS "rampPeakMedian", s.bench,
+    s.sign_off AS "signOff", s.sign_off_reason AS "signOffReason", s.sign_off_exceptions_json AS "signOffExceptionsJson",
+    s.steps_json AS "stepsJson", s.readings_json AS "readingsJson",
     (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind IN (${errorKindsSql})) AS "linkErrors",
     (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind = 'link-silent') AS "linkSilentMs",
     (SELECT max(shared_at_ms) FROM shared_copies c WHERE c.session_id = s.id) AS "sharedAtMs"
@@ -50,12 +60,30 @@ const sessionSelect = `
 function* toRow(row: SessionJoinRow): SqlProgram<SessionRow> {
   // Ended sessions carry cached totals; an open one is counted now.
   const totals = row.cycleCount === null ? yield* computeSessionTotals(row.id) : { cycles: row.cycleCount, alphaDeg: row.alphaMean, rampPeakV: row.rampPeakMedian };
+  // The row's figures are the board as recorded at its steps; the whole session's are kept apart.
+  const recorded = recordedFiguresOf(row);
   return {
     id: row.id, unit: row.unit, designName: row.designName, designVersion: row.designVersion, operator: row.operator, status: row.status,
+    outcome: row.status === 'closed' && row.signOff !== null ? row.signOff : row.status,
+    signOffReason: row.signOffReason, signOffExceptions: parseSignOffExceptions(row.signOffExceptionsJson),
     startedAt: iso(row.startedAtMs), endedAt: row.endedAtMs === null ? null : iso(row.endedAtMs),
-    cycles: totals.cycles, alphaDeg: totals.alphaDeg, rampPeakV: totals.rampPeakV, linkErrors: row.linkErrors, linkSilentS: Number(row.linkSilentMs) / 1000,
+    cycles: totals.cycles, rampPeakV: recorded.rampPeakV, alphaMinDeg: recorded.alphaMinDeg, alphaMaxDeg: recorded.alphaMaxDeg,
+    wholeSession: { rampPeakMedianV: totals.rampPeakV, alphaMeanDeg: totals.alphaDeg }, linkErrors: row.linkErrors, linkSilentS: Number(row.linkSilentMs) / 1000,
     bench: row.bench, sharedAt: row.sharedAtMs === null ? null : iso(row.sharedAtMs),
   };
+}
+
+/** The stored exceptions of a sign-off; a list that does not read (a foreign edit) is kept as one line saying so. */
+function parseSignOffExceptions(json: string | null): SignOffException[] {
+  if (json === null) return [];
+  let stored: unknown;
+  try {
+    stored = JSON.parse(json);
+  } catch {
+    stored = null;
+  }
+  const parsed = z.array(signOffExceptionSchema).safeParse(stored);
+  return parsed.success ? parsed.data : [{ step: 'sign-off', problem: 'not-recorded', readings: [`the stored list of exceptions does not read: ${json.slice(0, 200)}`] }];
 }
 
 export function* findSessionRow(id: number): SqlProgram<SessionRow | null> {

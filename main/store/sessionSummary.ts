@@ -5,7 +5,8 @@
  * alpha the mean; alpha gain and offset are the least-squares line of alpha against control voltage.
  * Query programs (sqlProgram.ts): the same SQL on SQLite and PostgreSQL.
  */
-import type { SessionFigures, SessionStatus, TransferFitRecord } from './logbookTypes';
+import type { SessionFigures, SessionSignOff, SessionStatus, TransferFitRecord } from './logbookTypes';
+import { recordedFiguresOf } from './recordedFigures';
 import { get, run, all, type SqlProgram } from './sqlProgram';
 
 export interface SessionTotals {
@@ -40,6 +41,18 @@ export function* storeSessionSummary(sessionId: number, status: Exclude<SessionS
   );
 }
 
+/**
+ * A closed session's sign-off: plain, or with the written reason and the steps excepted (schema migration 4).
+ * Written while the session is still open, before `storeSessionSummary` ends it: a shared logbook never changes a
+ * finished session (postgres/pgSchema.ts).
+ */
+export function* storeSignOff(sessionId: number, signOff: SessionSignOff): SqlProgram<void> {
+  const excepted = signOff.kind === 'signed-off-with-exceptions';
+  yield* run('UPDATE sessions SET sign_off = ?, sign_off_reason = ?, sign_off_exceptions_json = ? WHERE id = ?', [
+    signOff.kind, excepted ? signOff.reason : null, excepted ? JSON.stringify(signOff.exceptions) : null, sessionId,
+  ]);
+}
+
 interface LineSums {
   n: number;
   sx: number | null;
@@ -59,10 +72,12 @@ function lineFromSums(sums: LineSums): { gain: number; offset: number } | null {
   return { gain, offset: (sums.sy - gain * sums.sx) / sums.n };
 }
 
-/** Transfer fit of a session's transfer points; falls back to its cycles' (control V, alpha) pairs when it has none. */
-export function* transferFit(sessionId: number): SqlProgram<TransferFitRecord | null> {
-  const hasPoints = (yield* get('SELECT 1 AS "one" FROM transfer_points WHERE session_id = ? LIMIT 1', [sessionId])) !== undefined;
-  const table = hasPoints ? 'transfer_points' : 'cycles';
+/**
+ * Least-squares line of a session's transfer points, which are only recorded during the sweep steps (the settled
+ * board, benchSession.ts); null without them. `wholeSession` takes every cycle's (control, alpha) pair instead.
+ */
+export function* transferFit(sessionId: number, options: { wholeSession?: boolean } = {}): SqlProgram<TransferFitRecord | null> {
+  const table = options.wholeSession ? 'cycles' : 'transfer_points';
   const where = `session_id = ? AND control_v IS NOT NULL AND alpha_deg IS NOT NULL`;
   const sums = yield* get<LineSums>(
     `SELECT count(*) AS "n", sum(control_v) AS "sx", sum(alpha_deg) AS "sy", sum(control_v * control_v) AS "sxx",
@@ -76,29 +91,33 @@ export function* transferFit(sessionId: number): SqlProgram<TransferFitRecord | 
 }
 
 export function* sessionFigures(sessionId: number): SqlProgram<SessionFigures | null> {
-  const session = yield* get<{ startedAtMs: number }>('SELECT started_at_ms AS "startedAtMs" FROM sessions WHERE id = ?', [sessionId]);
+  const session = yield* get<{ startedAtMs: number; stepsJson: string | null; readingsJson: string | null }>(
+    'SELECT started_at_ms AS "startedAtMs", steps_json AS "stepsJson", readings_json AS "readingsJson" FROM sessions WHERE id = ?',
+    [sessionId],
+  );
   if (!session) return null;
   const row = (yield* get<{ cycles: number; slope: number | null; alpha: number | null; alphaCount: number; alphaSquares: number | null }>(
     `SELECT count(*) AS "cycles", avg(slope_v_per_ms) AS "slope", avg(alpha_deg) AS "alpha", count(alpha_deg) AS "alphaCount",
        sum(alpha_deg * alpha_deg) AS "alphaSquares" FROM cycles WHERE session_id = ?`,
     [sessionId],
   )) as { cycles: number; slope: number | null; alpha: number | null; alphaCount: number; alphaSquares: number | null };
-  // Sample standard deviation (n - 1), from the sums.
-  let alphaStdDeg: number | null = null;
+  // Sample standard deviation (n - 1), from the sums: over a session this is a sweep's spread, not jitter.
+  let alphaSpreadDeg: number | null = null;
   if (row.alpha !== null && row.alphaSquares !== null && row.alphaCount > 1) {
     const variance = (row.alphaSquares - row.alphaCount * row.alpha * row.alpha) / (row.alphaCount - 1);
-    alphaStdDeg = Math.sqrt(Math.max(0, variance));
+    alphaSpreadDeg = Math.sqrt(Math.max(0, variance));
   }
-  const fit = yield* transferFit(sessionId);
+  const recorded = recordedFiguresOf(session);
+  // The transfer line as recorded: the transfer step's, else (sessions from before steps were kept) the line through
+  // the transfer points, which are of the settled board too.
+  const fit = recorded.alphaGainDegPerV === null ? yield* transferFit(sessionId) : null;
   return {
     sessionId,
     startedAt: new Date(session.startedAtMs).toISOString(),
     cycles: row.cycles,
-    rampPeakV: yield* medianRampPeak(sessionId),
-    slopeVPerMs: row.slope,
-    alphaDeg: row.alpha,
-    alphaStdDeg,
-    alphaGainDegPerV: fit ? fit.gainDegPerV : null,
-    alphaOffsetDeg: fit ? fit.offsetDeg : null,
+    ...recorded,
+    alphaGainDegPerV: recorded.alphaGainDegPerV ?? fit?.gainDegPerV ?? null,
+    alphaOffsetDeg: recorded.alphaOffsetDeg ?? fit?.offsetDeg ?? null,
+    wholeSession: { rampPeakMedianV: yield* medianRampPeak(sessionId), slopeMeanVPerMs: row.slope, alphaMeanDeg: row.alpha, alphaSpreadDeg },
   };
 }

@@ -3,7 +3,7 @@ import type { Verdict } from '../../app/contract/readings';
 import { verdictView } from '../shaping/verdictView';
 import { h } from './h';
 
-export function verdictBadge(verdict: Verdict | null | undefined, pendingText?: string): HTMLElement {
+export function verdictBadge(verdict: Verdict): HTMLElement {
   const view = verdictView(verdict);
-  return h('span', { class: `verdict ${view.className}`, 'data-verdict': view.className }, h('span', { class: 'icon', 'aria-hidden': 'true' }, view.icon), verdict ? view.text : (pendingText ?? view.text));
+  return h('span', { class: `verdict ${view.className}`, 'data-verdict': view.className }, h('span', { class: 'icon', 'aria-hidden': 'true' }, view.icon), view.text);
 }

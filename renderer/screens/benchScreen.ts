@@ -3,15 +3,20 @@
  * length, the cycle fold, link health, and the Hold / Keep capture actions.
  */
 import type { LiveFrame } from '../../app/contract/bench-events';
+import { BenchCallError } from '../../app/contract/errors';
+import { commissioningStepTitles as stepTitles, describeLinkSource, type CommissioningStep, type LinkHealth } from '../../app/contract/readings';
+import { outcomeWords, type SessionRow, type SignOffException } from '../../app/contract/records';
+import { verdictWords } from '../../app/contract/verdicts';
 import type { CaptureProgress } from '../../app/contract/captureImport';
-import { describeLinkSource, type CommissioningStep, type LinkHealth } from '../../app/contract/readings';
 import { CycleFoldChart, type RampTarget } from '../charts/cycleFoldChart';
 import { h, fill } from '../dom/h';
 import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
 import { designText, mergeSteps, pickReading } from '../shaping/stepView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
+import { askExceptionsReason, confirmDecision } from './benchDialogs';
 import { BenchSetup } from './benchSetup';
+import { LastSessionPanel } from './lastSessionPanel';
 import { StepList } from './stepList';
 
 const bigReadingKeys: readonly { title: string; keys: string[] }[] = [
@@ -42,6 +47,9 @@ export class BenchScreen implements Screen {
   private readonly keepButton = h('button', { class: 'secondary', type: 'button', 'data-testid': 'keep-capture' }, 'Keep capture');
   private readonly stopButton = h('button', { class: 'secondary', type: 'button', 'data-testid': 'stop-session' }, 'Close session without sign-off');
   private readonly sessionArea: HTMLElement;
+  private readonly stepsSection: HTMLElement;
+  private readonly lastSession: LastSessionPanel;
+  private readonly noSession = h('section', { class: 'panel muted', 'data-testid': 'no-session-steps' }, 'No session open: the commissioning steps and their verdicts appear once a session is started for a unit.');
   private lastFrame: LiveFrame | null = null;
   /** Readings text is redrawn a few times a second, the fold every frame: numbers that flicker cannot be read. */
   private lastTextRenderMs = 0;
@@ -56,17 +64,15 @@ export class BenchScreen implements Screen {
     });
     this.holdButton.addEventListener('click', () => this.toggleHold());
     this.keepButton.addEventListener('click', () => this.keepCapture());
-    this.stopButton.addEventListener('click', () => void runAction(context, this.stopButton, async () => {
-      await context.client.stopSession({});
-      await context.store.refresh();
-      context.notices.show('info', 'Session closed without sign-off; it is in the logbook.');
-    }));
+    this.stopButton.addEventListener('click', () => void this.closeWithoutSignOff());
+    this.lastSession = new LastSessionPanel(context);
+    this.stepsSection = h('section', { 'aria-label': 'Commissioning steps' }, this.steps.element);
     const plot = h('div', { class: 'plot' }, this.canvas);
     this.fold = new CycleFoldChart(this.canvas);
     this.sessionArea = h(
       'div',
       { class: 'bench' },
-      h('section', { 'aria-label': 'Commissioning steps' }, this.steps.element),
+      h('div', { class: 'stack' }, this.stepsSection, this.lastSession.element, this.noSession),
       h(
         'div',
         { class: 'bench-main' },
@@ -139,16 +145,73 @@ export class BenchScreen implements Screen {
   }
 
   private async check(step: CommissioningStep, button: HTMLButtonElement): Promise<void> {
+    if (step === 'sign-off') {
+      await this.signOff(button);
+      return;
+    }
     await runAction(this.context, button, async () => {
-      if (step === 'sign-off') {
-        const row = await this.context.client.signOff({});
-        this.context.notices.show('info', `Unit ${row.unit} signed off; session ${row.id} is in the logbook.`);
-      } else {
-        const report = await this.context.client.checkStep({ step });
-        const words = report.verdict === 'in-tolerance' ? 'in tolerance' : report.verdict === 'marginal' ? 'marginal' : report.verdict === 'out-of-tolerance' ? 'out of tolerance' : 'recorded';
-        this.context.notices.show(report.verdict === 'out-of-tolerance' ? 'warning' : 'info', `${step[0].toUpperCase()}${step.slice(1)} recorded: ${words}.`);
-      }
+      const report = await this.context.client.checkStep({ step });
+      this.context.notices.show(report.verdict === 'out-of-tolerance' ? 'warning' : 'info', `${stepTitles[step]}: recorded, ${verdictWords[report.verdict].phrase}.`);
       await this.context.store.refresh();
+      // On to the step the bench suggests next (the first not recorded), so the next Record button is at hand.
+      const next = this.context.store.state?.currentStep;
+      if (next && next !== step) this.context.store.selectStep(next);
+    });
+  }
+
+  /**
+   * Sign off through the service's gate: a plain sign-off when every step is recorded and within tolerance; when it
+   * refuses, the exceptions it listed and the choice to sign off with them and a written reason.
+   */
+  private async signOff(button: HTMLButtonElement): Promise<void> {
+    button.disabled = true;
+    try {
+      // The service's gate as it stands now; the service applies it again at the call, whatever this screen shows.
+      await this.context.store.refresh();
+      const gate = this.context.store.state?.signOffGate;
+      let row: SessionRow | null;
+      try {
+        row = gate && !gate.clear ? await this.signOffWithExceptions(gate.exceptions, 'sign-off refused') : await this.context.client.signOff({});
+      } catch (error) {
+        // Refused after all (a step changed in between): the same choice, with the service's own list.
+        if (!(error instanceof BenchCallError && error.code === 'not-ready' && error.where === 'exceptionsReason')) throw error;
+        await this.context.store.refresh();
+        row = await this.signOffWithExceptions(this.context.store.state?.signOffGate.exceptions ?? [], error.message);
+      }
+      if (row === null) {
+        this.context.notices.show('warning', 'Not signed off: the session stays open.');
+        return;
+      }
+      this.context.notices.show(row.outcome === 'signed-off' ? 'info' : 'warning', `Unit ${row.unit} ${outcomeWords[row.outcome].phrase}; session ${row.id} is in the logbook.`);
+      await this.context.store.refresh();
+    } catch (error) {
+      this.context.notices.fromError(error);
+    } finally {
+      button.disabled = false;
+    }
+  }
+
+  /** The refusal with its exceptions, and the sign-off with them once a reason is written; null when the technician goes back. */
+  private async signOffWithExceptions(exceptions: readonly SignOffException[], refusal: string): Promise<SessionRow | null> {
+    const reason = await askExceptionsReason(exceptions, refusal);
+    return reason === null ? null : this.context.client.signOff({ exceptionsReason: reason });
+  }
+
+  private async closeWithoutSignOff(): Promise<void> {
+    const session = this.context.store.state?.session;
+    if (!session) return;
+    const sure = await confirmDecision({
+      title: 'Close without sign-off?',
+      text: `Session ${session.id} of unit ${session.unitSerial} ends as "closed without sign-off": its readings stay in the logbook, but the unit is not signed off and its record says so.`,
+      confirm: 'Close without sign-off',
+      cancel: 'Keep the session open',
+      testId: 'confirm-close',
+    });
+    if (!sure) return;
+    await runAction(this.context, this.stopButton, async () => {
+      await this.context.client.stopSession({});
+      await this.context.store.refresh();
+      this.context.notices.show('info', 'Session closed without sign-off; it is in the logbook.');
     });
   }
 
@@ -198,6 +261,10 @@ export class BenchScreen implements Screen {
     this.heldBadge.hidden = !held;
     this.keepButton.disabled = !session;
     this.stopButton.hidden = !session;
+    // Steps and their verdicts belong to an open session; without one the last session's record stands there.
+    this.stepsSection.hidden = !session;
+    this.lastSession.render(session ? null : (state?.lastSession ?? null));
+    this.noSession.hidden = session !== null || (state?.lastSession ?? null) !== null;
     this.renderSteps();
     this.renderBigReadings();
     if (this.context.store.health) this.renderLink(this.context.store.health);
@@ -215,12 +282,13 @@ export class BenchScreen implements Screen {
 
   private renderSteps(): void {
     const state = this.context.store.state;
-    const rows = mergeSteps(state?.steps ?? [], this.lastFrame?.steps ?? []);
+    const rows = mergeSteps(state?.steps ?? [], this.context.store.liveSteps());
     this.steps.render(rows, this.context.store.selectedStep, !!state?.session, state?.recheckNeeded ?? false);
   }
 
   private renderBigReadings(): void {
     const steps = this.lastFrame?.steps ?? this.context.store.state?.steps ?? [];
+    const sessionOpen = !!this.context.store.state?.session;
     fill(
       this.bigReadings,
       bigReadingKeys.map(({ title, keys }) => {
@@ -236,7 +304,7 @@ export class BenchScreen implements Screen {
           { class: 'big-reading', 'data-testid': `big-${keys[0]}` },
           h('div', { class: 'label' }, title),
           h('div', { class: 'value' }, reading ? format(reading.value) : '–'),
-          h('div', { class: 'design' }, reading ? verdictBadge(reading.verdict, 'No verdict') : null, ' ', reading ? designText(reading, format) ?? '' : 'waiting for signal'),
+          h('div', { class: 'design' }, sessionOpen && reading?.verdict ? verdictBadge(reading.verdict) : null, ' ', !sessionOpen && reading ? 'live, no session open: not judged' : reading ? designText(reading, format) ?? (reading.verdict === null ? 'for information' : '') : 'waiting for signal'),
         );
       }),
     );

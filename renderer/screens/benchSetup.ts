@@ -27,10 +27,11 @@ const virtualFaults: readonly { id: string; label: string }[] = [
   ...boardFaultNames.map((id) => ({ id, label: faultLabels[id] })),
 ];
 
-function field(label: string, control: HTMLElement, hint?: string): HTMLElement {
+function field(label: string, control: HTMLElement, hint?: string, width: 'normal' | 'wide' | 'full' = 'normal'): HTMLElement {
   const id = uniqueId('setup');
   control.id = id;
-  return h('label', { class: 'field', for: id }, label, control, hint ? h('span', { class: 'muted' }, hint) : null);
+  // Choices with long names (a design and its version, a port with its maker) get two columns, so they show whole.
+  return h('label', { class: width === 'normal' ? 'field' : `field ${width}`, for: id }, label, control, hint ? h('span', { class: 'muted' }, hint) : null);
 }
 
 export class BenchSetup {
@@ -53,7 +54,7 @@ export class BenchSetup {
     const form = h(
       'form',
       { class: 'stack', 'aria-label': 'Start a session', onsubmit: (event: Event) => { event.preventDefault(); void this.start(); } },
-      h('div', { class: 'form-grid wide-fields' }, field('Board design', this.designSelect), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect)),
+      h('div', { class: 'form-grid wide-fields setup-fields' }, field('Board design', this.designSelect, undefined, 'wide'), field('Unit serial number', this.serialInput), field('Operator', this.operatorInput), field('Signals from', this.sourceSelect, undefined, 'full')),
       this.faultField,
       this.capture.element,
       this.problem,
@@ -71,11 +72,16 @@ export class BenchSetup {
     const link = this.context.store.health;
     const linkUp = link !== null && link.source !== null && (link.state === 'streaming' || link.state === 'connecting' || link.state === 'stalled');
     const current = linkUp && link.source ? describeLinkSource(link.source) : '';
+    // A port on a USB-serial bridge loggers are built on is offered first (before the virtual board): it is most
+    // likely the logger plugged in for this session.
+    const portOption = (port: (typeof ports.ports)[number]): HTMLElement =>
+      h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.loggerBridge ? ` (${port.loggerBridge})` : port.manufacturer ? ` (${port.manufacturer})` : ''}`);
     fill(
       this.sourceSelect,
       linkUp ? h('option', { value: 'keep' }, `The link as it is (${current})`) : null,
+      ports.ports.filter((port) => port.loggerBridge).map(portOption),
       h('option', { value: 'virtual' }, 'Virtual board (no hardware)'),
-      ports.ports.map((port) => h('option', { value: `serial:${port.path}` }, `Logger on ${port.path}${port.manufacturer ? ` (${port.manufacturer})` : ''}`)),
+      ports.ports.filter((port) => !port.loggerBridge).map(portOption),
       h('option', { value: 'capture' }, 'A capture file (CSV or COMTRADE)'),
     );
     if (previousSource && [...this.sourceSelect.options].some((option) => option.value === previousSource)) this.sourceSelect.value = previousSource;

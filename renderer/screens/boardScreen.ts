@@ -126,11 +126,16 @@ export class BoardScreen implements Screen {
     for (const button of this.list.querySelectorAll<HTMLButtonElement>('button[data-design]')) button.setAttribute('aria-current', String(button.dataset.design === name));
     for (const { input, field } of this.inputs.values()) input.value = fieldValueText(this.draft, field);
     this.formStatus.textContent = `Editing ${stored.summary.name}, version ${stored.summary.version}.`;
+    // The sizing calculator follows the design: a result worked out for another design must not be applied here.
+    this.clearSizing();
+    this.sizingTarget.value = '';
     this.validate();
   }
 
   private onEdit(field: DesignField, input: HTMLInputElement | HTMLSelectElement): void {
     setFieldText(this.draft, field, input.value);
+    // A sizing result was worked out with the divider and capacitor as they were: any other change makes it stale.
+    if (field.path !== 'parts.rEmitter.ohm') this.clearSizing();
     // As you type: a short pause so a half-typed number is not judged on every key.
     if (this.timer !== null) window.clearTimeout(this.timer);
     this.timer = window.setTimeout(() => this.validate(), 150);
@@ -197,6 +202,10 @@ export class BoardScreen implements Screen {
     );
   }
 
+  private clearSizing(): void {
+    fill(this.sizingResult);
+  }
+
   private size(): void {
     const design = this.checked;
     const targetV = Number(this.sizingTarget.value);
@@ -243,6 +252,12 @@ export class BoardScreen implements Screen {
     const design = this.checked;
     await runAction(this.context, this.saveButton, async () => {
       const stored = await this.context.client.saveDesign({ design });
+      if (!stored.saved) {
+        // Nothing to save: say so, and keep the version as it is.
+        this.formStatus.textContent = `Nothing changed: ${stored.summary.name} stays version ${stored.summary.version}, and no new version was saved.`;
+        this.context.notices.show('info', `Nothing changed in ${stored.summary.name}: no new version saved.`);
+        return;
+      }
       this.formStatus.textContent = `Saved ${stored.summary.name}, version ${stored.summary.version}.`;
       await this.loadList();
     });

@@ -4,7 +4,7 @@
  * when the units come from more than one bench (a shared logbook), a table of each bench's units and mean figures,
  * so a bench that reads apart from the line shows.
  */
-import type { FleetView } from '../../app/contract/records';
+import { outcomeCounts, type FleetView } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { h, fill } from '../dom/h';
 import { formatSi } from '../shaping/formatSi';
@@ -43,7 +43,7 @@ export class FleetPanel {
     fill(
       this.element,
       h('h2', {}, `Fleet of ${view.designName}: ${view.units} unit${view.units === 1 ? '' : 's'}`),
-      h('p', { class: 'muted' }, 'Each unit\'s latest session. The line is what the board model expects from the parts\' tolerances (Monte Carlo), as units per bin.'),
+      h('p', { class: 'muted', 'data-testid': 'fleet-outcomes' }, `Each unit's latest session, as recorded at its steps (${outcomeCounts(view.outcomes)}). The line is what the board model expects from the parts' tolerances (Monte Carlo), as units per bin.`),
       h('div', { class: 'fleet-plots' }, plots.map((plot) => plot.block)),
       h(
         'div',

@@ -7,16 +7,17 @@
 import type { BoardDesign } from '../../app/board/design';
 import { recordedPartName, recordedPartValue } from '../../app/board/partNames';
 import type { CallResult } from '../../app/contract';
-import type { SessionComparison, SessionDetail, SessionRow } from '../../app/contract/records';
+import { signOffExceptionText } from '../../app/bench/signOffGate';
+import { outcomeWords, type SessionComparison, type SessionDetail, type SessionOutcome, type SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
 import { base64ToBytes, downloadBytes } from '../dom/download';
 import { h, fill, uniqueId } from '../dom/h';
 import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatReading, formatSi } from '../shaping/formatSi';
-import { readingsCsv } from '../shaping/readingsCsv';
-import { stepTitles } from '../shaping/stepView';
+import { stepReadingsCsv } from '../../app/exchange/recordCsv';
+import { stepTitles, wordedValue } from '../shaping/stepView';
 import { localSpanText } from '../shaping/timeSpan';
-import { fitLinePoints, toPoints } from '../shaping/transferView';
+import { fitLinePoints, toPoints, transferRangeV } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
 import { FleetPanel } from './fleetPanel';
 import { localTimeNote, sharedCell, sharingMoved, sharingPollMs, sharingStatus } from './sharingView';
@@ -32,7 +33,7 @@ export class LogbookScreen implements Screen {
   private readonly fromInput = h('input', { type: 'date', 'data-testid': 'filter-from' });
   private readonly toInput = h('input', { type: 'date', 'data-testid': 'filter-to' });
   private readonly unitsList = h('ul', { class: 'stack plain-list', 'data-testid': 'units-list' });
-  private readonly sessionsTable = h('div', { 'data-testid': 'sessions' });
+  private readonly sessionsTable = h('div', { class: 'table-scroll', 'data-testid': 'sessions' });
   private readonly sharingLine = h('div', { class: 'sharing', 'data-testid': 'sharing', hidden: true });
   private sharing: CallResult<'sharing'> | null = null;
   private readonly compareButton = h('button', { class: 'primary', type: 'button', disabled: true, 'data-testid': 'compare' }, 'Compare the two ticked sessions');
@@ -48,6 +49,7 @@ export class LogbookScreen implements Screen {
 
   constructor(private readonly context: ScreenContext) {
     this.fleet = new FleetPanel(context);
+    context.store.on('open-session', (sessionId) => void this.showDetail(sessionId as number).then(() => this.detail.scrollIntoView({ block: 'start' })));
     for (const control of [this.unitSelect, this.designSelect, this.fromInput, this.toInput]) control.addEventListener('change', () => void this.loadSessions());
     this.compareButton.addEventListener('click', () => void this.compare());
     // A bench pushing as it goes: the sharing line and the Shared column follow without the screen being reopened.
@@ -161,14 +163,13 @@ export class LogbookScreen implements Screen {
       fill(this.sessionsTable, h('p', { class: 'empty' }, 'No sessions match these filters.'));
       return;
     }
-    const statusWords = { open: 'Open', closed: 'Closed', interrupted: 'Interrupted' } as const;
     const pushing = this.sharing?.target != null;
     fill(
       this.sessionsTable,
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Bench', 'Design', 'Operator', 'Status', 'Started', ...(pushing ? ['Shared'] : []), 'Cycles', 'α', 'Ramp peak', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('thead', {}, h('tr', {}, ['Compare', 'Session', 'Unit', 'Bench', 'Design', 'Operator', 'Outcome', 'Started', ...(pushing ? ['Shared'] : []), 'Ramp peak (as recorded)', 'α range (as recorded)', 'Cycles', 'Link errors'].map((title) => h('th', { scope: 'col' }, title)))),
         h(
           'tbody',
           {},
@@ -190,12 +191,12 @@ export class LogbookScreen implements Screen {
               h('td', { class: 'nowrap', 'data-testid': `bench-${session.id}` }, session.bench ?? '–'),
               h('td', {}, `${session.designName} v${session.designVersion}`),
               h('td', {}, session.operator),
-              h('td', {}, statusWords[session.status]),
+              h('td', { 'data-outcome': session.outcome }, outcomeBadge(session.outcome)),
               h('td', {}, new Date(session.startedAt).toLocaleString()),
               pushing ? h('td', { class: 'nowrap', 'data-testid': `shared-${session.id}` }, sharedCell(session)) : null,
+              h('td', { class: 'number', 'data-column': 'ramp-peak' }, formatSi(session.rampPeakV, 'V')),
+              h('td', { class: 'number' }, session.alphaMinDeg === null && session.alphaMaxDeg === null ? '–' : `${formatFixed(session.alphaMinDeg, '°')} to ${formatFixed(session.alphaMaxDeg, '°')}`),
               h('td', { class: 'number' }, session.cycles),
-              h('td', { class: 'number' }, formatFixed(session.alphaDeg, '°')),
-              h('td', { class: 'number' }, formatSi(session.rampPeakV, 'V')),
               h('td', { class: 'number' }, session.linkSilentS > 0 ? `${session.linkErrors}, silent ${session.linkSilentS.toFixed(1)} s` : session.linkErrors),
             );
           }),
@@ -218,11 +219,11 @@ export class LogbookScreen implements Screen {
     const peaks = detail.perCycle.filter((cycle) => cycle.rampPeakV !== null).map((cycle) => ({ x: cycle.t, y: cycle.rampPeakV as number }));
     const alphas = detail.perCycle.filter((cycle) => cycle.alphaDeg !== null).map((cycle) => ({ x: cycle.t, y: cycle.alphaDeg as number }));
     // Ramp peak when the session kept it per cycle, otherwise the firing angle.
-    const perCycleTitle = peaks.length > 0 ? 'Ramp peak per cycle' : 'Firing angle per cycle';
+    const perCycleTitle = peaks.length > 0 ? 'Ramp peak per cycle, whole session' : 'Firing angle per cycle, whole session';
     const cycleCanvas = h('canvas', { role: 'img', 'aria-label': `${perCycleTitle} over session ${row.id}`, 'data-testid': 'detail-cycles-canvas', 'data-points': String(peaks.length > 0 ? peaks.length : alphas.length) });
     const exportArea = h('div', { class: 'row' });
     const csv = h('button', { class: 'secondary', type: 'button', 'data-testid': 'export-readings' }, 'Export readings (CSV)');
-    csv.addEventListener('click', () => downloadBytes(`${row.unit}-session-${row.id}-readings.csv`, 'text/csv', readingsCsv(detail.steps)));
+    csv.addEventListener('click', () => downloadBytes(`${row.unit}-session-${row.id}-readings.csv`, 'text/csv', stepReadingsCsv(detail.steps)));
     exportArea.appendChild(csv);
     void this.context.client.exportFormats().then(
       (result) => {
@@ -251,18 +252,19 @@ export class LogbookScreen implements Screen {
     }
     const readingRows = detail.steps.flatMap((step) =>
       step.readings.map((reading) =>
-        h('tr', {}, h('td', {}, stepTitles[step.step]), h('td', {}, reading.label), h('td', { class: 'number', 'data-reading': reading.key }, formatReading(reading.value, reading.unit)), h('td', { class: 'number' }, formatReading(reading.expected, reading.unit)), h('td', {}, reading.verdict ? verdictBadge(reading.verdict) : h('span', { class: 'muted' }, 'for information'))),
+        h('tr', {}, h('td', {}, stepTitles[step.step]), h('td', {}, reading.label), h('td', { class: 'number', 'data-reading': reading.key }, wordedValue(reading) ?? formatReading(reading.value, reading.unit)), h('td', { class: 'number' }, formatReading(reading.expected, reading.unit)), h('td', {}, reading.verdict ? verdictBadge(reading.verdict) : h('span', { class: 'muted' }, 'for information'))),
       ),
     );
     fill(
       this.detail,
       h('h2', {}, `Session ${row.id}: unit ${row.unit}`),
-      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${localSpanText(row.startedAt, row.endedAt)} · ${row.status} · ${row.cycles} cycles`),
+      h('p', { class: 'muted' }, `${row.designName} v${row.designVersion} · ${row.bench ? `${row.bench} · ` : ''}${row.operator} · ${localSpanText(row.startedAt, row.endedAt)} · ${row.cycles} cycles`),
       this.sharing?.target != null ? h('p', { 'data-testid': 'detail-shared' }, sharedCell(row)) : null,
+      outcomePanel(row),
       detail.notes ? h('p', {}, detail.notes) : null,
       h('h3', {}, 'Readings'),
       readingRows.length > 0 ? h('table', { class: 'data', 'data-testid': 'detail-readings' }, h('thead', {}, h('tr', {}, ['Step', 'Reading', 'Value', 'Design', 'Verdict'].map((title) => h('th', { scope: 'col' }, title)))), h('tbody', {}, readingRows)) : h('p', { class: 'empty' }, 'No step was recorded in this session.'),
-      h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), h('div', { class: 'plot small' }, transferCanvas)), h('div', {}, h('h3', {}, perCycleTitle), peaks.length + alphas.length > 0 ? h('div', { class: 'plot small' }, cycleCanvas) : h('p', { class: 'empty' }, 'No per-cycle readings were kept.'))),
+      h('div', { class: 'two-columns' }, h('div', {}, h('h3', {}, 'Transfer curve'), detail.transfer.points.length > 0 ? h('div', { class: 'plot small' }, transferCanvas) : h('p', { class: 'empty', 'data-testid': 'detail-no-transfer' }, 'No transfer curve was recorded in this session.')), h('div', {}, h('h3', {}, perCycleTitle), peaks.length + alphas.length > 0 ? h('div', { class: 'plot small' }, cycleCanvas) : h('p', { class: 'empty' }, 'No per-cycle readings were kept.'))),
       detail.partMeasurements.length > 0 ? h('h3', {}, 'Parts measured on the board') : null,
       detail.partMeasurements.length > 0 ? measuredList : null,
       // A part replaced is no trim: the heading covers both kinds of change.
@@ -273,7 +275,8 @@ export class LogbookScreen implements Screen {
       exportArea,
     );
     this.detail.hidden = false;
-    const transfer = this.chart(transferCanvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${value}°`);
+    const transfer = this.chart(transferCanvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${Number(value.toPrecision(4))}°`);
+    fixTransferAxis(transfer, detail.transfer.points);
     const fit = detail.transfer.fit;
     transfer.data.datasets = [
       pointsDataset('Points', cssColour('gate'), toPoints(detail.transfer.points), { pointRadius: 2 }),
@@ -305,11 +308,23 @@ export class LogbookScreen implements Screen {
         'table',
         { class: 'data', 'data-testid': 'comparison-table' },
         h('thead', {}, h('tr', {}, ['Reading', `#${comparison.a.id} (${comparison.a.unit})`, `#${comparison.b.id} (${comparison.b.unit})`, 'Difference', ''].map((title) => h('th', { scope: 'col' }, title)))),
-        h(
-          'tbody',
-          {},
-          comparison.rows.map((row) =>
-            h('tr', {}, h('td', {}, row.label), h('td', { class: 'number' }, formatReading(row.a, row.unit)), h('td', { class: 'number' }, formatReading(row.b, row.unit)), h('td', { class: 'number' }, formatReading(row.difference, row.unit)), h('td', {}, row.beyondTolerance ? h('span', { class: 'flag' }, '✕ beyond tolerance') : h('span', { class: 'muted' }, 'within tolerance'))),
+        (['recorded', 'whole-session'] as const).map((scope) =>
+          h(
+            'tbody',
+            { 'data-scope': scope },
+            h('tr', { class: 'group' }, h('th', { scope: 'colgroup', colspan: '5' }, scope === 'recorded' ? 'As recorded at each step (the board as signed for)' : 'Over the whole session (before and after any trim, the whole sweep): not judged')),
+            comparison.rows.filter((row) => row.scope === scope).map((row) =>
+              h(
+                'tr',
+                {},
+                h('td', {}, row.label),
+                h('td', { class: 'number' }, formatReading(row.a, row.unit)),
+                h('td', { class: 'number' }, formatReading(row.b, row.unit)),
+                h('td', { class: 'number' }, formatReading(row.difference, row.unit)),
+                // A difference is judged only where the design gives the figure a tolerance; never a count.
+                h('td', {}, !row.judged || row.difference === null ? null : row.beyondTolerance ? h('span', { class: 'flag' }, '✕ beyond tolerance') : h('span', { class: 'muted' }, 'within tolerance')),
+              ),
+            ),
           ),
         ),
       ),
@@ -319,6 +334,9 @@ export class LogbookScreen implements Screen {
     this.comparison.hidden = false;
     this.comparison.scrollIntoView({ block: 'start' });
     const chart = this.chart(canvas, 'Control voltage', 'Firing angle α', (value) => formatSi(value, 'V'), (value) => `${value}°`);
+    // The charts take their data as sorted in x (chartSetup: normalized); a sweep goes up and down, so the axis
+    // spans every point explicitly rather than the first and last.
+    fixTransferAxis(chart, [...comparison.transferA, ...comparison.transferB]);
     chart.data.datasets = [pointsDataset(`Session ${comparison.a.id}`, cssColour('gate'), toPoints(comparison.transferA), { pointRadius: 2 }), pointsDataset(`Session ${comparison.b.id}`, cssColour('control'), toPoints(comparison.transferB), { pointRadius: 2, pointStyle: 'triangle' })];
     chart.update('none');
   }
@@ -330,12 +348,13 @@ export class LogbookScreen implements Screen {
     fill(
       this.drift,
       h('h2', {}, `Drift of unit ${unitSerial}`),
+      h('p', { class: 'muted' }, 'Each session\'s figures as recorded at its steps: the board as it was signed for, after any trim.'),
       driftForecast(result.warnings, result.points.length),
       h(
         'table',
         { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Session', 'Bench', 'Date', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'α jitter'].map((title) => h('th', { scope: 'col' }, title)))),
-        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, this.sessions.find((session) => session.id === point.sessionId)?.bench ?? '–'), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaStdDeg, '°', 2))))),
+        h('thead', {}, h('tr', {}, ['Session', 'Bench', 'Date', 'Outcome', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'Firing jitter (held control)'].map((title) => h('th', { scope: 'col' }, title)))),
+        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, this.sessions.find((session) => session.id === point.sessionId)?.bench ?? '–'), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', {}, outcomeBadge(point.outcome)), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaJitterDeg, '°', 2))))),
       ),
       h('div', { class: 'plot small' }, canvas),
     );
@@ -370,6 +389,32 @@ export class LogbookScreen implements Screen {
       }
     }
   }
+}
+
+/** A transfer plot's control axis over all its points (see renderComparison), half a volt either side rounded. */
+function fixTransferAxis(chart: LineChart, points: readonly { controlV: number }[]): void {
+  const x = chart.options.scales?.x;
+  if (!x || points.length === 0) return;
+  const range = transferRangeV(points, { fromV: Math.min(...points.map((point) => point.controlV)), toV: Math.max(...points.map((point) => point.controlV)) });
+  x.min = range.fromV;
+  x.max = range.toV;
+}
+
+/** A session's outcome in words with an icon; a sign-off with exceptions stands out (never colour alone). */
+function outcomeBadge(outcome: SessionOutcome): HTMLElement {
+  const icon = outcome === 'signed-off' ? '✓' : outcome === 'signed-off-with-exceptions' ? '⚠' : '–';
+  return h('span', { class: `outcome ${outcome}` }, h('span', { 'aria-hidden': 'true' }, `${icon} `), outcomeWords[outcome].text);
+}
+
+/** The outcome of one session, with the reason and the steps excepted when it was signed off with exceptions. */
+function outcomePanel(row: SessionRow): HTMLElement {
+  return h(
+    'div',
+    { class: `outcome-panel ${row.outcome}`, 'data-testid': 'detail-outcome' },
+    h('p', {}, h('strong', {}, outcomeBadge(row.outcome))),
+    row.signOffReason !== null ? h('p', {}, 'Reason written at sign-off: ', h('q', { 'data-testid': 'detail-sign-off-reason' }, row.signOffReason)) : null,
+    row.signOffExceptions.length > 0 ? h('ul', { 'data-testid': 'detail-sign-off-exceptions' }, row.signOffExceptions.map((exception) => h('li', {}, signOffExceptionText(exception)))) : null,
+  );
 }
 
 /** The trend warnings in words with an icon (never colour alone); a plain line when no trend heads for a limit. */

@@ -6,7 +6,7 @@ import type { CommissioningStep, Reading } from '../../app/contract/readings';
 import { h, fill } from '../dom/h';
 import { verdictBadge } from '../dom/verdictBadge';
 import { formatReading } from '../shaping/formatSi';
-import { designText, stepTitles, type StepRow } from '../shaping/stepView';
+import { designText, stepTitles, wordedValue, type StepRow } from '../shaping/stepView';
 
 export interface StepActions {
   check(step: CommissioningStep, button: HTMLButtonElement): void;
@@ -15,6 +15,12 @@ export interface StepActions {
 }
 
 const statusWords = { waiting: 'Waiting for signal', measuring: 'Measuring', done: 'Recorded' } as const;
+
+/** What a waiting step waits for: the signal, or (the signal there) what the technician has to do. */
+function statusText(step: CommissioningStep, report: StepRow['report']): string {
+  if (report.status === 'waiting' && report.cycles > 0) return step === 'transfer' ? 'Waiting for a control sweep' : 'Waiting for readings';
+  return statusWords[report.status];
+}
 
 interface StepElements {
   item: HTMLLIElement;
@@ -31,6 +37,7 @@ interface StepElements {
 export class StepList {
   readonly element = h('ol', { class: 'steps', 'aria-label': 'Commissioning steps' });
   private readonly items = new Map<CommissioningStep, StepElements>();
+  private shownSelected: CommissioningStep | null = null;
 
   constructor(private readonly actions: StepActions) {}
 
@@ -43,13 +50,18 @@ export class StepList {
       elements.item.dataset.status = report.status;
       if (isSelected) elements.item.setAttribute('aria-current', 'step');
       else elements.item.removeAttribute('aria-current');
-      fill(elements.verdict, verdictBadge(report.verdict, report.status === 'waiting' ? 'Waiting' : 'No verdict'));
-      elements.status.textContent = `${statusWords[report.status]}${report.cycles > 0 ? ` · ${report.cycles} cycles` : ''}${row.recorded ? ' · in the session' : ''}`;
+      fill(elements.verdict, verdictBadge(report.verdict));
+      elements.status.textContent = `${statusText(row.step, report)}${report.cycles > 0 ? ` · ${report.cycles} cycles` : ''}${row.recorded ? ' · in the session' : ''}`;
       elements.recheck.hidden = !(recheckNeeded && row.step === 'ramp');
       fill(elements.readings, report.readings.flatMap((reading) => readingRow(reading)));
       elements.readings.hidden = report.readings.length === 0;
       elements.note.textContent = report.note ?? '';
       elements.note.hidden = !report.note;
+      // A newly selected step (keyboard, or the bench moving on after a recording) is brought into view.
+      if (isSelected && this.shownSelected !== row.step) {
+        this.shownSelected = row.step;
+        if (this.element.isConnected && !this.element.closest('[hidden]')) elements.item.scrollIntoView({ block: 'nearest' });
+      }
       const actionsKey = `${isSelected}/${sessionOpen}`;
       if (actionsKey !== elements.actionsKey) {
         elements.actionsKey = actionsKey;
@@ -71,8 +83,13 @@ export class StepList {
       h(
         'header',
         { onclick: () => this.actions.select(step) },
-        h('span', { class: 'number', 'aria-hidden': 'true' }, index + 1),
-        h('span', { class: 'name' }, stepTitles[step], h('span', { class: 'visually-hidden' }, `, step ${index + 1}`)),
+        // A real button, so Tab reaches every step and Enter or Space selects it.
+        h(
+          'button',
+          { type: 'button', class: 'step-select', 'data-testid': `select-${step}` },
+          h('span', { class: 'number', 'aria-hidden': 'true' }, index + 1),
+          h('span', { class: 'name' }, stepTitles[step], h('span', { class: 'visually-hidden' }, `, step ${index + 1}`)),
+        ),
         verdict,
       ),
       status,
@@ -98,11 +115,15 @@ export class StepList {
 function readingRow(reading: Reading): HTMLElement[] {
   const format = (value: number | null) => formatReading(value, reading.unit);
   const design = designText(reading, format);
+  // A judged check without a number (yes/no, a step as recorded) reads as its words, never as a dash with a tick.
+  const worded = wordedValue(reading);
   return [
     h('dt', {}, reading.label),
-    h('dd', { 'data-reading': reading.key }, h('strong', {}, format(reading.value)), ' ', reading.verdict ? verdictBadge(reading.verdict) : null),
+    // Words that already say the measurement is missing ("not recorded") stand alone, without a second badge.
+    h('dd', { 'data-reading': reading.key }, h('strong', {}, worded ?? format(reading.value)), ' ', reading.verdict && !(worded !== null && reading.verdict === 'not-measured') ? verdictBadge(reading.verdict) : null),
     design ? h('div', { class: 'design' }, design) : null,
-    // A diagnosis or what a limit is for, in words, when the reading is off or needs explaining.
-    reading.note && reading.verdict !== 'in-tolerance' ? h('div', { class: 'reading-note', 'data-note': reading.key }, reading.note) : null,
+    // A diagnosis or what a limit is for, in words, when the reading is off or needs explaining; marked as an alarm
+    // only for a reading beyond or near its limit, never for one not measured yet.
+    reading.note && worded === null && reading.verdict !== 'in-tolerance' ? h('div', { class: reading.verdict === 'out-of-tolerance' || reading.verdict === 'marginal' ? 'reading-note' : 'reading-note quiet', 'data-note': reading.key }, reading.note) : null,
   ].filter((element): element is HTMLElement => element !== null);
 }

@@ -6,6 +6,7 @@ import type { TransferFit, TransferPoint } from '../../app/contract/readings';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, withAlpha, type Chart } from '../charts/chartSetup';
 import { downloadBytes } from '../dom/download';
 import { h, fill, uniqueId } from '../dom/h';
+import { verdictBadge } from '../dom/verdictBadge';
 import { formatFixed, formatSi } from '../shaping/formatSi';
 import { fitLinePoints, toPoints, transferPointsCsv, transferRangeV } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
@@ -25,11 +26,16 @@ export class TransferScreen implements Screen {
   private readonly recordButton = h('button', { class: 'primary', type: 'button', 'data-testid': 'record-transfer' }, 'Record transfer curve');
   private readonly exportButton = h('button', { class: 'secondary', type: 'button', 'data-testid': 'export-transfer' }, 'Export points (CSV)');
   private readonly sweepPanel: HTMLElement;
+  /** The Transfer step as the bench judges it now: its verdict, and what is still missing (both ends of the range). */
+  private readonly stepStatus = h('p', { class: 'step-status', 'data-testid': 'transfer-step-status', 'aria-live': 'polite' });
+  private lastStatusKey = '';
   private points: TransferPoint[] = [];
   private fit: TransferFit | null = null;
   private ideal: TransferPoint[] = [];
   private lastLoadMs = 0;
-  private sweepDefaultsSet = false;
+  /** The range the sweep fields were last filled from: a session on another design fills them again. */
+  private sweepDefaultsFor = '';
+  private range: { lowV: number; highV: number; alphaAtLowDeg: number | null; alphaAtHighDeg: number | null } | null = null;
 
   constructor(private readonly context: ScreenContext) {
     this.chart = createXyChart(this.canvas, { xTitle: 'Control voltage', yTitle: 'Firing angle α', yMin: 0, yMax: 180, xTick: (value) => formatSi(value, 'V'), yTick: (value) => `${value}°`, tooltip: true });
@@ -85,9 +91,11 @@ export class TransferScreen implements Screen {
             h('span', {}, h('span', { class: 'swatch ramp', 'aria-hidden': 'true' }), 'α limits (dotted)'),
           ),
         ),
-        h('section', { class: 'panel stack', 'aria-label': 'Fit and actions' }, h('h2', {}, 'Fit'), this.stats, this.sweepPanel, h('div', { class: 'row' }, this.recordButton, this.exportButton, this.clearButton)),
+        h('section', { class: 'panel stack', 'aria-label': 'Fit and actions' }, h('h2', {}, 'Fit'), this.stats, this.sweepPanel, this.stepStatus, h('div', { class: 'row' }, this.recordButton, this.exportButton, this.clearButton)),
       ),
     );
+    context.store.on('live', () => this.renderStepStatus());
+    context.store.on('state', () => this.renderStepStatus());
     context.store.on('transfer', (points) => {
       this.points.push(...(points as TransferPoint[]));
       if (this.element.hidden) return;
@@ -95,6 +103,19 @@ export class TransferScreen implements Screen {
       if (performance.now() - this.lastLoadMs > 1500) void this.load().catch((error) => this.context.notices.fromError(error));
       else this.draw();
     });
+  }
+
+  /** The step's verdict and note, redrawn only when they change (a live frame arrives twenty times a second). */
+  private renderStepStatus(): void {
+    const report = this.context.store.liveSteps().find((step) => step.step === 'transfer') ?? this.context.store.state?.steps.find((step) => step.step === 'transfer');
+    const key = report ? `${report.status}/${report.verdict}/${report.note ?? ''}` : '';
+    if (key === this.lastStatusKey) return;
+    this.lastStatusKey = key;
+    this.stepStatus.dataset.verdict = report?.verdict ?? 'not-measured';
+    fill(
+      this.stepStatus,
+      report ? [h('strong', {}, 'Transfer step: '), verdictBadge(report.verdict), report.status === 'done' ? ' recorded' : '', report.note ? h('span', { class: 'muted' }, ` · ${report.note}`) : null] : null,
+    );
   }
 
   shown(): void {
@@ -117,12 +138,15 @@ export class TransferScreen implements Screen {
     this.lastLoadMs = performance.now();
     const result = await this.context.client.transferPoints({});
     this.points = result.points;
-    if (!this.sweepDefaultsSet && result.ideal.length > 1) {
-      // Sweep the design's own control range by default.
-      this.fromInput.value = String(Number(Math.min(...result.ideal.map((point) => point.controlV)).toFixed(2)));
-      this.toInput.value = String(Number(Math.max(...result.ideal.map((point) => point.controlV)).toFixed(2)));
-      this.sweepDefaultsSet = true;
+    const rangeKey = result.controlRange ? `${result.controlRange.lowV}/${result.controlRange.highV}` : '';
+    if (result.controlRange && rangeKey !== this.sweepDefaultsFor) {
+      // Sweep the control range the design allows by default: the same range the Transfer and Limits steps judge,
+      // so following the defaults never makes the Limits step fail (rounded inwards, never past an end).
+      this.fromInput.value = String(Math.ceil(result.controlRange.lowV * 100) / 100);
+      this.toInput.value = String(Math.floor(result.controlRange.highV * 100) / 100);
+      this.sweepDefaultsFor = rangeKey;
     }
+    this.range = result.controlRange;
     this.fit = result.fit;
     this.ideal = result.ideal;
     this.draw();
@@ -150,7 +174,7 @@ export class TransferScreen implements Screen {
       x.min = range.fromV;
       x.max = range.toV;
     }
-    const limits = this.context.store.live?.steps.find((step) => step.step === 'limits')?.readings ?? [];
+    const limits = this.context.store.liveSteps().find((step) => step.step === 'limits')?.readings ?? [];
     const alphaLimit = (key: string) => limits.find((reading) => reading.key === key)?.expected ?? null;
     const minDeg = alphaLimit('alphaMinDeg');
     const maxDeg = alphaLimit('alphaMaxDeg');
@@ -172,6 +196,7 @@ export class TransferScreen implements Screen {
       entry('Offset', fit ? formatFixed(fit.offsetDeg, '°', 1) : '–'),
       entry('Largest deviation from the line', fit ? formatFixed(fit.maxDeviationDeg, '°', 2) : '–'),
       entry('Control range covered', fit ? `${formatSi(fit.controlMinV, 'V')} to ${formatSi(fit.controlMaxV, 'V')}` : '–'),
+      entry('The design’s control range', this.range ? `${formatSi(this.range.lowV, 'V')} to ${formatSi(this.range.highV, 'V')}` : '–'),
     );
     this.canvas.setAttribute('aria-label', `Transfer curve: ${this.points.length} points${fit ? `, gain ${fit.gainDegPerV.toFixed(2)} degrees per volt` : ''}`);
     this.canvas.dataset.points = String(this.points.length);

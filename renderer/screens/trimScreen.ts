@@ -52,6 +52,8 @@ export class TrimScreen implements Screen {
   private design: BoardDesign | null = null;
   private designKey = '';
   private chosen = 0;
+  /** The row of this plan recorded with "I fitted this"; a plan is fitted once, a new plan starts afresh. */
+  private fittedIndex: number | null = null;
 
   constructor(private readonly context: ScreenContext) {
     this.seriesSelect.value = 'E24';
@@ -125,6 +127,7 @@ export class TrimScreen implements Screen {
   private showPlan(plan: TrimPlanView): void {
     this.plan = plan;
     this.chosen = 0;
+    this.fittedIndex = null;
     this.render();
     this.renderParts(plan.knownParts);
   }
@@ -216,7 +219,9 @@ export class TrimScreen implements Screen {
           'tbody',
           {},
           plan.suggestions.map((suggestion, index) => {
-            const fitted = h('button', { class: index === 0 ? 'primary' : 'secondary', type: 'button', 'data-testid': `fitted-${index}` }, suggestion.kind === 'repair' ? 'I replaced it' : 'I fitted this');
+            // Once one row of this plan is recorded, every row's button is spent: the next change needs a new plan.
+            const spent = this.fittedIndex !== null;
+            const fitted = h('button', { class: index === 0 ? 'primary' : 'secondary', type: 'button', 'data-testid': `fitted-${index}`, disabled: spent }, this.fittedIndex === index ? 'Recorded ✓' : suggestion.kind === 'repair' ? 'I replaced it' : 'I fitted this');
             fitted.addEventListener('click', (event) => {
               event.stopPropagation();
               void this.applyTrim(suggestion, fitted);
@@ -246,6 +251,8 @@ export class TrimScreen implements Screen {
       const result = await this.context.client.applyTrim({ part: suggestion.part, fromOhm: suggestion.fromOhm, toOhm: suggestion.toOhm, fromFarad: suggestion.fromFarad, toFarad: suggestion.toFarad, method: suggestion.method, addOhm: suggestion.addOhm, reason: suggestion.reason, alsoChange: suggestion.alsoChange ? { part: suggestion.alsoChange.part, fromOhm: suggestion.alsoChange.fromOhm, toOhm: suggestion.alsoChange.toOhm } : null });
       const change = result.trim.part === 'transistor' ? 'replaced' : `${recordedPartValue(result.trim.part, result.trim.fromOhm)} → ${recordedPartValue(result.trim.part, result.trim.toOhm)}`;
       this.context.notices.show('info', `Recorded: ${recordedPartName(this.design, result.trim.part)} ${change}. Check the ramp again.`);
+      this.fittedIndex = this.plan?.suggestions.indexOf(suggestion) ?? null;
+      this.render();
       await this.context.store.refresh();
     });
   }

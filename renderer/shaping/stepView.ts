@@ -2,7 +2,7 @@
  * What the step list shows: for each commissioning step the live readings while measuring, or the recorded ones
  * once the step was checked and nothing newer is coming in. DOM-free for unit tests.
  */
-import { commissioningStepNames, type CommissioningStep, type Reading, type StepReport } from '../../app/contract/readings';
+import { commissioningStepNames, commissioningStepTitles, type CommissioningStep, type Reading, type StepReport } from '../../app/contract/readings';
 
 export interface StepRow {
   step: CommissioningStep;
@@ -11,14 +11,8 @@ export interface StepRow {
   recorded: boolean;
 }
 
-export const stepTitles: Record<CommissioningStep, string> = {
-  sync: 'Check sync',
-  ramp: 'Check ramp',
-  trim: 'Trim if needed',
-  transfer: 'Record transfer curve',
-  limits: 'Check limits and pulses',
-  'sign-off': 'Sign off',
-};
+/** The steps' titles: one table for every screen, record and command (app/contract/readings.ts). */
+export const stepTitles: Record<CommissioningStep, string> = commissioningStepTitles;
 
 export function mergeSteps(recorded: readonly StepReport[], live: readonly StepReport[]): StepRow[] {
   return commissioningStepNames.map((step) => {
@@ -26,7 +20,7 @@ export function mergeSteps(recorded: readonly StepReport[], live: readonly StepR
     const current = live.find((report) => report.step === step) ?? null;
     const recordedDone = done !== null && done.status === 'done';
     // Live readings win while they have data: the technician watches the board change as they trim.
-    const report = current && current.readings.length > 0 ? { ...current, status: recordedDone ? ('done' as const) : current.status } : (done ?? current ?? { step, status: 'waiting' as const, verdict: null, readings: [], cycles: 0, note: null });
+    const report = current && current.readings.length > 0 ? { ...current, status: recordedDone ? ('done' as const) : current.status } : (done ?? current ?? { step, status: 'waiting' as const, verdict: 'not-measured' as const, readings: [], cycles: 0, note: null });
     return { step, report, recorded: recordedDone };
   });
 }
@@ -51,4 +45,12 @@ export function designText(reading: Reading, format: (value: number | null) => s
   else if (reading.low !== null) parts.push(`at least ${format(reading.low)}`);
   else if (reading.high !== null) parts.push(`at most ${format(reading.high)}`);
   return parts.join(', ');
+}
+
+/**
+ * The words that stand for a judged check's value when it has no number: "yes"/"no" for a yes/no check, "recorded"
+ * for a step on the sign-off card (the note carries them); null when the number (or a dash) is the value.
+ */
+export function wordedValue(reading: Reading): string | null {
+  return reading.value === null && reading.unit === '' && reading.verdict !== null && reading.note ? reading.note : null;
 }

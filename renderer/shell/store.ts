@@ -4,11 +4,12 @@
  */
 import type { BenchClient } from '../../app/contract/index';
 import type { LiveFrame } from '../../app/contract/bench-events';
-import type { CommissioningStep, LinkHealth, TransferPoint } from '../../app/contract/readings';
+import type { CommissioningStep, LinkHealth, StepReport, TransferPoint } from '../../app/contract/readings';
 import type { BenchState } from '../../app/contract/records';
 import type { CaptureProgress } from '../../app/contract/captureImport';
 
-export type StoreTopic = 'state' | 'live' | 'health' | 'transfer' | 'step' | 'captureProgress';
+/** `open-session`: a screen asks the Logbook to show one session (its id). */
+export type StoreTopic = 'state' | 'live' | 'health' | 'transfer' | 'step' | 'captureProgress' | 'open-session';
 
 export class BenchStore {
   state: BenchState | null = null;
@@ -61,6 +62,16 @@ export class BenchStore {
       this.captureProgress = progress;
       this.emit('captureProgress', progress);
     });
+  }
+
+  /**
+   * The newest live frame's step reports, or none when that frame was made before the newest state change (a step
+   * recorded, a session opened or closed): frames and state travel apart and may arrive in either order, and an
+   * older frame must not lay its step reports over the newer state.
+   */
+  liveSteps(): StepReport[] {
+    const live = this.live;
+    return live && this.state && live.stateSerial >= this.state.stateSerial ? live.steps : [];
   }
 
   selectStep(step: CommissioningStep): void {

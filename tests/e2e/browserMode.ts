@@ -18,6 +18,8 @@ export interface DemoServer {
   origin: string;
   /** This run's access token. */
   token: string;
+  /** The server's own temporary folder (the logbook, the data folder); removed by `stop`. */
+  folder: string;
   logbookPath: string;
   output(): string;
   stop(): Promise<void>;
@@ -57,6 +59,7 @@ export async function startDemoServer(options: { speed?: number; db?: string; de
     url,
     origin,
     token,
+    folder,
     logbookPath,
     output: () => output,
     stop: async () => {

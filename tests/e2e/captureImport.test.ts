@@ -88,7 +88,9 @@ describe('a capture file on the Bench screen', () => {
     await page.locator('[data-testid="check-sync"]').click();
     await page.locator('[data-step="sync"][data-status="done"]').waitFor({ timeout: 20_000 });
     await screenshot(page, 'capture-4-read');
+    // Closing without sign-off asks first (the session's record then says it was not signed off).
     await page.getByTestId('stop-session').click();
+    await page.getByTestId('confirm-close-confirm').click();
     await page.getByTestId('setup-source').waitFor({ state: 'visible', timeout: 20_000 });
   });
 
@@ -132,6 +134,7 @@ describe('a capture file on the Bench screen', () => {
     await expect(page.getByTestId('big-frequencyHz').textContent()).resolves.toMatch(/(49|50)\.\d+ Hz|50 Hz/);
     await screenshot(page, 'capture-6-stopped');
     await page.getByTestId('stop-session').click();
+    await page.getByTestId('confirm-close-confirm').click();
     await page.getByTestId('setup-source').waitFor({ state: 'visible', timeout: 20_000 });
     expect(pageErrors).toEqual([]);
   });

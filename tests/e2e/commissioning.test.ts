@@ -6,11 +6,14 @@
  */
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { execFileSync } from 'node:child_process';
+import { join } from 'node:path';
 import { roleIdentifiersIn } from '../roleIdentifiers';
-import { canvasColourShare, canvasInk, collectPageErrors, launchChromium, screenshot, startDemoServer, type DemoServer } from './browserMode';
+import { canvasColourShare, canvasInk, collectPageErrors, launchChromium, repoRoot, screenshot, startDemoServer, type DemoServer } from './browserMode';
 
 const unitSerial = 'RW-E2E-0417'; // our own invented serial number
 const operator = 'Bench Two';
+const exceptionsReason = 'Returned unit: ramp capacitor to be replaced at the customer site, order RW-4471';
 
 let server: DemoServer;
 let browser: Browser;
@@ -35,8 +38,15 @@ async function expectPartsInWords(screen: 'Board' | 'Bench' | 'Transfer' | 'Trim
 
 /** Record the selected step with its button and wait until the step list shows it recorded. */
 async function recordStep(step: string): Promise<void> {
+  // A step is recorded only once it is measured (the bench refuses it before): wait for its verdict.
+  await expect.poll(() => stepVerdict(step), { timeout: 30_000, interval: 250 }).not.toBe('not-measured');
   await page.locator(`[data-testid="check-${step}"]`).click();
-  await page.locator(`[data-step="${step}"][data-status="done"]`).waitFor({ timeout: 20_000 });
+  try {
+    await page.locator(`[data-step="${step}"][data-status="done"]`).waitFor({ timeout: 20_000 });
+  } catch (error) {
+    // Say what the bench answered: a refusal is a notice on screen.
+    throw new Error(`${step} was not recorded; notices on screen: ${(await page.locator('.notice').allTextContents()).join(' | ')}`, { cause: error });
+  }
 }
 
 beforeAll(async () => {
@@ -85,6 +95,15 @@ describe('browser mode with the virtual board', () => {
     await expect(page.getByTestId('sizing-result').textContent()).resolves.toMatch(/Nearest E24\s*\d+k\d*/);
     await expectPartsInWords('Board');
     await screenshot(page, '2-board');
+    // Saved unchanged: nothing is saved, and the screen says so.
+    await page.getByTestId('save-design').click();
+    await expect.poll(() => page.getByTestId('design-status').textContent(), { timeout: 10_000 }).toMatch(/Nothing changed: .* stays version 1/);
+    // The sizing result belongs to the design it was worked out for: another design clears it.
+    await page.locator('[data-design*="HT-60F"]').click();
+    await expect.poll(() => name.inputValue(), { timeout: 10_000 }).toMatch(/HT-60F/);
+    await expect.poll(() => page.getByTestId('sizing-result').textContent()).toBe('');
+    await page.locator('[data-design*="CH-50H"]').click();
+    await expect.poll(() => name.inputValue(), { timeout: 10_000 }).toMatch(/CH-50H/);
   });
 
   it('commissions a unit through every step, fitting a trim and checking the ramp again', async () => {
@@ -117,8 +136,14 @@ describe('browser mode with the virtual board', () => {
     // 1 Sync: recorded, in tolerance.
     await recordStep('sync');
     expect(await stepVerdict('sync')).toBe('in-tolerance');
-    // 2 Ramp, reached with the keyboard (N: next step): out of tolerance.
-    await page.locator('body').press('n');
+    // The bench moves on to the next step by itself once one is recorded.
+    await page.locator('[data-step="ramp"][aria-current="step"]').waitFor();
+    // Step headers are buttons: Tab reaches them and Enter selects the step.
+    await page.getByTestId('select-trim').focus();
+    await page.keyboard.press('Enter');
+    await page.locator('[data-step="trim"][aria-current="step"]').waitFor();
+    // 2 Ramp, back with the keyboard (P: previous step): out of tolerance.
+    await page.locator('body').press('p');
     await page.locator('[data-step="ramp"][aria-current="step"]').waitFor();
     await recordStep('ramp');
     expect(await stepVerdict('ramp')).toBe('out-of-tolerance');
@@ -166,7 +191,8 @@ describe('browser mode with the virtual board', () => {
     await expect.poll(async () => Number(await page.getByTestId('transfer-canvas').getAttribute('data-points')), { timeout: 40_000, interval: 1000 }).toBeGreaterThanOrEqual(40);
     await expect.poll(() => page.getByTestId('transfer-stats').textContent(), { timeout: 20_000 }).toMatch(/Gain\s*-?[\d.]+° per volt/);
     expect(await canvasInk(page, '[data-testid="transfer-canvas"]')).toBeGreaterThan(0.02);
-    await page.waitForTimeout(6500); // let the sweep reach both ends so the limits step sees the whole range
+    // The step has its verdict once the sweep reached both ends of the design's control range (then so has limits).
+    await expect.poll(() => page.getByTestId('transfer-step-status').getAttribute('data-verdict'), { timeout: 40_000, interval: 500 }).not.toBe('not-measured');
     await page.getByTestId('record-transfer').click();
     await page.locator('body').press('Alt+2');
     await page.locator('[data-step="transfer"][data-status="done"]').waitFor({ timeout: 20_000 });
@@ -180,8 +206,14 @@ describe('browser mode with the virtual board', () => {
     expect(['in-tolerance', 'marginal', 'out-of-tolerance']).toContain(await stepVerdict('limits'));
     await screenshot(page, '7-bench-steps-done');
     await page.locator('body').press('6');
+    await expect.poll(() => page.locator('[data-step="sign-off"] .note').last().textContent(), { timeout: 10_000 }).toMatch(/ready to sign off/);
     await page.getByTestId('check-sign-off').click();
     await expect.poll(() => page.getByTestId('session-status').textContent(), { timeout: 20_000 }).toMatch(/No session open/);
+    // After sign-off the bench shows the signed record, not live verdicts under the last unit's name.
+    await expect.poll(() => page.getByTestId('last-session-outcome').textContent(), { timeout: 10_000 }).toMatch(/Signed off/);
+    expect(await page.locator('[data-step="sync"]').isVisible()).toBe(false);
+    await expect(page.getByTestId('last-session').textContent()).resolves.toMatch(/Check limits and pulses\s*✓\s*In tolerance/);
+    await screenshot(page, '7b-bench-after-sign-off');
   }, 240_000);
 
   it('recalls the session in the Logbook', async () => {
@@ -189,7 +221,7 @@ describe('browser mode with the virtual board', () => {
     const row = page.locator('[data-session="1"]');
     await row.waitFor({ timeout: 15_000 });
     await expect(row.textContent()).resolves.toContain(unitSerial);
-    await expect(row.textContent()).resolves.toMatch(/Closed/);
+    await expect(row.textContent()).resolves.toMatch(/Signed off/);
     await page.getByTestId('open-session-1').click();
     const readings = page.getByTestId('detail-readings');
     await readings.waitFor();
@@ -206,20 +238,77 @@ describe('browser mode with the virtual board', () => {
     await screenshot(page, '8-logbook-session');
   });
 
-  it('compares two sessions of the unit side by side, with its drift', async () => {
-    // A second, shorter session on the same unit: sync and ramp, then closed.
+  it('refuses to sign off the unit when it comes back faulty, then signs it off with exceptions and a written reason', async () => {
+    // The unit returns with its ramp capacitor low (our scenario): a fresh virtual board with that fault.
     await goScreen('Bench');
     await page.getByTestId('setup-unit').fill(unitSerial);
     await page.getByTestId('setup-operator').fill(operator);
+    await page.getByTestId('setup-source').selectOption('virtual');
+    await page.getByTestId('setup-fault').selectOption('capacitor-low');
     await page.getByTestId('start-session').click();
     await expect.poll(() => page.getByTestId('unit-serial').textContent(), { timeout: 20_000 }).toBe(unitSerial);
     await page.locator('[data-step="sync"][data-status="measuring"]').waitFor({ timeout: 30_000 });
     await recordStep('sync');
     await page.locator('body').press('2');
+    await expect.poll(() => page.locator('[data-testid="big-rampPeakV"] .verdict').getAttribute('data-verdict'), { timeout: 15_000 }).toBe('out-of-tolerance');
     await recordStep('ramp');
-    await page.getByTestId('stop-session').click();
-    await expect.poll(() => page.getByTestId('session-status').textContent(), { timeout: 20_000 }).toMatch(/No session open/);
+    expect(await stepVerdict('ramp')).toBe('out-of-tolerance');
 
+    // Closing without sign-off asks first; kept open here.
+    await page.getByTestId('stop-session').click();
+    await page.getByTestId('confirm-close').waitFor();
+    await screenshot(page, '8b-confirm-close');
+    await page.getByTestId('confirm-close-cancel').click();
+    expect(await page.getByTestId('session-status').textContent()).toMatch(/session 2 open/);
+
+    // Sign off anyway: the bench refuses, listing the failing step and those not recorded, and signs nothing.
+    await page.locator('body').press('6');
+    await page.getByTestId('check-sign-off').click();
+    const refusal = page.getByTestId('sign-off-refused');
+    await refusal.waitFor({ timeout: 15_000 });
+    const listed = await page.getByTestId('sign-off-exceptions').textContent();
+    expect(listed).toContain('Check ramp: out of tolerance (Ramp peak)');
+    expect(listed).toContain('Check limits and pulses: not recorded');
+    await screenshot(page, '8c-sign-off-refused');
+    // Too short a reason is named beside the field and nothing is sent.
+    await page.getByTestId('exceptions-reason').fill('ok');
+    await page.getByTestId('sign-off-with-exceptions').click();
+    await expect.poll(() => refusal.locator('.field-problem').textContent()).toMatch(/at least 3 words and 20 characters/);
+    expect(await page.getByTestId('session-status').textContent()).toMatch(/session 2 open/);
+    await page.getByTestId('exceptions-reason').fill(exceptionsReason);
+    await page.getByTestId('sign-off-with-exceptions').click();
+    await expect.poll(() => page.getByTestId('session-status').textContent(), { timeout: 20_000 }).toMatch(/No session open/);
+    await expect.poll(() => page.getByTestId('last-session-outcome').textContent(), { timeout: 10_000 }).toMatch(/Signed off with exceptions/);
+    await expect(page.getByTestId('last-session').textContent()).resolves.toContain(exceptionsReason);
+    await screenshot(page, '8d-bench-after-exceptions');
+
+    // The logbook screen: the outcome in the table, the reason and the excepted steps in the session.
+    await goScreen('Logbook');
+    const row = page.locator('[data-session="2"]');
+    await row.waitFor({ timeout: 15_000 });
+    await expect(row.textContent()).resolves.toMatch(/Signed off with exceptions/);
+    await page.getByTestId('open-session-2').click();
+    await expect.poll(() => page.getByTestId('detail-sign-off-reason').textContent(), { timeout: 15_000 }).toBe(exceptionsReason);
+    await expect(page.getByTestId('detail-sign-off-exceptions').textContent()).resolves.toContain('Check ramp: out of tolerance (Ramp peak)');
+    await screenshot(page, '8e-logbook-exceptions');
+
+    // The record as the screen exports it: the PDF's own text says so, with the reason.
+    const download = page.waitForEvent('download');
+    await page.getByRole('button', { name: 'Export Commissioning record (PDF)' }).click();
+    const pdfPath = join(server.folder, 'record-session-2.pdf');
+    await (await download).saveAs(pdfPath);
+    const pdfText = execFileSync('pdftotext', [pdfPath, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    expect(pdfText).toContain('SIGNED OFF WITH EXCEPTIONS');
+    expect(pdfText).toContain(exceptionsReason);
+    expect(pdfText).toContain('Check ramp: out of tolerance (Ramp peak)');
+
+    // And `rampwright log --json`: an outcome per session.
+    const listing = JSON.parse(execFileSync(process.execPath, [join(repoRoot, 'dist', 'rampwright.js'), 'log', '--db', server.logbookPath, '--json'], { encoding: 'utf8' })) as { sessions: Array<{ id: number; outcome: string; signOffReason: string | null }> };
+    expect(listing.sessions.map((session) => [session.id, session.outcome])).toEqual([[1, 'signed-off'], [2, 'signed-off-with-exceptions']]);
+    expect(listing.sessions[1].signOffReason).toBe(exceptionsReason);
+  }, 120_000);
+
+  it('compares two sessions of the unit side by side, with its drift', async () => {
     await goScreen('Logbook');
     await page.locator('[data-session="2"]').waitFor({ timeout: 15_000 });
     await page.getByTestId('tick-1').check();

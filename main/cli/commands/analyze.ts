@@ -3,6 +3,7 @@
  * and prints the readings, with the checks against a board design when one is given. A thin adapter: the
  * measurements are app/bench's, the file reading main/capture's.
  */
+import type { Verdict } from '../../../app/contract/readings';
 import type { Command } from 'commander';
 import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import { judgeReadings, type ReadingCheck } from '../../../app/bench/judge';
@@ -71,10 +72,12 @@ function fixed(value: number | null, digits: number, unit: string): string {
   return value === null ? '-' : `${value.toFixed(digits)}${unit ? ` ${unit}` : ''}`;
 }
 
-const verdictText: Record<string, string> = {
+/** Every verdict state in words with a mark; "not measured yet" is neither a tick nor a cross. */
+const verdictText: Record<Verdict, string> = {
   'in-tolerance': '[ok]   in tolerance',
   marginal: '[!]    marginal',
   'out-of-tolerance': '[x]    out of tolerance',
+  'not-measured': '[ ]    not measured yet',
 };
 
 function formatMeasured(check: ReadingCheck): string {
@@ -140,7 +143,7 @@ export function formatAnalysis(path: string, result: AnalyzeResult): string {
     lines.push('', `Checks against ${result.design.name}`);
     const labelColumn = Math.max(...result.checks.map((check) => check.label.length));
     for (const check of result.checks) {
-      const verdict = check.verdict ? verdictText[check.verdict] : '[ ]    not measured';
+      const verdict = verdictText[check.verdict];
       lines.push(`  ${verdict.padEnd(24)}  ${check.label.padEnd(labelColumn)}  ${formatMeasured(check).padEnd(12)}  ${formatExpected(check)}`);
     }
   }

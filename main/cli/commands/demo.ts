@@ -10,7 +10,8 @@ import { join } from 'node:path';
 import { logbookDisplayLocation, resolveLogbookLocation } from '../../store/index';
 import { localFirst, pushAfterSession } from './push';
 import type { Command } from 'commander';
-import type { StepReport, Verdict } from '../../../app/contract';
+import { signOffExceptionText } from '../../../app/bench/signOffGate';
+import { outcomeWords, verdictWords, type StepReport, type Verdict } from '../../../app/contract';
 import { faultDescriptions, type FaultName } from '../../../app/sim';
 import { openBenchContext } from '../../session/benchContext';
 import { demoStories, runDemoStories, type DemoReport } from '../../session/commissioningDemo';
@@ -29,7 +30,8 @@ export function defaultLogbookPath(): string {
   return join(userDataFolder({ platform: process.platform, env: process.env, home: homedir() }), defaultLogbookFileName);
 }
 
-const verdictWords: Record<Verdict, string> = { 'in-tolerance': '[ok] in tolerance', marginal: '[~] marginal', 'out-of-tolerance': '[x] out of tolerance' };
+const verdictMarks: Record<Verdict, string> = { 'in-tolerance': '[ok]', marginal: '[~]', 'out-of-tolerance': '[x]', 'not-measured': '[ ]' };
+const verdictLine = (verdict: Verdict): string => `${verdictMarks[verdict]} ${verdictWords[verdict].phrase}`;
 const stepTitles: Record<StepReport['step'], string> = { sync: '1 Sync', ramp: '2 Ramp', trim: '3 Trim', transfer: '4 Transfer', limits: '5 Limits', 'sign-off': '6 Sign-off' };
 
 function value(report: StepReport | undefined, key: string, digits: number): string {
@@ -37,8 +39,15 @@ function value(report: StepReport | undefined, key: string, digits: number): str
   return reading?.value === null || reading?.value === undefined ? '-' : reading.value.toFixed(digits);
 }
 
-function verdictText(verdict: Verdict | null): string {
-  return verdict ? verdictWords[verdict] : '(nothing measured)';
+function verdictText(verdict: Verdict | null | undefined): string {
+  return verdictLine(verdict ?? 'not-measured');
+}
+
+/** The sign-off line: the outcome, or the gate's refusal with what stood in the way. */
+function signOffLine(report: DemoReport): [string, string] {
+  if (report.session.outcome === 'signed-off') return ['[ok] signed off', `every step recorded and within tolerance; session ${report.session.id}, ${report.session.cycles} cycles recorded`];
+  const refused = report.signOffGate.exceptions.map(signOffExceptionText).join('; ');
+  return ['[x] sign-off refused', `${refused}: closed without sign-off (${outcomeWords[report.session.outcome].phrase}); a failing step is never signed off without a written reason`];
 }
 
 /** Where the trim step says what was found and what was done, in the technician's words. */
@@ -62,11 +71,11 @@ export function demoUnitLines(report: DemoReport, story: string): string[] {
   const limits = steps.get('limits');
   const rows: Array<[string, string, string]> = [
     [stepTitles.sync, verdictText(sync?.verdict ?? null), `mains ${value(sync, 'frequencyHz', 2)} Hz`],
-    [stepTitles.ramp, verdictText(ramp?.verdict ?? null), `peak ${report.rampPeakBeforeV?.toFixed(2) ?? '-'} V before the change (${report.rampVerdictBefore ? verdictWords[report.rampVerdictBefore] : 'not measured'}), ${report.rampPeakAfterV?.toFixed(2) ?? '-'} V after (target ${ramp?.readings.find((reading) => reading.key === 'rampPeakV')?.expected?.toFixed(2) ?? '-'} V)`],
+    [stepTitles.ramp, verdictText(ramp?.verdict ?? null), `peak ${report.rampPeakBeforeV?.toFixed(2) ?? '-'} V before the change (${verdictLine(report.rampVerdictBefore ?? 'not-measured')}), ${report.rampPeakAfterV?.toFixed(2) ?? '-'} V after (target ${ramp?.readings.find((reading) => reading.key === 'rampPeakV')?.expected?.toFixed(2) ?? '-'} V)`],
     [stepTitles.trim, verdictText(steps.get('trim')?.verdict ?? null), trimDetail(report)],
     [stepTitles.transfer, verdictText(transfer?.verdict ?? null), report.transferFit ? `gain ${report.transferFit.gainDegPerV.toFixed(2)} deg/V, offset ${report.transferFit.offsetDeg.toFixed(2)} deg, ${report.transferFit.points} points` : 'no sweep'],
     [stepTitles.limits, verdictText(limits?.verdict ?? null), `alpha ${value(limits, 'alphaMinDeg', 1)} to ${value(limits, 'alphaMaxDeg', 1)} deg, gate pulse ${value(limits, 'pulseWidthUs', 0)} us`],
-    [stepTitles['sign-off'], report.session.status === 'closed' ? '[ok] signed off' : report.session.status, `session ${report.session.id} ${report.session.status}, ${report.session.cycles} cycles recorded`],
+    [stepTitles['sign-off'], ...signOffLine(report)],
   ];
   const width = Math.max(...rows.map((row) => row[1].length));
   return [
@@ -83,7 +92,7 @@ export function demoSummaryLines(reports: readonly DemoReport[], logbookPath: st
     `Rampwright demo: commissioning ${reports.length} units of ${first?.designName ?? 'the demo design'} on the virtual board`,
     ...reports.flatMap((report, index) => ['', ...demoUnitLines(report, demoStories[index]?.story ?? 'our scenario')]),
     '',
-    `Logbook: ${logbookPath} (${reports.map((report) => `session ${report.session.id} ${report.session.status}`).join(', ')})`,
+    `Logbook: ${logbookPath} (${reports.map((report) => `session ${report.session.id} ${outcomeWords[report.session.outcome].phrase}`).join(', ')})`,
     `Simulated ${reports.reduce((sum, report) => sum + report.signalSeconds, 0).toFixed(1)} s of board signal in ${elapsedS.toFixed(1)} s.`,
     'Next: rampwright log --db <logbook> to list sessions, rampwright serve --demo for the screens in a browser.',
   ];
@@ -113,6 +122,7 @@ export function registerDemoCommand(program: Command): void {
         const units = reports.map((report, index) => ({
           story: demoStories[index]?.story ?? null,
           session: report.session,
+          signOffGate: report.signOffGate,
           faults: report.faults,
           steps: report.steps.map((step) => ({ step: step.step, status: step.status, verdict: step.verdict, readings: step.readings.map(({ key, value: reading, unit, expected, verdict }) => ({ key, value: reading, unit, expected, verdict })) })),
           firstPlan: { status: report.firstPlan.status, summary: report.firstPlan.summary },

@@ -8,6 +8,7 @@
 import type { Command } from 'commander';
 import { homedir } from 'node:os';
 import { join } from 'node:path';
+import { outcomeWords } from '../../../app/contract/records';
 import { localTimeText } from '../../../app/record/localTime';
 import { defaultLogbookFileName, userDataFolder } from '../../session/dataFolder';
 import type { SessionRow } from '../../store/logbookTypes';
@@ -48,10 +49,12 @@ export function formatLogbookTable(sessions: SessionRow[], options: { timeZone?:
   const { timeZone } = options;
   // The shared column only in a bench's logbook that has pushed (a shared logbook's own rows are never "shared").
   const pushes = sessions.some((row) => row.sharedAt !== null);
-  const header = ['session', 'unit', 'bench', 'status', 'started', 'ended', ...(pushes ? ['shared'] : []), 'cycles', 'alpha deg', 'ramp peak V', 'link errors', 'link silent s'];
+  // Figures as recorded at the steps (the board as signed for); a count of cycles, judged by nothing.
+  const header = ['session', 'unit', 'bench', 'outcome', 'started', 'ended', ...(pushes ? ['shared'] : []), 'cycles', 'ramp peak V (recorded)', 'alpha deg (recorded range)', 'link errors', 'link silent s'];
+  const range = (row: SessionRow) => (row.alphaMinDeg === null && row.alphaMaxDeg === null ? '-' : `${number(row.alphaMinDeg, 1)} to ${number(row.alphaMaxDeg, 1)}`);
   const rows = sessions.map((row) => [
-    String(row.id), row.unit, row.bench ?? '-', row.status, localTimeText(row.startedAt, timeZone), localTimeText(row.endedAt, timeZone), ...(pushes ? [sharedText(row, timeZone)] : []),
-    String(row.cycles), number(row.alphaDeg, 1), number(row.rampPeakV, 3), String(row.linkErrors), row.linkSilentS > 0 ? row.linkSilentS.toFixed(1) : '-',
+    String(row.id), row.unit, row.bench ?? '-', outcomeWords[row.outcome].phrase, localTimeText(row.startedAt, timeZone), localTimeText(row.endedAt, timeZone), ...(pushes ? [sharedText(row, timeZone)] : []),
+    String(row.cycles), number(row.rampPeakV, 3), range(row), String(row.linkErrors), row.linkSilentS > 0 ? row.linkSilentS.toFixed(1) : '-',
   ]);
   const firstNumber = header.indexOf('cycles');
   const widths = header.map((title, column) => Math.max(title.length, ...rows.map((row) => row[column].length)));

@@ -157,7 +157,7 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
       const fault: { message: string } = storageFault;
       const storedCycles = session.stats().cyclesWritten;
       const note = `Recording stopped at ${new Date(endedMs).toISOString()}: ${fault.message}. The ${storedCycles} cycles stored before were kept.`;
-      const row = await session.close('interrupted', { note });
+      const row = await session.close('interrupted', undefined, { note });
       writer = null;
       throw new InputError(
         `${fault.message}. Recording stopped after ${((endedMs - startedMs) / 1000).toFixed(1)} s; session ${row.id} keeps the ${row.cycles} cycles stored before, marked interrupted with a note of why. Free space (or make the file writable), then record again`,
@@ -240,7 +240,7 @@ export function registerRecordCommand(program: Command): void {
         const row = result.session;
         const silence = linkSilenceText(row.linkSilentS, result.silentStretches);
         process.stdout.write(
-          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, alpha ${fixed(row.alphaDeg, 1)} deg, ramp peak ${fixed(row.rampPeakV, 3)} V, ${linkErrorsText(row.linkErrors)}${silence ? `, ${silence}` : ''}. Logbook: ${logbookDisplayLocation(options.db)}\n`,
+          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, ramp peak ${fixed(row.rampPeakV, 3)} V, alpha ${fixed(row.wholeSession.alphaMeanDeg, 1)} deg mean over the recording, ${linkErrorsText(row.linkErrors)}${silence ? `, ${silence}` : ''}. Logbook: ${logbookDisplayLocation(options.db)}\n`,
         );
         if (silence) process.stdout.write(`Note: the logger sent nothing for ${row.linkSilentS.toFixed(1)} s of the session; readings cover only the time it was heard (see rampwright report).\n`);
         // The session is safe in this bench's logbook already: a shared logbook out of reach only delays sharing.

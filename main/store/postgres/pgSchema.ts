@@ -194,6 +194,50 @@ export const pgMigrations: readonly string[] = [
       s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v, s.content_sha256
     FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id;
   `,
+  // 4: how a closed session ended (sign_off, its reason and exceptions), and sessions signed off before it
+  // classified from their recorded steps, as the SQLite migration 4 does (the same words, the same JSON). A finished
+  // session never changes: this upgrade is the one exception, so it lifts the guard of migration 3 for its own
+  // UPDATE, in its own transaction, and puts it back. Steps that do not read as a JSON array are left as they are.
+  `
+  ALTER TABLE sessions ADD COLUMN sign_off text CHECK (sign_off IN ('signed-off', 'signed-off-with-exceptions'));
+  ALTER TABLE sessions ADD COLUMN sign_off_reason text;
+  ALTER TABLE sessions ADD COLUMN sign_off_exceptions_json text;
+  CREATE FUNCTION pg_temp.rampwright_steps_or_null(steps text) RETURNS jsonb LANGUAGE plpgsql AS $$
+  DECLARE
+    parsed jsonb;
+  BEGIN
+    parsed := steps::jsonb;
+    RETURN CASE WHEN jsonb_typeof(parsed) = 'array' THEN parsed ELSE NULL END;
+  EXCEPTION WHEN others THEN
+    RETURN NULL;
+  END $$;
+  CREATE TEMP TABLE signed_before ON COMMIT DROP AS
+    SELECT s.id,
+      (SELECT coalesce(jsonb_agg(jsonb_build_object(
+          'step', wanted.step,
+          'problem', CASE WHEN got.value IS NULL THEN 'not-recorded'
+                          WHEN got.value->>'verdict' IS NULL OR got.value->>'verdict' = 'not-measured' THEN 'not-measured'
+                          ELSE 'out-of-tolerance' END,
+          'readings', coalesce((SELECT jsonb_agg(reading->'label') FROM jsonb_array_elements(CASE WHEN jsonb_typeof(got.value->'readings') = 'array' THEN got.value->'readings' ELSE '[]'::jsonb END) AS reading
+                                WHERE reading->>'verdict' = 'out-of-tolerance'), '[]'::jsonb))
+          ORDER BY wanted.n), '[]'::jsonb)
+       FROM (VALUES ('sync', 1), ('ramp', 2), ('trim', 3), ('transfer', 4), ('limits', 5)) AS wanted(step, n)
+       LEFT JOIN jsonb_array_elements(steps.parsed) AS got(value) ON got.value->>'step' = wanted.step
+       WHERE got.value IS NULL OR coalesce(got.value->>'verdict', '') NOT IN ('in-tolerance', 'marginal')) AS exceptions
+    FROM sessions s CROSS JOIN LATERAL (SELECT pg_temp.rampwright_steps_or_null(s.steps_json) AS parsed) AS steps
+    WHERE s.status = 'closed' AND steps.parsed IS NOT NULL
+      AND EXISTS (SELECT 1 FROM jsonb_array_elements(steps.parsed) AS step WHERE step.value->>'step' = 'sign-off');
+  ALTER TABLE sessions DISABLE TRIGGER sessions_final;
+  UPDATE sessions SET
+    sign_off = CASE WHEN jsonb_array_length(b.exceptions) = 0 THEN 'signed-off' ELSE 'signed-off-with-exceptions' END,
+    sign_off_reason = CASE WHEN jsonb_array_length(b.exceptions) = 0 THEN NULL
+      ELSE 'No reason was written: this session was signed off before Rampwright checked the steps at sign-off; the exceptions were found from its recorded steps when the logbook was upgraded.' END,
+    sign_off_exceptions_json = CASE WHEN jsonb_array_length(b.exceptions) = 0 THEN NULL ELSE b.exceptions::text END,
+    content_sha256 = NULL
+  FROM signed_before b WHERE b.id = sessions.id;
+  ALTER TABLE sessions ENABLE TRIGGER sessions_final;
+  DROP FUNCTION pg_temp.rampwright_steps_or_null(text);
+  `,
 ];
 
 export const latestPgSchemaVersion = pgMigrations.length;

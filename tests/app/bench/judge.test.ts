@@ -81,11 +81,11 @@ describe('judgeReadings', () => {
     expect(byKey(judgeReadings(readings({ pulse: { controlV: 3, alphaDeg: expected + 2.5 } }), design), 'alphaDeg')?.verdict).toBe('out-of-tolerance');
   });
 
-  it('nothing measured gives no verdict rather than a pass', () => {
+  it('nothing measured is "not measured yet", never a pass', () => {
     const checks = judgeReadings(readings({ ramp: { peakV: null, chargingIntervals: 0 }, pulse: { widthUs: null } }), design);
-    expect(byKey(checks, 'rampPeakV')?.verdict).toBeNull();
-    expect(byKey(checks, 'rampClipped')?.verdict).toBeNull();
-    expect(byKey(checks, 'pulseWidthUs')?.verdict).toBeNull();
+    expect(byKey(checks, 'rampPeakV')?.verdict).toBe('not-measured');
+    expect(byKey(checks, 'rampClipped')?.verdict).toBe('not-measured');
+    expect(byKey(checks, 'pulseWidthUs')?.verdict).toBe('not-measured');
   });
 });
 
@@ -102,7 +102,7 @@ describe('the gate pulse against the load it must latch (design with a load)', (
     expect(wide?.label).toBe('Gate pulse against latching at 90.0 deg');
     expect(latch({ alphaMaxDeg: 90, widthUs: 150 })?.verdict).toBe('marginal');
     expect(latch({ alphaMaxDeg: 90, widthUs: 80 })?.verdict).toBe('out-of-tolerance');
-    expect(latch({ alphaMaxDeg: 90, widthUs: null })?.verdict).toBeNull();
+    expect(latch({ alphaMaxDeg: 90, widthUs: null })?.verdict).toBe('not-measured');
   });
 
   it('past the angle where the load current can reach the latching current no width fires it, and it says so', () => {
@@ -150,8 +150,8 @@ describe('half-cycle balance (full-wave boards)', () => {
     expect(peak).toMatchObject({ expected: 0, toleranceAbs: expect.closeTo(0.18, 9), verdict: 'out-of-tolerance' });
   });
 
-  it('has no balance checks on a half-wave capture, and none measured gives no verdict', () => {
+  it('has no balance checks on a half-wave capture, and none measured is "not measured yet"', () => {
     expect(byKey(balanced(null), 'alphaBalanceDeg')).toBeUndefined();
-    expect(byKey(balanced({ alphaDeg: null, rampPeakV: null, alphaTriples: 0, rampTriples: 0 }), 'alphaBalanceDeg')?.verdict).toBeNull();
+    expect(byKey(balanced({ alphaDeg: null, rampPeakV: null, alphaTriples: 0, rampTriples: 0 }), 'alphaBalanceDeg')?.verdict).toBe('not-measured');
   });
 });

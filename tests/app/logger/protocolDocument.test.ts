@@ -129,18 +129,20 @@ describe('PROTOCOL.md worked example: timed edges', () => {
     decoder.pushLine(greetingLine);
     const zeros = new Int16Array(4 * 30);
     const placed: TimedEdge[] = [];
-    // Each edge line just before the data line of the block it falls in (6 ms blocks): blocks 0, 1, 2, 3.
-    edgeLines.forEach((line, sequence) => {
-      decoder.pushLine(line);
+    // Each edge line just before the data line of the block its edges fall in (6 ms blocks): blocks 0, 2, 3 and 5.
+    const blockOfLine = [0, 2, 3, 5];
+    for (let sequence = 0; sequence <= 5; sequence++) {
+      const lineIndex = blockOfLine.indexOf(sequence);
+      if (lineIndex >= 0) decoder.pushLine(edgeLines[lineIndex]);
       for (const event of decoder.pushLine(encodeBlock({ sequence, codes: zeros }))) if (event.kind === 'block') placed.push(...(event.block.edges ?? []));
-    });
+    }
     expect(placed.map((edge) => edge.timeS * 1e6)).toEqual(rows.map((row) => expect.closeTo(row.us, 6)));
     const book = new TimedEdgeBook();
     book.add(placed);
-    const firing = timedFiring(book, { rectifier: 'half-wave', direction: 'rising', startS: 0.0026, endS: 0.0226, priorS: Number.NaN, riseS: 0.0071, syncPhaseDeg: 0, toleranceS: 1e-4 });
+    const firing = timedFiring(book, { rectifier: 'half-wave', direction: 'rising', startS: 0.0126, endS: 0.0326, priorS: Number.NaN, riseS: 0.0171, syncPhaseDeg: 0, toleranceS: 1e-4 });
     expect(firing?.periodS).toBeCloseTo(0.02, 12);
     expect(firing?.alphaDeg).toBeCloseTo(81, 9);
-    expect(timedWidthUs(book, 0.0071, 0.00725, 1e-4)).toBeCloseTo(150, 6);
+    expect(timedWidthUs(book, 0.0171, 0.01725, 1e-4)).toBeCloseTo(150, 6);
   });
 
   it('status line with edgeslost re-encodes', () => {

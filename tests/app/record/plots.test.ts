@@ -71,7 +71,9 @@ describe('record words', () => {
       expect(words.text.length).toBeGreaterThan(4);
       expect(words.symbol.length).toBe(1);
     }
-    expect(new Set(Object.values(verdictWords).map((words) => words.symbol)).size).toBe(3);
+    // Four states, four symbols; "not measured yet" is neither a tick nor a cross.
+    expect(new Set(Object.values(verdictWords).map((words) => words.symbol)).size).toBe(4);
+    expect(verdictWords['not-measured'].symbol).not.toMatch(/[\u2713\u2717]/);
   });
 
   it('readings print with units and sensible digits', () => {

@@ -5,6 +5,11 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
+import { demoUnitLines } from '../../../main/cli/commands/demo';
+import { openRecordSources } from '../../../main/record/openRecordSources';
+import { fleetReport } from '../../../main/record/recall';
+import { openBenchContext } from '../../../main/session/benchContext';
+import { runCommissioningDemo, type DemoReport } from '../../../main/session/commissioningDemo';
 import { runCli as runInProcess } from './cliRun';
 
 const folder = mkdtempSync(join(tmpdir(), 'rampwright-demo-'));
@@ -41,6 +46,8 @@ describe('rampwright demo', () => {
       const sessions = await logbook.listSessions();
       expect(sessions).toHaveLength(2);
       expect(sessions.map((session) => [session.unit, session.status]).sort()).toEqual([['CH50H-0042', 'closed'], ['CH50H-0043', 'closed']]);
+      // Every step recorded and in tolerance after the change: the gate clears and each unit is signed off.
+      expect(sessions.map((session) => session.outcome)).toEqual(['signed-off', 'signed-off']);
       for (const session of sessions) {
         const detail = await logbook.session(session.id);
         expect(detail?.trims).toHaveLength(1);
@@ -56,7 +63,7 @@ describe('rampwright demo', () => {
     const { code, stdout } = await runInProcess(['demo', '--db', dbPath, '--json'], {});
     expect(code).toBe(0);
     interface Unit {
-      session: { id: number; status: string; cycles: number };
+      session: { id: number; unit: string; status: string; cycles: number };
       steps: Array<{ step: string; verdict: string | null }>;
       firstPlan: { status: string };
       measuredParts: Record<string, number>;
@@ -98,5 +105,46 @@ describe('rampwright demo', () => {
     } finally {
       await logbook.close();
     }
+
+    // `log --json`: each unit's ramp peak as recorded after its change (within the 3 % tolerance of 7.3 V), not the
+    // whole session's median, which the cycles before the change (about 1/0.7 of the target for the first) pull up.
+    const listing = await runInProcess(['log', '--db', dbPath, '--json'], {});
+    const rows = (JSON.parse(listing.stdout) as { sessions: Array<{ unit: string; outcome: string; rampPeakV: number; wholeSession: { rampPeakMedianV: number } }> }).sessions;
+    for (const unit of result.units) {
+      const row = rows.find((candidate) => candidate.unit === unit.session.unit)!;
+      expect(row.outcome).toBe('signed-off');
+      expect(Math.abs(row.rampPeakV - 7.3) / 7.3).toBeLessThan(0.03);
+      expect(row.rampPeakV).toBeCloseTo(unit.rampPeakAfterV, 12);
+    }
+    const row = rows.find((candidate) => candidate.unit === 'CH50H-0042')!;
+    // The fleet places the unit by its recorded ramp, inside the board model's prediction: no outlier.
+    const sources = await openRecordSources(dbPath);
+    try {
+      const fleet = await fleetReport(sources, 'Charger firing board CH-50H (demo)', { unitSerial: 'CH50H-0042', runs: 200 });
+      const peak = fleet.figures.find((figure) => figure.key === 'rampPeakV')!;
+      expect(peak.values).toContain(row.rampPeakV);
+      expect(peak.outliers).toBe(0);
+      // Within 3 standard deviations of the Monte Carlo prediction (the outlier rule of app/record/fleet.ts).
+      expect(Math.abs(peak.marked!.predictionZ!)).toBeLessThan(3);
+    } finally {
+      await sources.close();
+    }
   });
+
+  it('a unit that fails a step is never signed off silently: the demo shows the refusal and closes without sign-off', async () => {
+    const context = await openBenchContext({ logbookPath: join(folder, 'gate', 'bench.sqlite'), virtualPaced: false });
+    let report: DemoReport;
+    try {
+      // Our scenario: the pulse stage drops pulses, so the limits step finds missing pulses whatever the trim does.
+      report = await runCommissioningDemo(context, { faults: ['capacitor-low', 'missing-pulses'] });
+    } finally {
+      await context.close();
+    }
+    expect(report.signOffGate.clear).toBe(false);
+    expect(report.signOffGate.exceptions.map((exception) => exception.step)).toContain('limits');
+    expect(report.session).toMatchObject({ status: 'closed', outcome: 'closed', signOffReason: null });
+    const lines = demoUnitLines(report, 'our scenario').join('\n');
+    expect(lines).toMatch(/6 Sign-off\s+\[x\] sign-off refused\s+.*Check limits and pulses: out of tolerance \(.*Missing pulses.*\)/);
+    expect(lines).toMatch(/closed without sign-off/);
+  }, 60_000);
 });

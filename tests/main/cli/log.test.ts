@@ -1,7 +1,7 @@
 import { readFileSync, writeFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
-import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
+import { chargerDesign, cycleReading, recordedStepsJson, tempFolder, type TempFolder } from '../store/storeFixtures';
 import { formatLogbookTable } from '../../../main/cli/commands/log';
 import type { SessionRow } from '../../../main/store/logbookTypes';
 import { runCli as run } from './cliRun';
@@ -13,15 +13,25 @@ beforeAll(async () => {
   folder = tempFolder('rampwright-log-');
   dbPath = folder.file('logbook.sqlite');
   const logbook = await openSqliteLogbook(dbPath);
-  // Unit RW-0142: alpha 89, 91 (mean 90); peaks 7.28, 7.32, 7.36 (median 7.32); one CRC burst of 4.
+  // Unit RW-0142, trimmed from a high ramp (our scenario): three cycles at 10.4 V before the trim (alpha 89, 90,
+  // 91), three after it at 7.28, 7.32, 7.36 V; the ramp step recorded 7.32 V after the re-check, the limits 10.2 and
+  // 156.4 deg. Whole session: median peak (7.36 + 10.4) / 2 = 8.88 V, mean alpha 90 deg (by hand). One CRC burst of 4.
   const first = await logbook.startSession({ unitSerial: 'RW-0142', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-01T09:00:00Z'), bench: 'bench A' });
-  first.addCycle(cycleReading(0, { alphaDeg: 89, rampPeakV: 7.28 }));
-  first.addCycle(cycleReading(0.02, { alphaDeg: 91, rampPeakV: 7.36 }));
-  first.addCycle(cycleReading(0.04, { alphaDeg: null, rampPeakV: 7.32 }));
+  [89, 90, 91].forEach((alphaDeg, index) => first.addCycle(cycleReading(index * 0.02, { alphaDeg, rampPeakV: 10.4 })));
+  [7.28, 7.32, 7.36].forEach((rampPeakV, index) => first.addCycle(cycleReading(0.06 + index * 0.02, { alphaDeg: null, rampPeakV })));
+  first.setStepsJson(recordedStepsJson({ rampPeakV: 7.32, alphaMinDeg: 10.2, alphaMaxDeg: 156.4 }));
   first.addLinkEvent('crc-failures', '4 lines failed their CRC', 4);
   await first.close();
   const second = await logbook.startSession({ unitSerial: 'RW-0207', design: chargerDesign(), operator: 'bench 1', startedAt: new Date('2026-03-02T09:00:00Z'), bench: 'bench A' });
   await second.close('interrupted');
+  // Two sign-offs: plain, and with exceptions (the reason and the step excepted travel with the row).
+  const third = await logbook.startSession({ unitSerial: 'RW-0311', design: chargerDesign(), operator: 'bench 2', startedAt: new Date('2026-03-03T09:00:00Z') });
+  await third.close('closed', { kind: 'signed-off' });
+  const fourth = await logbook.startSession({ unitSerial: 'RW-0312', design: chargerDesign(), operator: 'bench 2', startedAt: new Date('2026-03-04T09:00:00Z') });
+  await fourth.close('closed', { kind: 'signed-off-with-exceptions', reason: 'limits checked on the customer controller instead', exceptions: [{ step: 'limits', problem: 'not-recorded', readings: [] }] });
+  const fifth = await logbook.startSession({ unitSerial: 'RW-0313', design: chargerDesign(), operator: 'bench 2', startedAt: new Date('2026-03-05T09:00:00Z') });
+  fifth.addCycle(cycleReading(0, { alphaDeg: 45, rampPeakV: 7.3 }));
+  await fifth.flush();
   await logbook.close();
 });
 afterAll(() => folder.remove());
@@ -31,13 +41,22 @@ describe('rampwright log', () => {
     const { code, stdout } = await run(['log', '--db', dbPath, '--json']);
     expect(code).toBe(0);
     const listing = JSON.parse(stdout) as { sessions: Array<Record<string, unknown>> };
-    expect(listing.sessions).toHaveLength(2);
-    const [first, second] = listing.sessions;
-    expect(Object.keys(first)).toEqual(expect.arrayContaining(['id', 'unit', 'status', 'startedAt', 'endedAt', 'cycles', 'alphaDeg', 'rampPeakV', 'linkErrors']));
-    expect(first).toMatchObject({ unit: 'RW-0142', status: 'closed', startedAt: '2026-03-01T09:00:00.000Z', cycles: 3, linkErrors: 4 });
-    expect(first.alphaDeg).toBeCloseTo(90, 12);
-    expect(first.rampPeakV).toBeCloseTo(7.32, 12);
-    expect(second).toMatchObject({ unit: 'RW-0207', status: 'interrupted', cycles: 0, alphaDeg: null, rampPeakV: null, linkErrors: 0 });
+    expect(listing.sessions).toHaveLength(5);
+    const [first, second, third, fourth, fifth] = listing.sessions;
+    expect(Object.keys(first)).toEqual(expect.arrayContaining(['id', 'unit', 'status', 'outcome', 'startedAt', 'endedAt', 'cycles', 'rampPeakV', 'alphaMinDeg', 'alphaMaxDeg', 'wholeSession', 'linkErrors']));
+    expect(first).toMatchObject({ unit: 'RW-0142', status: 'closed', outcome: 'closed', signOffReason: null, signOffExceptions: [], startedAt: '2026-03-01T09:00:00.000Z', cycles: 6, linkErrors: 4 });
+    // The ramp peak as recorded after the trim, not the whole session's median of the high cycles before it.
+    expect(first).toMatchObject({ rampPeakV: 7.32, alphaMinDeg: 10.2, alphaMaxDeg: 156.4 });
+    expect((first.wholeSession as { rampPeakMedianV: number }).rampPeakMedianV).toBeCloseTo(8.88, 12);
+    expect((first.wholeSession as { alphaMeanDeg: number }).alphaMeanDeg).toBeCloseTo(90, 12);
+    expect(second).toMatchObject({ unit: 'RW-0207', status: 'interrupted', outcome: 'interrupted', cycles: 0, rampPeakV: null, wholeSession: { alphaMeanDeg: null, rampPeakMedianV: null }, linkErrors: 0 });
+    // Every outcome the issue names: signed-off, signed-off-with-exceptions, closed, interrupted, open.
+    expect(third).toMatchObject({ unit: 'RW-0311', status: 'closed', outcome: 'signed-off', signOffReason: null, signOffExceptions: [] });
+    expect(fourth).toMatchObject({
+      unit: 'RW-0312', status: 'closed', outcome: 'signed-off-with-exceptions', signOffReason: 'limits checked on the customer controller instead',
+      signOffExceptions: [{ step: 'limits', problem: 'not-recorded', readings: [] }],
+    });
+    expect(fifth).toMatchObject({ unit: 'RW-0313', status: 'open', outcome: 'open', cycles: 1 });
   });
 
   it('filters by unit', async () => {
@@ -49,10 +68,13 @@ describe('rampwright log', () => {
     const { code, stdout } = await run(['log', '--db', dbPath]);
     expect(code).toBe(0);
     const lines = stdout.trimEnd().split('\n');
-    expect(lines[0]).toMatch(/^session\s+unit\s+bench\s+status\s+started\s+ended\s+cycles/);
+    expect(lines[0]).toMatch(/^session\s+unit\s+bench\s+outcome\s+started\s+ended\s+cycles/);
+    expect(lines[0]).toMatch(/ramp peak V \(recorded\)\s+alpha deg \(recorded range\)/);
     // In the machine's local time with its offset (stored in UTC).
-    expect(lines[1]).toMatch(/RW-0142\s+bench A\s+closed\s+2026-03-0[12] \d\d:\d\d:00 [+-]\d\d:\d\d .*\s3\s+90\.0\s+7\.320\s+4\s+-$/);
+    expect(lines[1]).toMatch(/RW-0142\s+bench A\s+closed without sign-off\s+2026-03-0[12] \d\d:\d\d:00 [+-]\d\d:\d\d .*\s6\s+7\.320\s+10\.2 to 156\.4\s+4\s+-$/);
     expect(lines[2]).toMatch(/RW-0207\s+bench A\s+interrupted/);
+    expect(lines[3]).toMatch(/RW-0311\s+\S+\s+signed off\s/);
+    expect(lines[4]).toMatch(/RW-0312\s+\S+\s+signed off with exceptions\s/);
   });
 
   it('shows times stored in UTC in the reader\'s local time, offset written out', async () => {

@@ -74,15 +74,19 @@ describe('exports', () => {
     const points = (await sources.logbook.transferCurve(session.sessionId));
     expect(lines.length - 1).toBe(points.length);
     expect(lines[5].split(',').map(Number)).toEqual([points[4].t, points[4].controlV, points[4].alphaDeg]);
+    // The readings as recorded at each step (the session kept its steps), with their bands and verdicts.
     const [readings] = await exportSessionFile(sources, session.sessionId, folder.file('readings.csv'), 'readings-csv');
     const text = readFileSync(readings, 'utf8');
-    expect(text.split('\n')[0]).toBe('reading,label,measured,design,tolerance,unit,verdict,note');
-    const row = text.split('\n').find((line) => line.startsWith('rampPeakV,'))!.split(',');
-    expect(row.slice(0, 2)).toEqual(['rampPeakV', 'Ramp peak']);
-    expect(Number(row[3])).toBe(7.3);
-    // The design's 3 % of 7.3 V (charger-ch50h.board.json), printed as the double it is.
-    expect(Number(row[4])).toBeCloseTo(0.219, 12);
-    expect(row[5]).toBe('V');
-    expect(['in-tolerance', 'marginal', 'out-of-tolerance']).toContain(row[6]);
+    expect(text.split('\n')[0]).toBe('step,reading,label,value,design,low,high,unit,verdict,note');
+    const row = text.split('\n').find((line) => line.startsWith('ramp,rampPeakV,'))!.split(',');
+    expect(row.slice(0, 3)).toEqual(['ramp', 'rampPeakV', 'Ramp peak']);
+    expect(Number(row[4])).toBe(7.3);
+    // The design's band: 7.3 V +- 3 % (charger-ch50h.board.json), printed as the doubles they are.
+    expect(Number(row[5])).toBeCloseTo(7.3 * 0.97, 12);
+    expect(Number(row[6])).toBeCloseTo(7.3 * 1.03, 12);
+    expect(row[7]).toBe('V');
+    expect(['in-tolerance', 'marginal', 'out-of-tolerance']).toContain(row[8]);
+    // A reading for information carries no verdict at all.
+    expect(text.split('\n').find((line) => line.startsWith('ramp,slopeVPerMs,'))!.split(',')[8]).toBe('');
   });
 });

@@ -14,6 +14,7 @@ import { openRecordSources, type OpenedRecordSources } from '../../../main/recor
 import { openLogbookDatabase, type SqliteDatabase } from '../../../main/store/openDatabase';
 import { recordSweepSession } from '../record/recordFixture';
 import { chargerDesign, tempFolder, type TempFolder } from '../store/storeFixtures';
+import { legacySignOffReason } from '../../../app/exchange/legacySignOff';
 
 let folder: TempFolder;
 let source: OpenedRecordSources;
@@ -30,7 +31,8 @@ function sessionTables(db: SqliteDatabase, id: number): Record<string, unknown[]
   const rows = (sql: string) => db.prepare(sql).all(id);
   return {
     sessions: rows(`SELECT u.serial, d.content_hash, d.name AS design_name, d.design_json, u.design_name AS unit_design, u.created_at_ms AS unit_created,
-      s.operator, s.started_at_ms, s.ended_at_ms, s.status, s.notes, s.readings_json, s.steps_json, s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v
+      s.operator, s.started_at_ms, s.ended_at_ms, s.status, s.notes, s.readings_json, s.steps_json, s.cycle_count, s.alpha_mean_deg, s.ramp_peak_median_v,
+      s.sign_off, s.sign_off_reason, s.sign_off_exceptions_json
       FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id WHERE s.id = ?`),
     cycles: rows('SELECT * FROM cycles WHERE session_id = ? ORDER BY seq').map((row) => ({ ...(row as object), session_id: undefined })),
     transferPoints: rows('SELECT * FROM transfer_points WHERE session_id = ? ORDER BY seq').map((row) => ({ ...(row as object), session_id: undefined })),
@@ -60,7 +62,9 @@ beforeAll(async () => {
   folder = tempFolder('rampwright-archive-');
   source = await openRecordSources(folder.file('bench-a.sqlite'), { create: true });
   sourceDb = openLogbookDatabase(folder.file('bench-a.sqlite'));
-  sessionId = (await recordSweepSession(source.logbook)).sessionId;
+  // Signed off with exceptions, so the outcome, the reason and the exceptions travel in every round trip below.
+  const signOff = { kind: 'signed-off-with-exceptions' as const, reason: 'limits to be checked on the customer controller', exceptions: [{ step: 'limits' as const, problem: 'not-measured' as const, readings: ['Largest alpha', 'Smallest alpha'] }] };
+  sessionId = (await recordSweepSession(source.logbook, { signOff })).sessionId;
   archivePath = folder.file('session.rwsession');
   await exportSessionFile(source, sessionId, archivePath, 'archive');
 }, 60_000);
@@ -184,6 +188,52 @@ describe('session archive', () => {
     const json = JSON.parse(gunzipSync(readFileSync(path)).toString('utf8'));
     expect(Object.keys(json.session)).not.toContain('partMeasurements');
     expect(Object.keys(json.session.record)).not.toContain('stepsJson');
+    // Closed without sign-off: none of the sign-off keys, as archives written before sign-offs were kept.
+    for (const key of ['signOff', 'signOffReason', 'signOffExceptionsJson']) expect(Object.keys(json.session.record)).not.toContain(key);
     expect(Object.keys(json.session).sort()).toEqual(['captures', 'cycles', 'design', 'linkEvents', 'record', 'transferPoints', 'trims', 'unit']);
+  });
+
+  it('carries a sign-off with exceptions: the outcome, the reason and the steps excepted arrive word for word', async () => {
+    const json = JSON.parse(gunzipSync(readFileSync(archivePath)).toString('utf8'));
+    expect(json.session.record).toMatchObject({ status: 'closed', signOff: 'signed-off-with-exceptions', signOffReason: 'limits to be checked on the customer controller' });
+    const target = await openRecordSources(folder.file('bench-sign-off.sqlite'), { create: true });
+    try {
+      const result = await importSessionArchive(target.logbook, readFileSync(archivePath), archivePath);
+      const [row] = await target.logbook.listSessions();
+      expect(row).toMatchObject({ id: result.sessionId, outcome: 'signed-off-with-exceptions', signOffReason: 'limits to be checked on the customer controller' });
+      expect(row.signOffExceptions).toEqual([{ step: 'limits', problem: 'not-measured', readings: ['Largest alpha', 'Smallest alpha'] }]);
+    } finally {
+      await target.close();
+    }
+  });
+
+  it('refuses a sign-off on an interrupted session, or exceptions without their reason', () => {
+    const interrupted = rewriteArchive((archive) => { archive.session.record.status = 'interrupted'; }, { rehash: true });
+    expect(() => decodeSessionArchive(interrupted, 'x.rwsession')).toThrow(/only a closed session can carry a sign-off/);
+    const noReason = rewriteArchive((archive) => { delete archive.session.record.signOffReason; }, { rehash: true });
+    expect(() => decodeSessionArchive(noReason, 'x.rwsession')).toThrow(/carries its reason and its exceptions/);
+  });
+
+  it('an archive from before sign-offs were kept lands as the upgraded logbook holds it, and importing it again changes nothing', async () => {
+    // The same session as an older bench wrote it: closed, the sign-off step among its steps, no sign-off keys.
+    const older = rewriteArchive((archive) => {
+      for (const key of ['signOff', 'signOffReason', 'signOffExceptionsJson']) delete archive.session.record[key];
+    }, { rehash: true });
+    const target = await openRecordSources(folder.file('bench-older.sqlite'), { create: true });
+    try {
+      const first = await importSessionArchive(target.logbook, older, 'older.rwsession');
+      const [row] = await target.logbook.listSessions();
+      // Classified from its recorded steps by the gate's rule (transfer and limits of this sweep never reached the
+      // design's low end, so they were not measured): signed off with exceptions, and the reason says no reason
+      // was asked for then.
+      expect(row.outcome).toBe('signed-off-with-exceptions');
+      expect(row.signOffReason).toBe(legacySignOffReason);
+      expect(row.signOffExceptions.map((exception) => exception.step)).toEqual(expect.arrayContaining(['limits']));
+      const again = await importSessionArchive(target.logbook, older, 'older.rwsession');
+      expect(again).toMatchObject({ sessionId: first.sessionId, imported: false });
+      expect(await target.logbook.listSessions()).toHaveLength(1);
+    } finally {
+      await target.close();
+    }
   });
 });

@@ -10,7 +10,7 @@ import { flashBytes } from '../../../main/firmware/loggerChip';
 
 export const firmwareDirectory = fileURLToPath(new URL('../../../firmware', import.meta.url));
 export const hexPath = `${firmwareDirectory}/build/rampwright-logger.hex`;
-const elfPath = `${firmwareDirectory}/build/rampwright-logger.elf`;
+export const elfPath = `${firmwareDirectory}/build/rampwright-logger.elf`;
 
 export interface FirmwareBuild {
   image: Uint8Array;

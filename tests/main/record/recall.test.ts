@@ -8,7 +8,7 @@ import { designFigures } from '../../../app/record/designFigures';
 import { openRecordSources, type OpenedRecordSources } from '../../../main/record/openRecordSources';
 import { compareReport, driftReport, fleetReport } from '../../../main/record/recall';
 import { comparisonPage, driftPage, fleetPage } from '../../../main/record/recallPages';
-import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
+import { chargerDesign, cycleReading, recordedStepsJson, tempFolder, type TempFolder } from '../store/storeFixtures';
 
 let folder: TempFolder;
 let sources: OpenedRecordSources;
@@ -23,6 +23,8 @@ async function session(serial: string, startedAt: Date, peakV: number, gainDegPe
     const controlV = 2 + index * 0.5;
     writer.addTransferPoint({ t: index, controlV, alphaDeg: offsetDeg + gainDegPerV * controlV });
   }
+  // The ramp step as recorded (the middle of the five peaks); the transfer line comes from the recorded points.
+  writer.setStepsJson(recordedStepsJson({ rampPeakV: peakV, slopeVPerMs: peakV / 9.7 }));
   return (await writer.close()).id;
 }
 

@@ -9,7 +9,7 @@ import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import type { BoardDesign } from '../../../app/board/design';
 import { synthesiseCapture } from '../../../app/sim';
 import { stepReports } from '../../../main/session/steps';
-import type { Logbook } from '../../../main/store/logbookTypes';
+import type { Logbook, SessionSignOff } from '../../../main/store/logbookTypes';
 import { chargerDesign } from '../store/storeFixtures';
 
 export function mergeBlocks(blocks: readonly SampleBlock[]): SampleBlock {
@@ -40,7 +40,7 @@ export interface RecordedSession {
   capture: SampleBlock;
 }
 
-export async function recordSweepSession(logbook: Logbook, options: { unitSerial?: string; startedAt?: Date; seconds?: number; seed?: number; steps?: boolean; bench?: string } = {}): Promise<RecordedSession> {
+export async function recordSweepSession(logbook: Logbook, options: { unitSerial?: string; startedAt?: Date; seconds?: number; seed?: number; steps?: boolean; signOff?: SessionSignOff; bench?: string } = {}): Promise<RecordedSession> {
   const design = chargerDesign();
   const blocks = [...synthesiseCapture(design, { durationS: options.seconds ?? 1.2, sampleRateHz: 10_000, seed: options.seed ?? 7, controlSweep: { fromV: 2, toV: 6, periodS: 2.4 } })];
   const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: true });
@@ -62,11 +62,13 @@ export async function recordSweepSession(logbook: Logbook, options: { unitSerial
   // The steps as the session service records them (main/session/steps.ts), unless the caller wants a session from
   // before steps were kept.
   if (options.steps ?? true) {
-    const inputs = { design, window: readings, transferFit: readings.transfer, extremes: { alphaMinDeg: readings.pulse.alphaMinDeg, alphaMaxDeg: readings.pulse.alphaMaxDeg, cycles: readings.firingIntervals }, recorded: {}, recheckNeeded: false, trimsApplied: 1, signedOff: true };
-    writer.setStepsJson(JSON.stringify(stepReports(inputs).map((report) => ({ ...report, status: 'done' }))));
+    const inputs = { design, window: readings, transferFit: readings.transfer, extremes: { alphaMinDeg: readings.pulse.alphaMinDeg, alphaMaxDeg: readings.pulse.alphaMaxDeg, controlMinV: readings.transfer?.controlMinV ?? null, controlMaxV: readings.transfer?.controlMaxV ?? null, cycles: readings.firingIntervals, cyclesBelowRange: 0 }, recorded: {}, recheckNeeded: false, trimsApplied: 1, signedOff: options.signOff !== undefined };
+    // The sign-off step is among the recorded steps only of a session that was signed off.
+    const reports = stepReports(inputs).filter((report) => report.step !== 'sign-off' || options.signOff !== undefined);
+    writer.setStepsJson(JSON.stringify(reports.map((report) => ({ ...report, status: 'done' }))));
   }
   writer.addLinkEvent('opened', 'virtual board', 1);
   writer.addLinkEvent('crc-failures', '3 lines failed their CRC', 3);
-  const row = await writer.close();
+  const row = await writer.close('closed', options.signOff);
   return { sessionId: row.id, design, capture };
 }

@@ -35,7 +35,9 @@ describe('commissioning record', () => {
     expect(record.design.name).toBe(session.design.name);
     expect(record.design.contentHash).toMatch(/^[0-9a-f]{64}$/);
     expect(record.checks.map((check) => check.key)).toContain('rampPeakV');
-    expect(record.checks.every((check) => check.verdict === null || ['in-tolerance', 'marginal', 'out-of-tolerance'].includes(check.verdict))).toBe(true);
+    expect(record.checks.every((check) => ['in-tolerance', 'marginal', 'out-of-tolerance', 'not-measured'].includes(check.verdict))).toBe(true);
+    // Closed without a sign-off: the record says so first, and that it certifies nothing.
+    expect(record.session.outcome).toBe('closed');
     expect(record.fold.length).toBeGreaterThanOrEqual(3);
     // Each folded cycle starts on its rising crossing, so 0 deg is a zero crossing (within a bucket: 1 deg of 360).
     expect(Math.min(...record.fold[0].zeroCrossingsDeg)).toBeLessThan(1);
@@ -147,5 +149,42 @@ describe('commissioning record', () => {
     expect(text).toContain('No capture was kept in this session');
     expect(text).toContain('No part was changed.');
     expect(text).toContain('No part values were measured in this session.');
+    expect(text).toContain('Closed without sign-off');
+    expect(text).toContain('does not certify the unit');
+  });
+
+  it('a unit signed off with exceptions says so first, in capitals, with the reason and every step excepted (HTML and PDF)', async () => {
+    const reason = 'Transfer curve taken on the drive cabinet; limits confirmed by the customer, order 7731-B';
+    const excepted = await recordSweepSession(sources.logbook, {
+      unitSerial: 'RW-7733', seconds: 0.6,
+      signOff: { kind: 'signed-off-with-exceptions', reason, exceptions: [{ step: 'transfer', problem: 'not-recorded', readings: [] }, { step: 'limits', problem: 'out-of-tolerance', readings: ['Smallest alpha'] }] },
+    });
+    const htmlPath = folder.file('excepted.html');
+    await writeRecordFile(sources, excepted.sessionId, htmlPath, { now });
+    const html = readFileSync(htmlPath, 'utf8');
+    // The outcome box comes before the readings, so a reviewer reads it first.
+    expect(html.indexOf('SIGNED OFF WITH EXCEPTIONS')).toBeGreaterThan(0);
+    expect(html.indexOf('SIGNED OFF WITH EXCEPTIONS')).toBeLessThan(html.indexOf('Unit and design'));
+    expect(html).toContain(`<blockquote>${reason}</blockquote>`);
+    expect(html).toContain('<li>Record transfer curve: not recorded</li>');
+    expect(html).toContain('<li>Check limits and pulses: out of tolerance (Smallest alpha)</li>');
+    expect(html).toContain('data-outcome="signed-off-with-exceptions"');
+    const pdfPath = folder.file('excepted.pdf');
+    await writeRecordFile(sources, excepted.sessionId, pdfPath, { now });
+    const text = execFileSync('pdftotext', [pdfPath, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    expect(text).toContain('SIGNED OFF WITH EXCEPTIONS');
+    expect(text).toContain(`"${reason}"`);
+    expect(text).toContain('Check limits and pulses: out of tolerance (Smallest alpha)');
+    expect(text.indexOf('SIGNED OFF WITH EXCEPTIONS')).toBeLessThan(text.indexOf('Readings as recorded'));
+    expect((await verifyRecordFile(sources, pdfPath)).matches).toBe(true);
+  });
+
+  it('a plain sign-off says every step was recorded and within tolerance', async () => {
+    const signed = await recordSweepSession(sources.logbook, { unitSerial: 'RW-7734', seconds: 0.6, signOff: { kind: 'signed-off' } });
+    const path = folder.file('signed.pdf');
+    await writeRecordFile(sources, signed.sessionId, path, { now });
+    const text = execFileSync('pdftotext', [path, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    expect(text).toContain('Signed off Every commissioning step was recorded, and each was within its tolerance');
+    expect(text).not.toContain('EXCEPTIONS');
   });
 });

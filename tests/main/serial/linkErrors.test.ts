@@ -12,6 +12,7 @@ import { InputError } from '../../../app/errors';
 import { LinkError, linkErrorFromMessage } from '../../../main/serial/linkErrors';
 import { openLoggerLink, type LoggerLink } from '../../../main/serial/loggerLink';
 import { listPorts, portInfoFrom, sameUsbDevice } from '../../../main/serial/listPorts';
+import { copyPackageClosure } from '../../helpers/packageCopy';
 import { startPtyPair, type PtyPair } from '../../helpers/socat';
 
 let folder: string;
@@ -80,10 +81,14 @@ describe('opening the logger port', () => {
     const script = join(folder, 'openErrorChild.cjs');
     await build({ entryPoints: [resolve(__dirname, 'openErrorChild.ts')], outfile: script, bundle: true, platform: 'node', format: 'cjs', external: ['serialport'], logLevel: 'error' });
     chmodSync(script, 0o644);
+    // The child runs as another user, who may not be able to enter the folder this checkout sits in (a clone under a
+    // private temporary folder): serialport and what it needs (its native binding included) go beside the script.
+    copyPackageClosure('serialport', resolve(__dirname, '../../..'), join(folder, 'node_modules'));
     // setpriv (util-linux) drops to user "nobody"; the pty is root's with mode 600, so the open fails with EACCES.
     const result = spawnSync('setpriv', ['--reuid=65534', '--regid=65534', '--clear-groups', process.execPath, script, pair.hostPath], {
       encoding: 'utf8',
-      env: { ...process.env, NODE_PATH: resolve(__dirname, '../../../node_modules') },
+      cwd: folder,
+      env: { ...process.env, NODE_PATH: join(folder, 'node_modules') },
       timeout: 20_000,
     });
     if (result.error || process.getuid?.() !== 0) {
@@ -93,6 +98,7 @@ describe('opening the logger port', () => {
       expect(error.message).toMatch(/dialout/);
       return;
     }
+    expect(result.stderr, 'the child, run as nobody, must start and answer').toBe('');
     const outcome = JSON.parse(result.stdout) as { opened: boolean; kind?: string; message?: string };
     expect(outcome.opened).toBe(false);
     expect(outcome.kind).toBe('permission-denied');

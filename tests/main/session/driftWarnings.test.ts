@@ -5,7 +5,7 @@ import { createDesignCatalog } from '../../../main/session/designCatalog';
 import { createRecallHandlers } from '../../../main/session/recallHandlers';
 import type { Logbook } from '../../../main/store/logbookTypes';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
-import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
+import { chargerDesign, cycleReading, recordedStepsJson, tempFolder, type TempFolder } from '../store/storeFixtures';
 
 let folder: TempFolder;
 let logbook: Logbook;
@@ -14,6 +14,7 @@ const day = (n: number) => new Date(Date.UTC(2026, 0, 5, 9) + n * 86_400_000);
 async function session(serial: string, startedAt: Date, peakV: number): Promise<void> {
   const writer = await logbook.startSession({ unitSerial: serial, design: chargerDesign(), operator: 'bench 3', startedAt });
   for (let index = 0; index < 5; index++) writer.addCycle(cycleReading(index * 0.02, { rampPeakV: peakV, alphaDeg: 90 }));
+  writer.setStepsJson(recordedStepsJson({ rampPeakV: peakV }));
   await writer.close();
 }
 

@@ -5,7 +5,7 @@ import { BenchCallError, type BenchClient } from '../../../app/contract';
 import type { BenchContext } from '../../../main/session/benchContext';
 import { openRecordSources } from '../../../main/record/openRecordSources';
 import { fleetReport } from '../../../main/record/recall';
-import { chargerDesign, cycleReading, tempFolder, type TempFolder } from '../store/storeFixtures';
+import { chargerDesign, cycleReading, recordedStepsJson, tempFolder, type TempFolder } from '../store/storeFixtures';
 import { openTestBench } from './benchClientKit';
 
 let folder: TempFolder;
@@ -22,6 +22,7 @@ beforeAll(async () => {
     const writer = await sources.logbook.startSession({ unitSerial: `FL-${unit}`, design, operator: 'A. Fitter', bench: unit < 5 ? 'bench 5' : 'bench 6', startedAt: new Date(Date.UTC(2026, 2, 1 + unit)) });
     const peakV = 7.16 + 0.04 * unit;
     for (let index = 0; index < 4; index++) writer.addCycle(cycleReading(index * 0.02, { rampPeakV: peakV, slopeVPerMs: peakV / 9.7, alphaDeg: 90 }));
+    writer.setStepsJson(recordedStepsJson({ rampPeakV: peakV, slopeVPerMs: peakV / 9.7 }));
     for (let index = 0; index <= 6; index++) writer.addTransferPoint({ t: index, controlV: 2 + index * 0.5, alphaDeg: 3 + (22 + 0.3 * unit) * (2 + index * 0.5) });
     await writer.close();
   }

@@ -17,7 +17,8 @@ const ids: number[] = [];
 beforeAll(async () => {
   folder = tempFolder('rampwright-views-');
   const sources = await openRecordSources(folder.file('logbook.sqlite'), { create: true });
-  for (const serial of ['RV-1', 'RV-2', 'RV-3']) ids.push((await recordSweepSession(sources.logbook, { unitSerial: serial, seconds: 0.6 })).sessionId);
+  // RV-1 signed off: its recorded steps end with the sign-off step.
+  for (const serial of ['RV-1', 'RV-2', 'RV-3']) ids.push((await recordSweepSession(sources.logbook, { unitSerial: serial, seconds: 0.6, signOff: serial === 'RV-1' ? { kind: 'signed-off' } : undefined })).sessionId);
   await sources.close();
   // RV-2 as an older logbook holds it (no steps kept); RV-3 with steps a foreign tool mangled.
   const db = openLogbookDatabase(folder.file('logbook.sqlite'));

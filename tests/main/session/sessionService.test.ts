@@ -109,6 +109,37 @@ describe('session service on the virtual board', () => {
     expect(frame.fold[0].sync.deg.length).toBeLessThanOrEqual(480);
   });
 
+  it('numbers its state changes so a screen can tell a live frame made before a recorded step from one made after', async () => {
+    const { design } = await client.getDesign({ name: demoDefaults.designName });
+    await client.startSession({ unitSerial: 'TEST-0009', designName: design.name, operator: 'Tess' });
+    await client.connect({ kind: 'virtual', designName: design.name, faults: [], seed: 5 });
+    pump(1.5);
+    await new Promise((resolve) => setTimeout(resolve, 100));
+    const before = await client.benchState();
+    const framesBefore = liveFrames.length;
+    expect(framesBefore).toBeGreaterThan(0);
+    expect(liveFrames[framesBefore - 1].stateSerial).toBe(before.stateSerial);
+    const signOffCard = (steps: LiveFrame['steps']) => steps.find((step) => step.step === 'sign-off')!.readings.find((reading) => reading.key === 'syncVerdict')!.note;
+    expect(signOffCard(liveFrames[framesBefore - 1].steps)).toBe('not recorded');
+
+    await client.checkStep({ step: 'sync' });
+    const after = await client.benchState();
+    // The recording is a state change: a frame carrying the older count is older than this state and shows the
+    // sync step not recorded on the sign-off card, which the screen must not lay over the state.
+    expect(after.stateSerial).toBeGreaterThan(before.stateSerial);
+    expect(signOffCard(after.steps)).toBe('recorded');
+    pump(0.5);
+    await new Promise((resolve) => setTimeout(resolve, 100));
+    const newer = liveFrames.slice(framesBefore);
+    expect(newer.length).toBeGreaterThan(0);
+    for (const frame of newer) {
+      expect(frame.stateSerial).toBe(after.stateSerial);
+      expect(signOffCard(frame.steps)).toBe('recorded');
+    }
+    // Asking for the state changes nothing.
+    expect((await client.benchState()).stateSerial).toBe(after.stateSerial);
+  });
+
   it('fits the first suggestion (the low ramp capacitor replaced) to the virtual board and the re-checked ramp lands on target', async () => {
     const { design } = await client.getDesign({ name: demoDefaults.designName });
     await client.startSession({ unitSerial: 'TEST-0002', designName: design.name, operator: 'Tess' });
@@ -126,6 +157,10 @@ describe('session service on the virtual board', () => {
     const applied = await client.applyTrim({ part: first.part, fromFarad: first.fromFarad, toFarad: first.toFarad, method: first.method, reason: first.reason });
     expect(applied.recheckNeeded).toBe(true);
     expect((await client.benchState()).currentStep).toBe('ramp');
+    // "I fitted this" once per plan: a second record before the ramp is checked again is refused, nothing written.
+    const twice = await refusal(client.applyTrim({ part: first.part, fromOhm: first.fromOhm, toOhm: first.toOhm, method: first.method, addOhm: first.addOhm, reason: first.reason }));
+    expect(twice.code).toBe('not-ready');
+    expect(twice.message).toMatch(/already recorded and the ramp not checked since/);
     pump(1.5);
     const recheck = await client.checkStep({ step: 'ramp' });
     const peak = recheck.readings.find((reading) => reading.key === 'rampPeakV')!;
@@ -138,7 +173,28 @@ describe('session service on the virtual board', () => {
     const kept = await client.keepCapture({ seconds: 1 });
     // One second of samples at 25 kS/s, cut at the logger's 120-sample lines: within one line of 1 s.
     expect(Math.abs(kept.seconds - 1)).toBeLessThanOrEqual(120 / 25_000 + 1e-9);
-    const row = await client.signOff({});
+    // The sign-off gate, in the service: sync, transfer and limits were never recorded, so a plain sign-off is
+    // refused listing them, a reason too short to say anything is refused, and a written reason signs it off with
+    // exceptions that the logbook keeps word for word.
+    const gate = (await client.benchState()).signOffGate;
+    expect(gate.clear).toBe(false);
+    expect(gate.exceptions).toEqual([
+      { step: 'sync', problem: 'not-recorded', readings: [] },
+      { step: 'transfer', problem: 'not-recorded', readings: [] },
+      { step: 'limits', problem: 'not-recorded', readings: [] },
+    ]);
+    const refused = await refusal(client.signOff({}));
+    expect(refused.code).toBe('not-ready');
+    expect(refused.message).toMatch(/sign-off refused: Check sync: not recorded; Record transfer curve: not recorded; Check limits and pulses: not recorded/);
+    expect((await client.benchState()).session).not.toBeNull();
+    const tooShort = await refusal(client.signOff({ exceptionsReason: '  ok  ' }));
+    expect(tooShort.code).toBe('input');
+    expect(tooShort.message).toMatch(/at least 3 words and 20 characters/);
+    const reason = 'sync, transfer and limits checked on the\n drive cabinet after fitting';
+    const row = await client.signOff({ exceptionsReason: reason });
+    expect(row).toMatchObject({ status: 'closed', outcome: 'signed-off-with-exceptions', signOffReason: 'sync, transfer and limits checked on the drive cabinet after fitting' });
+    expect(row.signOffExceptions).toEqual(gate.exceptions);
+    expect((await client.benchState()).session).toBeNull();
     const detail = await client.sessionDetail({ sessionId: row.id });
     // Recall shows each step as it was recorded: the re-checked ramp exactly, not the readings of the last moment.
     expect(detail.steps.find((step) => step.step === 'ramp')).toEqual(recheck);
@@ -147,9 +203,34 @@ describe('session service on the virtual board', () => {
     // The capacitor's values are kept in its own unit, farad.
     expect(detail.trims[0]).toMatchObject({ part: 'cRamp', toOhm: design.parts.cRamp.farad });
     expect(detail.captures).toHaveLength(1);
-    expect(detail.notes).toContain('signed off without sync, transfer, limits');
+    expect(detail.row.outcome).toBe('signed-off-with-exceptions');
     // Link events read as words in the logbook, not as raw data.
     expect(detail.linkEvents.find((event) => event.kind === 'opened')?.detail).toBe('link to the virtual board (Charger firing board CH-50H (demo), fault: capacitor-low) opened');
+  });
+
+  it('the transfer and limits steps agree: the default sweep passes both, and cycles below the design\'s range are left out', async () => {
+    const { design } = await client.getDesign({ name: demoDefaults.designName });
+    await client.startSession({ unitSerial: 'TEST-0006', designName: design.name, operator: 'Tess' });
+    await client.connect({ kind: 'virtual', designName: design.name, faults: [], seed: 13 });
+    pump(1.5);
+    // Held control: the limits are not measured yet, and cannot be recorded.
+    expect((await client.benchState()).steps.find((step) => step.step === 'limits')?.verdict).toBe('not-measured');
+    expect((await refusal(client.checkStep({ step: 'limits' }))).message).toMatch(/not measured yet.*turn the control to both ends/);
+    const { controlRange } = await client.transferPoints({});
+    expect(controlRange).not.toBeNull();
+    // Swept from well below the design's low end (the old default started at the ramp floor) to the top.
+    await client.setVirtualControl({ mode: 'sweep', fromV: 0.1, toV: controlRange!.highV, periodS: 4 });
+    await client.clearTransfer();
+    pump(4.5);
+    const transfer = await client.checkStep({ step: 'transfer' });
+    const limits = await client.checkStep({ step: 'limits' });
+    // Both judge the same range: alpha at its low end is the design's smallest alpha (10 deg on CH-50H) on the
+    // transfer line, and the limits' smallest alpha comes from inside the range, so neither fails the other.
+    expect(transfer.readings.find((reading) => reading.key === 'alphaAtControlLowDeg')).toMatchObject({ expected: expect.closeTo(design.alphaMinDeg, 6), verdict: 'in-tolerance' });
+    const smallest = limits.readings.find((reading) => reading.key === 'alphaMinDeg')!;
+    expect(smallest.value!).toBeGreaterThan(design.alphaMinDeg - design.tolerances.alphaDeg);
+    expect(smallest.verdict).not.toBe('out-of-tolerance');
+    expect(limits.note).toMatch(/cycles fired below the design's control range \(under 0\.31 V\) were left out/);
   });
 
   it('re-measures an open link against the design of a session started on it, without losing the stream', async () => {
@@ -195,6 +276,10 @@ describe('session service on the virtual board', () => {
     const changed = { ...design, name: 'Bench copy CH-50H', rampTargetV: 7.0 };
     const saved = await client.saveDesign({ design: changed });
     expect(saved.summary).toMatchObject({ name: 'Bench copy CH-50H', version: 1, rampTargetV: 7 });
+    expect(saved.saved).toBe(true);
+    // Saved again unchanged: nothing is saved and the answer says so.
+    const unchanged = await client.saveDesign({ design: changed });
+    expect(unchanged).toMatchObject({ saved: false, summary: { version: 1 } });
     const again = await client.saveDesign({ design: { ...changed, rampTargetV: 7.2 } });
     expect(again.summary.version).toBe(2);
     expect((await client.getDesign({ name: 'Bench copy CH-50H', version: 1 })).design.rampTargetV).toBe(7);

@@ -71,7 +71,7 @@ describe('trim plans for the board as built', () => {
     for (const suggestion of after.suggestions.filter((row) => row.part === 'rEmitter')) expect(suggestion.fromOhm).toBe(first.toOhm);
 
     // The logbook keeps the measurement beside the design value, for the record and the next technician.
-    const row = await client.signOff({});
+    const row = await client.stopSession({});
     const detail = await client.sessionDetail({ sessionId: row.id });
     expect(detail.partMeasurements.map(({ part, value, designValue }) => ({ part, value, designValue }))).toEqual([{ part: 'rEmitter', value: actualOhm, designValue: emitter.ohm }]);
   });

@@ -53,9 +53,10 @@ describe('the shared logbook across benches', () => {
       ['LN-4002', 'bench 2', '2026-11-06T13:15:00.000Z'],
     ]);
     const table = await runCli(['log', '--db', shared, '--unit', 'LN-4001']);
-    expect(table.stdout.split('\n')[0]).toMatch(/^session\s+unit\s+bench\s+status/);
-    expect(table.stdout).toMatch(/LN-4001\s+bench 1\s+closed/);
-    expect(table.stdout).toMatch(/LN-4001\s+bench 2\s+closed/);
+    // Each session's outcome (these were closed without a sign-off).
+    expect(table.stdout.split('\n')[0]).toMatch(/^session\s+unit\s+bench\s+outcome/);
+    expect(table.stdout).toMatch(/LN-4001\s+bench 1\s+closed without sign-off/);
+    expect(table.stdout).toMatch(/LN-4001\s+bench 2\s+closed without sign-off/);
   });
 
   it('report --unit draws the drift over both benches\' sessions and names the bench of each', async () => {

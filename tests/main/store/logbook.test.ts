@@ -11,7 +11,7 @@ import { InputError } from '../../../app/errors';
 import type { Logbook } from '../../../main/store/logbookTypes';
 import { openLogbook } from '../../../main/store/openLogbook';
 import { startStoreKit, storeKinds, type StoreKit } from '../../helpers/logbookStores';
-import { chargerDesign, cycleReading, tempFolder, type TempFolder } from './storeFixtures';
+import { chargerDesign, cycleReading, recordedStepsJson, tempFolder, type TempFolder } from './storeFixtures';
 
 describe.each(storeKinds)('%s logbook', (kind) => {
   let kit: StoreKit;
@@ -36,11 +36,15 @@ describe.each(storeKinds)('%s logbook', (kind) => {
 
   const day = (n: number): Date => new Date(Date.UTC(2026, 2, 1 + n, 9, 0, 0));
 
-  /** A closed session of unit `serial` on day `n` with the given ramp peaks and transfer points. */
-  async function session(serial: string, n: number, peaks: number[], transfer: Array<[number, number]> = [], design = chargerDesign()): Promise<number> {
+  /**
+   * A closed session of unit `serial` on day `n` with the given ramp peaks and transfer points; its ramp step
+   * recorded the last peak (the settled board), unless `recorded` says otherwise or is null (no steps kept).
+   */
+  async function session(serial: string, n: number, peaks: number[], transfer: Array<[number, number]> = [], design = chargerDesign(), recorded: { rampPeakV?: number } | null = {}): Promise<number> {
     const writer = await logbook.startSession({ unitSerial: serial, design, operator: 'bench 2', startedAt: day(n) });
     peaks.forEach((peak, index) => writer.addCycle(cycleReading(index * 0.02, { rampPeakV: peak, alphaDeg: 80 + index })));
     transfer.forEach(([controlV, alphaDeg], index) => writer.addTransferPoint({ t: index, controlV, alphaDeg }));
+    if (recorded !== null) writer.setStepsJson(recordedStepsJson({ rampPeakV: recorded.rampPeakV ?? peaks[peaks.length - 1] }));
     const row = await writer.close();
     return row.id;
   }
@@ -96,8 +100,11 @@ describe.each(storeKinds)('%s logbook', (kind) => {
       const row = await writer.close();
       expect(row.status).toBe('closed');
       expect(row.cycles).toBe(4);
-      expect(row.alphaDeg).toBeCloseTo(81.5, 12);
-      expect(row.rampPeakV).toBeCloseTo(7.2, 12);
+      // Over the whole session (no step recorded): the median peak and the mean alpha, kept apart from the figures
+      // as recorded, which this session (no steps, no stored readings) does not have.
+      expect(row.wholeSession.alphaMeanDeg).toBeCloseTo(81.5, 12);
+      expect(row.wholeSession.rampPeakMedianV).toBeCloseTo(7.2, 12);
+      expect(row).toMatchObject({ rampPeakV: null, alphaMinDeg: null, alphaMaxDeg: null });
       // 3 CRC failures + 1 unplug; a reopen is not an error.
       expect(row.linkErrors).toBe(4);
       expect(row.endedAt).not.toBeNull();
@@ -138,10 +145,39 @@ describe.each(storeKinds)('%s logbook', (kind) => {
       const peak = comparison.rows.find((row) => row.key === 'rampPeakV');
       expect(peak?.difference).toBeCloseTo(0.3, 12);
       expect(peak?.beyondTolerance).toBe(true);
-      const alpha = comparison.rows.find((row) => row.key === 'alphaDeg');
+      expect(peak).toMatchObject({ scope: 'recorded', judged: true });
+      // Whole-session figures are shown apart and never judged; a count never is.
+      const alpha = comparison.rows.find((row) => row.key === 'wholeSession.alphaMeanDeg');
+      expect(alpha).toMatchObject({ scope: 'whole-session', judged: false, beyondTolerance: false });
       expect(alpha?.difference).toBeCloseTo(0, 12);
-      expect(alpha?.beyondTolerance).toBe(false);
+      expect(comparison.rows.find((row) => row.key === 'cycles')).toMatchObject({ a: 3, b: 3, judged: false, beyondTolerance: false });
+      expect(comparison.rows.find((row) => row.key === 'wholeSession.alphaSpreadDeg')?.label).toMatch(/spread.*not jitter/);
       await expect(logbook.compareSessions(a, 999)).rejects.toThrow(/no session 999/);
+    });
+
+    it('a unit trimmed from a high ramp: its figures are as recorded after the trim, the whole session apart', async () => {
+      // Before the trim the ramp peaked at 10.4 V for 5 cycles, after it 7.3 V for 3; the ramp step was recorded
+      // again after the trim (our scenario). The whole-session median is the 10.4 V of the early cycles.
+      const id = await session('RW-0420', 0, [10.4, 10.4, 10.4, 10.4, 10.4, 7.3, 7.3, 7.3], [], chargerDesign(), { rampPeakV: 7.31 });
+      const [row] = await logbook.listSessions({ unitSerial: 'RW-0420' });
+      expect(row.rampPeakV).toBe(7.31);
+      expect(row.wholeSession.rampPeakMedianV).toBe(10.4);
+      expect(await logbook.sessionFigures(id)).toMatchObject({ rampPeakV: 7.31, wholeSession: { rampPeakMedianV: 10.4 } });
+    });
+
+    it('keeps how a session ended: a sign-off, plain or with its reason and exceptions, with the session\'s end', async () => {
+      const plain = await logbook.startSession({ unitSerial: 'RW-0430', design: chargerDesign(), operator: 'bench 2', startedAt: day(1) });
+      expect(await plain.close('closed', { kind: 'signed-off' })).toMatchObject({ status: 'closed', outcome: 'signed-off', signOffReason: null, signOffExceptions: [] });
+      const excepted = await logbook.startSession({ unitSerial: 'RW-0431', design: chargerDesign(), operator: 'bench 2', startedAt: day(2) });
+      const exceptions = [{ step: 'transfer' as const, problem: 'not-recorded' as const, readings: [] }];
+      expect(await excepted.close('closed', { kind: 'signed-off-with-exceptions', reason: 'transfer curve on the customer cabinet', exceptions })).toMatchObject({
+        outcome: 'signed-off-with-exceptions', signOffReason: 'transfer curve on the customer cabinet', signOffExceptions: exceptions,
+      });
+      const abandoned = await logbook.startSession({ unitSerial: 'RW-0432', design: chargerDesign(), operator: 'bench 2', startedAt: day(3) });
+      expect(await abandoned.close()).toMatchObject({ status: 'closed', outcome: 'closed' });
+      // The signed session's archive carries it, so its content (and hash) says how it ended.
+      const archived = await logbook.archiveSession((await logbook.listSessions({ unitSerial: 'RW-0431' }))[0].id);
+      expect(archived.session.record).toMatchObject({ signOff: 'signed-off-with-exceptions', signOffReason: 'transfer curve on the customer cabinet', signOffExceptionsJson: JSON.stringify(exceptions) });
     });
 
     it('trends ramp peak and alpha gain across a unit’s sessions (hand-computed least squares)', async () => {

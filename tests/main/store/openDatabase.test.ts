@@ -1,3 +1,4 @@
+import { legacySignOffOf, legacySignOffReason } from '../../../app/exchange/legacySignOff';
 import Database from 'better-sqlite3';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
@@ -113,6 +114,63 @@ describe('openLogbookDatabase', () => {
     expect(await again.sessionContentHash(row.id)).not.toBe(before);
     expect((await again.listSessions())[0].bench).toBeNull();
     await again.close();
+  });
+
+  it('brings a logbook of the schema before (3) up to date, telling sign-offs from sessions closed without one', async () => {
+    // A logbook as schema 3 wrote it: a sign-off was a plain "closed" with the sign-off step among the recorded
+    // steps, whatever their verdicts, and a summary line in the notes.
+    const path = folder.file('third.sqlite');
+    const old = new Database(path);
+    old.pragma(`application_id = ${logbookApplicationId}`);
+    for (const migration of migrations.slice(0, 3)) old.exec(migration);
+    old.pragma('user_version = 3');
+    const step = (name: string, verdict: string | null, readings: Array<[string, string | null]> = []) => ({
+      step: name, status: 'done', verdict, cycles: 50, note: null,
+      readings: readings.map(([label, readingVerdict]) => ({ key: label, label, unit: 'deg', value: 9, expected: 10, low: 8, high: null, verdict: readingVerdict, note: null })),
+    });
+    const allIn = ['sync', 'ramp', 'trim', 'transfer', 'limits'].map((name) => step(name, 'in-tolerance'));
+    const failing = [step('sync', 'in-tolerance'), step('ramp', 'marginal'), step('trim', 'in-tolerance'), step('limits', 'out-of-tolerance', [['Largest alpha', 'in-tolerance'], ['Smallest alpha', 'out-of-tolerance']])];
+    const design = JSON.stringify(chargerDesign());
+    old.prepare("INSERT INTO board_designs (name, version, content_hash, design_json, saved_at_ms) VALUES ('CH-50H', 1, 'h1', ?, 0)").run(design);
+    old.prepare("INSERT INTO units (serial, design_name, created_at_ms) VALUES ('RW-0901', 'CH-50H', 0)").run();
+    const insert = old.prepare('INSERT INTO sessions (unit_id, design_id, operator, started_at_ms, ended_at_ms, status, notes, steps_json) VALUES (1, 1, ?, ?, ?, ?, ?, ?)');
+    const stepsOf = (steps: object[]) => JSON.stringify(steps);
+    insert.run('bench 1', 1000, 2000, 'closed', 'signed off with every step recorded', stepsOf([...allIn, step('sign-off', 'in-tolerance')]));
+    insert.run('bench 1', 3000, 4000, 'closed', 'signed off without transfer', stepsOf([...failing, step('sign-off', 'out-of-tolerance')]));
+    insert.run('bench 2', 5000, 6000, 'closed', 'stopped for the day', stepsOf(allIn));
+    insert.run('bench 2', 7000, 8000, 'interrupted', null, null);
+    insert.run('bench 2', 9000, null, 'open', null, null);
+    const keptSteps = (old.prepare('SELECT steps_json AS json FROM sessions WHERE id = 2').get() as { json: string }).json;
+    old.close();
+
+    const logbook = await openSqliteLogbook(path);
+    const rows = await logbook.listSessions();
+    expect(rows.map((row) => [row.status, row.outcome])).toEqual([
+      ['closed', 'signed-off'],
+      ['closed', 'signed-off-with-exceptions'],
+      ['closed', 'closed'],
+      ['interrupted', 'interrupted'],
+      // The fifth was left open by a writer that is long gone: opening marks it interrupted, as it always did.
+      ['interrupted', 'interrupted'],
+    ]);
+    expect(rows[0]).toMatchObject({ signOffReason: null, signOffExceptions: [] });
+    // The failing sign-off: each step that stood in the way, with the failing reading, and a reason saying none
+    // was asked for then.
+    expect(rows[1].signOffExceptions).toEqual([
+      { step: 'transfer', problem: 'not-recorded', readings: [] },
+      { step: 'limits', problem: 'out-of-tolerance', readings: ['Smallest alpha'] },
+    ]);
+    expect(rows[1].signOffReason).toBe(legacySignOffReason);
+    // The classification in SQL agrees with the one import uses for archives of the same age.
+    expect(legacySignOffOf(keptSteps)).toEqual({ kind: 'signed-off-with-exceptions', reason: legacySignOffReason, exceptions: rows[1].signOffExceptions });
+    // Nothing stored was lost or changed.
+    const detail = await logbook.session(rows[1].id);
+    expect(detail?.notes).toBe('signed off without transfer');
+    expect(detail?.stepsJson).toBe(keptSteps);
+    await logbook.close();
+    const db = new Database(path);
+    expect(db.pragma('user_version', { simple: true })).toBe(latestSchemaVersion);
+    db.close();
   });
 
   it('accepts an empty file as a new logbook', () => {

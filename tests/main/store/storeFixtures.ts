@@ -40,3 +40,14 @@ export function tempFolder(prefix = 'rampwright-store-'): TempFolder {
   const path = mkdtempSync(join(tmpdir(), prefix));
   return { path, file: (name) => join(path, name), remove: () => rmSync(path, { recursive: true, force: true }) };
 }
+
+/** Step reports as the bench records them, with only the readings the logbook's figures are taken from. */
+export function recordedStepsJson(figures: { rampPeakV?: number; slopeVPerMs?: number; gainDegPerV?: number; offsetDeg?: number; alphaMinDeg?: number; alphaMaxDeg?: number }): string {
+  const reading = (key: string, value: number | undefined, unit: string) => ({ key, label: key, unit, value: value ?? null, expected: null, low: null, high: null, verdict: null, note: null });
+  const step = (name: string, readings: ReturnType<typeof reading>[]) => ({ step: name, status: 'done', verdict: 'in-tolerance', readings, cycles: 50, note: null });
+  return JSON.stringify([
+    step('ramp', [reading('rampPeakV', figures.rampPeakV, 'V'), reading('slopeVPerMs', figures.slopeVPerMs, 'V/ms')]),
+    step('transfer', [reading('gainDegPerV', figures.gainDegPerV, 'deg/V'), reading('offsetDeg', figures.offsetDeg, 'deg')]),
+    step('limits', [reading('alphaMaxDeg', figures.alphaMaxDeg, 'deg'), reading('alphaMinDeg', figures.alphaMinDeg, 'deg')]),
+  ]);
+}

@@ -1,28 +1,37 @@
 import { describe, expect, it } from 'vitest';
 import type { FoldCycle, Reading, StepReport } from '../../../app/contract/readings';
 import { FoldPointsCache, foldCyclesPoints, growScale } from '../../../renderer/shaping/foldPoints';
-import { readingsCsv } from '../../../renderer/shaping/readingsCsv';
+import { stepReadingsCsv } from '../../../app/exchange/recordCsv';
 import { designText, mergeSteps, pickReading } from '../../../renderer/shaping/stepView';
 import { fitLinePoints, transferPointsCsv, transferRangeV } from '../../../renderer/shaping/transferView';
-import { verdictView, worstVerdict } from '../../../renderer/shaping/verdictView';
+import { verdictView } from '../../../renderer/shaping/verdictView';
+import { stepVerdictOf, worstMeasuredVerdict } from '../../../app/contract/verdicts';
 
 const reading = (key: string, value: number | null, extra: Partial<Reading> = {}): Reading => ({ key, label: key, unit: 'V', value, expected: null, low: null, high: null, verdict: null, note: null, ...extra });
-const report = (step: StepReport['step'], status: StepReport['status'], readings: Reading[]): StepReport => ({ step, status, verdict: null, readings, cycles: readings.length ? 10 : 0, note: null });
+const report = (step: StepReport['step'], status: StepReport['status'], readings: Reading[]): StepReport => ({ step, status, verdict: 'not-measured', readings, cycles: readings.length ? 10 : 0, note: null });
 
 describe('verdicts', () => {
   it('always give words and an icon, not colour alone (NAMING.md)', () => {
-    for (const verdict of ['in-tolerance', 'marginal', 'out-of-tolerance', null] as const) {
+    for (const verdict of ['in-tolerance', 'marginal', 'out-of-tolerance', 'not-measured'] as const) {
       const view = verdictView(verdict);
       expect(view.text.length).toBeGreaterThan(3);
       expect(view.icon.length).toBeGreaterThan(0);
     }
     expect(verdictView('out-of-tolerance').text).toBe('Out of tolerance');
+    // "Not measured yet": words, and neither a tick nor a cross.
+    expect(verdictView('not-measured')).toMatchObject({ text: 'Not measured yet', className: 'not-measured' });
+    expect(verdictView('not-measured').icon).not.toMatch(/[✓✕]/);
   });
 
-  it('the worst verdict wins', () => {
-    expect(worstVerdict(['in-tolerance', 'marginal', null])).toBe('marginal');
-    expect(worstVerdict(['marginal', 'out-of-tolerance', 'in-tolerance'])).toBe('out-of-tolerance');
-    expect(worstVerdict([null])).toBeNull();
+  it('the worst measured verdict wins; a step is not measured while any check lacks its measurement', () => {
+    expect(worstMeasuredVerdict(['in-tolerance', 'marginal', null])).toBe('marginal');
+    expect(worstMeasuredVerdict(['marginal', 'out-of-tolerance', 'in-tolerance'])).toBe('out-of-tolerance');
+    expect(worstMeasuredVerdict([null, 'not-measured'])).toBeNull();
+    expect(stepVerdictOf([{ verdict: 'in-tolerance' }, { verdict: null }])).toBe('in-tolerance');
+    expect(stepVerdictOf([{ verdict: 'out-of-tolerance' }, { verdict: 'not-measured' }])).toBe('not-measured');
+    // Only readings for information: nothing was judged, so there is no verdict to give.
+    expect(stepVerdictOf([{ verdict: null }])).toBe('not-measured');
+    expect(stepVerdictOf([])).toBe('not-measured');
   });
 });
 
@@ -117,8 +126,11 @@ describe('transfer helpers', () => {
     expect(transferPointsCsv([{ t: 0.5, controlV: 1.25, alphaDeg: 52.5 }])).toBe('t_s,control_V,alpha_deg\r\n0.5,1.25,52.5\r\n');
   });
 
-  it('quotes readings that hold commas or quotes (RFC 4180)', () => {
-    const csv = readingsCsv([report('ramp', 'done', [reading('rampPeakV', 6, { label: 'Ramp peak, end of "half"', verdict: 'in-tolerance' })])]);
-    expect(csv.split('\r\n')[1]).toBe('ramp,rampPeakV,"Ramp peak, end of ""half""",V,6,,,,in-tolerance');
+  it('writes the readings as recorded, quoting those that hold commas or quotes (RFC 4180); information has no verdict', () => {
+    const csv = stepReadingsCsv([report('ramp', 'done', [reading('rampPeakV', 6, { label: 'Ramp peak, end of "half"', verdict: 'in-tolerance' }), reading('slopeVPerMs', 0.75)])]);
+    const lines = csv.split('\n');
+    expect(lines[0]).toBe('step,reading,label,value,design,low,high,unit,verdict,note');
+    expect(lines[1]).toBe('ramp,rampPeakV,"Ramp peak, end of ""half""",6,,,,V,in-tolerance,');
+    expect(lines[2]).toBe('ramp,slopeVPerMs,slopeVPerMs,0.75,,,,V,,');
   });
 });

@@ -22,6 +22,9 @@ export async function buildRecord(sources: RecordSources, sessionId: number, opt
   if (!detail) throw new InputError(`there is no session ${sessionId} in this logbook`, sources.logbook.location);
   const version = await sources.logbook.designVersion(detail.designId);
   const design = parseStoredDesign(version.designJson, `${sources.logbook.location}: session ${sessionId}`);
+  // The record stands for every cycle the session stored, though it prints their cached totals: the cycles are read
+  // through (one row kept) so that damaged pages under them stop the record with the logbook's damage message.
+  await sources.logbook.cycleReadings(sessionId, { maxRows: 1 });
   const ordered = orderCapturesForDigest(detail.captures);
   const last = ordered[ordered.length - 1];
   const stored = last ? await sources.logbook.readCapture(last.id) : null;

@@ -19,6 +19,9 @@ export interface BoardPhysicsProblem {
   message: string;
 }
 
+/** Most charging current a design may ask of its transistor (A); see the check below. */
+export const maxChargingCurrentA = 0.1;
+
 function format(value: number, digits = 4): string {
   return Number(value.toPrecision(digits)).toString();
 }
@@ -55,6 +58,15 @@ export function validateBoardPhysics(design: BoardDesign): BoardPhysicsProblem[]
 
   const prediction = predictRamp(design);
   const values = boardPartValues(design);
+  // A ramp source runs at microamps to a few milliamps (common practice); a small-signal PNP transistor is rated
+  // for 100 to 800 mA of collector current (from memory). Beyond 100 mA the parts describe no ramp source.
+  if (!(prediction.chargingCurrentA <= maxChargingCurrentA)) {
+    error(
+      'parts.rEmitter.ohm',
+      `the parts ask the current source for ${Number.isFinite(prediction.chargingCurrentA) ? `${format(prediction.chargingCurrentA * 1e3)} mA` : 'no finite current'}, beyond the ${maxChargingCurrentA * 1e3} mA a small-signal PNP transistor carries: raise rEmitter or lower the base divider's drop`,
+    );
+    return problems;
+  }
   if (design.rampTargetV >= prediction.clipV && design.rampTargetV < design.supplyV) {
     error(
       'rampTargetV',

@@ -1,21 +1,23 @@
 /**
  * The stored design of a board type (`*.board.json`, our own schema). Validated at the edge with zod;
  * the core trusts a parsed `BoardDesign`. Physics checks (a divider that cuts the transistor off,
- * a target above the supply) live in `validateBoardPhysics` beside the model.
+ * a target above the supply) live in `validateBoardPhysics` beside the model. Every number is held to a physical
+ * range (designRanges.ts, with the source of each range), so no value can drive the model to NaN or infinity.
  */
 import { z } from 'zod';
 import { channelMapSchema } from '../capture/channelMap';
+import { designRanges, rangedNumber } from './designRanges';
 
 const resistor = z.object({
-  ohm: z.number().positive('a resistance must be above 0 ohm').finite(),
+  ohm: rangedNumber(designRanges.resistorOhm),
   tolerancePct: z.number().min(0).max(50).default(5),
-  ref: z.string().optional(),
+  ref: z.string().max(40, 'a designator has at most 40 characters').optional(),
 });
 
 const capacitor = z.object({
-  farad: z.number().positive('a capacitance must be above 0 F').max(1, 'a ramp capacitor above 1 F is not a ramp capacitor').finite(),
+  farad: rangedNumber(designRanges.rampCapacitorFarad),
   tolerancePct: z.number().min(0).max(80).default(10),
-  ref: z.string().optional(),
+  ref: z.string().max(40, 'a designator has at most 40 characters').optional(),
 });
 
 /** The current-source transistor; every field defaults. */
@@ -24,7 +26,7 @@ export const transistorSchema = z
     // Typical small-signal PNP values, from memory (REFERENCES.md: V_EB 0.6-0.7 V, beta 100-300, V_A 20-100 V).
     vebV: z.number().min(0.3).max(1.0).default(0.65),
     beta: z.number().min(10).max(2000).default(150),
-    earlyV: z.number().positive().max(1000).default(60),
+    earlyV: rangedNumber(designRanges.earlyV).default(60),
     vecSatV: z.number().min(0).max(2).default(0.2),
   })
   .default({ vebV: 0.65, beta: 150, earlyV: 60, vecSatV: 0.2 });
@@ -36,24 +38,24 @@ export const transistorSchema = z
  */
 export const loadSchema = z.object({
   /** Mains at the thyristor's anode, rms (V). */
-  mainsRmsV: z.number().positive('the mains voltage must be above 0 V').max(1000, 'a mains above 1000 V rms is outside this tool'),
+  mainsRmsV: rangedNumber(designRanges.loadMainsRmsV),
   /** Load resistance (ohm). */
-  ohm: z.number().positive('the load resistance must be above 0 ohm').finite(),
+  ohm: rangedNumber(designRanges.loadOhm),
   /** Load inductance (H); 0 for a resistive load. */
   henry: z.number().min(0, 'the load inductance cannot be negative').max(100).default(0),
   /** Latching current of the thyristor from its data sheet (A). */
-  latchingCurrentA: z.number().positive('the latching current must be above 0 A').max(10),
+  latchingCurrentA: rangedNumber(designRanges.latchingCurrentA),
 });
 export type PowerLoad = z.output<typeof loadSchema>;
 
 export const boardDesignSchema = z.object({
-  name: z.string().min(1, 'a board design needs a name'),
+  name: z.string().min(1, 'a board design needs a name').max(200, 'a board design name has at most 200 characters'),
   mainsHz: z.number().min(45, 'mains frequency must be 45-65 Hz').max(65, 'mains frequency must be 45-65 Hz'),
   rectifier: z.enum(['half-wave', 'full-wave']),
   /** Supply of the current source (V), emitter resistor side. */
-  supplyV: z.number().positive('the supply must be above 0 V').max(100),
+  supplyV: rangedNumber(designRanges.supplyV),
   /** Ramp height wanted at the end of the charging interval (V). */
-  rampTargetV: z.number().positive('the ramp target must be above 0 V'),
+  rampTargetV: rangedNumber(designRanges.rampTargetV),
   alphaMinDeg: z.number().min(0).max(180).default(0),
   alphaMaxDeg: z.number().gt(0).max(180),
   /** Phase shift of the sync transformer/filter; readings are corrected by it (degrees, lag positive). */
@@ -61,9 +63,9 @@ export const boardDesignSchema = z.object({
   /** How long the sync circuit holds the ramp capacitor in reset around each zero crossing (us). */
   syncResetUs: z.number().min(0).max(5000).default(300),
   /** Width of the gate pulse the board's pulse stage makes (us). Hard firing uses tens to hundreds of us (from memory). */
-  gatePulseUs: z.number().positive().max(10000).default(200),
+  gatePulseUs: rangedNumber(designRanges.gatePulseUs).default(200),
   /** Supply of the control divider (rControlTop + potControl), when it is not supplyV (V). */
-  controlSupplyV: z.number().positive('the control supply must be above 0 V').max(100).optional(),
+  controlSupplyV: rangedNumber(designRanges.controlSupplyV).optional(),
   /** Ambient range the board must work over (C), for the tolerance analysis. Default 0-50 C (common practice for indoor gear). */
   ambientC: z
     .object({ minC: z.number().min(-55).max(125), maxC: z.number().min(-55).max(125) })
@@ -82,9 +84,9 @@ export const boardDesignSchema = z.object({
   load: loadSchema.optional(),
   tolerances: z
     .object({
-      rampPeakPct: z.number().positive().default(3),
-      alphaDeg: z.number().positive().default(2),
-      startDelayDeg: z.number().positive().default(3),
+      rampPeakPct: rangedNumber(designRanges.rampPeakTolerancePct).default(3),
+      alphaDeg: rangedNumber(designRanges.angleToleranceDeg).default(2),
+      startDelayDeg: rangedNumber(designRanges.angleToleranceDeg).default(3),
     })
     .default({ rampPeakPct: 3, alphaDeg: 2, startDelayDeg: 3 }),
   /**

@@ -68,7 +68,9 @@ export function estimateFromReadings(design: BoardDesign, readings: RampReadings
   const shifted = at(vebShiftV);
   const capacitanceFarad = fitCapacitance(design, basis, wanted, options.partOverrides ?? {}, nominal.capacitanceFarad);
   const ratio = capacitanceFarad / nominal.capacitanceFarad;
-  const explanation = atLimit ? 'capacitance' : 'veb';
+  // Far outside the transistor law's reach (a shift of tens of volts) the model has no operating point: the
+  // capacitance reading is then the one that still explains the ramp.
+  const explanation = atLimit || !Number.isFinite(shifted.chargingCurrentA) || !Number.isFinite(shifted.vebV) ? 'capacitance' : 'veb';
   const modelOverrides: PartOverrides = explanation === 'veb' ? { ...options.partOverrides } : { ...options.partOverrides, cRamp: capacitanceFarad };
   const modelShiftV = explanation === 'veb' ? vebShiftV : 0;
   const prediction = explanation === 'veb' ? shifted : predictRamp(design, { partOverrides: modelOverrides });

@@ -9,6 +9,7 @@
  */
 import { InputError } from '../errors';
 import type { BoardDesign, PartRole } from './design';
+import { designRanges, rangeMessage, withinRange } from './designRanges';
 import { formatPartValue } from './formatValues';
 import { partName } from './partNames';
 import { parseQuantity } from './parseQuantity';
@@ -56,6 +57,8 @@ export function checkMeasuredParts(design: BoardDesign, measured: Partial<Record
         where,
       );
     }
+    const range = role === 'cRamp' ? designRanges.rampCapacitorFarad : designRanges.resistorOhm;
+    if (!withinRange(value, range)) throw new InputError(`the measured ${partName(design, role)} ${rangeMessage(range)}; got ${formatPartValue(role, value)}`, where);
     if (checked[role] !== undefined) throw new InputError(`the ${partName(design, role)} is given twice`, where);
     checked[role] = value;
   }

@@ -86,8 +86,12 @@ function quantityOf(basis: 'peak' | 'slope', prediction: RampPrediction): number
   return basis === 'peak' ? prediction.peakV - prediction.floorV : prediction.slopeVPerS;
 }
 
+/**
+ * A part's tolerance as a fraction; a design may state 0 % (exact), which would make any deviation infinitely many
+ * tolerances off: the tightest tolerance letter of IEC 60062 (E, 0.005 %, from memory) is taken as its floor.
+ */
 function toleranceOf(design: BoardDesign, part: RampPosition): number {
-  return design.parts[part].tolerancePct / 100;
+  return Math.max(design.parts[part].tolerancePct, 0.005) / 100;
 }
 
 /**

@@ -14,6 +14,8 @@
 import { InputError } from '../errors';
 import { controlLimitsOf } from './controlDivider';
 import { type BoardDesign, boardDesignSchema } from './design';
+import { designRanges, withinRange } from './designRanges';
+import { formatOhm } from './formatValues';
 import { type ESeriesName, eSeriesTolerancePct, standardValueNeighbours, standardValuesBetween } from './eSeries';
 import { predictRamp, type RampPrediction } from './rampModel';
 import type { SizingTargets } from './sizingTargets';
@@ -40,7 +42,9 @@ function neighbours(value: number, series: ESeriesName): number[] {
   return below === above ? [below] : [below, above];
 }
 
-function designFrom(targets: SizingTargets, ohm: { rEmitter: number; rBiasTop: number; rBiasBottom: number; rControlTop?: number }): BoardDesign {
+/** The design with these resistors, or null when one lies outside the resistors makers list (designRanges.ts). */
+function designFrom(targets: SizingTargets, ohm: { rEmitter: number; rBiasTop: number; rBiasBottom: number; rControlTop?: number }): BoardDesign | null {
+  if (Object.values(ohm).some((value) => value !== undefined && !withinRange(value, designRanges.resistorOhm))) return null;
   const tolerancePct = eSeriesTolerancePct[targets.series as ESeriesName];
   return boardDesignSchema.parse({
     name: targets.name,
@@ -92,6 +96,16 @@ export function sizeBoard(targets: SizingTargets): SizingResult {
   }
   const exactTop = (supplyV - baseV) / dividerA;
   const exactBottom = baseV / (dividerA - baseA);
+  // A capacitor too small for its ramp asks for resistors beyond 10 Mohm, one too large for ones below 1 ohm.
+  for (const [role, exact] of [['rEmitter', rEmitterFirst], ['rBiasTop', exactTop], ['rBiasBottom', exactBottom]] as const) {
+    if (withinRange(exact, designRanges.resistorOhm)) continue;
+    const tooLarge = exact > designRanges.resistorOhm.max;
+    throw new InputError(
+      `these targets need ${role} of about ${formatOhm(exact)}, ${tooLarge ? 'above' : 'below'} the ${formatOhm(designRanges.resistorOhm.min)} to ${formatOhm(designRanges.resistorOhm.max)} resistors are made in: ` +
+        `choose a ${tooLarge ? 'larger' : 'smaller'} ramp capacitor${targets.dividerCurrentA === undefined ? '' : ' or another divider current'}`,
+      'cRampFarad',
+    );
+  }
 
   let best: { design: BoardDesign; prediction: RampPrediction; score: number; exactEmitter: number } | null = null;
   // Divider values around the exact ones: with a coarse series the pair's ratio is the fine adjustment that the
@@ -105,11 +119,13 @@ export function sizeBoard(targets: SizingTargets): SizingResult {
   for (const rBiasTop of dividerValues(exactTop)) {
     for (const rBiasBottom of dividerValues(exactBottom)) {
       const provisional = designFrom(targets, { rEmitter: rEmitterFirst, rBiasTop, rBiasBottom });
+      if (provisional === null) continue;
       if ((supplyV * rBiasBottom) / (rBiasTop + rBiasBottom) + vebV >= supplyV) continue;
       const exactEmitter = exactOhmFor({ design: provisional, series, vebShiftV: 0, fitted: {} }, 'rEmitter', targets.rampTargetV);
       if (exactEmitter === null) continue;
       for (const rEmitter of neighbours(exactEmitter, series)) {
         const design = designFrom(targets, { rEmitter, rBiasTop, rBiasBottom });
+        if (design === null) continue;
         const prediction = predictRamp(design);
         const errorPct = (Math.abs(prediction.peakV - targets.rampTargetV) / targets.rampTargetV) * 100;
         // One percent of ramp error weighs as much as a fifth of the supply off the asked emitter drop: the drop
@@ -120,16 +136,19 @@ export function sizeBoard(targets: SizingTargets): SizingResult {
       }
     }
   }
-  if (best === null) throw new InputError('no divider in the series leaves the transistor conducting at these targets', 'supplyV');
+  if (best === null) throw new InputError('no divider in the series (within 1 ohm to 10 Mohm) leaves the transistor conducting at these targets', 'supplyV');
 
   const limits = controlLimitsOf(best.design, { prediction: best.prediction });
   let design = best.design;
   let exactControl: number | null = null;
-  if (limits.limitResistorOhm !== null) {
+  // Round up: a larger top resistor keeps alpha short of alphaMaxDeg.
+  const rControlTop = limits.limitResistorOhm === null ? null : standardValueNeighbours(limits.limitResistorOhm, series).above;
+  const limited = rControlTop === null ? null : designFrom(targets, { rEmitter: best.design.parts.rEmitter.ohm, rBiasTop: best.design.parts.rBiasTop.ohm, rBiasBottom: best.design.parts.rBiasBottom.ohm, rControlTop });
+  if (limited !== null) {
     exactControl = limits.limitResistorOhm;
-    // Round up: a larger top resistor keeps alpha short of alphaMaxDeg.
-    const rControlTop = standardValueNeighbours(limits.limitResistorOhm, series).above;
-    design = designFrom(targets, { rEmitter: best.design.parts.rEmitter.ohm, rBiasTop: best.design.parts.rBiasTop.ohm, rBiasBottom: best.design.parts.rBiasBottom.ohm, rControlTop });
+    design = limited;
+  } else if (rControlTop !== null) {
+    notes.push(`the control-limit resistor for alphaMaxDeg ${targets.alphaMaxDeg} deg would be ${formatOhm(rControlTop)}, outside the resistors made: none fitted`);
   } else {
     notes.push(`alphaMaxDeg ${targets.alphaMaxDeg} deg lies outside the ramp: no control-limit resistor fitted`);
   }

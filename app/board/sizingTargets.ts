@@ -6,15 +6,16 @@
 import { z } from 'zod';
 import { eSeriesNames } from './eSeries';
 import { transistorSchema } from './design';
+import { designRanges, rangedNumber } from './designRanges';
 import { defaultControlPotOhm } from './parts';
 
 export const sizingTargetsSchema = z.object({
-  name: z.string().min(1).default('Sized board'),
+  name: z.string().min(1).max(200).default('Sized board'),
   mainsHz: z.number().min(45, 'mains frequency must be 45-65 Hz').max(65, 'mains frequency must be 45-65 Hz'),
   rectifier: z.enum(['half-wave', 'full-wave']),
-  supplyV: z.number().positive('the supply must be above 0 V').max(100),
-  rampTargetV: z.number().positive('the ramp target must be above 0 V'),
-  cRampFarad: z.number().positive('the ramp capacitor must be above 0 F').max(1e-3),
+  supplyV: rangedNumber(designRanges.supplyV),
+  rampTargetV: rangedNumber(designRanges.rampTargetV),
+  cRampFarad: rangedNumber(designRanges.rampCapacitorFarad),
   capacitorTolerancePct: z.number().min(0).max(80).default(10),
   series: z.enum(eSeriesNames as [string, ...string[]]).default('E24'),
   /**
@@ -23,14 +24,14 @@ export const sizingTargetsSchema = z.object({
    */
   emitterDropFraction: z.number().gt(0, 'the emitter drop fraction must be above 0').lt(0.9, 'the emitter drop fraction must be below 0.9').default(0.15),
   /** Current through the base divider (A). Default: the stiff-divider rule R_TH <= 0.01 beta R_E (Malvino, from memory). */
-  dividerCurrentA: z.number().positive('the divider current must be above 0 A').optional(),
+  dividerCurrentA: rangedNumber(designRanges.dividerCurrentA).optional(),
   alphaMinDeg: z.number().min(0).max(180).default(0),
   alphaMaxDeg: z.number().gt(0).max(180).default(165),
   syncPhaseDeg: z.number().min(-90).max(90).default(0),
   syncResetUs: z.number().min(0).max(5000).default(300),
-  gatePulseUs: z.number().positive().max(10000).default(200),
+  gatePulseUs: rangedNumber(designRanges.gatePulseUs).default(200),
   /** Control potentiometer (ohm). Default: the same pot a design without one is taken to have (parts.ts). */
-  potControlOhm: z.number().positive().default(defaultControlPotOhm),
+  potControlOhm: rangedNumber(designRanges.resistorOhm).default(defaultControlPotOhm),
   transistor: transistorSchema,
 });
 

@@ -4,6 +4,7 @@
  * Each candidate is evaluated with the model carrying the estimate's V_EB shift (estimateFromReadings.ts).
  */
 import type { BoardDesign, PartRole } from './design';
+import { designRanges, withinRange } from './designRanges';
 import { type ESeriesName, standardValueNeighbours } from './eSeries';
 import type { PartOverrides } from './parts';
 import { predictRamp, type RampPrediction } from './rampModel';
@@ -90,6 +91,8 @@ export function candidatesFor(context: CandidateContext, part: ResistorRole, tar
   const fromOhm = fittedOhm(context, part);
   const candidates: TrimCandidate[] = [];
   const push = (method: TrimMethod, partOhm: number, toOhm: number): void => {
+    // A resistor no maker lists (beyond 1 ohm to 10 Mohm) is no advice, however the arithmetic came out.
+    if (!withinRange(partOhm, designRanges.resistorOhm) || !withinRange(toOhm, designRanges.resistorOhm)) return;
     candidates.push({ part, method, fromOhm, toOhm, partOhm, alsoChange: null, prediction: predictWith(context, { ...extra, [part]: toOhm }) });
   };
   const neighbours = (value: number): number[] => {

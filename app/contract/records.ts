@@ -205,6 +205,8 @@ export const sessionRowSchema = z.object({
   /** Over every cycle of the session (before and after a trim, a whole sweep): shown only labelled as such. */
   wholeSession: z.object({ rampPeakMedianV: z.number().nullable(), alphaMeanDeg: z.number().nullable() }),
   linkErrors: z.number().int().nonnegative(),
+  /** Seconds the logger sent nothing (stretches over 2 s), 0 for a link that never went quiet. */
+  linkSilentS: z.number().nonnegative(),
   /** The bench that recorded it (null for sessions from before benches were named). */
   bench: z.string().nullable(),
   /** When this bench pushed it to the shared logbook; null when not yet (or when this is the shared logbook). */

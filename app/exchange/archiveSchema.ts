@@ -94,6 +94,22 @@ export const archiveSessionSchema = z
   })
   .strict();
 
+export const archiveSignatureSchema = z
+  .object({
+    algorithm: z.literal('ed25519'),
+    /** Base64 of the bench's raw 32-byte Ed25519 public key. */
+    publicKey: z.string().max(100),
+    /** Base64 of the 64-byte signature. */
+    value: z.string().max(200),
+  })
+  .strict();
+export type ArchiveSignature = z.infer<typeof archiveSignatureSchema>;
+
+/** The exact bytes a bench signs: the format, its version, the content hash and the export time, one per line. */
+export function signedArchiveMessage(archive: { contentSha256: string; exportedAt: string }): string {
+  return `${archiveFormatName}\n${archiveFormatVersion}\ncontent-sha256 ${archive.contentSha256}\nexported-at ${archive.exportedAt}\n`;
+}
+
 export const sessionArchiveSchema = z
   .object({
     format: z.literal(archiveFormatName),
@@ -104,6 +120,8 @@ export const sessionArchiveSchema = z
     session: archiveSessionSchema,
     /** Base64 of each capture's stored bytes (zlib), in the order of `session.captures`; checked by their sha-256. */
     captureData: z.array(z.string()),
+    /** The exporting bench's signature of `signedArchiveMessage` (ARCHIVE.md, "Signature"); absent when unsigned. */
+    signature: archiveSignatureSchema.optional(),
   })
   .strict()
   .refine((archive) => archive.captureData.length === archive.session.captures.length, { message: 'captureData needs one entry per capture', path: ['captureData'] });

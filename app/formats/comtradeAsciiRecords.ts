@@ -29,9 +29,19 @@ export function createComtradeAsciiRecords(context: ComtradeRecordContext): Omit
     if (plan.kinds[slot] === 1) slotOfField[2 + plan.channelIndex[slot]] = slot;
     if (plan.kinds[slot] === 2) slotOfField[2 + analogCount + plan.channelIndex[slot]] = slot;
   }
+  // Set while the splitter hands over a last line that has no line end.
+  let lastLineUnterminated = false;
   const splitter = new LineSplitter((bytes, start, end, lineNumber) => {
     cursor.record = lineNumber;
     if (isBlankText(bytes, start, end) || isEndOfFileMark(bytes, start, end)) return;
+    if (lastLineUnterminated) {
+      // Every line of a C37.111 data file ends with CR LF (from memory); a last row without one is where a copy
+      // stopped, and its last number may be cut ("1.2" of "1.25"), so it is not taken as a sample.
+      throw new InputError(
+        `the last line has no line end: the file was cut short, perhaps in the middle of a number (the rows before it hold ${builder.totalSamples} samples); copy the .dat again from the recorder`,
+        where(),
+      );
+    }
     let field = 0;
     let fieldStart = start;
     for (;;) {
@@ -74,6 +84,7 @@ export function createComtradeAsciiRecords(context: ComtradeRecordContext): Omit
     },
     finish() {
       out = [];
+      lastLineUnterminated = true;
       splitter.finish();
       finishComtradeRecords(context, out);
       return out;

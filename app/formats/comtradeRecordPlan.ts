@@ -84,8 +84,44 @@ export function checkComtradeTime(context: ComtradeRecordContext, timeS: number)
   }
 }
 
+/** The number of samples the configuration says the record holds: the last endsamp, or 0 when it does not say. */
+export function declaredSampleCount(config: ComtradeConfig): number {
+  const rates = config.sampleRates;
+  return rates.length > 0 ? rates[rates.length - 1].endSample : (config.endSampleWithoutRate ?? 0);
+}
+
+/** Seconds the samples after `fromSample` up to `toSample` (sample numbers from 1) span under the rate plan. */
+function secondsBetweenSamples(config: ComtradeConfig, fromSample: number, toSample: number): number | null {
+  let seconds = 0;
+  let previousEnd = 0;
+  for (const rate of config.sampleRates) {
+    if (!(rate.rateHz > 0)) return null;
+    const first = Math.max(fromSample, previousEnd);
+    const last = Math.min(toSample, rate.endSample);
+    if (last > first) seconds += (last - first) / rate.rateHz;
+    previousEnd = rate.endSample;
+  }
+  return seconds;
+}
+
+/**
+ * The end of the data: it must hold the samples the configuration's endsamp announces. A .dat cut at a record
+ * boundary otherwise reads as a shorter capture with nothing said (half the file gave a 0.25 s capture).
+ */
 export function finishComtradeRecords(context: ComtradeRecordContext, out: SampleBlock[]): void {
-  if (context.builder.totalSamples === 0) throw new InputError('the data file holds no samples', context.source);
+  const read = context.builder.totalSamples;
+  if (read === 0) throw new InputError('the data file holds no samples', context.source);
+  const declared = declaredSampleCount(context.config);
+  if (read < declared) {
+    const missing = declared - read;
+    const seconds = secondsBetweenSamples(context.config, read, declared);
+    const span = seconds === null ? '' : ` (${Number(seconds.toPrecision(3))} s of signal)`;
+    throw new InputError(
+      `the data ends after sample ${read}, but the configuration's last sample (endsamp) is ${declared}: ${missing} samples${span} are missing. ` +
+        'The file was cut short; copy it again from the recorder (or check that the .cfg is the one for this .dat)',
+      context.source,
+    );
+  }
   context.builder.flush(out);
 }
 

@@ -58,7 +58,8 @@ export interface CommissioningRecord {
   trims: Array<{ part: string; name: string; fromOhm: number; toOhm: number; method: string; reason: string; at: string }>;
   /** Part values measured on the board (ohm; farad for cRamp), `name` as above. */
   partMeasurements: Array<{ part: string; name: string; value: number; designValue: number; at: string }>;
-  link: { errors: number; events: Array<{ kind: string; detail: string; count: number; at: string }> };
+  /** Link errors (the logbook's count), seconds the logger was silent, and the events as recorded. */
+  link: { errors: number; silentS: number; events: Array<{ kind: string; detail: string; count: number; at: string }> };
   captures: RecordCapture[];
   /** sha-256 of captureDigestText(captures); null when the session kept no capture. */
   capturesSha256: string | null;
@@ -168,3 +169,16 @@ export const recordLimitsNote = [
   'It does not certify the installation the unit goes into, its wiring, protection or isolation: those follow the local electrical codes and the installer\'s own checks.',
   'Mains-derived signals were taken through an isolated sync source; anyone repeating the measurements must do the same.',
 ];
+
+/** The record's sentence on the link: errors, and how long the logger was silent, in words. */
+export function linkHealthSentence(link: CommissioningRecord['link']): string {
+  const errors = link.errors === 0 ? 'No link errors were recorded.' : `${link.errors} link error${link.errors === 1 ? ' was' : 's were'} recorded (see the events).`;
+  if (link.silentS <= 0) return errors;
+  const stretches = link.events.filter((event) => event.kind === 'link-silent').length;
+  return `${errors} The logger sent nothing for ${link.silentS.toFixed(1)} s in ${stretches} stretch${stretches === 1 ? '' : 'es'}: no reading covers that time.`;
+}
+
+/** An event's count as the record shows it: a silence's length in seconds, anything else as a number. */
+export function linkEventCountText(event: { kind: string; count: number }): string {
+  return event.kind === 'link-silent' ? `${(event.count / 1000).toFixed(1)} s` : String(event.count);
+}

@@ -5,7 +5,7 @@
 import { escapeXml, figureToSvg } from './figure';
 import { foldFigure, transferFigure } from './plots';
 import { outcomeStatement } from './outcomeStatement';
-import { formatReading, partMeasurementCells, recordLimitsNote, rowVerdictWords, trimCells, type CommissioningRecord } from './recordModel';
+import { formatReading, linkEventCountText, linkHealthSentence, partMeasurementCells, recordLimitsNote, rowVerdictWords, trimCells, type CommissioningRecord } from './recordModel';
 import { outcomeWords } from '../contract/records';
 
 /** The outcome first, in a box a reviewer cannot miss (app/record/outcomeStatement.ts words it). */
@@ -56,7 +56,7 @@ export function renderRecordHtml(record: CommissioningRecord): string {
   });
   const trimRows = record.trims.map((trim) => `<tr>${trimCells(trim).map((text, index) => cell(text, index > 0 ? 'number' : '')).join('')}${cell(trim.method)}${cell(trim.reason)}${cell(when(trim.at))}</tr>`);
   const measurementRows = record.partMeasurements.map((measurement) => `<tr>${partMeasurementCells(measurement).map((text, index) => cell(text, index > 0 ? 'number' : '')).join('')}${cell(when(measurement.at))}</tr>`);
-  const eventRows = record.link.events.map((event) => `<tr>${cell(event.kind)}${cell(event.detail)}${cell(String(event.count), 'number')}${cell(when(event.at))}</tr>`);
+  const eventRows = record.link.events.map((event) => `<tr>${cell(event.kind)}${cell(event.detail)}${cell(linkEventCountText(event), 'number')}${cell(when(event.at))}</tr>`);
   const captureRows = record.captures.map((capture) => `<tr>${cell(capture.label ?? '-')}${cell(when(capture.startedAt))}${cell(`${capture.seconds.toFixed(3)} s at ${formatReading(capture.sampleRateHz, 'Hz')}`)}${cell(capture.roles.join(', '))}<td class="hash">${capture.sha256}</td></tr>`);
   const fit = record.transfer.fit;
   const fitText = fit
@@ -88,7 +88,7 @@ ${table(['Part', 'Measured', 'Design', 'Off by', 'When'], measurementRows, 'No p
 <h2>Changes made to the board</h2>
 ${table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], trimRows, 'No part was changed.')}
 <h2>Link health</h2>
-<p>${record.link.errors === 0 ? 'No link errors were recorded.' : `${record.link.errors} link errors were recorded (see the events).`}</p>
+<p>${escapeXml(linkHealthSentence(record.link))}</p>
 ${table(['Event', 'Detail', 'Count', 'When'], eventRows, 'No link events were recorded.')}
 <h2>Raw captures</h2>
 ${table(['Label', 'Started', 'Length', 'Signals', 'sha-256 of the samples'], captureRows, 'No capture was kept in this session.')}

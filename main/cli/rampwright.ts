@@ -5,6 +5,7 @@
 import { Command, CommanderError } from 'commander';
 import { isInputError } from '../../app/errors';
 import { registerCommands } from './commands/index';
+import { exitAfterOutput, toleratePipeClosed } from './deliverOutput';
 
 export async function runCommandLine(argv: readonly string[]): Promise<number> {
   const program = new Command('rampwright')
@@ -27,11 +28,14 @@ export async function runCommandLine(argv: readonly string[]): Promise<number> {
 
 const invokedDirectly = process.argv[1] !== undefined && /rampwright(\.js|\.ts)?$/.test(process.argv[1]);
 if (invokedDirectly) {
+  toleratePipeClosed(process.stdout);
+  toleratePipeClosed(process.stderr);
+  // Exit only after stdout and stderr have drained: a pipe takes output asynchronously (see deliverOutput.ts).
   runCommandLine(process.argv.slice(2)).then(
-    (code) => process.exit(code),
+    (code) => exitAfterOutput(code),
     (error: unknown) => {
       process.stderr.write(`rampwright: internal error (a bug, please report it): ${error instanceof Error ? error.stack : String(error)}\n`);
-      process.exit(1);
+      return exitAfterOutput(1);
     },
   );
 }

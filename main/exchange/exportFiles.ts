@@ -6,12 +6,13 @@
 import { writeWholeFile } from '../files/writeWholeFile';
 import { basename, dirname, extname, join } from 'node:path';
 import { judgeReadings } from '../../app/bench/judge';
-import { boardDesignSchema } from '../../app/board/design';
+import { parseStoredDesign } from '../store/storedContent';
 import { InputError } from '../../app/errors';
 import { parseStepReports } from '../../app/contract/readings';
 import { readingsCsv, stepReadingsCsv, transferPointsCsv } from '../../app/exchange/recordCsv';
 import { writeCaptureFile, type CaptureWriteFormat } from '../capture/writeCaptureFile';
 import type { RecordSources } from '../record/buildRecord';
+import type { BenchKey } from './benchKey';
 import { buildSessionArchive, encodeSessionArchive } from './sessionArchive';
 
 export const exportKinds = ['archive', 'captures-csv', 'captures-comtrade', 'captures-comtrade-ascii', 'transfer-csv', 'readings-csv'] as const;
@@ -27,7 +28,7 @@ async function sessionDetail(sources: RecordSources, sessionId: number) {
 export async function exportCaptures(sources: RecordSources, sessionId: number, outPath: string, format: CaptureWriteFormat): Promise<string[]> {
   const detail = await sessionDetail(sources, sessionId);
   if (detail.captures.length === 0) throw new InputError(`session ${sessionId} kept no capture to export`, outPath);
-  const design = boardDesignSchema.parse(JSON.parse((await sources.logbook.designVersion(detail.designId)).designJson));
+  const design = parseStoredDesign((await sources.logbook.designVersion(detail.designId)).designJson, `${sources.logbook.location}: session ${sessionId}`);
   const extension = extname(outPath);
   const stem = join(dirname(outPath), basename(outPath, extension));
   const written: string[] = [];
@@ -46,10 +47,11 @@ export async function exportCaptures(sources: RecordSources, sessionId: number, 
   return written;
 }
 
-export async function exportSessionFile(sources: RecordSources, sessionId: number, outPath: string, kind: ExportKind): Promise<string[]> {
+/** `key`: the bench key an archive is signed with (null: unsigned). Other kinds ignore it. */
+export async function exportSessionFile(sources: RecordSources, sessionId: number, outPath: string, kind: ExportKind, options: { key?: BenchKey | null } = {}): Promise<string[]> {
   switch (kind) {
     case 'archive':
-      await writeWholeFile(outPath, encodeSessionArchive(await buildSessionArchive(sources.logbook, sessionId)));
+      await writeWholeFile(outPath, encodeSessionArchive(await buildSessionArchive(sources.logbook, sessionId, { key: options.key ?? null })));
       return [outPath];
     case 'captures-csv':
       return exportCaptures(sources, sessionId, outPath, 'csv');
@@ -72,7 +74,7 @@ export async function exportSessionFile(sources: RecordSources, sessionId: numbe
         return [outPath];
       }
       if (!detail.readings) throw new InputError(`session ${sessionId} has no stored readings to export`, outPath);
-      const design = boardDesignSchema.parse(JSON.parse((await sources.logbook.designVersion(detail.designId)).designJson));
+      const design = parseStoredDesign((await sources.logbook.designVersion(detail.designId)).designJson, `${sources.logbook.location}: session ${sessionId}`);
       await writeWholeFile(outPath, readingsCsv(judgeReadings(detail.readings, design)));
       return [outPath];
     }

@@ -4,7 +4,7 @@
  * the capture digest (app/record/recordModel.ts says exactly what is hashed).
  */
 import { judgeReadings } from '../../app/bench/judge';
-import { boardDesignSchema } from '../../app/board/design';
+import { parseStoredDesign } from '../store/storedContent';
 import { recordedPartName } from '../../app/board/partNames';
 import { InputError } from '../../app/errors';
 import { parseStepReports } from '../../app/contract';
@@ -21,7 +21,10 @@ export async function buildRecord(sources: RecordSources, sessionId: number, opt
   const detail = await sources.logbook.session(sessionId);
   if (!detail) throw new InputError(`there is no session ${sessionId} in this logbook`, sources.logbook.location);
   const version = await sources.logbook.designVersion(detail.designId);
-  const design = boardDesignSchema.parse(JSON.parse(version.designJson));
+  const design = parseStoredDesign(version.designJson, `${sources.logbook.location}: session ${sessionId}`);
+  // The record stands for every cycle the session stored, though it prints their cached totals: the cycles are read
+  // through (one row kept) so that damaged pages under them stop the record with the logbook's damage message.
+  await sources.logbook.cycleReadings(sessionId, { maxRows: 1 });
   const ordered = orderCapturesForDigest(detail.captures);
   const last = ordered[ordered.length - 1];
   const stored = last ? await sources.logbook.readCapture(last.id) : null;
@@ -41,7 +44,7 @@ export async function buildRecord(sources: RecordSources, sessionId: number, opt
     transfer: { label: `session ${sessionId}`, points: detail.transfer.points, fit: detail.transfer.fit, maxDeviationDeg: detail.transfer.fit?.maxDeviationDeg ?? null },
     trims: detail.trims.map(({ part, fromOhm, toOhm, method, reason, at }) => ({ part, name: recordedPartName(design, part), fromOhm, toOhm, method, reason, at })),
     partMeasurements: detail.partMeasurements.map(({ part, value, designValue, at }) => ({ part, name: recordedPartName(design, part), value, designValue, at })),
-    link: { errors: detail.row.linkErrors, events: detail.linkEvents.map(({ kind, detail: text, count, at }) => ({ kind, detail: text, count, at })) },
+    link: { errors: detail.row.linkErrors, silentS: detail.row.linkSilentS, events: detail.linkEvents.map(({ kind, detail: text, count, at }) => ({ kind, detail: text, count, at })) },
     captures: detail.captures.map((capture) => ({ label: capture.label, startedAt: capture.startedAt, startS: capture.startS, seconds: capture.seconds, sampleRateHz: capture.sampleRateHz, roles: capture.roles, sha256: capture.sha256 })),
     capturesSha256: detail.captures.length === 0 ? null : sha256Hex(new TextEncoder().encode(captureDigestText(detail.captures))),
   };

@@ -4,9 +4,9 @@
  * Each returns plain data plus its plot as an SVG string (app/record/plots.ts), ready for a screen or a page.
  */
 import type { SessionOutcome } from '../../app/contract/records';
-import { boardDesignSchema, type BoardDesign } from '../../app/board/design';
+import type { BoardDesign } from '../../app/board/design';
 import { analyseTolerances } from '../../app/board/toleranceAnalysis';
-import { InputError } from '../../app/errors';
+import { InputError, isInputError } from '../../app/errors';
 import { analyseDrift, type DriftAnalysis, type DriftLimits, type DriftOptions } from '../../app/record/drift';
 import { designFigures, trendedFigures, type TrendedFigure } from '../../app/record/designFigures';
 import { figureToSvg } from '../../app/record/figure';
@@ -14,8 +14,9 @@ import { fleetFigure, gainPredictionFromPeak, type FleetFigure } from '../../app
 import { driftFigure, fleetHistogramFigure, transferFigure } from '../../app/record/plots';
 import type { SessionComparison } from '../store/logbookTypes';
 import type { RecordSources } from './buildRecord';
+import { parseStoredDesign } from '../store/storedContent';
 
-const designOf = (json: string): BoardDesign => boardDesignSchema.parse(JSON.parse(json));
+const designOf = (json: string, what: string): BoardDesign => parseStoredDesign(json, what);
 
 export interface ComparisonReport {
   comparison: SessionComparison;
@@ -75,7 +76,7 @@ export async function driftReport(sources: RecordSources, unitSerial: string, op
   if (!last) throw new InputError(`unit "${unitSerial}" has no sessions yet`, sources.logbook.location);
   const detail = await sources.logbook.session(last.sessionId);
   const version = await sources.logbook.designVersion(detail!.designId);
-  const expected = designFigures(designOf(version.designJson));
+  const expected = designFigures(designOf(version.designJson, `${sources.logbook.location}: board design "${version.name}" version ${version.version}`));
   const figures = trendedFigures.map(({ key, label, unit }) => {
     const analysis = analyseDrift(drift.points.map((point) => ({ sessionId: point.sessionId, startedAt: point.startedAt, value: point[key] })), expected[key].limits, options);
     return { key, label, unit, nominal: expected[key].nominal, limits: expected[key].limits, analysis, svg: figureToSvg(driftFigure(analysis, expected[key].limits, { label, unit })) };
@@ -115,7 +116,7 @@ export interface FleetReport {
 export async function fleetReport(sources: RecordSources, designName: string, options: { runs?: number; seed?: number; binCount?: number; unitSerial?: string } = {}): Promise<FleetReport> {
   const version = await sources.logbook.latestDesignVersion(designName);
   if (!version) throw new InputError(`there is no board design "${designName}" in this logbook`, sources.logbook.location);
-  const design = designOf(version.designJson);
+  const design = designOf(version.designJson, `${sources.logbook.location}: board design "${version.name}" version ${version.version}`);
   const latest = await sources.logbook.latestSessionPerUnit(designName);
   if (options.unitSerial !== undefined && !latest.some((entry) => entry.unit === options.unitSerial)) {
     throw new InputError(`unit "${options.unitSerial}" has no session of board design "${designName}"`, sources.logbook.location);
@@ -126,7 +127,11 @@ export async function fleetReport(sources: RecordSources, designName: string, op
   const rows = new Map((await sources.logbook.listSessions({ designName })).map((row) => [row.id, row]));
   const members: RecalledSession[] = [];
   for (const { unit, sessionId } of latest) {
-    const figures = await sources.logbook.sessionFigures(sessionId);
+    // One session that cannot be read (damaged pages) leaves the fleet to the others rather than break it.
+    const figures = await sources.logbook.sessionFigures(sessionId).catch((error: unknown) => {
+      if (isInputError(error)) return null;
+      throw error;
+    });
     const row = rows.get(sessionId);
     members.push({ sessionId, unit, bench: row?.bench ?? null, startedAt: figures?.startedAt ?? row?.startedAt ?? '', status: row?.status ?? '-', rampPeakV: figures?.rampPeakV ?? null, alphaGainDegPerV: figures?.alphaGainDegPerV ?? null });
     if (figures?.rampPeakV !== null && figures?.rampPeakV !== undefined) peaks.push(figures.rampPeakV);

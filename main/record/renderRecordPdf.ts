@@ -5,7 +5,7 @@
  */
 import { PDFDocument, StandardFonts, type PDFFont, type PDFPage } from 'pdf-lib';
 import { foldFigure, transferFigure } from '../../app/record/plots';
-import { formatReading, partMeasurementCells, recordLimitsNote, rowVerdictWords, trimCells, type CommissioningRecord } from '../../app/record/recordModel';
+import { formatReading, linkEventCountText, linkHealthSentence, partMeasurementCells, recordLimitsNote, rowVerdictWords, trimCells, type CommissioningRecord } from '../../app/record/recordModel';
 import { outcomeWords } from '../../app/contract/records';
 import { outcomeStatement, type OutcomeStatement } from '../../app/record/outcomeStatement';
 import { drawFigure, hexColour } from './pdfFigure';
@@ -204,8 +204,8 @@ export async function renderRecordPdf(record: CommissioningRecord): Promise<Uint
   else flow.table(['Part', 'From', 'To', 'Method', 'Reason', 'When'], record.trims.map((trim) => [...trimCells(trim).map((text) => ({ text })), { text: trim.method }, { text: trim.reason }, { text: when(trim.at) }]), [0.1, 0.12, 0.12, 0.12, 0.32, 0.22]);
 
   flow.heading('Link health');
-  flow.text(record.link.errors === 0 ? 'No link errors were recorded.' : `${record.link.errors} link errors were recorded.`);
-  if (record.link.events.length > 0) flow.table(['Event', 'Detail', 'Count', 'When'], record.link.events.map((event) => [{ text: event.kind }, { text: event.detail }, { text: String(event.count) }, { text: when(event.at) }]), [0.18, 0.48, 0.1, 0.24]);
+  flow.text(linkHealthSentence(record.link));
+  if (record.link.events.length > 0) flow.table(['Event', 'Detail', 'Count', 'When'], record.link.events.map((event) => [{ text: event.kind }, { text: event.detail }, { text: linkEventCountText(event) }, { text: when(event.at) }]), [0.18, 0.48, 0.1, 0.24]);
 
   flow.heading('Raw captures');
   if (record.captures.length === 0) flow.text('No capture was kept in this session.');

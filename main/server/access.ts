@@ -1,16 +1,34 @@
 /**
- * Who may talk to the bench server. Loopback mode (the default) serves only this machine: the client address,
- * the Host header (against DNS rebinding) and any forwarding header must all be loopback, and a cross-site
- * Origin is refused. Token mode (serving on another interface, chosen explicitly) wants the access token on
- * every request: header, query parameter, or the cookie the server sets when the page is opened with the token.
+ * Who may talk to the bench server. Every request needs this run's access token (a fresh one each start; the
+ * address the server prints carries it), in every mode: on loopback the token keeps out other local processes
+ * and other users of the same computer, who can all reach 127.0.0.1. The token is checked after, not instead of,
+ * the rest:
+ * - the client address must be loopback when the server binds loopback (its default);
+ * - the Host header must name this server (a loopback name, the bound address, or this computer's own name and
+ *   addresses when it serves another interface): a foreign name means DNS rebinding;
+ * - forwarding headers must not name another computer (on loopback);
+ * - a browser's Origin must be the server's own origin. `Origin: null` (a sandboxed frame, a local file page,
+ *   some redirects) is refused: such a page could otherwise watch the bench through the event socket.
  */
 import { randomBytes, timingSafeEqual } from 'node:crypto';
 import type { IncomingHttpHeaders } from 'node:http';
 import { benchHttpPaths } from '../../app/contract';
 
-export const tokenCookieName = 'rampwright_token';
+/** Cookies ignore ports, so two bench servers on one computer each name their own cookie by port. */
+export function tokenCookieName(port: number): string {
+  return `rampwright_token_${port}`;
+}
 
-export type AccessPolicy = { mode: 'loopback' } | { mode: 'token'; token: string };
+export interface AccessPolicy {
+  /** This run's access token: every request must carry it. */
+  token: string;
+  /** Serve loopback clients only (the server binds a loopback address). */
+  loopbackOnly: boolean;
+  /** Host names (lower case, no port) a Host header may carry besides the loopback names. */
+  hostNames: readonly string[];
+  /** The port, for the cookie's name. */
+  port: number;
+}
 
 export type AccessDecision = { allowed: true; viaQueryToken: boolean } | { allowed: false; status: 401 | 403; reason: string };
 
@@ -43,6 +61,21 @@ export function isLoopbackHostName(host: string): boolean {
   return host === 'localhost' || host.endsWith('.localhost') || isLoopbackAddress(host);
 }
 
+/**
+ * The names a Host header may carry for a server bound to `boundAddress`, besides the loopback names: the
+ * address itself and, when it is not loopback, this computer's name (bare, first label, `.local`) and, for a
+ * wildcard bind (0.0.0.0, ::), every address of its interfaces.
+ */
+export function serverHostNames(boundAddress: string, computer: { hostname: string; interfaceAddresses: readonly string[] }): string[] {
+  const bound = boundAddress.replace(/^\[|\]$/g, '').toLowerCase();
+  if (isLoopbackAddress(bound) || bound === 'localhost') return [bound];
+  const name = computer.hostname.toLowerCase();
+  const firstLabel = name.split('.')[0];
+  const names = [bound, name, firstLabel, `${firstLabel}.local`];
+  if (bound === '0.0.0.0' || bound === '::') names.push(...computer.interfaceAddresses.map((address) => address.toLowerCase()));
+  return [...new Set(names.filter(Boolean))];
+}
+
 /** Client addresses named by X-Forwarded-For, X-Real-IP and Forwarded (RFC 7239) headers. */
 export function forwardedAddresses(headers: IncomingHttpHeaders): string[] {
   const found: string[] = [];
@@ -71,46 +104,71 @@ export function createAccessToken(): string {
   return randomBytes(24).toString('base64url');
 }
 
-function presentedTokens(facts: RequestFacts): { tokens: string[]; queryToken: boolean } {
+function presentedTokens(facts: RequestFacts, port: number): { tokens: string[]; queryToken: boolean } {
   const tokens: string[] = [];
   const header = facts.headers[benchHttpPaths.tokenHeader];
   if (typeof header === 'string') tokens.push(header);
   const authorization = facts.headers.authorization;
   if (typeof authorization === 'string' && /^bearer /i.test(authorization)) tokens.push(authorization.slice(7).trim());
   const cookie = facts.headers.cookie;
+  const cookieName = tokenCookieName(port);
   if (typeof cookie === 'string') {
     for (const part of cookie.split(';')) {
       const [name, ...rest] = part.trim().split('=');
-      if (name === tokenCookieName) tokens.push(decodeURIComponent(rest.join('=')));
+      if (name !== cookieName) continue;
+      try {
+        tokens.push(decodeURIComponent(rest.join('=')));
+      } catch {
+        // A cookie that is not URL-encoded cannot be the token.
+      }
     }
   }
-  const query = new URL(facts.url, 'http://placeholder').searchParams.get(benchHttpPaths.tokenQuery);
+  let query: string | null = null;
+  try {
+    query = new URL(facts.url, 'http://placeholder').searchParams.get(benchHttpPaths.tokenQuery);
+  } catch {
+    query = null;
+  }
   if (query !== null) tokens.push(query);
   return { tokens, queryToken: query !== null };
 }
 
+function refused(status: 401 | 403, reason: string): AccessDecision {
+  return { allowed: false, status, reason };
+}
+
+/** The Origin header's verdict: absent (not a browser page) passes; it must be the server's own origin. */
+function originProblem(origin: string | string[] | undefined, host: string): string | null {
+  if (origin === undefined) return null;
+  if (typeof origin !== 'string') return 'the request carries more than one Origin';
+  if (origin.trim().toLowerCase() === 'null') return 'the request comes from a page with no origin (a sandboxed frame or a local file), which may not use the bench';
+  let originAuthority: string;
+  try {
+    const parsed = new URL(origin);
+    if (parsed.protocol !== 'http:' && parsed.protocol !== 'https:') return 'the request comes from a page of another site';
+    originAuthority = parsed.host.toLowerCase();
+  } catch {
+    return 'the request carries an Origin that is not an address';
+  }
+  // Browsers drop the default port from both; compare the authorities as sent.
+  return originAuthority === host.trim().toLowerCase() ? null : 'the request comes from a page of another site';
+}
+
 export function decideAccess(facts: RequestFacts, policy: AccessPolicy): AccessDecision {
-  if (policy.mode === 'token') {
-    const { tokens, queryToken } = presentedTokens(facts);
-    if (tokens.some((token) => tokensEqual(token, policy.token))) return { allowed: true, viaQueryToken: queryToken };
-    return { allowed: false, status: 401, reason: 'this bench server wants its access token (printed where it was started)' };
+  if (policy.loopbackOnly && !isLoopbackAddress(facts.remoteAddress)) {
+    return refused(403, 'this bench server serves this computer only (start it with --host to share it)');
   }
-  if (!isLoopbackAddress(facts.remoteAddress)) return { allowed: false, status: 403, reason: 'this bench server serves this computer only (start it with --host and --token-required to share it)' };
   const host = facts.headers.host;
-  if (typeof host !== 'string' || !isLoopbackHostName(hostOfAuthority(host))) {
-    return { allowed: false, status: 403, reason: 'the request names a host other than this computer' };
+  if (typeof host !== 'string') return refused(403, 'the request names no host');
+  const hostName = hostOfAuthority(host);
+  if (!isLoopbackHostName(hostName) && !policy.hostNames.includes(hostName)) return refused(403, 'the request names a host other than this bench server');
+  if (policy.loopbackOnly) {
+    const forwarded = forwardedAddresses(facts.headers).filter((address) => !isLoopbackAddress(address));
+    if (forwarded.length > 0) return refused(403, 'the request was forwarded from another computer');
   }
-  const forwarded = forwardedAddresses(facts.headers).filter((address) => !isLoopbackAddress(address));
-  if (forwarded.length > 0) return { allowed: false, status: 403, reason: 'the request was forwarded from another computer' };
-  const origin = facts.headers.origin;
-  if (typeof origin === 'string' && origin !== 'null') {
-    let originHost = '';
-    try {
-      originHost = new URL(origin).hostname;
-    } catch {
-      originHost = '';
-    }
-    if (!isLoopbackHostName(hostOfAuthority(originHost))) return { allowed: false, status: 403, reason: 'the request comes from a page of another site' };
-  }
-  return { allowed: true, viaQueryToken: false };
+  const originFault = originProblem(facts.headers.origin, host);
+  if (originFault) return refused(403, originFault);
+  const { tokens, queryToken } = presentedTokens(facts, policy.port);
+  if (tokens.some((token) => tokensEqual(token, policy.token))) return { allowed: true, viaQueryToken: queryToken };
+  return refused(401, 'this bench server wants the access token of this run: open the address it printed where it was started');
 }

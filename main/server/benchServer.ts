@@ -1,27 +1,31 @@
 /**
  * Browser mode and remote viewing: the bench contract over HTTP (`POST /api/call/<name>`, JSON in and out) and
  * one WebSocket for events (`/api/events`), plus the built screens as static files. Binds 127.0.0.1 unless told
- * otherwise; another interface needs token mode (see access.ts). Every payload goes through the contract's
- * validating dispatch; the socket drops live frames for a client that cannot keep up rather than queueing them.
+ * otherwise. Every request needs this run's access token, and passes the address, Host and Origin checks of
+ * access.ts first. Every payload goes through the contract's validating dispatch; the socket drops live frames
+ * for a client that cannot keep up rather than queueing them.
  */
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import type { AddressInfo } from 'node:net';
+import { hostname, networkInterfaces } from 'node:os';
 import { WebSocketServer, type WebSocket } from 'ws';
 import { benchHttpPaths, isEventName, type CallOutcome } from '../../app/contract';
 import type { BenchDispatch } from '../session/dispatch';
 import type { BenchEventSource } from '../session/handlers';
-import { decideAccess, isLoopbackAddress, tokenCookieName, type AccessPolicy } from './access';
+import { createAccessToken, decideAccess, isLoopbackAddress, serverHostNames, tokenCookieName, type AccessPolicy } from './access';
 import { readStaticFile, rendererContentSecurityPolicy } from './staticFiles';
 
 export interface BenchServerOptions {
   dispatch: BenchDispatch;
   events: BenchEventSource;
-  /** Default 127.0.0.1. A non-loopback host needs `token`. */
+  /** Default 127.0.0.1 (this computer only). */
   host?: string;
   /** Default 0 (any free port). */
   port?: number;
-  /** Access token; when set every request must carry it (token mode). */
-  token?: string | null;
+  /** This run's access token, which every request must carry. Default: a fresh random one. */
+  token?: string;
+  /** Serve source maps (`*.map`) with the screens: development only. Default false. */
+  serveSourceMaps?: boolean;
   /** Folder of the built screens (dist/renderer); null serves the API only. */
   staticRoot?: string | null;
   /** Largest request body accepted (bytes). Default 4 MB (a board design or an inline capture label, never samples). */
@@ -33,9 +37,9 @@ export interface BenchServerOptions {
 export interface BenchServer {
   host: string;
   port: number;
-  /** Address to open in a browser (with the token in token mode). */
+  /** Address to open in a browser; it carries the access token. */
   url: string;
-  token: string | null;
+  token: string;
   close(): Promise<void>;
 }
 
@@ -63,11 +67,10 @@ async function readBody(request: IncomingMessage, limit: number): Promise<string
 
 export async function startBenchServer(options: BenchServerOptions): Promise<BenchServer> {
   const host = options.host ?? '127.0.0.1';
-  const token = options.token ?? null;
-  if (!isLoopbackAddress(host) && host !== 'localhost' && !token) {
-    throw new Error(`serving on ${host} (not this computer only) needs an access token`);
-  }
-  const policy: AccessPolicy = token ? { mode: 'token', token } : { mode: 'loopback' };
+  const token = options.token ?? createAccessToken();
+  if (token.length < 16) throw new Error('an access token needs at least 16 characters');
+  // Filled in once the server listens (the port and the bound address are known then); no request comes sooner.
+  let policy: AccessPolicy = { token, loopbackOnly: true, hostNames: [], port: 0 };
   const maxBodyBytes = options.maxBodyBytes ?? 4 * 1024 * 1024;
   const maxBufferedBytes = options.maxBufferedBytes ?? 1024 * 1024;
 
@@ -91,7 +94,7 @@ export async function startBenchServer(options: BenchServerOptions): Promise<Ben
 
   const handleStatic = async (request: IncomingMessage, response: ServerResponse, path: string, setCookie: boolean): Promise<void> => {
     if (request.method !== 'GET' && request.method !== 'HEAD') return refuse(response, 405, 'only GET for files');
-    const file = options.staticRoot ? await readStaticFile(options.staticRoot, path) : null;
+    const file = options.staticRoot ? await readStaticFile(options.staticRoot, path, { sourceMaps: options.serveSourceMaps ?? false }) : null;
     if (!file) {
       response.writeHead(404, { 'content-type': 'text/plain; charset=utf-8' });
       response.end(options.staticRoot ? 'not found' : 'this bench server carries the API only (the screens are not built: npm run build)');
@@ -104,7 +107,7 @@ export async function startBenchServer(options: BenchServerOptions): Promise<Ben
       'referrer-policy': 'no-referrer',
       'cache-control': 'no-cache',
     };
-    if (setCookie && token) headers['set-cookie'] = `${tokenCookieName}=${encodeURIComponent(token)}; HttpOnly; SameSite=Strict; Path=/`;
+    if (setCookie) headers['set-cookie'] = `${tokenCookieName(policy.port)}=${encodeURIComponent(token)}; HttpOnly; SameSite=Strict; Path=/`;
     response.writeHead(200, headers);
     response.end(request.method === 'HEAD' ? undefined : file.body);
   };
@@ -160,8 +163,10 @@ export async function startBenchServer(options: BenchServerOptions): Promise<Ben
     });
   });
   const address = server.address() as AddressInfo;
+  const interfaceAddresses = Object.values(networkInterfaces()).flatMap((entries) => (entries ?? []).map((entry) => entry.address));
+  policy = { token, loopbackOnly: isLoopbackAddress(address.address), hostNames: serverHostNames(address.address, { hostname: hostname(), interfaceAddresses }), port: address.port };
   const shownHost = address.family === 'IPv6' ? `[${address.address}]` : address.address;
-  const url = `http://${shownHost}:${address.port}/${token ? `?${benchHttpPaths.tokenQuery}=${encodeURIComponent(token)}` : ''}`;
+  const url = `http://${shownHost}:${address.port}/?${benchHttpPaths.tokenQuery}=${encodeURIComponent(token)}`;
 
   return {
     host: address.address,

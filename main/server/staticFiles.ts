@@ -1,5 +1,6 @@
 /**
- * Serves the built screens (dist/renderer) from disk: no network, no directory listing, nothing outside the folder.
+ * Serves the built screens (dist/renderer) from disk: no network, no directory listing, nothing outside the folder,
+ * and no source maps unless asked for (development): a map hands out the screens' source to anyone who asks.
  */
 import { readFile, stat } from 'node:fs/promises';
 import { extname, join, normalize, resolve, sep } from 'node:path';
@@ -23,8 +24,8 @@ export interface StaticFile {
   mediaType: string;
 }
 
-/** Resolves a URL path inside `root`; null for anything that would leave it or is not a file. */
-export async function readStaticFile(root: string, urlPath: string): Promise<StaticFile | null> {
+/** Resolves a URL path inside `root`; null for anything that would leave it, is not a file, or is a map not asked for. */
+export async function readStaticFile(root: string, urlPath: string, options: { sourceMaps?: boolean } = {}): Promise<StaticFile | null> {
   let decoded: string;
   try {
     decoded = decodeURIComponent(urlPath.split('?')[0]);
@@ -36,6 +37,7 @@ export async function readStaticFile(root: string, urlPath: string): Promise<Sta
   const absoluteRoot = resolve(root);
   const absolute = resolve(join(absoluteRoot, relative));
   if (absolute !== absoluteRoot && !absolute.startsWith(absoluteRoot + sep)) return null;
+  if (!options.sourceMaps && extname(absolute).toLowerCase() === '.map') return null;
   try {
     const info = await stat(absolute);
     if (!info.isFile()) return null;

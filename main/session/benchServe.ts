@@ -1,12 +1,13 @@
 /**
  * Browser mode as one function: open the bench (logbook, designs, session service), optionally connect the
- * virtual board, and serve the contract plus the built screens on loopback (or, with a token, another interface).
+ * virtual board, and serve the contract plus the built screens on loopback (or another interface when asked), with
+ * this run's access token carried by the address it prints.
  * Used by `rampwright serve` and by `npm start` when the desktop shell cannot run.
  */
 import { existsSync } from 'node:fs';
 import { controlForAlpha } from '../../app/board/firingAngle';
 import { InputError } from '../../app/errors';
-import { createAccessToken, isLoopbackAddress } from '../server/access';
+import { isLoopbackAddress } from '../server/access';
 import { startBenchServer, type BenchServer } from '../server/benchServer';
 import { logbookDisplayLocation } from '../store/index';
 import { openBenchContext, type BenchContext } from './benchContext';
@@ -25,8 +26,8 @@ export interface BenchServeOptions {
   pushIntervalMs?: number;
   host?: string;
   port?: number;
-  /** Serve on a non-loopback interface with an access token. */
-  tokenRequired?: boolean;
+  /** This run's access token (default: a fresh random one). */
+  token?: string;
   /** Connect the virtual board with the demo design and fault. */
   demo?: boolean;
   /** Times real time for the demo board (default 1). */
@@ -54,10 +55,6 @@ export function listenFault(error: unknown, host: string, port: number): unknown
 
 export async function startBenchServe(options: BenchServeOptions): Promise<RunningBench> {
   const host = options.host ?? '127.0.0.1';
-  const loopback = isLoopbackAddress(host) || host === 'localhost';
-  if (!loopback && !options.tokenRequired) {
-    throw new InputError(`serving on ${host} lets other computers reach the bench: add --token-required (an access token is printed) or leave --host out for this computer only`, '--host');
-  }
   const context = await openBenchContext({ logbookPath: options.logbookPath, serial: options.serial ?? null, exporters: recordExporters, bench: options.bench, pushTo: options.pushTo, pushIntervalMs: options.pushIntervalMs });
   try {
     if (options.demo) {
@@ -72,14 +69,19 @@ export async function startBenchServe(options: BenchServeOptions): Promise<Runni
       events: context.service.events,
       host,
       port: options.port ?? 0,
-      token: options.tokenRequired ? createAccessToken() : null,
+      token: options.token,
       staticRoot: staticRoot && existsSync(staticRoot) ? staticRoot : null,
+      serveSourceMaps: process.env.RAMPWRIGHT_DEV === '1',
     }).catch((error: unknown) => {
       throw listenFault(error, host, options.port ?? 0);
     });
-    const banner = [`Rampwright bench at ${server.url}`, `Logbook: ${context.logbook.location}`];
+    const banner = [
+      `Rampwright bench at ${server.url}`,
+      `Access token: ${server.token} (new for every run; every request needs it, and the address above carries it)`,
+      `Logbook: ${context.logbook.location}`,
+    ];
     if (options.pushTo !== undefined) banner.push(`Pushing finished sessions to the shared logbook ${logbookDisplayLocation(options.pushTo)}`);
-    if (server.token) banner.push(`Access token: ${server.token} (every request needs it; the address above carries it)`);
+    if (!isLoopbackAddress(server.host)) banner.push(`Serving ${host}: other computers that have the address above can use this bench.`);
     if (!staticRoot || !existsSync(staticRoot)) banner.push('The screens are not built (npm run build); the API is served alone.');
     if (options.demo) banner.push(`Virtual board connected: ${demoDefaults.designName}, fault ${demoDefaults.faults.join(', ')}`);
     return {

@@ -7,7 +7,7 @@ import type { BoardDesign } from '../../app/board/design';
 import type { CycleReading } from '../../app/bench/readings';
 import { commissioningStepNames, type CommissioningStep, type OpenSession, type StepReport } from '../../app/contract';
 import type { LinkProblem } from '../../app/logger';
-import type { LinkEventKind, LogbookWriter } from '../store/logbookTypes';
+import { linkEventKindOfProblem, type LogbookWriter } from '../store/logbookTypes';
 import { noExtremes, type BenchPipeline } from './benchPipeline';
 import type { KnownParts } from './knownParts';
 import { currentStepOf, recordStep, stepReports, type StepInputs } from './steps';
@@ -24,13 +24,6 @@ export interface BenchSession {
   knownParts: KnownParts;
 }
 
-const problemKinds: Partial<Record<LinkProblem['code'], LinkEventKind>> = {
-  crc: 'crc-failures',
-  'sequence-gap': 'sequence-gap',
-  garbage: 'garbage',
-  'logger-overrun': 'logger-overrun',
-  oversize: 'line-too-long',
-};
 
 /** Steps during which the board's ramp is settled, so (control, alpha) points belong to its transfer curve. */
 const sweepSteps: readonly CommissioningStep[] = ['transfer', 'limits', 'sign-off'];
@@ -46,7 +39,7 @@ export function recordMeasurements(session: BenchSession, cycles: readonly Cycle
     session.writer.addCycle(cycle);
     if (sweeping && cycle.controlV !== null && cycle.alphaDeg !== null) session.writer.addTransferPoint({ t: cycle.t, controlV: cycle.controlV, alphaDeg: cycle.alphaDeg });
   }
-  for (const problem of problems) session.writer.addLinkEvent(problemKinds[problem.code] ?? 'decoder-problem', problem.message);
+  for (const problem of problems) session.writer.addLinkEvent(linkEventKindOfProblem[problem.code] ?? 'decoder-problem', problem.message);
 }
 
 export function stepInputsOf(session: BenchSession | null, design: BoardDesign, pipeline: BenchPipeline | null): StepInputs {

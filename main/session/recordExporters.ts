@@ -8,6 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { BenchFault, type ExportFormat } from '../../app/contract';
 import { exportSessionFile, type ExportKind } from '../exchange/exportFiles';
+import { loadOrCreateBenchKey } from '../exchange/benchKey';
 import { buildSessionArchive, encodeSessionArchive } from '../exchange/sessionArchive';
 import { renderRecordFile } from '../record/writeReport';
 import type { ExportContext, SessionExporter } from './exporters';
@@ -55,7 +56,8 @@ export const sessionArchiveExporter: SessionExporter = {
   format: { id: 'session-archive', label: 'Session archive (for another bench)', mediaType: 'application/gzip', extension: 'rwsession' },
   async write(context, sessionId) {
     const unit = await unitOf(context, sessionId);
-    const bytes = encodeSessionArchive(await buildSessionArchive(context.logbook, sessionId));
+    // Signed with this bench's key, as `rampwright export` signs (main/exchange/benchKey.ts).
+    const bytes = encodeSessionArchive(await buildSessionArchive(context.logbook, sessionId, { key: loadOrCreateBenchKey() }));
     return { fileName: `session-${unit}-${sessionId}.rwsession`, bytes };
   },
 };

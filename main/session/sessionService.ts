@@ -125,7 +125,14 @@ export function createSessionService(options: SessionServiceOptions): SessionSer
   // Once a second while a link is open: health for the screens even when nothing arrives, and a link that has
   // gone quiet for over 2 s shown as stalled (the serial watchdog gives it up later; some platforms never say).
   let heartbeat: ReturnType<typeof setInterval> | null = null;
+  // A logbook that refuses writes (disk full, file read-only or damaged) is said once per session, in words.
+  let storageWarnedFor: BenchSession | null = null;
   const beat = (): void => {
+    const failure = session?.writer.stats().writeFailure ?? null;
+    if (session && failure && storageWarnedFor !== session) {
+      storageWarnedFor = session;
+      hub.emit('notice', { level: 'warning', message: `${failure.message}: what the bench measures now is not being recorded; what was stored is kept` });
+    }
     if (!current) return;
     const now = current.link.health();
     if (now.state === 'streaming' && now.lastDataAgoMs !== null && now.lastDataAgoMs > 2000) current.link.setState('stalled', `no data for ${(now.lastDataAgoMs / 1000).toFixed(1)} s`);

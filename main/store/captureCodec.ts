@@ -59,11 +59,23 @@ export interface DecodeCaptureInput {
   where: string;
 }
 
+/** Most raw sample bytes one capture may declare: 1 GiB (an hour of four channels at 4.6 kS/s; our rule). */
+export const maxCaptureBytes = 1024 * 1024 * 1024;
+
 export function decodeCapture(input: DecodeCaptureInput): SampleBlock {
+  // The capture's own header says how many bytes its samples take; inflating stops there, so data that would
+  // expand further (a decompression bomb) costs no more memory than the capture it claims to be.
+  const declaredBytes = input.roles.length * input.samplesPerChannel * 8;
+  if (!(declaredBytes <= maxCaptureBytes)) {
+    throw new InputError(`stored capture declares ${input.samplesPerChannel} samples per channel, more than this program reads (${maxCaptureBytes / 1024 ** 3} GiB of samples)`, input.where);
+  }
   let raw: Buffer;
   try {
-    raw = inflateSync(input.data);
-  } catch {
+    raw = inflateSync(input.data, { maxOutputLength: Math.max(1, declaredBytes) });
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code === 'ERR_BUFFER_TOO_LARGE') {
+      throw new InputError(`stored capture expands beyond its declared size (${declaredBytes} bytes of samples)`, input.where);
+    }
     throw new InputError('stored capture is damaged (cannot be decompressed)', input.where);
   }
   if (raw.length !== input.roles.length * input.samplesPerChannel * 8 || sha256Hex(raw) !== input.sha256) {

@@ -24,6 +24,8 @@ export interface SessionWriterOptions {
   maxQueuedItems?: number;
   /** Where `close()` gets the finished session's row. */
   readRow: (sessionId: number) => Promise<SessionRow>;
+  /** The logbook's file or address, for messages. */
+  location?: string;
 }
 
 export interface LogbookEngine {
@@ -61,10 +63,10 @@ export function createLogbookOverEngine(engine: LogbookEngine): Logbook {
         serial, designId: design.id, designName: design.name, operator: request.operator, startedAtMs: (request.startedAt ?? new Date()).getTime(),
         notes: request.notes ?? null, bench: request.bench ?? benchName(), writer: writerIdentityNow(), nowMs: Date.now(),
       }));
-      return engine.openWriter(sessionId, { ...writerOptions, readRow });
+      return engine.openWriter(sessionId, { ...writerOptions, readRow, location });
     },
     listSessions: (filter = {}) => engine.read(listSessions(filter)),
-    session: (id) => engine.read(sessionDetail(id)),
+    session: (id) => engine.read(sessionDetail(id, location)),
     transferCurve: (sessionId) => engine.read(transferCurve(sessionId)),
     cycleReadings: (sessionId, options = {}) => engine.read(cycleReadings(sessionId, options.maxRows)),
     readCapture: (captureId) => engine.read(readCapture(captureId, location)),

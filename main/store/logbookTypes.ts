@@ -10,6 +10,7 @@
 import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
 import type { BoardDesign } from '../../app/board/design';
 import type { SampleBlock, SignalRole } from '../../app/capture/samples';
+import type { LinkProblemCode } from '../../app/logger';
 import type { SessionOutcome, SignOffException } from '../../app/contract/records';
 import type { RecordedFigures } from './recordedFigures';
 import type { ArchiveSession } from '../../app/exchange/archiveSchema';
@@ -80,6 +81,8 @@ export interface SessionRow {
   wholeSession: { rampPeakMedianV: number | null; alphaMeanDeg: number | null };
   /** Sum of the counts of link events that mean something went wrong (see linkErrorKinds). */
   linkErrors: number;
+  /** Seconds the logger sent nothing (the `link-silent` rows), 0 for a link that never went quiet. */
+  linkSilentS: number;
   /** The bench that recorded it (null for sessions recorded before benches were named). */
   bench: string | null;
   /** When this bench last pushed it to a shared logbook (null: not yet shared, or not a bench's own logbook). */
@@ -146,12 +149,21 @@ export type LinkEventKind =
   | 'samples-lost'
   | 'garbage'
   | 'logger-overrun'
-  | 'decoder-problem';
+  | 'decoder-problem'
+  /** A stretch with no data from the logger; `count` holds its length in milliseconds, `at` its start. */
+  | 'link-silent'
+  /** Data lines of a logger that was already streaming, before its greeting was asked for and came. */
+  | 'waiting-for-greeting'
+  /** The first line after the port opened, cut by the opening itself (the logger was mid-line). */
+  | 'partial-line-at-open';
 
-/** The kinds whose counts add up to a session's `linkErrors`. */
+/**
+ * The kinds whose counts add up to a session's `linkErrors`: data damaged or lost on the way. A silent logger is
+ * measured as `link-silent` time instead (its watchdog timeouts are a symptom of it, not errors of their own), and
+ * joining a logger that was already streaming (a cut first line, data before the greeting) is no error at all.
+ */
 export const linkErrorKinds: readonly LinkEventKind[] = [
   'unplugged',
-  'watchdog-timeout',
   'lines-dropped',
   'line-too-long',
   'link-error',
@@ -161,6 +173,20 @@ export const linkErrorKinds: readonly LinkEventKind[] = [
   'logger-overrun',
   'decoder-problem',
 ];
+
+export function isLinkErrorKind(kind: LinkEventKind): boolean {
+  return linkErrorKinds.includes(kind);
+}
+
+/** The logbook kind of each decoder problem (app/logger/health.ts); the rest are 'decoder-problem'. */
+export const linkEventKindOfProblem: Partial<Record<LinkProblemCode, LinkEventKind>> = {
+  crc: 'crc-failures',
+  'sequence-gap': 'sequence-gap',
+  garbage: 'garbage',
+  'logger-overrun': 'logger-overrun',
+  oversize: 'line-too-long',
+  'data-before-greeting': 'waiting-for-greeting',
+};
 
 export interface LinkEventRecord {
   kind: LinkEventKind;
@@ -305,6 +331,11 @@ export interface LogbookWriterStats {
   lastBatchMs: number;
   longestBatchMs: number;
   lastError: string | null;
+  /**
+   * Set when the store refused the last batch for a reason that will not pass by waiting: the disk is full, the
+   * file became read-only or damaged. A lock held by another process is not one (the writer retries).
+   */
+  writeFailure: { kind: 'disk-full' | 'read-only' | 'damaged' | 'io'; message: string } | null;
 }
 
 /**
@@ -328,9 +359,11 @@ export interface LogbookWriter {
   flush(): Promise<void>;
   /**
    * Writes everything queued, then ends the session with this status (default 'closed'); a sign-off goes with a
-   * closed session only, in the same transaction as its end.
+   * closed session only, in the same transaction as its end. After a write failure (stats().writeFailure) what is
+   * queued is given up, and the session is ended with `note` added to its notes (why it stopped), using the space
+   * the writer kept in reserve.
    */
-  close(status?: Exclude<SessionStatus, 'open'>, signOff?: SessionSignOff): Promise<SessionRow>;
+  close(status?: Exclude<SessionStatus, 'open'>, signOff?: SessionSignOff, options?: { note?: string }): Promise<SessionRow>;
 }
 
 /** A finished session in the archive's shape (app/exchange/ARCHIVE.md): rows without local ids, captures' stored bytes. */

@@ -8,6 +8,7 @@
  * program, a shared logbook's server gone) goes back to the front of the queue and is tried again on the next tick.
  */
 import { performance } from 'node:perf_hooks';
+import { InputError } from '../../app/errors';
 import type { CaptureReadings, CycleReading } from '../../app/bench/readings';
 import type { SampleBlock } from '../../app/capture/samples';
 import { captureEncoding, encodeCapture } from './captureCodec';
@@ -15,7 +16,9 @@ import { insertRows } from './exchangeRows';
 import type { SessionWriterOptions } from './logbookOverEngine';
 import type { LinkEventKind, LogbookWriter, LogbookWriterStats, PartMeasurementRecord, SessionSignOff, SessionStatus, TransferPointRecord, TrimRecord } from './logbookTypes';
 import { storeSessionSummary, storeSignOff } from './sessionSummary';
+import type { SpaceReserve } from './spaceReserve';
 import { get, run, type SqlProgram, type SqlValue } from './sqlProgram';
+import type { StorageFault } from './storageFaults';
 
 type QueueItem =
   | { kind: 'cycle'; reading: CycleReading; atMs: number }
@@ -31,6 +34,10 @@ type QueueItem =
 export interface BatchingWriterOptions extends SessionWriterOptions {
   /** Runs a program in one write transaction of the store. */
   write<T>(program: SqlProgram<T>): Promise<T>;
+  /** The store's reading of a refused batch: a fault waiting will not cure (disk full, read-only, damaged), or null. */
+  faultOf?: (error: unknown) => StorageFault | null;
+  /** Space kept for ending the session when the disk fills (spaceReserve.ts); released when the session ends. */
+  reserve?: SpaceReserve | null;
 }
 
 const cycleColumns = ['seq', 't_s', 'half_cycle', 'period_s', 'alpha_deg', 'control_v', 'pulses', 'wrong_half_cycle_pulses', 'ramp_peak_v', 'ramp_floor_v', 'slope_v_per_ms', 'start_delay_deg', 'nonlinearity_pct', 'clipped', 'reset_us', 'recorded_at_ms'];
@@ -94,6 +101,15 @@ function* writeBatch(sessionId: number, batch: readonly QueueItem[], firstSeq: {
   yield* run('UPDATE sessions SET heartbeat_at_ms = ? WHERE id = ?', [stamp, sessionId]);
 }
 
+/** Ends the session: its sign-off if any, its summary, and a note of why it stopped added to its notes. */
+function* endSession(sessionId: number, status: Exclude<SessionStatus, 'open'>, signOff: SessionSignOff | null, note: string | null): SqlProgram<void> {
+  if (signOff) yield* storeSignOff(sessionId, signOff);
+  yield* storeSessionSummary(sessionId, status, Date.now());
+  if (note !== null) {
+    yield* run("UPDATE sessions SET notes = CASE WHEN notes IS NULL OR notes = '' THEN ? ELSE notes || ? END WHERE id = ?", [note, `\n${note}`, sessionId]);
+  }
+}
+
 export function createBatchingWriter(sessionId: number, options: BatchingWriterOptions): LogbookWriter {
   const flushIntervalMs = options.flushIntervalMs ?? 200;
   const maxQueuedItems = options.maxQueuedItems ?? 500_000;
@@ -107,7 +123,7 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
   let closed = false;
   let inFlight: Promise<void> | null = null;
   let lastHeartbeatMs = 0;
-  const stats: LogbookWriterStats = { queued: 0, cyclesWritten: 0, batches: 0, cyclesDropped: 0, lastBatchMs: 0, longestBatchMs: 0, lastError: null };
+  const stats: LogbookWriterStats = { queued: 0, cyclesWritten: 0, batches: 0, cyclesDropped: 0, lastBatchMs: 0, longestBatchMs: 0, lastError: null, writeFailure: null };
 
   async function flushOnce(): Promise<void> {
     if (refused === null && queue.length === 0 && Date.now() - lastHeartbeatMs < 5000) return;
@@ -129,9 +145,12 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
       stats.batches += 1;
       stats.cyclesWritten += cycles;
       stats.lastError = null;
+      stats.writeFailure = null;
     } catch (error) {
       // Rolled back (or cut off at COMMIT): the same batch, same stamp, is tried again on the next tick.
       stats.lastError = error instanceof Error ? error.message : String(error);
+      const fault = options.faultOf?.(error) ?? null;
+      if (fault) stats.writeFailure = { kind: fault.kind, message: `${options.location ?? 'logbook'}: ${fault.message}` };
     }
     stats.lastBatchMs = performance.now() - started;
     stats.longestBatchMs = Math.max(stats.longestBatchMs, stats.lastBatchMs);
@@ -177,20 +196,37 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
     setNotes: (notes) => enqueue({ kind: 'notes', notes }),
     stats: () => ({ ...stats, queued: queue.length + (refused?.items.length ?? 0) }),
     flush: flushAll,
-    async close(status: Exclude<SessionStatus, 'open'> = 'closed', signOff?: SessionSignOff) {
+    async close(status: Exclude<SessionStatus, 'open'> = 'closed', signOff?: SessionSignOff, closeOptions: { note?: string } = {}) {
       if (closed) return options.readRow(sessionId);
       if (signOff && status !== 'closed') throw new Error(`a sign-off ends a session as closed, not ${status}`);
-      await flushAll();
+      // A storage fault (disk full...) ends the flushing: what the store refused stays unwritten.
+      const flushUnlessFaulted = async (): Promise<void> => {
+        if (stats.writeFailure !== null) return;
+        await flushAll().catch((error: unknown) => {
+          if (stats.writeFailure === null) throw error;
+        });
+      };
+      await flushUnlessFaulted();
       closed = true;
       clearInterval(timer);
       // Anything added while the last batch was on its way.
-      await flushAll();
-      // The sign-off and the end in one write, the sign-off first: a finished session is never changed after.
-      const end = function* () {
-        if (signOff) yield* storeSignOff(sessionId, signOff);
-        yield* storeSessionSummary(sessionId, status, Date.now());
-      };
-      await options.write(end());
+      await flushUnlessFaulted();
+      if (stats.writeFailure !== null) {
+        // The reserve gives back the room to end the session with why.
+        queue = [];
+        refused = null;
+        options.reserve?.release();
+      }
+      try {
+        // The sign-off and the end in one write, the sign-off first: a finished session is never changed after.
+        await options.write(endSession(sessionId, status, signOff ?? null, closeOptions.note ?? null));
+      } catch (error) {
+        const fault = options.faultOf?.(error) ?? null;
+        if (!fault) throw error;
+        throw new InputError(`${fault.message}; session ${sessionId} could not be ended and will show as interrupted when the logbook is next opened with room to write`, options.location);
+      } finally {
+        options.reserve?.release();
+      }
       return options.readRow(sessionId);
     },
   };

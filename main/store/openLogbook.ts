@@ -27,8 +27,12 @@ export function resolveLogbookLocation(location: string): string {
 export async function openLogbook(location: string, options: OpenLogbookOptions = {}): Promise<Logbook> {
   if (isPostgresLocation(location)) return openPostgresLogbook(location);
   if (!existsSync(location)) {
-    if (options.mustExist) throw new InputError('there is no logbook here (give --db the file a session was recorded to)', location);
-    mkdirSync(dirname(resolve(location)), { recursive: true });
+    if (options.mustExist || options.readOnly) throw new InputError('there is no logbook here (give --db the file a session was recorded to)', location);
+    try {
+      mkdirSync(dirname(resolve(location)), { recursive: true });
+    } catch (error) {
+      throw new InputError(`cannot be created: its folder cannot be made (${error instanceof Error ? error.message : String(error)})`, location);
+    }
   }
   return openSqliteLogbook(location, options);
 }

@@ -2,13 +2,13 @@
  * Two sessions side by side, and a unit's drift across its sessions. Query programs (sqlProgram.ts), the same on
  * both stores.
  */
-import { boardDesignSchema } from '../../app/board/design';
 import { InputError } from '../../app/errors';
 import { driftTrend } from './driftTrend';
 import { comparisonRows } from './comparisonRows';
 import type { SessionComparison, SessionFigures, UnitDrift } from './logbookTypes';
 import { readSessionRow, transferCurve } from './sessionQueries';
 import { sessionFigures } from './sessionSummary';
+import { parseStoredDesign } from './storedContent';
 import { all, get, type SqlProgram } from './sqlProgram';
 
 export function* compareSessions(aId: number, bId: number, location: string): SqlProgram<SessionComparison> {
@@ -17,7 +17,7 @@ export function* compareSessions(aId: number, bId: number, location: string): Sq
   const a = (yield* sessionFigures(aId)) as SessionFigures;
   const b = (yield* sessionFigures(bId)) as SessionFigures;
   const designJson = ((yield* get<{ json: string }>('SELECT d.design_json AS "json" FROM sessions s JOIN board_designs d ON d.id = s.design_id WHERE s.id = ?', [aId])) as { json: string }).json;
-  const design = boardDesignSchema.parse(JSON.parse(designJson));
+  const design = parseStoredDesign(designJson, `${location}: session ${aId}`);
   return {
     a: rowA,
     b: rowB,

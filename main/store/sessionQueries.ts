@@ -11,6 +11,7 @@ import type { CaptureInfo, CycleRecord, LinkEventKind, SessionDetail, SessionFil
 import { linkErrorKinds } from './logbookTypes';
 import { recordedFiguresOf } from './recordedFigures';
 import { computeSessionTotals, transferFit } from './sessionSummary';
+import { parseStoredReadings } from './storedContent';
 import { all, get, type SqlProgram, type SqlValue } from './sqlProgram';
 
 export const iso = (ms: number): string => new Date(ms).toISOString();
@@ -34,6 +35,7 @@ interface SessionJoinRow {
   alphaMean: number | null;
   rampPeakMedian: number | null;
   linkErrors: number;
+  linkSilentMs: number;
   bench: string | null;
   sharedAtMs: number | null;
   signOff: 'signed-off' | 'signed-off-with-exceptions' | null;
@@ -51,6 +53,7 @@ const sessionSelect = `
     s.sign_off AS "signOff", s.sign_off_reason AS "signOffReason", s.sign_off_exceptions_json AS "signOffExceptionsJson",
     s.steps_json AS "stepsJson", s.readings_json AS "readingsJson",
     (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind IN (${errorKindsSql})) AS "linkErrors",
+    (SELECT coalesce(sum(count), 0) FROM link_events e WHERE e.session_id = s.id AND e.kind = 'link-silent') AS "linkSilentMs",
     (SELECT max(shared_at_ms) FROM shared_copies c WHERE c.session_id = s.id) AS "sharedAtMs"
   FROM sessions s JOIN units u ON u.id = s.unit_id JOIN board_designs d ON d.id = s.design_id`;
 
@@ -65,7 +68,7 @@ function* toRow(row: SessionJoinRow): SqlProgram<SessionRow> {
     signOffReason: row.signOffReason, signOffExceptions: parseSignOffExceptions(row.signOffExceptionsJson),
     startedAt: iso(row.startedAtMs), endedAt: row.endedAtMs === null ? null : iso(row.endedAtMs),
     cycles: totals.cycles, rampPeakV: recorded.rampPeakV, alphaMinDeg: recorded.alphaMinDeg, alphaMaxDeg: recorded.alphaMaxDeg,
-    wholeSession: { rampPeakMedianV: totals.rampPeakV, alphaMeanDeg: totals.alphaDeg }, linkErrors: row.linkErrors,
+    wholeSession: { rampPeakMedianV: totals.rampPeakV, alphaMeanDeg: totals.alphaDeg }, linkErrors: row.linkErrors, linkSilentS: Number(row.linkSilentMs) / 1000,
     bench: row.bench, sharedAt: row.sharedAtMs === null ? null : iso(row.sharedAtMs),
   };
 }
@@ -171,7 +174,8 @@ export function* readCapture(captureId: number, location: string): SqlProgram<St
   return { info, block };
 }
 
-export function* sessionDetail(id: number): SqlProgram<SessionDetail | null> {
+/** `location` names the logbook in the message when the stored readings are not sound (storedContent.ts). */
+export function* sessionDetail(id: number, location = 'logbook'): SqlProgram<SessionDetail | null> {
   const row = yield* findSessionRow(id);
   if (!row) return null;
   const extra = (yield* get<{ notes: string | null; readings: string | null; steps: string | null; designId: number }>(
@@ -194,7 +198,7 @@ export function* sessionDetail(id: number): SqlProgram<SessionDetail | null> {
     row,
     notes: extra.notes,
     designId: extra.designId,
-    readings: extra.readings === null ? null : JSON.parse(extra.readings),
+    readings: extra.readings === null ? null : parseStoredReadings(extra.readings, `${location}: session ${id}`),
     stepsJson: extra.steps,
     transfer: { points: yield* transferCurve(id), fit: yield* transferFit(id) },
     trims: trims.map(({ atMs, ...trim }) => ({ ...trim, at: iso(atMs) })),

@@ -10,7 +10,8 @@ import { all, get, type SqlProgram } from './sqlProgram';
 /** A writer touches its session at least every 5 s (logbookWriter.ts); three missed beats mean it is gone. */
 const remoteHeartbeatLimitMs = 15_000;
 
-function processExists(pid: number): boolean {
+/** True when a process with this id runs on this computer (EPERM: it does, as another user). */
+export function processExists(pid: number): boolean {
   try {
     process.kill(pid, 0);
     return true;

@@ -1,15 +1,18 @@
 /**
  * The logbook on the bench PC: one SQLite file (better-sqlite3), the embedded default behind the `Logbook`
  * interface. The engine runs the shared query programs synchronously (logbookOverEngine.ts), write programs in one
- * IMMEDIATE transaction; the session writer's batches are write programs too (logbookWriter.ts). Opening it marks
- * sessions whose writer is gone as interrupted (sessionRecovery.ts).
+ * IMMEDIATE transaction; the session writer's batches are write programs too (logbookWriter.ts). Opening it to write
+ * marks sessions whose writer is gone as interrupted (sessionRecovery.ts); opened read-only it writes nothing.
+ * Storage faults (disk full, read-only, damaged pages) come out as InputErrors naming the file (storageFaults.ts).
  */
 import type Database from 'better-sqlite3';
-import type { Logbook } from './logbookTypes';
+import type { Logbook, SessionRow } from './logbookTypes';
 import { createLogbookOverEngine, type LogbookEngine } from './logbookOverEngine';
 import { createBatchingWriter } from './logbookWriter';
 import { openLogbookDatabase, type OpenLogbookDatabaseOptions, type SqliteDatabase } from './openDatabase';
-import { recoverInterruptedSessions } from './sessionRecovery';
+import { recoverInterruptedSessions, writerIsAlive } from './sessionRecovery';
+import { removeStaleReserves, takeSpaceReserve, type SpaceReserve } from './spaceReserve';
+import { guardStorage, storageFaultOf } from './storageFaults';
 import { runSync, type SqlProgram, type SqlStep, type SqlValue } from './sqlProgram';
 
 const bindable = (value: SqlValue) => (value instanceof Uint8Array && !Buffer.isBuffer(value) ? Buffer.from(value.buffer, value.byteOffset, value.byteLength) : value);
@@ -55,21 +58,69 @@ export function sqliteExecutor(db: SqliteDatabase): (step: SqlStep) => unknown {
 }
 
 export async function openSqliteLogbook(path: string, options: OpenLogbookDatabaseOptions = {}): Promise<Logbook> {
-  return createSqliteLogbook(openLogbookDatabase(path, options), path);
+  return createSqliteLogbook(openLogbookDatabase(path, options), path, { readOnly: options.readOnly });
 }
 
-export function createSqliteLogbook(db: SqliteDatabase, location: string): Logbook {
+/** Open sessions whose writer is gone: what recovery would mark interrupted (sessionRecovery.ts). */
+function orphanedSessions(db: SqliteDatabase): Set<number> {
+  const open = db
+    .prepare("SELECT id, writer_host AS host, writer_pid AS pid, heartbeat_at_ms AS heartbeatAtMs FROM sessions WHERE status = 'open'")
+    .all() as Array<{ id: number; host: string | null; pid: number | null; heartbeatAtMs: number | null }>;
+  const nowMs = Date.now();
+  return new Set(open.filter((session) => !writerIsAlive(session, nowMs)).map((session) => session.id));
+}
+
+/**
+ * `readOnly`: nothing is written, not even the recovery of sessions whose writer is gone; those are shown as
+ * interrupted (what the next writing opener will store), so a read-only file or a full disk can still be read.
+ */
+export function createSqliteLogbook(db: SqliteDatabase, location: string, options: { readOnly?: boolean } = {}): Logbook {
   const execute = sqliteExecutor(db);
   const writeNow = <T>(program: SqlProgram<T>): T => db.transaction(() => runSync(program, execute)).immediate();
-  writeNow(recoverInterruptedSessions());
+  if (!options.readOnly) {
+    writeNow(recoverInterruptedSessions());
+    removeStaleReserves(location);
+  }
+  // The reserve taken by startSession below, handed to the writer the engine opens for that session.
+  let reserveForNextWriter: SpaceReserve | null = null;
   const engine: LogbookEngine = {
     location,
     read: async (program) => runSync(program, execute),
     write: async (program) => writeNow(program),
-    openWriter: (sessionId, options) => createBatchingWriter(sessionId, { ...options, write: async (program) => writeNow(program) }),
+    openWriter: (sessionId, writerOptions) => {
+      const reserve = reserveForNextWriter;
+      reserveForNextWriter = null;
+      return createBatchingWriter(sessionId, { ...writerOptions, write: async (program) => writeNow(program), faultOf: (error) => storageFaultOf(error, location), reserve });
+    },
     async close() {
       if (db.open) db.close();
     },
   };
-  return createLogbookOverEngine(engine);
+  const logbook = createLogbookOverEngine(engine);
+  const startSession = logbook.startSession.bind(logbook);
+  // A disk too full to hold the reserve is too full for a session that could be ended: refused before it starts.
+  logbook.startSession = async (request, writerOptions) => {
+    const reserve = takeSpaceReserve(location);
+    reserveForNextWriter = reserve;
+    try {
+      return await startSession(request, writerOptions);
+    } catch (error) {
+      reserve.release();
+      throw error;
+    } finally {
+      reserveForNextWriter = null;
+    }
+  };
+  if (options.readOnly) {
+    const orphans = orphanedSessions(db);
+    const shown = (row: SessionRow): SessionRow => (orphans.has(row.id) ? { ...row, status: 'interrupted' } : row);
+    const listSessions = logbook.listSessions.bind(logbook);
+    const session = logbook.session.bind(logbook);
+    logbook.listSessions = async (filter) => (await listSessions(filter)).map(shown);
+    logbook.session = async (id) => {
+      const detail = await session(id);
+      return detail && { ...detail, row: shown(detail.row) };
+    };
+  }
+  return guardStorage(logbook, location);
 }

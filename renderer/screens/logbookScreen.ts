@@ -200,7 +200,7 @@ export class LogbookScreen implements Screen {
               h('td', { class: 'number', 'data-column': 'ramp-peak' }, formatSi(session.rampPeakV, 'V')),
               h('td', { class: 'number' }, session.alphaMinDeg === null && session.alphaMaxDeg === null ? '–' : `${formatFixed(session.alphaMinDeg, '°')} to ${formatFixed(session.alphaMaxDeg, '°')}`),
               h('td', { class: 'number' }, session.cycles),
-              h('td', { class: 'number' }, session.linkErrors),
+              h('td', { class: 'number' }, session.linkSilentS > 0 ? `${session.linkErrors}, silent ${session.linkSilentS.toFixed(1)} s` : session.linkErrors),
             );
           }),
         ),

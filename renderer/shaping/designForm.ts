@@ -140,13 +140,22 @@ export interface DesignCheck {
   problems: Map<string, { severity: 'error' | 'warning'; message: string }>;
 }
 
+/** What a number field says of a text that is no number (`1p`, `4k7`): the unit is the label's, no prefixes. */
+function notANumber(text: string, path: string): string {
+  const field = designFieldGroups.flatMap((group) => group.fields).find((candidate) => candidate.path === path);
+  const unit = field ? /\(([^)]+)\)$/.exec(field.label)?.[1] : undefined;
+  return `"${text}" is not a number: type digits only${unit ? `, in ${unit} as the label says` : ''} (no unit letters or prefixes)`;
+}
+
 export function checkDesign(input: unknown): DesignCheck {
   const problems: DesignCheck['problems'] = new Map();
   const parsed = boardDesignSchema.safeParse(input);
   if (!parsed.success) {
     for (const issue of parsed.error.issues) {
       const path = issue.path.map(String).join('.');
-      if (!problems.has(path)) problems.set(path, { severity: 'error', message: partTextProblem(input, path) ?? issue.message });
+      const typed = getPath(input, path);
+      const notNumber = issue.code === 'invalid_type' && issue.expected === 'number' && typeof typed === 'string' ? notANumber(typed, path) : null;
+      if (!problems.has(path)) problems.set(path, { severity: 'error', message: partTextProblem(input, path) ?? notNumber ?? issue.message });
     }
     return { design: null, problems };
   }

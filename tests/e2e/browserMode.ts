@@ -12,7 +12,12 @@ export const repoRoot = resolve(__dirname, '..', '..');
 export const screensFolder = join(repoRoot, 'test-output', 'screens');
 
 export interface DemoServer {
+  /** The address the server printed, carrying this run's access token: open this one. */
   url: string;
+  /** `http://127.0.0.1:<port>`, for building other addresses (which need `token` too). */
+  origin: string;
+  /** This run's access token. */
+  token: string;
   /** The server's own temporary folder (the logbook, the data folder); removed by `stop`. */
   folder: string;
   logbookPath: string;
@@ -21,9 +26,9 @@ export interface DemoServer {
 }
 
 /**
- * Starts `node dist/rampwright.js serve --demo --port 0 --db <fresh file>` and waits for the address it prints.
- * `db` serves another logbook (a file or a shared logbook's address) and `args` adds options; `demo: false` leaves
- * the virtual board out.
+ * Starts `node dist/rampwright.js serve --demo --port 0 --db <fresh file>` and waits for the address it prints,
+ * which carries the run's access token (the server refuses every request without it). `db` serves another logbook
+ * (a file or a shared logbook's address) and `args` adds options; `demo: false` leaves the virtual board out.
  */
 export async function startDemoServer(options: { speed?: number; db?: string; demo?: boolean; args?: string[] } = {}): Promise<DemoServer> {
   const cli = join(repoRoot, 'dist', 'rampwright.js');
@@ -35,13 +40,13 @@ export async function startDemoServer(options: { speed?: number; db?: string; de
   let output = '';
   child.stdout?.on('data', (chunk: Buffer) => (output += chunk.toString('utf8')));
   child.stderr?.on('data', (chunk: Buffer) => (output += chunk.toString('utf8')));
-  const url = await new Promise<string>((resolveUrl, reject) => {
+  const [url, origin, token] = await new Promise<[string, string, string]>((resolveUrl, reject) => {
     const timer = setTimeout(() => reject(new Error(`the server printed no address within 30 s:\n${output}`)), 30_000);
     const look = () => {
-      const match = /(http:\/\/127\.0\.0\.1:\d+)\/?\S*/.exec(output);
+      const match = /((http:\/\/127\.0\.0\.1:\d+)\/\?token=([A-Za-z0-9_-]+))\s/.exec(output);
       if (match) {
         clearTimeout(timer);
-        resolveUrl(match[1]);
+        resolveUrl([match[1], match[2], match[3]]);
       }
     };
     child.stdout?.on('data', look);
@@ -52,6 +57,8 @@ export async function startDemoServer(options: { speed?: number; db?: string; de
   });
   return {
     url,
+    origin,
+    token,
     folder,
     logbookPath,
     output: () => output,

@@ -343,4 +343,31 @@ describe('browser mode with the virtual board', () => {
     await screenshot(page, '11-board-dark');
     expect(pageErrors).toEqual([]);
   });
+
+  it('refuses a page opened without the token, and a page with no origin that knows it', async () => {
+    // What a technician sees at the bare address (no token): the refusal, in words, and no screens.
+    const bare = await browser.newPage();
+    const reply = await bare.goto(`${server.origin}/`);
+    expect(reply?.status()).toBe(401);
+    await expect(bare.locator('body').textContent()).resolves.toMatch(/access token/);
+    // A local file page or sandboxed frame sends Origin: null; even with the token the event socket is refused.
+    // The same frame without the sandbox (the server's own origin) opens it: the refusal is the Origin's.
+    const socketFromFrame = (sandboxed: boolean) =>
+      bare.evaluate(
+        async ({ address, sandboxed: inSandbox }) => {
+          return new Promise<string>((resolve) => {
+            const frame = document.createElement('iframe');
+            if (inSandbox) frame.setAttribute('sandbox', 'allow-scripts');
+            frame.srcdoc = `<script>const s = new WebSocket(${JSON.stringify(address)}); s.onopen = () => { parent.postMessage('open', '*'); s.close(); }; s.onerror = () => parent.postMessage('refused', '*');</script>`;
+            window.addEventListener('message', (event) => resolve(String(event.data)), { once: true });
+            document.body.append(frame);
+            setTimeout(() => resolve('timeout'), 10_000);
+          });
+        },
+        { address: `${server.origin.replace('http', 'ws')}/api/events?token=${server.token}`, sandboxed },
+      );
+    expect(await socketFromFrame(true)).toBe('refused');
+    expect(await socketFromFrame(false)).toBe('open');
+    await bare.close();
+  });
 });

@@ -14,6 +14,7 @@ import { loadBoardDesign } from '../../board/loadBoardDesign';
 import { openCaptureFile, type ReadCaptureOptions } from '../../capture/readCaptureFile';
 import { addCaptureOptions, captureReadOptions, type CaptureCommandOptions } from '../captureOptions';
 import { createProgressBar } from '../progressBar';
+import { jsonOutput } from '../jsonOutput';
 
 interface AnalyzeCommandOptions extends CaptureCommandOptions {
   design?: string;
@@ -169,7 +170,7 @@ export function registerAnalyzeCommand(program: Command): void {
     }
     if (options.json) {
       const readings = { ...result.readings, readAs: result.readAs };
-      process.stdout.write(`${JSON.stringify(result.checks ? { ...readings, checks: result.checks } : readings, null, 2)}\n`);
+      process.stdout.write(jsonOutput(result.checks ? { ...readings, checks: result.checks } : readings));
     } else {
       process.stdout.write(formatAnalysis(capturePath, result));
     }

@@ -18,6 +18,7 @@ import { demoStories, runDemoStories, type DemoReport } from '../../session/comm
 import { recordedPartName, recordedPartValue } from '../../../app/board/partNames';
 import { defaultLogbookFileName, userDataFolder } from '../../session/dataFolder';
 import { safetyNoteLines } from '../../session/safetyNote';
+import { jsonOutput } from '../jsonOutput';
 
 interface DemoOptions {
   db?: string;
@@ -131,7 +132,7 @@ export function registerDemoCommand(program: Command): void {
           rampPeakAfterV: report.rampPeakAfterV,
           transfer: report.transferFit,
         }));
-        process.stdout.write(`${JSON.stringify({ logbook: logbookDisplayLocation(logbookPath), design: reports[0]?.designName ?? null, units, safety: safetyNoteLines, ...(target.pushTo === undefined ? {} : { pushed: pushLines }) }, null, 2)}\n`);
+        process.stdout.write(jsonOutput({ logbook: logbookDisplayLocation(logbookPath), design: reports[0]?.designName ?? null, units, safety: safetyNoteLines, ...(target.pushTo === undefined ? {} : { pushed: pushLines }) }));
         return;
       }
       process.stdout.write(`${[...safetyNoteLines, '', ...demoSummaryLines(reports, logbookDisplayLocation(logbookPath), elapsedS), ...pushLines].join('\n')}\n`);

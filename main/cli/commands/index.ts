@@ -19,6 +19,7 @@ const commands: readonly { name: string; load: () => Promise<Register> }[] = [
   { name: 'report', load: async () => (await import('./report')).registerReportCommand },
   { name: 'export', load: async () => (await import('./export')).registerExportCommand },
   { name: 'import', load: async () => (await import('./import')).registerImportCommand },
+  { name: 'salvage', load: async () => (await import('./salvage')).registerSalvageCommand },
   { name: 'push', load: async () => (await import('./push')).registerPushCommand },
 ];
 

@@ -2,8 +2,8 @@
  * `rampwright log [--db <file|address>] [--unit <serial>] [--json]`: the sessions in a logbook, oldest first, with
  * the bench that recorded each one (a shared logbook holds several benches' sessions) and, in a bench's own logbook
  * that pushes to a shared one, which sessions are shared. Times are stored in UTC and shown in local time with the
- * offset; --json gives them in UTC (ISO 8601). Opening the logbook marks sessions whose recorder is gone as
- * interrupted. Without --db, the logbook in the user's data folder.
+ * offset; --json gives them in UTC (ISO 8601). The logbook is opened read-only (a read-only file or a full disk can
+ * be listed); a session whose recorder is gone shows as interrupted. Without --db, the logbook in the user's data folder.
  */
 import type { Command } from 'commander';
 import { homedir } from 'node:os';
@@ -13,6 +13,7 @@ import { localTimeText } from '../../../app/record/localTime';
 import { defaultLogbookFileName, userDataFolder } from '../../session/dataFolder';
 import type { SessionRow } from '../../store/logbookTypes';
 import { openLogbook } from '../../store/openLogbook';
+import { jsonOutput } from '../jsonOutput';
 
 interface LogCommandOptions {
   db?: string;
@@ -29,7 +30,7 @@ export function defaultLogbookPath(): string {
 
 /** The work of the command without printing. */
 export async function listLogbook(path: string, filter: { unit?: string; design?: string; from?: string; to?: string } = {}): Promise<{ sessions: SessionRow[] }> {
-  const logbook = await openLogbook(path, { mustExist: true });
+  const logbook = await openLogbook(path, { mustExist: true, readOnly: true });
   try {
     const sessions = await logbook.listSessions({ unitSerial: filter.unit, designName: filter.design, from: filter.from, to: filter.to });
     return { sessions };
@@ -49,11 +50,11 @@ export function formatLogbookTable(sessions: SessionRow[], options: { timeZone?:
   // The shared column only in a bench's logbook that has pushed (a shared logbook's own rows are never "shared").
   const pushes = sessions.some((row) => row.sharedAt !== null);
   // Figures as recorded at the steps (the board as signed for); a count of cycles, judged by nothing.
-  const header = ['session', 'unit', 'bench', 'outcome', 'started', 'ended', ...(pushes ? ['shared'] : []), 'cycles', 'ramp peak V (recorded)', 'alpha deg (recorded range)', 'link errors'];
+  const header = ['session', 'unit', 'bench', 'outcome', 'started', 'ended', ...(pushes ? ['shared'] : []), 'cycles', 'ramp peak V (recorded)', 'alpha deg (recorded range)', 'link errors', 'link silent s'];
   const range = (row: SessionRow) => (row.alphaMinDeg === null && row.alphaMaxDeg === null ? '-' : `${number(row.alphaMinDeg, 1)} to ${number(row.alphaMaxDeg, 1)}`);
   const rows = sessions.map((row) => [
     String(row.id), row.unit, row.bench ?? '-', outcomeWords[row.outcome].phrase, localTimeText(row.startedAt, timeZone), localTimeText(row.endedAt, timeZone), ...(pushes ? [sharedText(row, timeZone)] : []),
-    String(row.cycles), number(row.rampPeakV, 3), range(row), String(row.linkErrors),
+    String(row.cycles), number(row.rampPeakV, 3), range(row), String(row.linkErrors), row.linkSilentS > 0 ? row.linkSilentS.toFixed(1) : '-',
   ]);
   const firstNumber = header.indexOf('cycles');
   const widths = header.map((title, column) => Math.max(title.length, ...rows.map((row) => row[column].length)));
@@ -74,6 +75,6 @@ export function registerLogCommand(program: Command): void {
     .action(async (options: LogCommandOptions) => {
       const path = options.db ?? defaultLogbookPath();
       const listing = await listLogbook(path, options);
-      process.stdout.write(options.json ? `${JSON.stringify(listing, null, 2)}\n` : formatLogbookTable(listing.sessions));
+      process.stdout.write(options.json ? jsonOutput(listing) : formatLogbookTable(listing.sessions));
     });
 }

@@ -9,6 +9,7 @@ import type { Command } from 'commander';
 import { InputError } from '../../../app/errors';
 import { pushSessions, type PushReport } from '../../share/pushSessions';
 import { isPostgresLocation, openLogbook } from '../../store/index';
+import { jsonOutput } from '../jsonOutput';
 
 interface PushCommandOptions {
   db?: string;
@@ -80,7 +81,7 @@ export function registerPushCommand(program: Command): void {
       } finally {
         await local.close();
       }
-      process.stdout.write(options.json ? `${JSON.stringify(report, null, 2)}\n` : `${pushReportLines(report).join('\n')}\n`);
+      process.stdout.write(options.json ? jsonOutput(report) : `${pushReportLines(report).join('\n')}\n`);
       if (report.sessions.some((session) => session.outcome === 'refused')) process.exitCode = 2;
       else if (report.gaveUp) process.exitCode = 3;
     });

@@ -9,10 +9,11 @@ import type { Command } from 'commander';
 import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import type { CaptureReadings } from '../../../app/bench/readings';
 import { InputError } from '../../../app/errors';
-import { createLoggerDecoder, edgeRequestAfter, encodeCommand, linkErrorCount, type LinkHealth, type LinkProblemCode } from '../../../app/logger';
+import { createLoggerDecoder, edgeRequestAfter, encodeCommand, type LinkHealth } from '../../../app/logger';
 import { loadBoardDesign } from '../../board/loadBoardDesign';
-import { openLoggerLink, type LinkEvent } from '../../serial/loggerLink';
-import type { LinkEventKind, LogbookWriter, SessionRow } from '../../store/logbookTypes';
+import { openLoggerLink } from '../../serial/loggerLink';
+import { createLinkAccount } from '../../session/linkAccount';
+import type { LogbookWriter, SessionRow } from '../../store/logbookTypes';
 import { logbookDisplayLocation, openLogbook } from '../../store/index';
 import { defaultLogbookPath } from './log';
 import { localFirst, pushAfterSession } from './push';
@@ -29,51 +30,32 @@ export interface RecordOptions {
   /** Stops the recording (Ctrl-C). */
   signal?: AbortSignal;
   onProgress?: (progress: RecordProgress) => void;
+  /** Told at once, in words, when the logbook can no longer be written (the recording then stops). */
+  onStorageFault?: (message: string) => void;
   progressIntervalMs?: number;
 }
 
 export interface RecordProgress {
   seconds: number;
+  /** Cycles stored in the logbook so far (not merely analysed). */
   cycles: number;
   alphaDeg: number | null;
   rampPeakV: number | null;
+  /** Link errors written to the session so far: the number the logbook and the final summary give. */
   linkErrors: number;
   linkOpen: boolean;
   linesDropped: number;
+  /** Seconds of the silence still running (0 while data flows), and all silence so far. */
+  silentNowS: number;
+  silentS: number;
 }
 
 export interface RecordResult {
   session: SessionRow;
   readings: CaptureReadings;
   decoder: LinkHealth;
-}
-
-/** Decoder problems go to the logbook as counted rows, one per kind per progress tick (a CRC storm is one row). */
-const problemKinds: Partial<Record<LinkProblemCode, LinkEventKind>> = {
-  crc: 'crc-failures',
-  'sequence-gap': 'sequence-gap',
-  garbage: 'garbage',
-  'logger-overrun': 'logger-overrun',
-};
-
-function linkEventRow(event: LinkEvent): { kind: LinkEventKind; detail: string; count: number } | null {
-  switch (event.kind) {
-    case 'opened':
-    case 'closed':
-      return { kind: event.kind, detail: event.path, count: 1 };
-    case 'reopened':
-      return { kind: 'reopened', detail: event.path, count: 1 };
-    case 'unplugged':
-      return { kind: 'unplugged', detail: `${event.path}: ${event.detail}`, count: 1 };
-    case 'watchdog-timeout':
-      return { kind: 'watchdog-timeout', detail: `${event.path}: silent for ${event.silentMs} ms`, count: 1 };
-    case 'error':
-      return { kind: 'link-error', detail: `${event.path}: ${event.message}`, count: 1 };
-    case 'line-too-long':
-      return { kind: 'line-too-long', detail: `${event.bytes} bytes, cut at ${event.keptBytes}`, count: 1 };
-    case 'lines-dropped':
-      return { kind: 'lines-dropped', detail: 'the recorder fell behind', count: event.count };
-  }
+  /** Stretches of link silence (their total is the session row's `linkSilentS`). */
+  silentStretches: number;
 }
 
 export async function recordSession(options: RecordOptions): Promise<RecordResult> {
@@ -83,31 +65,53 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
   let writer: LogbookWriter | null = null;
   try {
     const link = await openLoggerLink({ path: options.port, reopen: true });
-    writer = await logbook.startSession({ unitSerial: options.unit, design, operator: options.operator ?? 'record', bench: options.bench });
+    try {
+      writer = await logbook.startSession({ unitSerial: options.unit, design, operator: options.operator ?? 'record', bench: options.bench });
+    } catch (error) {
+      await link.close();
+      throw error;
+    }
     const session = writer;
+    // Set when the logbook refuses writes that waiting will not cure (disk full, file read-only or damaged).
+    let storageFault: { message: string } | null = null;
     const decoder = createLoggerDecoder();
     const analyzer = createCaptureAnalyzer({ rectifier: design.rectifier, syncPhaseDeg: design.syncPhaseDeg, keepPerCycle: false });
     const startedMs = Date.now();
-    let cycles = 0;
+    const account = createLinkAccount(session, startedMs);
     let lastAlphaDeg: number | null = null;
     let lastRampPeakV: number | null = null;
-    let linkProblems = 0;
-    const problemCounts = new Map<LinkProblemCode, { count: number; message: string }>();
+    // A logger already streaming when the port opens sends data before any greeting: ask for the greeting, once
+    // per opening (PROTOCOL.md: `identify` brings it back without restarting the stream).
+    let identifyAsked = false;
+    const askIdentify = (): void => {
+      identifyAsked = true;
+      void link.write(encodeCommand({ command: 'identify' })).catch(() => undefined);
+    };
 
-    const flushProblems = (): void => {
-      for (const [code, { count, message }] of problemCounts) session.addLinkEvent(problemKinds[code] ?? 'decoder-problem', `${code}: ${message}`, count);
-      problemCounts.clear();
+    const stop = (): void => void link.close();
+    /** Stops the recording at once when the logbook can no longer be written; true when it has. */
+    const storageFailed = (): boolean => {
+      if (storageFault) return true;
+      const failure = session.stats().writeFailure;
+      if (!failure) return false;
+      storageFault = failure;
+      options.onStorageFault?.(failure.message);
+      stop();
+      return true;
     };
     const progress = (): void => {
-      flushProblems();
+      account.flush();
+      if (storageFailed()) return;
       const stats = link.stats();
+      const nowMs = Date.now();
+      const health = account.summary(nowMs);
+      // Cycles stored, not cycles analysed: the line never claims what the logbook does not hold.
       options.onProgress?.({
-        seconds: (Date.now() - startedMs) / 1000, cycles, alphaDeg: lastAlphaDeg, rampPeakV: lastRampPeakV,
-        linkErrors: linkErrorCount(decoder.health()) + linkProblems, linkOpen: stats.open, linesDropped: stats.linesDropped,
+        seconds: (nowMs - startedMs) / 1000, cycles: session.stats().cyclesWritten, alphaDeg: lastAlphaDeg, rampPeakV: lastRampPeakV,
+        linkErrors: health.errors, linkOpen: stats.open, linesDropped: stats.linesDropped, silentNowS: health.silentNowS, silentS: health.silentS,
       });
     };
     const ticker = setInterval(progress, options.progressIntervalMs ?? 500);
-    const stop = (): void => void link.close();
     const timer = options.seconds !== undefined ? setTimeout(stop, options.seconds * 1000) : null;
     options.signal?.addEventListener('abort', stop, { once: true });
     if (options.signal?.aborted) stop();
@@ -119,23 +123,21 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
     try {
       for await (const item of link) {
         if (item.kind !== 'line') {
-          const row = linkEventRow(item);
-          if (row) session.addLinkEvent(row.kind, row.detail, row.count);
-          if (item.kind === 'reopened') void link.write(encodeCommand({ command: 'identify' })).catch(() => undefined);
-          if (item.kind !== 'opened' && item.kind !== 'closed' && item.kind !== 'reopened') linkProblems += item.kind === 'lines-dropped' ? item.count : 1;
+          account.event(item);
+          if (item.kind === 'reopened') askIdentify();
           continue;
         }
+        const firstLine = account.line(item.atMs);
         const request = edgeRequestAfter(item.text);
         if (request) void link.write(request).catch(() => undefined);
         for (const event of decoder.pushLine(item.text)) {
           if (event.kind === 'problem') {
-            const entry = problemCounts.get(event.problem.code) ?? { count: 0, message: event.problem.message };
-            entry.count += 1;
-            problemCounts.set(event.problem.code, entry);
+            account.problem(event.problem, firstLine);
+            if (event.problem.code === 'data-before-greeting' && !identifyAsked) askIdentify();
           } else if (event.kind === 'block') {
+            if (storageFailed()) break;
             for (const reading of analyzer.push(event.block)) {
               session.addCycle(reading);
-              cycles += 1;
               if (reading.alphaDeg !== null) lastAlphaDeg = reading.alphaDeg;
               if (reading.rampPeakV !== null) lastRampPeakV = reading.rampPeakV;
               if (reading.alphaDeg !== null && reading.controlV !== null) session.addTransferPoint({ t: reading.t, controlV: reading.controlV, alphaDeg: reading.alphaDeg });
@@ -149,12 +151,24 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
       options.signal?.removeEventListener('abort', stop);
       await link.close();
     }
+    const endedMs = Date.now();
+    account.finish(endedMs);
+    if (storageFailed() && storageFault) {
+      const fault: { message: string } = storageFault;
+      const storedCycles = session.stats().cyclesWritten;
+      const note = `Recording stopped at ${new Date(endedMs).toISOString()}: ${fault.message}. The ${storedCycles} cycles stored before were kept.`;
+      const row = await session.close('interrupted', undefined, { note });
+      writer = null;
+      throw new InputError(
+        `${fault.message}. Recording stopped after ${((endedMs - startedMs) / 1000).toFixed(1)} s; session ${row.id} keeps the ${row.cycles} cycles stored before, marked interrupted with a note of why. Free space (or make the file writable), then record again`,
+      );
+    }
     progress();
     const readings = analyzer.finish();
     session.setReadings(readings);
     const row = await session.close('closed');
     writer = null;
-    return { session: row, readings, decoder: decoder.health() };
+    return { session: row, readings, decoder: decoder.health(), silentStretches: account.summary(endedMs).silentStretches };
   } finally {
     // A failure after the session opened still ends it (interrupted) rather than leaving it open.
     if (writer) await writer.close('interrupted').catch(() => undefined);
@@ -164,10 +178,22 @@ export async function recordSession(options: RecordOptions): Promise<RecordResul
 
 const fixed = (value: number | null, digits: number): string => (value === null ? '-' : value.toFixed(digits));
 
+/** `3 link errors`, `1 link error`, `no link errors`. */
+export function linkErrorsText(count: number): string {
+  return count === 0 ? 'no link errors' : `${count} link error${count === 1 ? '' : 's'}`;
+}
+
+/** `link silent 8.0 s in 1 stretch`, or '' for a link that never went quiet. */
+export function linkSilenceText(silentS: number, stretches: number): string {
+  return silentS > 0 ? `link silent ${silentS.toFixed(1)} s in ${stretches} stretch${stretches === 1 ? '' : 'es'}` : '';
+}
+
 export function formatProgress(progress: RecordProgress): string {
-  const link = progress.linkOpen ? (progress.linkErrors === 0 ? 'link ok' : `link ${progress.linkErrors} errors`) : 'link LOST, waiting for the logger';
+  const state = progress.silentNowS > 0 ? `link SILENT for ${progress.silentNowS.toFixed(0)} s, waiting for the logger` : progress.linkOpen ? 'link ok' : 'link LOST, waiting for the logger';
+  const silentBefore = progress.silentS - progress.silentNowS;
+  const earlier = silentBefore > 0 ? `, silent ${silentBefore.toFixed(1)} s before` : '';
   const dropped = progress.linesDropped > 0 ? `, ${progress.linesDropped} lines dropped` : '';
-  return `${progress.seconds.toFixed(0)} s  cycles ${progress.cycles}  alpha ${fixed(progress.alphaDeg, 1)} deg  ramp peak ${fixed(progress.rampPeakV, 3)} V  ${link}${dropped}`;
+  return `${progress.seconds.toFixed(0)} s  cycles ${progress.cycles}  alpha ${fixed(progress.alphaDeg, 1)} deg  ramp peak ${fixed(progress.rampPeakV, 3)} V  ${state}, ${linkErrorsText(progress.linkErrors)}${earlier}${dropped}`;
 }
 
 function secondsOption(text: string | undefined): number | undefined {
@@ -201,6 +227,7 @@ export function registerRecordCommand(program: Command): void {
         const result = await recordSession({
           port: options.port, db: options.db, unit: options.unit, designPath: options.design, seconds: secondsOption(options.seconds), operator: options.operator, bench: options.bench,
           signal: controller.signal,
+          onStorageFault: (message) => process.stderr.write(`${interactive ? '\n' : ''}rampwright: ${message}: recording stops now; what is stored is kept\n`),
           onProgress: (progress) => {
             // On a terminal the line is rewritten in place; in a log file, one line every 5 s.
             if (interactive) process.stderr.write(`\r${formatProgress(progress)}\u001b[K`);
@@ -211,9 +238,11 @@ export function registerRecordCommand(program: Command): void {
         });
         if (interactive) process.stderr.write('\n');
         const row = result.session;
+        const silence = linkSilenceText(row.linkSilentS, result.silentStretches);
         process.stdout.write(
-          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, ramp peak ${fixed(row.rampPeakV, 3)} V, alpha ${fixed(row.wholeSession.alphaMeanDeg, 1)} deg mean over the recording, ${row.linkErrors} link errors. Logbook: ${logbookDisplayLocation(options.db)}\n`,
+          `Session ${row.id} of unit ${row.unit} ${row.status}: ${row.cycles} cycles, ramp peak ${fixed(row.rampPeakV, 3)} V, alpha ${fixed(row.wholeSession.alphaMeanDeg, 1)} deg mean over the recording, ${linkErrorsText(row.linkErrors)}${silence ? `, ${silence}` : ''}. Logbook: ${logbookDisplayLocation(options.db)}\n`,
         );
+        if (silence) process.stdout.write(`Note: the logger sent nothing for ${row.linkSilentS.toFixed(1)} s of the session; readings cover only the time it was heard (see rampwright report).\n`);
         // The session is safe in this bench's logbook already: a shared logbook out of reach only delays sharing.
         if (options.pushTo !== undefined) process.stdout.write(`${(await pushAfterSession(options.db, options.pushTo)).join('\n')}\n`);
       } finally {

@@ -1,11 +1,11 @@
 /**
- * `rampwright serve [--port N] [--host ADDR --token-required] [--demo] [--db file|address] [--bench name]
- * [--push-to address]`: the screens in a browser. With --push-to the bench records into its own logbook file and
- * pushes finished sessions to the shared logbook as it goes (main/share/sharePusher.ts).
- * Binds 127.0.0.1 unless told otherwise; another interface needs --token-required and prints the token.
+ * `rampwright serve [--port N] [--host ADDR] [--demo] [--db file|address] [--bench name] [--push-to address]`: the
+ * screens in a browser. With --push-to the bench records into its own logbook file and pushes finished sessions to
+ * the shared logbook as it goes (main/share/sharePusher.ts). Binds 127.0.0.1 unless told otherwise; every run has
+ * its own access token, carried by the address it prints.
  * Runs until Ctrl-C; an open session is then marked interrupted (nothing recorded is lost).
  */
-import type { Command } from 'commander';
+import { Option, type Command } from 'commander';
 import { InputError } from '../../../app/errors';
 import { startBenchServe } from '../../session/benchServe';
 import { defaultLogbookPath } from './demo';
@@ -15,7 +15,6 @@ import { resolveLogbookLocation } from '../../store/index';
 interface ServeOptions {
   port: string;
   host: string;
-  tokenRequired?: boolean;
   demo?: boolean;
   speed: string;
   db?: string;
@@ -35,8 +34,9 @@ export function registerServeCommand(program: Command): void {
     .command('serve')
     .description('Serve the bench screens to a browser on this computer (or, with a token, to others)')
     .option('--port <number>', 'port to listen on (0 picks a free one)', '4870')
-    .option('--host <address>', 'interface to listen on', '127.0.0.1')
-    .option('--token-required', 'require an access token on every request (needed for any --host but this computer)')
+    .option('--host <address>', 'interface to listen on (another than 127.0.0.1 lets other computers that have the address in)', '127.0.0.1')
+    // Kept so older scripts still start: the token is now required in every mode.
+    .addOption(new Option('--token-required', 'the access token is always required').hideHelp())
     .option('--demo', 'connect the virtual board with the demo design')
     .option('--speed <factor>', 'how much faster than real time the demo board runs', '1')
     .option('--db <file|address>', 'logbook file, or a shared logbook\'s postgres:// address (default: logbook.sqlite in your data folder)')
@@ -55,7 +55,6 @@ export function registerServeCommand(program: Command): void {
         pushIntervalMs: pushEveryS * 1000,
         host: options.host,
         port: parsePort(options.port),
-        tokenRequired: options.tokenRequired ?? false,
         demo: options.demo ?? false,
         speed,
         serial: await serialAccess(),

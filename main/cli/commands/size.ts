@@ -10,6 +10,7 @@ import { sizeBoard, type SizingResult } from '../../../app/board/sizeBoard';
 import { sizingTargetsSchema } from '../../../app/board/sizingTargets';
 import { InputError } from '../../../app/errors';
 import { saveBoardDesign } from '../../board/loadBoardDesign';
+import { jsonOutput } from '../jsonOutput';
 
 interface SizeOptions {
   name?: string;
@@ -123,7 +124,7 @@ export function registerSizeCommand(program: Command): void {
       if (options.out) await saveBoardDesign(options.out, result.design);
       if (options.json) {
         const { design, prediction, peakErrorPct, tolerance, exactOhm, notes } = result;
-        process.stdout.write(`${JSON.stringify({ design, prediction, peakErrorPct, tolerance, exactOhm, notes, out: options.out ?? null }, null, 2)}\n`);
+        process.stdout.write(jsonOutput({ design, prediction, peakErrorPct, tolerance, exactOhm, notes, out: options.out ?? null }));
       } else {
         printHuman(result, options.out);
       }

@@ -17,6 +17,7 @@ import { loadBoardDesign } from '../../board/loadBoardDesign';
 import { openCaptureFile } from '../../capture/readCaptureFile';
 import { addCaptureOptions, captureReadOptions, type CaptureCommandOptions } from '../captureOptions';
 import { createProgressBar } from '../progressBar';
+import { jsonOutput } from '../jsonOutput';
 
 interface TrimOptions extends CaptureCommandOptions {
   design: string;
@@ -81,7 +82,7 @@ export function registerTrimCommand(program: Command): void {
     const ramp = rampReadingsOf(readings, options.capture);
     const plan = planTrim(design, ramp, { series: series as ESeriesName, fitted: measured, measured });
     if (options.json) {
-      process.stdout.write(`${JSON.stringify({ ...plan, design: options.design, capture: options.capture, measuredParts: measured, ramp: readings.ramp }, null, 2)}\n`);
+      process.stdout.write(jsonOutput({ ...plan, design: options.design, capture: options.capture, measuredParts: measured, ramp: readings.ramp }));
     } else {
       printHuman(plan, ramp);
     }

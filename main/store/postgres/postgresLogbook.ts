@@ -56,11 +56,12 @@ function pgExecutor(client: pg.PoolClient): (step: SqlStep) => Promise<unknown> 
 }
 
 async function schemaVersion(client: pg.PoolClient, target: PostgresTarget): Promise<number> {
-  // A scan of the catalog, not to_regclass: its cache may not yet see a table another opener created meanwhile.
-  const ours = await client.query<{ n: number }>('SELECT count(*) AS n FROM pg_tables WHERE schemaname = current_schema() AND tablename = $1', [schemaTable]);
-  if (ours.rows[0].n === 0) {
-    const tables = await client.query<{ n: number }>("SELECT count(*) AS n FROM pg_tables WHERE schemaname = current_schema()");
-    if (tables.rows[0].n > 0) throw new InputError('is a database with tables of its own, not a Rampwright logbook; it was left untouched (give the shared logbook a database of its own)', target.display);
+  // A scan of the catalog, not to_regclass: its cache may not yet see a table another opener created meanwhile. One
+  // statement, so one snapshot: two would let another opener's first migration commit between them, and its tables
+  // would look like a database of someone else's.
+  const tables = await client.query<{ ours: number; n: number }>('SELECT count(*) FILTER (WHERE tablename = $1) AS ours, count(*) AS n FROM pg_tables WHERE schemaname = current_schema()', [schemaTable]);
+  if (Number(tables.rows[0].ours) === 0) {
+    if (Number(tables.rows[0].n) > 0) throw new InputError('is a database with tables of its own, not a Rampwright logbook; it was left untouched (give the shared logbook a database of its own)', target.display);
     return 0;
   }
   const version = await client.query<{ v: number | null }>(`SELECT max(version) AS v FROM ${schemaTable}`);

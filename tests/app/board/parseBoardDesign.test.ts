@@ -52,7 +52,7 @@ describe('parseBoardDesign', () => {
     const negative = errorOf(withChange((copy) => (copy.parts.rEmitter.ohm = -7500)));
     expect(negative.message).toContain('boards/example.board.json');
     expect(negative.message).toContain('field parts.rEmitter.ohm');
-    expect(negative.message).toContain('above 0 ohm');
+    expect(negative.message).toContain('must be from 1R0 to 10M');
     const missing = errorOf(withChange((copy) => delete (copy.parts as Partial<typeof example.parts>).cRamp));
     expect(missing.message).toContain('field parts.cRamp');
     const mains = errorOf(withChange((copy) => (copy.mainsHz = 400)));

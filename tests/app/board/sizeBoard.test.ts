@@ -57,8 +57,10 @@ describe('sizing', () => {
     const tooTall = sizingTargetsSchema.parse({ mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 13, cRampFarad: 4.7e-7 });
     expect(() => sizeBoard(tooTall)).toThrow(InputError);
     expect(() => sizeBoard(tooTall)).toThrow(/emitterDropFraction: an emitter drop of 15 % puts the emitter at 12.75 V/);
-    const weakDivider = sizingTargetsSchema.parse({ mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 6, cRampFarad: 4.7e-7, dividerCurrentA: 1e-7 });
-    expect(() => sizeBoard(weakDivider)).toThrow(/dividerCurrentA: a divider current of 0.1 uA/);
+    const weakDivider = sizingTargetsSchema.parse({ mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 6, cRampFarad: 4.7e-7, dividerCurrentA: 1e-6 });
+    expect(() => sizeBoard(weakDivider)).toThrow(/dividerCurrentA: a divider current of 1.0 uA/);
+    // Below the physical range (designRanges.ts) the targets themselves are refused.
+    expect(sizingTargetsSchema.safeParse({ mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 6, cRampFarad: 4.7e-7, dividerCurrentA: 1e-7 }).success).toBe(false);
     expect(sizingTargetsSchema.safeParse({ mainsHz: 50, rectifier: 'full-wave', supplyV: 15, rampTargetV: 6, cRampFarad: -1 }).success).toBe(false);
   });
 });

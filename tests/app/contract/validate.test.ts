@@ -56,7 +56,7 @@ describe('parseCallPayload', () => {
     };
     const fault = refusal(() => parseCallPayload('saveDesign', { design }));
     expect(fault.message).toContain('design.parts.rEmitter.ohm');
-    expect(fault.message).toContain('above 0 ohm');
+    expect(fault.message).toContain('must be from 1R0 to 10M');
   });
 
   it('fills defaults the caller may leave out', () => {

@@ -7,6 +7,7 @@ import { createComtradeDataReader } from '../../../app/formats/comtradeDataReade
 import { createComtradeCffReader } from '../../../app/formats/comtradeCffReader';
 import { InputError } from '../../../app/errors';
 import type { CaptureReader } from '../../../app/formats/captureReader';
+import { joinBytes } from '../../helpers/joinBytes';
 import { fixtureBytes } from './fixtureBytes';
 
 /** Runs `action`; it may succeed, or fail with an InputError whose message starts with the source and says something. */
@@ -49,23 +50,14 @@ function mutate(original: Uint8Array, mutations: Mutation[]): Uint8Array {
     const at = bytes.length === 0 ? 0 : step.at % bytes.length;
     const before = bytes.subarray(0, at);
     const after = bytes.subarray(at);
-    const join = (...parts: Uint8Array[]) => {
-      const joined = new Uint8Array(parts.reduce((sum, part) => sum + part.length, 0));
-      let offset = 0;
-      for (const part of parts) {
-        joined.set(part, offset);
-        offset += part.length;
-      }
-      return joined;
-    };
     if (step.kind === 'flip') {
       bytes = Uint8Array.from(bytes);
       step.bytes.forEach((value, index) => {
         if (at + index < bytes.length) bytes[at + index] ^= value;
       });
-    } else if (step.kind === 'insert') bytes = join(before, step.bytes, after);
-    else if (step.kind === 'delete') bytes = join(before, after.subarray(step.length));
-    else if (step.kind === 'duplicate') bytes = join(before, after.subarray(0, step.length), after);
+    } else if (step.kind === 'insert') bytes = joinBytes(before, step.bytes, after);
+    else if (step.kind === 'delete') bytes = joinBytes(before, after.subarray(step.length));
+    else if (step.kind === 'duplicate') bytes = joinBytes(before, after.subarray(0, step.length), after);
     else bytes = before;
   }
   return bytes;

@@ -71,7 +71,7 @@ describe('rampwright log', () => {
     expect(lines[0]).toMatch(/^session\s+unit\s+bench\s+outcome\s+started\s+ended\s+cycles/);
     expect(lines[0]).toMatch(/ramp peak V \(recorded\)\s+alpha deg \(recorded range\)/);
     // In the machine's local time with its offset (stored in UTC).
-    expect(lines[1]).toMatch(/RW-0142\s+bench A\s+closed without sign-off\s+2026-03-0[12] \d\d:\d\d:00 [+-]\d\d:\d\d .*\s6\s+7\.320\s+10\.2 to 156\.4\s+4$/);
+    expect(lines[1]).toMatch(/RW-0142\s+bench A\s+closed without sign-off\s+2026-03-0[12] \d\d:\d\d:00 [+-]\d\d:\d\d .*\s6\s+7\.320\s+10\.2 to 156\.4\s+4\s+-$/);
     expect(lines[2]).toMatch(/RW-0207\s+bench A\s+interrupted/);
     expect(lines[3]).toMatch(/RW-0311\s+\S+\s+signed off\s/);
     expect(lines[4]).toMatch(/RW-0312\s+\S+\s+signed off with exceptions\s/);

@@ -5,34 +5,16 @@
  */
 import Database from 'better-sqlite3';
 import { spawn } from 'node:child_process';
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import type { SerialPort } from 'serialport';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createCaptureAnalyzer } from '../../../app/bench/captureAnalyzer';
 import type { CycleReading } from '../../../app/bench/readings';
 import { createLoggerDecoder } from '../../../app/logger';
 import { recordSession } from '../../../main/cli/commands/record';
 import { openSqliteLogbook } from '../../../main/store/sqliteLogbook';
-import { startPtyPair, type PtyPair } from '../../helpers/socat';
-import { closePort, openLoggerEnd } from '../serial/linkTestKit';
-import { chargerBoard, designPath, paceVirtualLogger } from './recordKit';
+import { chargerBoard, designPath, paceVirtualLogger, ptyPairEachTest } from './recordKit';
 
-let folder: string;
-let pair: PtyPair;
-let logger: SerialPort;
-
-beforeEach(async () => {
-  folder = mkdtempSync(join(tmpdir(), 'rampwright-record-'));
-  pair = await startPtyPair(join(folder, 'host'), join(folder, 'logger'));
-  logger = await openLoggerEnd(pair.loggerPath);
-});
-afterEach(async () => {
-  await closePort(logger);
-  await pair.stop();
-  rmSync(folder, { recursive: true, force: true });
-});
+const rig = ptyPairEachTest('rampwright-record-');
 
 /** The analysis of the lines as sent, without any link: what the logbook must hold. */
 function offlineCycles(lines: string[]): CycleReading[] {
@@ -48,9 +30,9 @@ describe('rampwright record', () => {
   it('stores every cycle the analysis finds in the lines sent, and the decoder-counted link faults', async () => {
     // The logger waits for the recorder's `start`, so the recorder sees the whole data stream (a port opened late
     // loses what came before; that case is the reopen test's).
-    const paced = paceVirtualLogger(logger, { seed: 11, autostart: false, faults: ['corrupt-blocks'], controlSweep: { fromV: 2, toV: 6, periodS: 2 } });
-    const dbPath = join(folder, 'logbook.sqlite');
-    const result = await recordSession({ port: pair.hostPath, db: dbPath, unit: 'RW-0142', designPath, seconds: 2.5, operator: 'bench 4' });
+    const paced = paceVirtualLogger(rig.logger, { seed: 11, autostart: false, faults: ['corrupt-blocks'], controlSweep: { fromV: 2, toV: 6, periodS: 2 } });
+    const dbPath = join(rig.folder, 'logbook.sqlite');
+    const result = await recordSession({ port: rig.pair.hostPath, db: dbPath, unit: 'RW-0142', designPath, seconds: 2.5, operator: 'bench 4' });
     await paced.stop();
 
     const db = new Database(dbPath, { readonly: true });
@@ -78,14 +60,14 @@ describe('rampwright record', () => {
     const detail = await logbook.session(result.session.id);
     await logbook.close();
     expect(detail?.readings?.cycles).toBe(result.readings.cycles);
-    expect(detail?.linkEvents[0]).toMatchObject({ kind: 'opened', detail: pair.hostPath });
+    expect(detail?.linkEvents[0]).toMatchObject({ kind: 'opened', detail: rig.pair.hostPath });
   });
 
   it('closes the session cleanly on Ctrl-C (SIGINT) from the command line', async () => {
-    const paced = paceVirtualLogger(logger, { seed: 3, autostart: false });
-    const dbPath = join(folder, 'logbook.sqlite');
+    const paced = paceVirtualLogger(rig.logger, { seed: 3, autostart: false });
+    const dbPath = join(rig.folder, 'logbook.sqlite');
     const root = resolve(__dirname, '../../..');
-    const child = spawn(process.execPath, ['--import', 'tsx', join(root, 'main/cli/rampwright.ts'), 'record', '--port', pair.hostPath, '--db', dbPath, '--unit', 'RW-0311', '--design', designPath], {
+    const child = spawn(process.execPath, ['--import', 'tsx', join(root, 'main/cli/rampwright.ts'), 'record', '--port', rig.pair.hostPath, '--db', dbPath, '--unit', 'RW-0311', '--design', designPath], {
       cwd: root,
       stdio: ['ignore', 'pipe', 'pipe'],
     });
@@ -126,8 +108,8 @@ describe('rampwright record', () => {
   }, 40_000);
 
   it('refuses a missing port before it starts a session', async () => {
-    const dbPath = join(folder, 'logbook.sqlite');
-    await expect(recordSession({ port: join(folder, 'ttyACM9'), db: dbPath, unit: 'RW-0142', designPath })).rejects.toThrow(/ttyACM9: no such serial device/);
+    const dbPath = join(rig.folder, 'logbook.sqlite');
+    await expect(recordSession({ port: join(rig.folder, 'ttyACM9'), db: dbPath, unit: 'RW-0142', designPath })).rejects.toThrow(/ttyACM9: no such serial device/);
     const logbook = await openSqliteLogbook(dbPath);
     expect(await logbook.listSessions()).toEqual([]);
     await logbook.close();

@@ -1,8 +1,13 @@
 /** A virtual logger on the far end of a pty pair, sending its protocol lines at the pace of signal time. */
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import type { SerialPort } from 'serialport';
+import { afterEach, beforeEach } from 'vitest';
+import { startPtyPair, type PtyPair } from '../../helpers/socat';
 import { boardDesignSchema, type BoardDesign } from '../../../app/board/design';
 import { createVirtualLogger, type VirtualLoggerOptions } from '../../../app/sim';
-import { send } from '../serial/linkTestKit';
+import { closePort, openLoggerEnd, send } from '../serial/linkTestKit';
 import designJson from '../../../fixtures/boards/charger-ch50h.board.json';
 
 export const designPath = new URL('../../../fixtures/boards/charger-ch50h.board.json', import.meta.url).pathname;
@@ -14,7 +19,15 @@ export interface PacedLogger {
   stop(): Promise<void>;
 }
 
-export function paceVirtualLogger(port: SerialPort, options: VirtualLoggerOptions): PacedLogger {
+/**
+ * `silentBetweenS`: seconds (from the start of pacing) during which the logger sends nothing; the lines it makes
+ * then are lost, as with a logger that hangs and recovers.
+ * `joinedAfterS`: the logger has been streaming this long before the port was opened: what it sent meanwhile (its
+ * greeting included) never reaches the host, which first gets the end of a line cut in the middle. (Sending that
+ * backlog for real would fill the pseudo-terminal's buffer with nobody reading and stall the pair.)
+ * `commandLatencyMs`: how long the logger takes to act on a host command (lines keep flowing meanwhile).
+ */
+export function paceVirtualLogger(port: SerialPort, options: VirtualLoggerOptions & { silentBetweenS?: [number, number]; joinedAfterS?: number; commandLatencyMs?: number }): PacedLogger {
   const virtual = createVirtualLogger(chargerBoard(), options);
   const sent: string[] = [];
   const startedMs = Date.now();
@@ -25,12 +38,22 @@ export function paceVirtualLogger(port: SerialPort, options: VirtualLoggerOption
     heard += chunk.toString('latin1');
     const lines = heard.split('\n');
     heard = lines.pop() ?? '';
-    for (const line of lines) virtual.handleCommandLine(line.replace(/\r$/, ''));
+    for (const line of lines) {
+      const act = (): void => void virtual.handleCommandLine(line.replace(/\r$/, ''));
+      if (options.commandLatencyMs) setTimeout(act, options.commandLatencyMs);
+      else act();
+    }
   });
+  const joinedAfterS = options.joinedAfterS ?? 0;
+  const missed = joinedAfterS > 0 ? virtual.linesUntil(joinedAfterS) : [];
+  const cutLine = missed.length > 0 ? missed[missed.length - 1] : '';
   const loop = (async () => {
+    if (cutLine !== '') await send(port, `${cutLine.slice(Math.floor(cutLine.length / 2))}\n`).catch(() => undefined);
     while (running) {
-      const lines = virtual.linesUntil((Date.now() - startedMs) / 1000);
-      if (lines.length > 0) {
+      const elapsedS = joinedAfterS + (Date.now() - startedMs) / 1000;
+      const lines = virtual.linesUntil(elapsedS);
+      const silent = options.silentBetweenS !== undefined && elapsedS >= options.silentBetweenS[0] && elapsedS < options.silentBetweenS[1];
+      if (lines.length > 0 && !silent) {
         sent.push(...lines);
         await send(port, lines.map((line) => `${line}\n`).join('')).catch(() => undefined);
       }
@@ -45,4 +68,20 @@ export function paceVirtualLogger(port: SerialPort, options: VirtualLoggerOption
       await Promise.race([loop, new Promise((resolve) => setTimeout(resolve, 1000))]);
     },
   };
+}
+
+/** A folder, a pseudo-terminal pair and the logger's end of it open, fresh for each test of the file that calls this. */
+export function ptyPairEachTest(prefix: string): { readonly folder: string; readonly pair: PtyPair; readonly logger: SerialPort } {
+  const rig = {} as { folder: string; pair: PtyPair; logger: SerialPort };
+  beforeEach(async () => {
+    rig.folder = mkdtempSync(join(tmpdir(), prefix));
+    rig.pair = await startPtyPair(join(rig.folder, 'host'), join(rig.folder, 'logger'));
+    rig.logger = await openLoggerEnd(rig.pair.loggerPath);
+  });
+  afterEach(async () => {
+    await closePort(rig.logger);
+    await rig.pair.stop();
+    rmSync(rig.folder, { recursive: true, force: true });
+  });
+  return rig;
 }

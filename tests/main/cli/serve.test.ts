@@ -1,5 +1,5 @@
-// `rampwright serve`: options checked with clear errors, the address printed, the demo board connected, a clean
-// stop on SIGTERM; and the same function refuses another interface without --token-required.
+// `rampwright serve`: options checked with clear errors, the address printed with this run's token, the demo board
+// connected, a clean stop on SIGTERM.
 import { spawn } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -22,12 +22,6 @@ describe('serve options', () => {
     }
   });
 
-  it('refuses a non-loopback host without --token-required before opening anything', async () => {
-    const failure = await startBenchServe({ logbookPath: join(folder, 'never.sqlite'), host: '0.0.0.0' }).catch((error: unknown) => error);
-    expect(failure).toBeInstanceOf(InputError);
-    expect(String((failure as Error).message)).toMatch(/--token-required/);
-  });
-
   it('says a busy port is busy, naming --port, instead of failing as a bug', async () => {
     const first = await startBenchServe({ logbookPath: join(folder, 'busy-1.sqlite'), port: 0, staticRoot: null });
     try {
@@ -39,8 +33,8 @@ describe('serve options', () => {
     }
   });
 
-  it('prints a token and the address carrying it in token mode', async () => {
-    const running = await startBenchServe({ logbookPath: join(folder, 'token.sqlite'), host: '127.0.0.2', port: 0, tokenRequired: true, staticRoot: null });
+  it('prints a token and the address carrying it, and refuses a call without it', async () => {
+    const running = await startBenchServe({ logbookPath: join(folder, 'token.sqlite'), host: '127.0.0.2', port: 0, staticRoot: null });
     try {
       expect(running.server.token).toMatch(/^[A-Za-z0-9_-]{32}$/);
       expect(running.banner.join('\n')).toContain(`Access token: ${running.server.token}`);
@@ -60,14 +54,17 @@ describe('rampwright serve as a command', () => {
     const exited = new Promise<number | null>((resolve) => child.on('exit', (code) => resolve(code)));
     try {
       await expect.poll(() => stdout, { timeout: 60_000, interval: 100 }).toMatch(/Press Ctrl-C to stop/);
-      const address = /Rampwright bench at (http:\/\/127\.0\.0\.1:\d+\/)/.exec(stdout)?.[1];
+      const [, address, printedToken] = /Rampwright bench at (http:\/\/127\.0\.0\.1:\d+\/)\?token=([A-Za-z0-9_-]+)/.exec(stdout) ?? [];
       expect(address).toBeDefined();
+      expect(stdout).toContain(`Access token: ${printedToken}`);
+      const refused = await fetch(`${address}api/call/benchState`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' });
+      expect(refused.status).toBe(401);
       expect(stdout).toContain('Virtual board connected');
       // The demo board streams in real time (here 5x): within a few seconds the link is streaming with readings.
       await expect
         .poll(
           async () => {
-            const reply = await fetch(`${address}api/call/benchState`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' });
+            const reply = await fetch(`${address}api/call/benchState`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-rampwright-token': printedToken }, body: '{}' });
             const outcome = (await reply.json()) as { ok: boolean; result: { link: { state: string; blocks: number } } };
             return outcome.ok && outcome.result.link.state === 'streaming' && outcome.result.link.blocks > 10;
           },

@@ -78,6 +78,19 @@ describe('design form', () => {
     expect(problemForField(check.problems, field('supplyV'))).toBeNull();
   });
 
+  it('says in words that a number field holds no number, naming the field\'s unit', () => {
+    const draft = structuredClone(designInput) as Record<string, unknown>;
+    setFieldText(draft, field('supplyV'), '15 V');
+    const message = problemForField(checkDesign(draft).problems, field('supplyV'))?.message;
+    expect(message).toBe('"15 V" is not a number: type digits only, in V as the label says (no unit letters or prefixes)');
+  });
+
+  it('refuses an absurd resistor with its physical range written as on a part', () => {
+    const draft = structuredClone(designInput) as Record<string, unknown>;
+    setFieldText(draft, field('parts.rEmitter.ohm'), '0.5');
+    expect(problemForField(checkDesign(draft).problems, field('parts.rEmitter.ohm'))?.message).toMatch(/^must be from 1R0 to 10M \(.*IEC 60063.*\); got 0\.5$/);
+  });
+
   it('removes an emptied optional part and accepts the design', () => {
     const draft = structuredClone(designInput) as Record<string, unknown>;
     setFieldText(draft, field('parts.rDischarge.ohm'), '22');

@@ -11,16 +11,10 @@ import { createComtradeDataEncoder } from '../../../app/formats/comtradeDataEnco
 import { ComtradeStatsCollector, comtradeTimeOriginS, planComtradeConfig } from '../../../app/formats/comtradeWritePlan';
 import { arbitraryCapture, gapStarts } from './captureArbitrary';
 import { joinBlocks, readInPieces } from './readAll';
+import { joinBytes } from '../../helpers/joinBytes';
 
 function concatenate(parts: (string | Uint8Array)[]): Uint8Array {
-  const encoded = parts.map((part) => (typeof part === 'string' ? new TextEncoder().encode(part) : part));
-  const bytes = new Uint8Array(encoded.reduce((sum, part) => sum + part.length, 0));
-  let offset = 0;
-  for (const part of encoded) {
-    bytes.set(part, offset);
-    offset += part.length;
-  }
-  return bytes;
+  return joinBytes(...parts.map((part) => (typeof part === 'string' ? new TextEncoder().encode(part) : part)));
 }
 
 describe('CSV write then read', () => {

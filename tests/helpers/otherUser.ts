@@ -1,7 +1,9 @@
 /**
- * Runs the command line as a child process of a user who does not own the test's files. As root (CI) that is
- * `nobody` through setpriv, since root writes any file whatever its mode; as anyone else it is the user itself,
- * whose files the test has made read-only. Folders the child must reach are opened to all by the caller.
+ * Runs the command line as a child process that file modes bind. As root (CI), root writes any file whatever its mode
+ * only through its capabilities (CAP_DAC_OVERRIDE and kin), so the child runs as root with every capability dropped
+ * (setpriv): a read-only file stays read-only to it, and it still reaches a checkout under a private temporary folder,
+ * which another user such as `nobody` could not enter. As anyone else it is the user itself, whose files the test has
+ * made read-only.
  */
 import { spawn } from 'node:child_process';
 
@@ -15,7 +17,7 @@ export interface ChildResult {
 
 export function runCliAsOtherUser(args: string[], options: { cwd?: string; env?: Record<string, string> } = {}): Promise<ChildResult> {
   const node = [process.execPath, '--import', 'tsx', 'main/cli/rampwright.ts', ...args];
-  const [command, ...rest] = runsAsRoot ? ['setpriv', '--reuid=nobody', '--regid=nogroup', '--clear-groups', ...node] : node;
+  const [command, ...rest] = runsAsRoot ? ['setpriv', '--inh-caps=-all', '--ambient-caps=-all', '--bounding-set=-all', ...node] : node;
   const child = spawn(command, rest, { cwd: options.cwd ?? process.cwd(), stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, HOME: '/tmp', ...options.env } });
   let stdout = '';
   let stderr = '';

@@ -1,7 +1,7 @@
 // A read-only logbook: the probe saw every command crash with "attempt to write a readonly database" and a stack
 // trace. Reading commands (log, report, export) open it read-only and work; writing commands (record, import)
 // refuse at once, saying the file is read-only and who owns it. The commands run as a user who cannot write the
-// file (nobody, when the suite runs as root).
+// file (root with its capabilities dropped, when the suite runs as root).
 import Database from 'better-sqlite3';
 import { spawnSync } from 'node:child_process';
 import { chmodSync, existsSync, mkdirSync, readFileSync, statSync } from 'node:fs';

@@ -119,11 +119,15 @@ function envelopeOf(design: BoardDesign, basis: 'peak' | 'slope', known: PartOve
     (sign) => ({ ...base, beta: design.transistor.beta * (1 + (sign * betaSpreadPct) / 100) }),
     (sign) => ({ ...base, temperatureC: sign > 0 ? benchTemperatureC.maxC : benchTemperatureC.minC }),
   ];
+  // A design whose model gives no ramp at all has no envelope: no good board makes any ramp.
+  if (!(Number.isFinite(nominal) && nominal > 0)) return { low: 0, high: 0 };
   let shift = 0;
   let variance = 0;
   for (const move of moves) {
     const up = Math.log(quantityOf(basis, predictRamp(design, move(1))) / nominal);
     const down = Math.log(quantityOf(basis, predictRamp(design, move(-1))) / nominal);
+    // A move that stops the ramp (the transistor cut off at an extreme design) is left out rather than made infinite.
+    if (!Number.isFinite(up) || !Number.isFinite(down)) continue;
     shift += (up + down) / 2;
     variance += ((up - down) / 2) ** 2 / 3;
   }

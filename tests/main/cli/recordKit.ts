@@ -23,18 +23,25 @@ export interface PacedLogger {
  * `silentBetweenS`: seconds (from the start of pacing) during which the logger sends nothing; the lines it makes
  * then are lost, as with a logger that hangs and recovers.
  * `joinedAfterS`: the logger has been streaming this long before the port was opened: what it sent meanwhile (its
- * greeting included) never reaches the host, which first gets the end of a line cut in the middle. (Sending that
- * backlog for real would fill the pseudo-terminal's buffer with nobody reading and stall the pair.)
+ * greeting included) never reaches the host, which first gets the end of a line cut in the middle. The stream reaches
+ * the host from the first bytes the host sends (its first command, right after it opened the port): a pseudo-terminal
+ * opened by serialport is flushed at opening (tcflush in its bindings), so a cut line sent before the host opened
+ * would be thrown away on a busy machine and kept on a quiet one, and a backlog with nobody reading fills the
+ * pair's buffers (the test failed in CI on both).
  * `commandLatencyMs`: how long the logger takes to act on a host command (lines keep flowing meanwhile).
  */
 export function paceVirtualLogger(port: SerialPort, options: VirtualLoggerOptions & { silentBetweenS?: [number, number]; joinedAfterS?: number; commandLatencyMs?: number }): PacedLogger {
   const virtual = createVirtualLogger(chargerBoard(), options);
   const sent: string[] = [];
-  const startedMs = Date.now();
+  let startedMs = Date.now();
   let running = true;
+  const joinedAfterS = options.joinedAfterS ?? 0;
+  let hostOpened: () => void = () => undefined;
+  const hostHeard = joinedAfterS > 0 ? new Promise<void>((resolve) => (hostOpened = resolve)) : Promise.resolve();
   // Host commands (start, identify...) from the recorder: answered like a logger (replies and a greeting).
   let heard = '';
   port.on('data', (chunk: Buffer) => {
+    hostOpened();
     heard += chunk.toString('latin1');
     const lines = heard.split('\n');
     heard = lines.pop() ?? '';
@@ -44,10 +51,11 @@ export function paceVirtualLogger(port: SerialPort, options: VirtualLoggerOption
       else act();
     }
   });
-  const joinedAfterS = options.joinedAfterS ?? 0;
   const missed = joinedAfterS > 0 ? virtual.linesUntil(joinedAfterS) : [];
   const cutLine = missed.length > 0 ? missed[missed.length - 1] : '';
   const loop = (async () => {
+    await Promise.race([hostHeard, new Promise((resolve) => setTimeout(resolve, 10_000))]);
+    startedMs = Date.now();
     if (cutLine !== '') await send(port, `${cutLine.slice(Math.floor(cutLine.length / 2))}\n`).catch(() => undefined);
     while (running) {
       const elapsedS = joinedAfterS + (Date.now() - startedMs) / 1000;

@@ -20,8 +20,8 @@ describe('record: the link as reported', () => {
   // stall for seconds, so the greeting the recorder asks for arrives after the session's end; what is checked holds
   // on every run that hears the logger at all.
   it('joins a logger that is already streaming with no link error, and records its cycles', { retry: 2, timeout: 30_000 }, async () => {
-    // The logger has streamed for 0.6 s when the recorder opens the port (mid-line), and answers its start command
-    // 150 ms later, data flowing meanwhile.
+    // The logger has streamed for 0.6 s when the recorder opens the port (mid-line: the host's first bytes cue the
+    // cut line, see recordKit), and answers its start command 150 ms later, data flowing meanwhile.
     const paced = paceVirtualLogger(rig.logger, { seed: 5, autostart: true, joinedAfterS: 0.6, commandLatencyMs: 150 });
     const progress: RecordProgress[] = [];
     const result = await recordSession({ port: rig.pair.hostPath, db: join(rig.folder, 'logbook.sqlite'), unit: 'RW-0517', designPath, seconds: 3, progressIntervalMs: 200, onProgress: (entry) => progress.push(entry) });

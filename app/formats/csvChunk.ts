@@ -52,10 +52,27 @@ export interface CsvChunkScratch {
 }
 
 /**
- * Parses `bytes` (whole lines; the last may lack its newline) with the layout's row plan, into `scratch` when given
- * (grown when too short). Returns the columns, or the first fault with its line in the chunk.
+ * A faster reader of the plain rows (main/capture/csvFieldsWasm.ts, in WebAssembly). It must give exactly what the
+ * fast path below gives for every line it takes, and stop before any line it does not take; the lines it leaves are
+ * read here, with the messages and line numbers of the streaming reader.
  */
-export function parseCsvChunk(bytes: Uint8Array, plan: CsvRowPlan, scratch?: CsvChunkScratch): CsvChunkColumns | CsvChunkFailure {
+export interface CsvRowAccelerator {
+  /** Called once per chunk, before any `take` on it. */
+  load(bytes: Uint8Array, plan: CsvRowPlan): void;
+  /**
+   * Reads plain rows from byte `position` into the columns from index `row` on, at most `room` of them; returns how
+   * many, and leaves in `stop` the byte after the last line taken (the chunk's length or more at its end).
+   */
+  take(position: number, columns: CsvChunkScratch, row: number, room: number): number;
+  readonly stop: number;
+}
+
+/**
+ * Parses `bytes` (whole lines; the last may lack its newline) with the layout's row plan, into `scratch` when given
+ * (grown when too short). Returns the columns, or the first fault with its line in the chunk. An `accelerator`
+ * reads the plain rows first, this code the rest.
+ */
+export function parseCsvChunk(bytes: Uint8Array, plan: CsvRowPlan, scratch?: CsvChunkScratch, accelerator?: CsvRowAccelerator): CsvChunkColumns | CsvChunkFailure {
   const { separator, decimalMark, slots, factors, columnCount } = plan;
   const tabIsBlank = separator !== tab;
   const length = bytes.length;
@@ -72,7 +89,32 @@ export function parseCsvChunk(bytes: Uint8Array, plan: CsvRowPlan, scratch?: Csv
   let position = 0;
   let failedLine = -1;
   const where = (): string => '';
+  const growAll = (): void => {
+    capacity *= 2;
+    time = grow(time, capacity);
+    sync = grow(sync, capacity);
+    ramp = grow(ramp, capacity);
+    gate = grow(gate, capacity);
+    control = grow(control, capacity);
+    if (rowLines !== null) {
+      const grown = new Int32Array(capacity);
+      grown.set(rowLines);
+      rowLines = grown;
+    }
+  };
+  accelerator?.load(bytes, plan);
   while (position < length) {
+    if (accelerator) {
+      if (rows === capacity) growAll();
+      const taken = accelerator.take(position, { time, sync, ramp, gate, control }, rows, capacity - rows);
+      if (taken > 0) {
+        if (rowLines !== null) for (let k = 0; k < taken; k++) rowLines[rows + k] = line + k;
+        rows += taken;
+        line += taken;
+        position = accelerator.stop;
+        continue;
+      }
+    }
     const lineStart = position;
     row[0] = Number.NaN;
     // Fast path: every field a plain number or a skipped unquoted field, the row ending at a line end.
@@ -160,19 +202,7 @@ export function parseCsvChunk(bytes: Uint8Array, plan: CsvRowPlan, scratch?: Csv
         throw error;
       }
     }
-    if (rows === capacity) {
-      capacity *= 2;
-      time = grow(time, capacity);
-      sync = grow(sync, capacity);
-      ramp = grow(ramp, capacity);
-      gate = grow(gate, capacity);
-      control = grow(control, capacity);
-      if (rowLines !== null) {
-        const grown = new Int32Array(capacity);
-        grown.set(rowLines);
-        rowLines = grown;
-      }
-    }
+    if (rows === capacity) growAll();
     time[rows] = row[0];
     sync[rows] = row[1];
     ramp[rows] = row[2];

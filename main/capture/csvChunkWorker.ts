@@ -1,10 +1,12 @@
 /**
  * A parser thread for long CSV captures (main/capture/parallelCsv.ts): takes runs of whole lines, gives back column
- * arrays (app/formats/csvChunk.ts). The row plan comes once, with the thread's start; buffers travel by transfer.
+ * arrays (app/formats/csvChunk.ts). The row plan and the compiled WebAssembly reader come once, with the thread's
+ * start; buffers travel by transfer.
  */
 import { parentPort, workerData } from 'node:worker_threads';
 import { isChunkFailure, parseCsvChunk, type CsvChunkScratch } from '../../app/formats/csvChunk';
 import type { CsvRowPlan } from '../../app/formats/csvRows';
+import { createWasmRowAccelerator } from './csvFieldsWasm';
 
 export interface ChunkRequest {
   id: number;
@@ -17,7 +19,9 @@ export interface ChunkRecycle {
   recycle: ArrayBuffer[];
 }
 
-const plan = (workerData as { plan: CsvRowPlan }).plan;
+const { plan, fields } = workerData as { plan: CsvRowPlan; fields: WebAssembly.Module | null };
+// The plain rows in WebAssembly when the module was built (csvFieldsWasm.ts), else all in TypeScript.
+const accelerator = fields ? createWasmRowAccelerator(fields) : undefined;
 const pool: CsvChunkScratch[] = [];
 
 parentPort?.on('message', (message: ChunkRequest | ChunkRecycle) => {
@@ -28,7 +32,7 @@ parentPort?.on('message', (message: ChunkRequest | ChunkRecycle) => {
   }
   const request = message;
   const bytes = new Uint8Array(request.buffer, 0, request.length);
-  const result = parseCsvChunk(bytes, plan, pool.pop());
+  const result = parseCsvChunk(bytes, plan, pool.pop(), accelerator);
   if (isChunkFailure(result)) {
     parentPort?.postMessage({ id: request.id, buffer: request.buffer, failure: result }, [request.buffer]);
     return;

@@ -20,6 +20,7 @@ import { SampleBlockBuilder } from '../../app/formats/sampleBlockBuilder';
 import { startsWithByteOrderMark } from '../../app/formats/utf8';
 import type { ChunkRecycle, ChunkRequest } from './csvChunkWorker';
 import { packageRoot } from '../session/packagePaths';
+import { loadCsvFieldsModule } from './csvFieldsWasm';
 import { CaptureCancelled, type OpenedCapture } from './openedCapture';
 import type { ReadCaptureOptions } from './readCaptureFile';
 
@@ -42,8 +43,8 @@ interface ChunkAnswer {
  * found from the package's root); from source (tsx, the tests), the .ts beside this module through tsx's require
  * hook (a worker takes no --import flag).
  */
-function startWorker(layout: CsvLayout): Worker {
-  const workerData = { plan: rowPlanOf(layout) };
+function startWorker(layout: CsvLayout, fields: WebAssembly.Module | null): Worker {
+  const workerData = { plan: rowPlanOf(layout), fields };
   if (import.meta.url.endsWith('.ts')) {
     const source = fileURLToPath(new URL('./csvChunkWorker.ts', import.meta.url));
     return new Worker(`require('tsx/cjs'); require(${JSON.stringify(source)});`, { eval: true, workerData });
@@ -94,7 +95,9 @@ export async function openParallelCsv(path: string, totalBytes: number, options:
 async function* parallelBlocks(path: string, handle: FileHandle, layout: CsvLayout, dataStart: number, totalBytes: number, options: Omit<ReadCaptureOptions, 'chunkBytes'> & ParallelCsvOptions): AsyncGenerator<SampleBlock> {
   const threads = Math.max(1, options.threads ?? Math.min(2, availableParallelism()));
   const chunkBytes = Math.max(64, options.chunkBytes ?? 4 << 20);
-  const workers = Array.from({ length: threads }, () => startWorker(layout));
+  // Compiled once here, shared by the threads (each gives it a memory of its own).
+  const fields = loadCsvFieldsModule();
+  const workers = Array.from({ length: threads }, () => startWorker(layout, fields));
   const waiting = new Map<number, { resolve: (answer: ChunkAnswer) => void; reject: (error: unknown) => void }>();
   let crashed: unknown = null;
   for (const worker of workers) {

@@ -16,25 +16,28 @@ function isValidAt(block: SampleBlock, index: number): boolean {
   return Math.abs(sync) < limitV && Math.abs(ramp) < limitV && Math.abs(gate) < limitV && Math.abs(control) < limitV;
 }
 
-/** Position of the first sample before `end` that is not valid, else `end`. */
-function firstInvalid(values: Float64Array, end: number): number {
-  for (let i = 0; i < end; i++) {
-    // Comparisons are false for NaN, so this rejects NaN as well as infinities and absurd values.
-    if (!(Math.abs(values[i]) < limitV)) return i;
+/** Position of the first sample that is not valid, else the block's length: one pass over the channels together. */
+function firstInvalid(block: SampleBlock): number {
+  const { sync, ramp, gate, control } = block;
+  const length = sync.length;
+  if (control) {
+    for (let i = 0; i < length; i++) {
+      // Comparisons are false for NaN, so this rejects NaN as well as infinities and absurd values.
+      if (!(Math.abs(sync[i]) < limitV && Math.abs(ramp[i]) < limitV && Math.abs(gate[i]) < limitV && Math.abs(control[i]) < limitV)) return i;
+    }
+    return length;
   }
-  return end;
+  for (let i = 0; i < length; i++) {
+    if (!(Math.abs(sync[i]) < limitV && Math.abs(ramp[i]) < limitV && Math.abs(gate[i]) < limitV)) return i;
+  }
+  return length;
 }
 
 /** The block itself when every sample is valid (the usual case), else its valid runs; `invalid` counts the rest. */
 export function splitValidRuns(block: SampleBlock): { runs: SampleBlock[]; invalid: number } {
   const length = block.sync.length;
-  // One channel at a time (a tight loop each), each only as far as the earliest bad sample found so far.
-  let end = firstInvalid(block.sync, length);
-  end = firstInvalid(block.ramp, end);
-  end = firstInvalid(block.gate, end);
-  if (block.control) end = firstInvalid(block.control, end);
-  if (end === length) return { runs: [block], invalid: 0 };
-  const firstBad = end;
+  const firstBad = firstInvalid(block);
+  if (firstBad === length) return { runs: [block], invalid: 0 };
   const runs: SampleBlock[] = [];
   let invalid = 0;
   let runStart = 0;

@@ -53,10 +53,14 @@ describe('parseBoardDesign', () => {
     expect(negative.message).toContain('boards/example.board.json');
     expect(negative.message).toContain('field parts.rEmitter.ohm');
     expect(negative.message).toContain('must be from 1R0 to 10M');
+    // The part in words beside the key to edit, with the designator the file gives it.
+    expect(negative.message).toContain(`field parts.rEmitter.ohm (emitter resistor ${example.parts.rEmitter.ref}):`);
     const missing = errorOf(withChange((copy) => delete (copy.parts as Partial<typeof example.parts>).cRamp));
     expect(missing.message).toContain('field parts.cRamp');
     const mains = errorOf(withChange((copy) => (copy.mainsHz = 400)));
     expect(mains.message).toContain('field mainsHz: mains frequency must be 45-65 Hz');
+    const junction = errorOf(withChange((copy) => (copy.transistor = { ...copy.transistor, beta: -3 })));
+    expect(junction.message).toContain('field transistor.beta (ramp transistor):');
     expect(errorOf(null).message).toContain('(whole design)');
   });
 

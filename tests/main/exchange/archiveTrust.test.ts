@@ -71,7 +71,7 @@ describe('archives checked for their meaning', () => {
         design.parts.rEmitter.ohm = 1e-300;
         archive.session.design.designJson = JSON.stringify(design);
       },
-      /the board design fails validation: design\.designJson: field parts\.rEmitter\.ohm: must be from 1R0 to 10M/,
+      /the board design fails validation: design\.designJson: field parts\.rEmitter\.ohm \(emitter resistor [^)]*\): must be from 1R0 to 10M/,
     ],
     ['readings-broken', (archive) => (archive.session.record.readingsJson = '{"ramp": 5}'), /record\.readingsJson\.frequencyHz|record\.readingsJson\.ramp/],
     ['readings-not-json', (archive) => (archive.session.record.readingsJson = 'NaN'), /record\.readingsJson is not JSON/],

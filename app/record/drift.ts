@@ -8,7 +8,9 @@
  *   confidence: the probability that the true slope points towards the limit, P(T < slope / se(slope)) with Student's t
  *          on n - 2 degrees of freedom (one-sided test of the slope's sign).
  * Our rule: warn when the central crossing falls within the horizon (default one year after the last session) and
- * that confidence is at least 90 %, or when the line is already beyond the limit at the last session.
+ * that confidence is at least 90 %, or when the line is already beyond the limit at the last session. Sessions that
+ * all lie within a day (a unit measured, trimmed and measured again) show a change, not a drift: no trend per day is
+ * stated or forecast from them (our rule).
  */
 import { fitLinear, fittedStandardError, studentTCdf, studentTQuantile, type LinearFit } from './regression';
 
@@ -30,6 +32,10 @@ export interface DriftOptions {
   horizonDays?: number;
   /** Smallest slope-sign confidence that raises the warning. Default 0.9. */
   minimumConfidence?: number;
+  /** Shortest time from the first session to the last over which a trend is stated (days). Default 1. */
+  minimumSpanDays?: number;
+  /** The figure's unit, for the sentence ("trend +0.0123 V per day"). */
+  unit?: string;
 }
 
 export interface CrossingForecast {
@@ -121,11 +127,18 @@ export function analyseDrift(samples: readonly DriftSample[], limits: DriftLimit
   const fit = fitLinear(points.map((point) => point.day), points.map((point) => point.value));
   if (!fit) return { points, originMs, fit: null, forecasts: [], warning: false, message: null };
   const lastDay = Math.max(...points.map((point) => point.day));
+  const minimumSpanDays = options.minimumSpanDays ?? 1;
+  if (lastDay < minimumSpanDays) {
+    const hours = lastDay * 24;
+    const span = hours < 1 ? `${Math.round(hours * 60)} min` : `${hours.toFixed(1)} h`;
+    const message = `${fit.n} sessions within ${span}: too short a time to tell a drift (a trend needs sessions at least ${minimumSpanDays === 1 ? 'a day' : `${minimumSpanDays} days`} apart).`;
+    return { points, originMs, fit: null, forecasts: [], warning: false, message };
+  }
   const forecasts: CrossingForecast[] = [];
   if (limits.high !== null) forecasts.push(forecastOne(fit, 'high', limits.high, lastDay, originMs, horizonDays));
   if (limits.low !== null) forecasts.push(forecastOne(fit, 'low', limits.low, lastDay, originMs, horizonDays));
   const alarming = forecasts.find((forecast) => forecast.status === 'already-beyond' || (forecast.status === 'predicted' && (forecast.confidence ?? 0) >= minimumConfidence));
-  return { points, originMs, fit, forecasts, warning: alarming !== undefined, message: describeDrift(fit, forecasts, alarming ?? null) };
+  return { points, originMs, fit, forecasts, warning: alarming !== undefined, message: describeDrift(fit, forecasts, alarming ?? null, options.unit) };
 }
 
 function percent(value: number | null): string {
@@ -135,14 +148,16 @@ function percent(value: number | null): string {
   return `${(100 * value).toFixed(value > 0.999 ? 2 : 1)} %`;
 }
 
-function describeDrift(fit: LinearFit, forecasts: readonly CrossingForecast[], alarming: CrossingForecast | null): string {
-  const se = fit.slopeStandardError === null ? '' : ` (standard error ${fit.slopeStandardError.toPrecision(2)})`;
-  const trend = `trend ${fit.slope.toPrecision(3)} per day${se} over ${fit.n} sessions`;
+function describeDrift(fit: LinearFit, forecasts: readonly CrossingForecast[], alarming: CrossingForecast | null, unit: string | undefined): string {
+  const perDay = unit ? ` ${unit} per day` : ' per day';
+  const se = fit.slopeStandardError === null ? '' : ` (standard error ${fit.slopeStandardError.toPrecision(2)}${perDay})`;
+  const trend = `trend ${fit.slope >= 0 ? '+' : ''}${fit.slope.toPrecision(3)}${perDay}${se} over ${fit.n} sessions`;
+  const withUnit = (value: number): string => `${value.toPrecision(4)}${unit ? ` ${unit}` : ''}`;
   const chosen = alarming ?? forecasts.find((forecast) => forecast.status === 'predicted' || forecast.status === 'beyond-horizon') ?? null;
   if (!chosen) return `${trend}; no tolerance limit ahead of the line.`;
   const limitWord = chosen.side === 'high' ? 'upper' : 'lower';
-  if (chosen.status === 'already-beyond') return `${trend}; the line is already beyond the ${limitWord} limit ${chosen.limit.toPrecision(4)} at the last session.`;
+  if (chosen.status === 'already-beyond') return `${trend}; the line is already beyond the ${limitWord} limit ${withUnit(chosen.limit)} at the last session.`;
   const range = chosen.earliestAt === null ? '' : ` (95 % band: ${chosen.earliestAt} to ${chosen.latestAt ?? 'not within ten horizons'})`;
   const verb = chosen.status === 'predicted' ? 'will cross' : 'would cross, beyond the horizon,';
-  return `${trend}; the line ${verb} the ${limitWord} limit ${chosen.limit.toPrecision(4)} around ${chosen.crossingAt}${range}; confidence that the trend points that way: ${percent(chosen.confidence)}.`;
+  return `${trend}; the line ${verb} the ${limitWord} limit ${withUnit(chosen.limit)} around ${chosen.crossingAt}${range}; confidence that the trend points that way: ${percent(chosen.confidence)}.`;
 }

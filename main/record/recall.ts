@@ -78,7 +78,7 @@ export async function driftReport(sources: RecordSources, unitSerial: string, op
   const version = await sources.logbook.designVersion(detail!.designId);
   const expected = designFigures(designOf(version.designJson, `${sources.logbook.location}: board design "${version.name}" version ${version.version}`));
   const figures = trendedFigures.map(({ key, label, unit }) => {
-    const analysis = analyseDrift(drift.points.map((point) => ({ sessionId: point.sessionId, startedAt: point.startedAt, value: point[key] })), expected[key].limits, options);
+    const analysis = analyseDrift(drift.points.map((point) => ({ sessionId: point.sessionId, startedAt: point.startedAt, value: point[key] })), expected[key].limits, { unit, ...options });
     return { key, label, unit, nominal: expected[key].nominal, limits: expected[key].limits, analysis, svg: figureToSvg(driftFigure(analysis, expected[key].limits, { label, unit })) };
   });
   const rows = new Map((await sources.logbook.listSessions({ unitSerial })).map((row) => [row.id, row]));

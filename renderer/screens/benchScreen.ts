@@ -184,6 +184,8 @@ export class BenchScreen implements Screen {
         return;
       }
       this.context.notices.show(row.outcome === 'signed-off' ? 'info' : 'warning', `Unit ${row.unit} ${outcomeWords[row.outcome].phrase}; session ${row.id} is in the logbook.`);
+      // The next session is the next unit: its serial number is typed afresh, never carried over from this one.
+      this.setup.clearUnit();
       await this.context.store.refresh();
     } catch (error) {
       this.context.notices.fromError(error);

@@ -88,6 +88,11 @@ export class BenchSetup {
     this.updateSource();
   }
 
+  /** After a unit is signed off: the serial field is emptied, so the next session cannot be logged under it by mistake. */
+  clearUnit(): void {
+    this.serialInput.value = '';
+  }
+
   private updateSource(): void {
     this.faultField.hidden = this.sourceSelect.value !== 'virtual';
     this.capture.element.hidden = this.sourceSelect.value !== 'capture';

@@ -213,6 +213,8 @@ describe('browser mode with the virtual board', () => {
     await expect.poll(() => page.getByTestId('last-session-outcome').textContent(), { timeout: 10_000 }).toMatch(/Signed off/);
     expect(await page.locator('[data-step="sync"]').isVisible()).toBe(false);
     await expect(page.getByTestId('last-session').textContent()).resolves.toMatch(/Check limits and pulses\s*✓\s*In tolerance/);
+    // The next session is the next unit: the serial number is not carried over from the one just signed off.
+    expect(await page.getByTestId('setup-unit').inputValue()).toBe('');
     await screenshot(page, '7b-bench-after-sign-off');
   }, 240_000);
 

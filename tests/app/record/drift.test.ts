@@ -120,6 +120,24 @@ describe('drift warning on synthetic session series', () => {
     expect(drift.forecasts.find((forecast) => forecast.side === 'high')!.status).toBe('already-beyond');
   });
 
+  it('states the trend in the figure\'s unit per day, with its standard error and the limit in that unit', () => {
+    const values = Array.from({ length: 8 }, (_, index) => [index * 30, 7.3 + 0.0005 * index * 30 + (index % 2 === 0 ? 0.001 : -0.001)] as const);
+    const drift = analyseDrift(series(values), limits, { unit: 'V' });
+    expect(drift.message).toMatch(/^trend \+0\.0004\d\d V per day \(standard error [\d.e-]+ V per day\) over 8 sessions; the line will cross the upper limit 7\.519 V around /);
+  });
+
+  it('sessions within a day show a change, not a drift: no trend per day, no forecast, no warning', () => {
+    // Measured, trimmed and measured again in one afternoon: 10 and 50 minutes apart, the last beyond the upper limit.
+    const minutes = (count: number): number => count / (24 * 60);
+    const drift = analyseDrift(series([[0, 7.3], [minutes(10), 7.45], [minutes(50), 7.6]]), limits, { unit: 'V' });
+    expect(drift.warning).toBe(false);
+    expect(drift.forecasts).toEqual([]);
+    expect(drift.message).toBe('3 sessions within 50 min: too short a time to tell a drift (a trend needs sessions at least a day apart).');
+    expect(drift.message).not.toMatch(/per day/);
+    // The same three readings spread over two months are a drift, and already past the limit.
+    expect(analyseDrift(series([[0, 7.3], [30, 7.45], [60, 7.6]]), limits).warning).toBe(true);
+  });
+
   it('two sessions give a line but no confidence, so no warning', () => {
     const drift = analyseDrift(series([[0, 7.3], [30, 7.4]]), limits);
     const high = drift.forecasts.find((forecast) => forecast.side === 'high')!;

@@ -8,7 +8,7 @@ import type { BoardDesign } from '../../app/board/design';
 import { recordedPartName, recordedPartValue } from '../../app/board/partNames';
 import type { CallResult } from '../../app/contract';
 import { signOffExceptionText } from '../../app/bench/signOffGate';
-import { outcomeWords, type SessionComparison, type SessionDetail, type SessionOutcome, type SessionRow } from '../../app/contract/records';
+import { type SessionComparison, type SessionDetail, type SessionRow } from '../../app/contract/records';
 import { createXyChart, cssColour, lineDataset, pointsDataset, restyleChart, type Chart } from '../charts/chartSetup';
 import { base64ToBytes, downloadBytes } from '../dom/download';
 import { h, fill, uniqueId } from '../dom/h';
@@ -19,6 +19,8 @@ import { stepTitles, wordedValue } from '../shaping/stepView';
 import { localSpanText } from '../shaping/timeSpan';
 import { fitLinePoints, toPoints, transferRangeV } from '../shaping/transferView';
 import { runAction, type Screen, type ScreenContext } from '../shell/screen';
+import { outcomeBadge } from '../dom/outcomeBadge';
+import { DriftPanel } from './driftPanel';
 import { FleetPanel } from './fleetPanel';
 import { localTimeNote, sharedCell, sharingMoved, sharingPollMs, sharingStatus } from './sharingView';
 
@@ -39,7 +41,7 @@ export class LogbookScreen implements Screen {
   private readonly compareButton = h('button', { class: 'primary', type: 'button', disabled: true, 'data-testid': 'compare' }, 'Compare the two ticked sessions');
   private readonly detail = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Session', 'data-testid': 'session-detail' });
   private readonly comparison = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Two sessions side by side', 'data-testid': 'comparison' });
-  private readonly drift = h('section', { class: 'panel stack', hidden: true, 'aria-label': 'Drift of the unit', 'data-testid': 'drift' });
+  private readonly drift: DriftPanel;
   private readonly fleet: FleetPanel;
   private readonly charts: LineChart[] = [];
   private unitDesigns = new Map<string, string>();
@@ -51,6 +53,7 @@ export class LogbookScreen implements Screen {
 
   constructor(private readonly context: ScreenContext) {
     this.fleet = new FleetPanel(context);
+    this.drift = new DriftPanel(context);
     context.store.on('open-session', (sessionId) => void this.showDetail(sessionId as number).then(() => this.detail.scrollIntoView({ block: 'start' })));
     for (const control of [this.unitSelect, this.designSelect, this.fromInput, this.toInput]) control.addEventListener('change', () => void this.loadSessions());
     this.compareButton.addEventListener('click', () => void this.compare());
@@ -74,7 +77,7 @@ export class LogbookScreen implements Screen {
           h('section', { class: 'panel stack', 'aria-labelledby': 'filters-title' }, h('h2', { id: 'filters-title' }, 'Filters'), field('Unit', this.unitSelect), field('Board design', this.designSelect), field('From', this.fromInput), field('To', this.toInput)),
           h('section', { class: 'panel stack', 'aria-labelledby': 'units-title' }, h('h2', { id: 'units-title' }, 'Units'), this.unitsList),
         ),
-        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sharingLine, this.sessionsTable, h('div', { class: 'row' }, this.compareButton, h('span', { class: 'muted' }, 'Tick two sessions to compare them.')), h('p', { class: 'muted', 'data-testid': 'time-note' }, localTimeNote())), this.detail, this.comparison, this.drift, this.fleet.element),
+        h('div', { class: 'stack' }, h('section', { class: 'panel stack', 'aria-labelledby': 'sessions-title' }, h('h2', { id: 'sessions-title' }, 'Sessions'), this.sharingLine, this.sessionsTable, h('div', { class: 'row' }, this.compareButton, h('span', { class: 'muted' }, 'Tick two sessions to compare them.')), h('p', { class: 'muted', 'data-testid': 'time-note' }, localTimeNote())), this.detail, this.comparison, this.drift.element, this.fleet.element),
       ),
     );
   }
@@ -85,6 +88,7 @@ export class LogbookScreen implements Screen {
 
   restyle(): void {
     for (const chart of this.charts) restyleChart(chart);
+    this.drift.restyle();
     this.fleet.restyle();
   }
 
@@ -145,11 +149,11 @@ export class LogbookScreen implements Screen {
     if (!(await this.readSessions())) return;
     const unitSerial = this.unitSelect.value;
     if (unitSerial) {
-      void this.showDrift(unitSerial);
+      void this.drift.show(unitSerial, (sessionId) => this.sessions.find((session) => session.id === sessionId)?.bench ?? null);
       const designName = this.unitDesigns.get(unitSerial);
       if (designName) void this.fleet.show(designName, unitSerial);
     } else {
-      this.drift.hidden = true;
+      this.drift.hide();
       this.fleet.hide();
     }
   }
@@ -345,38 +349,6 @@ export class LogbookScreen implements Screen {
     chart.update('none');
   }
 
-  private async showDrift(unitSerial: string): Promise<void> {
-    const result = await runAction(this.context, null, () => this.context.client.drift({ unitSerial }));
-    if (!result) return;
-    const canvas = h('canvas', { role: 'img', 'aria-label': `Ramp peak of unit ${unitSerial} across ${result.points.length} sessions`, 'data-testid': 'drift-canvas', 'data-points': String(result.points.length) });
-    fill(
-      this.drift,
-      h('h2', {}, `Drift of unit ${unitSerial}`),
-      h('p', { class: 'muted' }, 'Each session\'s figures as recorded at its steps: the board as it was signed for, after any trim.'),
-      driftForecast(result.warnings, result.points.length),
-      h(
-        'table',
-        { class: 'data' },
-        h('thead', {}, h('tr', {}, ['Session', 'Bench', 'Date', 'Outcome', 'Ramp peak', 'Slope', 'α gain', 'α offset', 'Firing jitter (held control)'].map((title) => h('th', { scope: 'col' }, title)))),
-        h('tbody', {}, result.points.map((point) => h('tr', {}, h('td', {}, `#${point.sessionId}`), h('td', {}, this.sessions.find((session) => session.id === point.sessionId)?.bench ?? '–'), h('td', {}, new Date(point.startedAt).toLocaleString()), h('td', {}, outcomeBadge(point.outcome)), h('td', { class: 'number' }, formatSi(point.rampPeakV, 'V')), h('td', { class: 'number' }, formatReading(point.slopeVPerMs, 'V/ms')), h('td', { class: 'number' }, point.alphaGainDegPerV === null ? '–' : `${point.alphaGainDegPerV.toFixed(2)}°/V`), h('td', { class: 'number' }, formatFixed(point.alphaOffsetDeg, '°')), h('td', { class: 'number' }, formatFixed(point.alphaJitterDeg, '°', 2))))),
-      ),
-      h('div', { class: 'plot small' }, canvas),
-    );
-    this.drift.hidden = false;
-    const chart = this.chart(canvas, 'Session number', 'Ramp peak', (value) => `#${value}`, (value) => `${Number(value.toFixed(3))} V`);
-    const peaks = result.points.map((point) => point.rampPeakV).filter((value): value is number => value !== null);
-    if (peaks.length > 0 && chart.options.scales?.x && chart.options.scales.y) {
-      // Whole session numbers on x; on y at least ±5 % around the mean so millivolts of noise do not look like drift.
-      chart.options.scales.x.ticks = { ...chart.options.scales.x.ticks, stepSize: 1 };
-      const mean = peaks.reduce((sum, value) => sum + value, 0) / peaks.length;
-      const half = Math.max((Math.max(...peaks) - Math.min(...peaks)) * 0.6, Math.abs(mean) * 0.05);
-      chart.options.scales.y.min = mean - half;
-      chart.options.scales.y.max = mean + half;
-    }
-    chart.data.datasets = [lineDataset('Ramp peak', cssColour('ramp'), result.points.filter((point) => point.rampPeakV !== null).map((point) => ({ x: point.sessionId, y: point.rampPeakV as number })), { pointRadius: 4, borderWidth: 2 })];
-    chart.update('none');
-  }
-
   private chart(canvas: HTMLCanvasElement, xTitle: string, yTitle: string, xTick: (value: number) => string, yTick: (value: number) => string): LineChart {
     this.replaceCharts();
     const chart = createXyChart(canvas, { xTitle, yTitle, xTick, yTick, tooltip: true });
@@ -404,12 +376,6 @@ function fixTransferAxis(chart: LineChart, points: readonly { controlV: number }
   x.max = range.toV;
 }
 
-/** A session's outcome in words with an icon; a sign-off with exceptions stands out (never colour alone). */
-function outcomeBadge(outcome: SessionOutcome): HTMLElement {
-  const icon = outcome === 'signed-off' ? '✓' : outcome === 'signed-off-with-exceptions' ? '⚠' : '–';
-  return h('span', { class: `outcome ${outcome}` }, h('span', { 'aria-hidden': 'true' }, `${icon} `), outcomeWords[outcome].text);
-}
-
 /** The outcome of one session, with the reason and the steps excepted when it was signed off with exceptions. */
 function outcomePanel(row: SessionRow): HTMLElement {
   return h(
@@ -418,20 +384,6 @@ function outcomePanel(row: SessionRow): HTMLElement {
     h('p', {}, h('strong', {}, outcomeBadge(row.outcome))),
     row.signOffReason !== null ? h('p', {}, 'Reason written at sign-off: ', h('q', { 'data-testid': 'detail-sign-off-reason' }, row.signOffReason)) : null,
     row.signOffExceptions.length > 0 ? h('ul', { 'data-testid': 'detail-sign-off-exceptions' }, row.signOffExceptions.map((exception) => h('li', {}, signOffExceptionText(exception)))) : null,
-  );
-}
-
-/** The trend warnings in words with an icon (never colour alone); a plain line when no trend heads for a limit. */
-function driftForecast(warnings: readonly string[], sessions: number): HTMLElement {
-  if (warnings.length === 0) {
-    return sessions < 3
-      ? h('p', { class: 'muted', 'data-testid': 'drift-forecast' }, 'A trend with its uncertainty needs at least three sessions of this unit.')
-      : h('p', { 'data-testid': 'drift-forecast' }, 'No trend heads for a tolerance limit.');
-  }
-  return h(
-    'div',
-    { class: 'drift-warnings', role: 'alert', 'data-testid': 'drift-forecast' },
-    warnings.map((warning) => h('p', {}, h('span', { 'aria-hidden': 'true' }, '⚠ '), h('strong', {}, 'Trend warning: '), warning)),
   );
 }
 

@@ -1,7 +1,8 @@
 /**
  * The drift plot's time axis: each session at its days since the unit's first session (the axis the trend is
  * fitted on, app/record/drift.ts), not at its session number, which on a shared logbook jumps by hundreds between
- * one unit's sessions. Ticks read as local dates, or as local times when every session lies within two days.
+ * one unit's sessions. Ticks read as local dates, as local times (hours and minutes) when every session lies within
+ * two days, with seconds too when within an hour.
  */
 const msPerDay = 86_400_000;
 
@@ -19,9 +20,11 @@ export function driftAxis(startedAt: readonly string[]): DriftAxis {
   const days = times.map((time) => (time - originMs) / msPerDay);
   const spanDays = days.length > 0 ? Math.max(...days) : 0;
   const short = spanDays < 2;
+  const withSeconds = spanDays < 1 / 24;
   const tick = (day: number): string => {
     const date = new Date(originMs + day * msPerDay);
-    return short ? date.toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' }) : date.toLocaleDateString();
+    if (!short) return date.toLocaleDateString();
+    return date.toLocaleTimeString([], withSeconds ? { hour: '2-digit', minute: '2-digit', second: '2-digit' } : { hour: '2-digit', minute: '2-digit' });
   };
   return { days, tick, title: short ? `Session time (from ${new Date(originMs).toLocaleDateString()})` : 'Session date' };
 }

@@ -131,7 +131,12 @@ describe('browser mode with the virtual board', () => {
     await page.getByTestId('hold').click();
     await expect.poll(() => page.getByTestId('hold').getAttribute('aria-pressed'), { timeout: 10_000 }).toBe('false');
     await page.getByTestId('keep-capture').click();
-    await page.locator('.notice', { hasText: /Kept [\d.]+ s of samples as capture \d+/ }).waitFor({ timeout: 15_000 });
+    const kept = page.locator('.notice', { hasText: /Kept [\d.]+ s of samples as capture \d+/ });
+    await kept.waitFor({ timeout: 15_000 });
+    // While a message shows, the page keeps room for it at its foot; its close button takes it (and the room) away.
+    expect(await page.evaluate(() => parseFloat(getComputedStyle(document.body).paddingBottom))).toBeGreaterThan(24);
+    await kept.getByRole('button', { name: 'Dismiss this message' }).click();
+    await kept.waitFor({ state: 'detached', timeout: 5000 });
 
     // 1 Sync: recorded, in tolerance.
     await recordStep('sync');

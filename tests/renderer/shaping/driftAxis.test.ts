@@ -19,6 +19,9 @@ describe('drift plot axis', () => {
     expect(axis.days[1]).toBeCloseTo(1.5 / 24, 12);
     expect(axis.tick(axis.days[1])).toBe(new Date('2026-02-01T09:30:00Z').toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' }));
     expect(axis.title).toContain(new Date('2026-02-01T08:00:00Z').toLocaleDateString());
+    // Within an hour (measured, trimmed, measured again) the seconds tell the sessions apart.
+    const hour = driftAxis(['2026-02-01T08:00:00Z', '2026-02-01T08:00:40Z']);
+    expect(hour.tick(hour.days[1])).toBe(new Date('2026-02-01T08:00:40Z').toLocaleTimeString([], { hour: '2-digit', minute: '2-digit', second: '2-digit' }));
   });
 
   it('takes the earliest session as the origin whatever the order', () => {

@@ -1,7 +1,7 @@
 /**
  * A parser thread for long CSV captures (main/capture/parallelCsv.ts): takes runs of whole lines, gives back column
- * arrays (app/formats/csvChunk.ts). The row plan and the compiled WebAssembly reader come once, with the thread's
- * start; buffers travel by transfer.
+ * arrays (app/formats/csvChunk.ts). The compiled WebAssembly reader comes with the thread's start, the row plan in the
+ * first message; buffers travel by transfer.
  */
 import { parentPort, workerData } from 'node:worker_threads';
 import { isChunkFailure, parseCsvChunk, type CsvChunkScratch } from '../../app/formats/csvChunk';
@@ -19,12 +19,24 @@ export interface ChunkRecycle {
   recycle: ArrayBuffer[];
 }
 
-const { plan, fields } = workerData as { plan: CsvRowPlan; fields: WebAssembly.Module | null };
+/** The row plan, sent first: the thread starts while the reader is still sniffing the file's start. */
+export interface ChunkPlan {
+  plan: CsvRowPlan;
+}
+
+const { fields } = workerData as { fields: WebAssembly.Module | null };
 // The plain rows in WebAssembly when the module was built (csvFieldsWasm.ts), else all in TypeScript.
 const accelerator = fields ? createWasmRowAccelerator(fields) : undefined;
 const pool: CsvChunkScratch[] = [];
 
-parentPort?.on('message', (message: ChunkRequest | ChunkRecycle) => {
+let plan: CsvRowPlan | null = null;
+
+parentPort?.on('message', (message: ChunkRequest | ChunkRecycle | ChunkPlan) => {
+  if ('plan' in message) {
+    plan = message.plan;
+    return;
+  }
+  if (plan === null) throw new Error('a chunk before the row plan');
   if ('recycle' in message) {
     const [time, sync, ramp, gate, control] = message.recycle.map((buffer) => new Float64Array(buffer));
     pool.push({ time, sync, ramp, gate, control });

@@ -1,6 +1,6 @@
 /**
  * Long CSV captures read on both cores: the start of the file is sniffed here (app/formats/csvSniff.ts), then runs of
- * whole lines (4 MiB) go to parser threads (csvChunkWorker.ts) and come back as column arrays, in file order, into
+ * whole lines (1 MiB first, then 4 MiB) go to parser threads (csvChunkWorker.ts), started before the sniffing and come back as column arrays, in file order, into
  * the same block builder the streaming reader uses. Same samples, same blocks, same messages with the same line
  * numbers as createCsvReader; memory stays a few chunks in flight however long the file.
  */
@@ -18,7 +18,7 @@ import { csvSniffBytes, layoutFromStart, rowPlanOf } from '../../app/formats/csv
 import { maxLineBytes } from '../../app/formats/lineSplitter';
 import { SampleBlockBuilder } from '../../app/formats/sampleBlockBuilder';
 import { startsWithByteOrderMark } from '../../app/formats/utf8';
-import type { ChunkRecycle, ChunkRequest } from './csvChunkWorker';
+import type { ChunkPlan, ChunkRecycle, ChunkRequest } from './csvChunkWorker';
 import { packageRoot } from '../session/packagePaths';
 import { loadCsvFieldsModule } from './csvFieldsWasm';
 import { CaptureCancelled, type OpenedCapture } from './openedCapture';
@@ -43,8 +43,8 @@ interface ChunkAnswer {
  * found from the package's root); from source (tsx, the tests), the .ts beside this module through tsx's require
  * hook (a worker takes no --import flag).
  */
-function startWorker(layout: CsvLayout, fields: WebAssembly.Module | null): Worker {
-  const workerData = { plan: rowPlanOf(layout), fields };
+function startWorker(fields: WebAssembly.Module | null): Worker {
+  const workerData = { fields };
   if (import.meta.url.endsWith('.ts')) {
     const source = fileURLToPath(new URL('./csvChunkWorker.ts', import.meta.url));
     return new Worker(`require('tsx/cjs'); require(${JSON.stringify(source)});`, { eval: true, workerData });
@@ -74,10 +74,20 @@ async function readAt(handle: FileHandle, target: Uint8Array, offset: number, le
 }
 
 export async function openParallelCsv(path: string, totalBytes: number, options: Omit<ReadCaptureOptions, 'chunkBytes'> & ParallelCsvOptions): Promise<OpenedCapture> {
-  const handle = await open(path, 'r');
+  // The threads start first: a thread takes tens of milliseconds to come up, the file's start is sniffed meanwhile.
+  // The WebAssembly reader is compiled once here and shared (each thread gives it a memory of its own).
+  const threads = Math.max(1, options.threads ?? Math.min(2, availableParallelism()));
+  const fields = loadCsvFieldsModule();
+  const workers = Array.from({ length: threads }, () => startWorker(fields));
+  // A thread that fails while the file is sniffed: kept for the reading to report (an 'error' with no listener would
+  // end the process).
+  const startFailure: { error: unknown } = { error: null };
+  for (const worker of workers) worker.on('error', (error) => (startFailure.error ??= error));
+  let handle: FileHandle | null = null;
   let layout: CsvLayout;
   let dataStart: number;
   try {
+    handle = await open(path, 'r');
     const head = new Uint8Array(Math.min(totalBytes, csvSniffBytes));
     const headLength = await readAt(handle, head, 0, head.length, 0);
     const complete = headLength >= totalBytes;
@@ -86,20 +96,21 @@ export async function openParallelCsv(path: string, totalBytes: number, options:
     if (dataStart < 0) throw new InputError('the file has a header but no samples', path);
     if (dataStart === 0 && startsWithByteOrderMark(head, 0, headLength)) dataStart = 3;
   } catch (error) {
-    await handle.close();
+    await Promise.all(workers.map((worker) => worker.terminate()));
+    await handle?.close();
     throw error;
   }
-  return { blocks: parallelBlocks(path, handle, layout, dataStart, totalBytes, options), readAs: () => layout.readAs, totalBytes };
+  const plan: ChunkPlan = { plan: rowPlanOf(layout) };
+  for (const worker of workers) worker.postMessage(plan);
+  return { blocks: parallelBlocks(path, handle, workers, startFailure, layout, dataStart, totalBytes, options), readAs: () => layout.readAs, totalBytes };
 }
 
-async function* parallelBlocks(path: string, handle: FileHandle, layout: CsvLayout, dataStart: number, totalBytes: number, options: Omit<ReadCaptureOptions, 'chunkBytes'> & ParallelCsvOptions): AsyncGenerator<SampleBlock> {
-  const threads = Math.max(1, options.threads ?? Math.min(2, availableParallelism()));
+async function* parallelBlocks(path: string, handle: FileHandle, workers: Worker[], startFailure: { error: unknown }, layout: CsvLayout, dataStart: number, totalBytes: number, options: Omit<ReadCaptureOptions, 'chunkBytes'> & ParallelCsvOptions): AsyncGenerator<SampleBlock> {
   const chunkBytes = Math.max(64, options.chunkBytes ?? 4 << 20);
-  // Compiled once here, shared by the threads (each gives it a memory of its own).
-  const fields = loadCsvFieldsModule();
-  const workers = Array.from({ length: threads }, () => startWorker(layout, fields));
+  // The first run is short, so the analysis starts while the threads warm up on the next ones.
+  const firstChunkBytes = Math.min(chunkBytes, 1 << 20);
   const waiting = new Map<number, { resolve: (answer: ChunkAnswer) => void; reject: (error: unknown) => void }>();
-  let crashed: unknown = null;
+  let crashed: unknown = startFailure.error;
   for (const worker of workers) {
     worker.on('message', (answer: ChunkAnswer) => {
       const entry = waiting.get(answer.id);
@@ -134,7 +145,7 @@ async function* parallelBlocks(path: string, handle: FileHandle, layout: CsvLayo
     const buffer = spare.pop() ?? new ArrayBuffer(chunkBytes + maxLineBytes);
     const bytes = new Uint8Array(buffer);
     bytes.set(carry, 0);
-    const room = Math.min(chunkBytes, totalBytes - position);
+    const room = Math.min(nextId === 0 ? firstChunkBytes : chunkBytes, totalBytes - position);
     const got = await readAt(handle, bytes, carry.length, room, position);
     position += got;
     let length = carry.length + got;
@@ -170,7 +181,7 @@ async function* parallelBlocks(path: string, handle: FileHandle, layout: CsvLayo
   try {
     let ended = false;
     for (;;) {
-      while (!ended && inFlight.length < 2 * threads) {
+      while (!ended && inFlight.length < 2 * workers.length) {
         if (options.signal?.aborted) throw new CaptureCancelled(path);
         const chunk = await nextChunk();
         if (chunk === null) ended = true;

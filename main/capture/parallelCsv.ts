@@ -1,8 +1,9 @@
 /**
  * Long CSV captures read on both cores: the parser threads (csvChunkWorker.ts) start while the start of the file is
  * sniffed here (app/formats/csvSniff.ts); then runs of whole lines (1 MiB first, then 4 MiB) go to the threads and
- * come back as column arrays, in file order, into the same block builder the streaming reader uses. Same samples, same blocks, same messages with the same line
- * numbers as createCsvReader; memory stays a few chunks in flight however long the file.
+ * come back as column arrays, in file order, into the same block builder the streaming reader uses. Same samples,
+ * same blocks, same messages with the same line numbers as createCsvReader; memory stays a few chunks in flight
+ * however long the file.
  */
 import { open, type FileHandle } from 'node:fs/promises';
 import { availableParallelism } from 'node:os';

@@ -4,37 +4,37 @@
  * written before the rules, or damaged) is an InputError naming the design or session, so it stops the one view
  * that needs it and never the views of other sessions.
  */
+import type { z } from 'zod';
 import type { CaptureReadings } from '../../app/bench/readings';
 import { boardDesignSchema, type BoardDesign } from '../../app/board/design';
 import { InputError } from '../../app/errors';
 import { storedReadingsSchema } from '../../app/exchange/archiveContent';
 
-export function parseStoredDesign(json: string, what: string): BoardDesign {
+/**
+ * JSON text read back through a schema; `label` names the content in the message (`plural` for its verbs), `after`
+ * ends it. Gives the text as parsed (`raw`, every field kept) and as the schema reads it (`data`, defaults filled).
+ */
+function parseStored<T>(json: string, what: string, schema: z.ZodType<T>, content: { label: string; plural: boolean; after: string }): { raw: unknown; data: T } {
+  const { label, plural, after } = content;
   let value: unknown;
   try {
     value = JSON.parse(json);
   } catch {
-    throw new InputError('is not sound: its stored board design is not JSON', what);
+    throw new InputError(`is not sound: its stored ${label} ${plural ? 'are' : 'is'} not JSON${after}`, what);
   }
-  const parsed = boardDesignSchema.safeParse(value);
+  const parsed = schema.safeParse(value);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    throw new InputError(`is not sound: its stored board design fails validation (field ${issue.path.join('.') || '(whole design)'}: ${issue.message})`, what);
+    throw new InputError(`is not sound: its stored ${label} ${plural ? 'fail' : 'fails'} validation (field ${issue.path.join('.') || `(whole ${label})`}: ${issue.message})${after}`, what);
   }
-  return parsed.data;
+  return { raw: value, data: parsed.data };
+}
+
+export function parseStoredDesign(json: string, what: string): BoardDesign {
+  return parseStored(json, what, boardDesignSchema, { label: 'board design', plural: false, after: '' }).data;
 }
 
 export function parseStoredReadings(json: string, what: string): CaptureReadings {
-  let value: unknown;
-  try {
-    value = JSON.parse(json);
-  } catch {
-    throw new InputError('is not sound: its stored readings are not JSON; the other sessions are not affected', what);
-  }
-  const parsed = storedReadingsSchema.safeParse(value);
-  if (!parsed.success) {
-    const issue = parsed.error.issues[0];
-    throw new InputError(`is not sound: its stored readings fail validation (${issue.path.join('.')}: ${issue.message}); the other sessions are not affected`, what);
-  }
-  return value as CaptureReadings;
+  // As stored, every field kept (the schema checks the fields the views rely on, and lets newer ones through).
+  return parseStored(json, what, storedReadingsSchema, { label: 'readings', plural: true, after: '; the other sessions are not affected' }).raw as CaptureReadings;
 }

@@ -54,13 +54,18 @@ function printHuman(result: SizingResult, out: string | undefined): void {
   const lines = [
     `Sized board: ${design.name} (${design.mainsHz} Hz ${design.rectifier}, ${design.supplyV} V supply)`,
     `  ${partName(design, 'rEmitter').padEnd(24)} ${formatOhm(parts.rEmitter.ohm).padEnd(6)} exact ${formatOhm(result.exactOhm.rEmitter, 4)}, ${parts.rEmitter.tolerancePct} %`,
-    `  ${partName(design, 'rBiasTop').padEnd(24)} ${formatOhm(parts.rBiasTop.ohm).padEnd(6)} exact ${formatOhm(result.exactOhm.rBiasTop, 4)}`,
-    `  ${partName(design, 'rBiasBottom').padEnd(24)} ${formatOhm(parts.rBiasBottom.ohm).padEnd(6)} exact ${formatOhm(result.exactOhm.rBiasBottom, 4)}`,
+    `  ${partName(design, 'rBiasTop').padEnd(24)} ${formatOhm(parts.rBiasTop.ohm).padEnd(6)} ideal ${formatOhm(result.exactOhm.rBiasTop, 4)}`,
+    `  ${partName(design, 'rBiasBottom').padEnd(24)} ${formatOhm(parts.rBiasBottom.ohm).padEnd(6)} ideal ${formatOhm(result.exactOhm.rBiasBottom, 4)}`,
     `  ${partName(design, 'cRamp').padEnd(24)} ${formatFarad(parts.cRamp.farad).padEnd(6)} chosen`,
   ];
   if (parts.rControlTop && result.exactOhm.rControlTop !== null) {
     lines.push(`  ${partName(design, 'rControlTop').padEnd(24)} ${formatOhm(parts.rControlTop.ohm).padEnd(6)} exact ${formatOhm(result.exactOhm.rControlTop, 4)} (${partName(design, 'potControl')} ${formatOhm(parts.potControl?.ohm ?? 0)}, limits alpha to ${design.alphaMaxDeg} deg)`);
   }
+  // The two kinds of reference value differ: say so, or a divider picked well away from its ideal reads as a mistake.
+  lines.push(
+    '  (emitter resistor, exact: lands on the ramp height with the divider as picked. Divider, ideal: for the emitter',
+    '   drop asked; the divider and the emitter resistor are then picked together in standard values.)',
+  );
   lines.push(
     `Predicted: charging current ${(prediction.chargingCurrentA * 1e3).toFixed(3)} mA, slope ${(prediction.slopeVPerS / 1000).toFixed(3)} V/ms, ` +
       `peak ${formatVolt(prediction.peakV)} (${formatPercent(result.peakErrorPct)} from ${formatVolt(design.rampTargetV)}), clipping at ${formatVolt(prediction.clipV)} (${formatVolt(prediction.headroomV)} headroom)`,

@@ -26,6 +26,9 @@ describe('rampwright size', () => {
     // The part set in words, its values as marked on parts (IEC 60062 code).
     expect(result.stdout).toMatch(new RegExp(`emitter resistor +${formatOhm(design.parts.rEmitter.ohm)} +exact \\d+k\\d*, 5 %`));
     expect(result.stdout).toMatch(/ramp capacitor +470n +chosen/);
+    // The divider's reference is its ideal for the asked emitter drop, not an exact value it misses: said so.
+    expect(result.stdout).toMatch(new RegExp(`upper bias resistor +${formatOhm(design.parts.rBiasTop.ohm)} +ideal \\d+k\\d*`));
+    expect(result.stdout).toMatch(/Divider, ideal: for the emitter\s+drop asked/);
     expect(design.name).toBe('Sized bench board');
     expect(Math.abs(predictRamp(design).peakV / 6 - 1)).toBeLessThan(0.03);
   });

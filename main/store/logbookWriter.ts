@@ -34,6 +34,11 @@ type QueueItem =
 export interface BatchingWriterOptions extends SessionWriterOptions {
   /** Runs a program in one write transaction of the store. */
   write<T>(program: SqlProgram<T>): Promise<T>;
+  /**
+   * The same, waiting longer for another process's lock: used once the session is being closed, where the caller
+   * waits and no later tick will try again (SQLite; without it, `write`).
+   */
+  writeAwaited?<T>(program: SqlProgram<T>): Promise<T>;
   /** The store's reading of a refused batch: a fault waiting will not cure (disk full, read-only, damaged), or null. */
   faultOf?: (error: unknown) => StorageFault | null;
   /** Space kept for ending the session when the disk fills (spaceReserve.ts); released when the session ends. */
@@ -121,6 +126,8 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
   // Later than the heartbeat the session was started with, so no stamp can match that one.
   let lastStamp = Date.now();
   let closed = false;
+  let closing = false;
+  const writeNow = <T>(program: SqlProgram<T>): Promise<T> => (closing && options.writeAwaited ? options.writeAwaited(program) : options.write(program));
   let inFlight: Promise<void> | null = null;
   let lastHeartbeatMs = 0;
   const stats: LogbookWriterStats = { queued: 0, cyclesWritten: 0, batches: 0, cyclesDropped: 0, lastBatchMs: 0, longestBatchMs: 0, lastError: null, writeFailure: null };
@@ -137,7 +144,7 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
     const cycles = batch.reduce((count, item) => count + (item.kind === 'cycle' ? 1 : 0), 0);
     const transfers = batch.reduce((count, item) => count + (item.kind === 'transfer' ? 1 : 0), 0);
     try {
-      await options.write(writeBatch(sessionId, batch, seq, stamp));
+      await writeNow(writeBatch(sessionId, batch, seq, stamp));
       refused = null;
       seq.cycle += cycles;
       seq.transfer += transfers;
@@ -199,6 +206,7 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
     async close(status: Exclude<SessionStatus, 'open'> = 'closed', signOff?: SessionSignOff, closeOptions: { note?: string } = {}) {
       if (closed) return options.readRow(sessionId);
       if (signOff && status !== 'closed') throw new Error(`a sign-off ends a session as closed, not ${status}`);
+      closing = true;
       // A storage fault (disk full...) ends the flushing: what the store refused stays unwritten.
       const flushUnlessFaulted = async (): Promise<void> => {
         if (stats.writeFailure !== null) return;
@@ -219,7 +227,7 @@ export function createBatchingWriter(sessionId: number, options: BatchingWriterO
       }
       try {
         // The sign-off and the end in one write, the sign-off first: a finished session is never changed after.
-        await options.write(endSession(sessionId, status, signOff ?? null, closeOptions.note ?? null));
+        await writeNow(endSession(sessionId, status, signOff ?? null, closeOptions.note ?? null));
       } catch (error) {
         const fault = options.faultOf?.(error) ?? null;
         if (!fault) throw error;

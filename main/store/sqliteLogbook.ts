@@ -20,6 +20,10 @@ const bindable = (value: SqlValue) => (value instanceof Uint8Array && !Buffer.is
 /** Bound values per INSERT statement (SQLite allows 32 766 since 3.32; a few thousand is where the gain levels off). */
 const parametersPerStatement = 2000;
 
+/** How long a write waits for another process's lock: one the caller awaits, and a session writer's batch (ms). */
+const awaitedWriteBusyTimeoutMs = 10_000;
+const batchBusyTimeoutMs = 250;
+
 /** Prepared statements by SQL text; cleared when it grows past this (a bound: chunks of a few sizes per table). */
 const statementCacheLimit = 400;
 
@@ -76,7 +80,19 @@ function orphanedSessions(db: SqliteDatabase): Set<number> {
  */
 export function createSqliteLogbook(db: SqliteDatabase, location: string, options: { readOnly?: boolean } = {}): Logbook {
   const execute = sqliteExecutor(db);
-  const writeNow = <T>(program: SqlProgram<T>): T => db.transaction(() => runSync(program, execute)).immediate();
+  const runWrite = <T>(program: SqlProgram<T>): T => db.transaction(() => runSync(program, execute)).immediate();
+  // A write the caller waits for (start a session, close it, a trim, the recovery at opening) waits for another
+  // process's lock as long as a bench would (several recorders starting at once on a busy computer were seen to
+  // need more than the writer's 250 ms); the session writer's batches keep the short wait and retry on their next
+  // tick (logbookWriter.ts), so the serial reader beside them never stalls.
+  const writeNow = <T>(program: SqlProgram<T>): T => {
+    db.pragma(`busy_timeout = ${awaitedWriteBusyTimeoutMs}`);
+    try {
+      return runWrite(program);
+    } finally {
+      db.pragma(`busy_timeout = ${batchBusyTimeoutMs}`);
+    }
+  };
   if (!options.readOnly) {
     writeNow(recoverInterruptedSessions());
     removeStaleReserves(location);
@@ -90,7 +106,7 @@ export function createSqliteLogbook(db: SqliteDatabase, location: string, option
     openWriter: (sessionId, writerOptions) => {
       const reserve = reserveForNextWriter;
       reserveForNextWriter = null;
-      return createBatchingWriter(sessionId, { ...writerOptions, write: async (program) => writeNow(program), faultOf: (error) => storageFaultOf(error, location), reserve });
+      return createBatchingWriter(sessionId, { ...writerOptions, write: async (program) => runWrite(program), writeAwaited: async (program) => writeNow(program), faultOf: (error) => storageFaultOf(error, location), reserve });
     },
     async close() {
       if (db.open) db.close();

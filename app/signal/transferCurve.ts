@@ -8,6 +8,9 @@
  * half the cap. The max deviation may then read a little low; the largest height dropped in one step is kept in
  * `thinningErrorDeg` as an estimate of how much (our rule; not a strict bound, since drops next to each other can
  * add up, but for a dense sweep the heights are far below the firing jitter).
+ * The hull holds control voltages to the nearest nanovolt, far below any logger's resolution: a control a hair above
+ * zero (5e-324 V, met by a property test) made the hull's cross products underflow to zero, and a vertex was dropped
+ * as collinear. The line fit keeps the values as given.
  */
 import { LineAccumulator } from './leastSquares';
 
@@ -27,9 +30,14 @@ interface Point {
   y: number;
 }
 
+/** A hull point: `x` the control to the nearest nanovolt (the geometry), `controlV` as given (the residual). */
+interface HullPoint extends Point {
+  controlV: number;
+}
+
 export class TransferCurveAccumulator {
   private readonly line = new LineAccumulator();
-  private hull: Point[] = [];
+  private hull: HullPoint[] = [];
   private controlMinV = Number.POSITIVE_INFINITY;
   private controlMaxV = Number.NEGATIVE_INFINITY;
   private readonly maxHullVertices: number;
@@ -52,7 +60,7 @@ export class TransferCurveAccumulator {
     this.line.add(controlV, alphaDeg);
     if (controlV < this.controlMinV) this.controlMinV = controlV;
     if (controlV > this.controlMaxV) this.controlMaxV = controlV;
-    const point = { x: controlV, y: alphaDeg };
+    const point = { x: Math.round(controlV * 1e9) / 1e9, y: alphaDeg, controlV };
     if (this.hull.length >= 3 && insideConvex(this.hull, point)) return;
     this.hull = convexHull([...this.hull, point]);
     if (this.hull.length > this.maxHullVertices) this.thin();
@@ -70,7 +78,7 @@ export class TransferCurveAccumulator {
         const vertex = this.hull[i];
         const after = this.hull[(i + 1) % count];
         // Extreme control voltages stay: they set the range.
-        if (vertex.x === this.controlMinV || vertex.x === this.controlMaxV || after.x === before.x) continue;
+        if (vertex.controlV === this.controlMinV || vertex.controlV === this.controlMaxV || after.x === before.x) continue;
         const chordY = before.y + ((vertex.x - before.x) * (after.y - before.y)) / (after.x - before.x);
         const height = Math.abs(vertex.y - chordY);
         if (height < flattestHeight) {
@@ -93,7 +101,7 @@ export class TransferCurveAccumulator {
     if (!fit || this.line.count < 3 || this.controlMaxV - this.controlMinV < (options.minimumRangeV ?? 0.05)) return null;
     let maxDeviationDeg = 0;
     for (const vertex of this.hull) {
-      maxDeviationDeg = Math.max(maxDeviationDeg, Math.abs(vertex.y - (fit.slope * vertex.x + fit.intercept)));
+      maxDeviationDeg = Math.max(maxDeviationDeg, Math.abs(vertex.y - (fit.slope * vertex.controlV + fit.intercept)));
     }
     return {
       points: this.line.count,
@@ -112,15 +120,15 @@ function cross(o: Point, a: Point, b: Point): number {
 }
 
 /** Andrew's monotone chain; counter-clockwise, collinear points dropped. */
-export function convexHull(points: readonly Point[]): Point[] {
+export function convexHull<P extends Point>(points: readonly P[]): P[] {
   const sorted = [...points].sort((a, b) => a.x - b.x || a.y - b.y);
   if (sorted.length < 3) return sorted;
-  const lower: Point[] = [];
+  const lower: P[] = [];
   for (const point of sorted) {
     while (lower.length >= 2 && cross(lower[lower.length - 2], lower[lower.length - 1], point) <= 0) lower.pop();
     lower.push(point);
   }
-  const upper: Point[] = [];
+  const upper: P[] = [];
   for (let i = sorted.length - 1; i >= 0; i--) {
     const point = sorted[i];
     while (upper.length >= 2 && cross(upper[upper.length - 2], upper[upper.length - 1], point) <= 0) upper.pop();

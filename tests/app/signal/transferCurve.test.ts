@@ -31,6 +31,15 @@ describe('TransferCurveAccumulator', () => {
     );
   });
 
+  it('keeps a hull vertex beside a control a hair above zero (a counterexample the property once found)', () => {
+    // Five points; 5e-324 V made the hull's cross products underflow and drop the vertex at (0 V, 170.00001 deg).
+    const data = [[0, 170.00001], [0, 170], [0, 170], [5e-324, 170], [0.05, 169.25]] as const;
+    const accumulator = new TransferCurveAccumulator();
+    for (const [controlV, alphaDeg] of data) accumulator.add(controlV, alphaDeg);
+    const brute = fitLine(data.map((p) => p[0]), data.map((p) => p[1]))!;
+    expect(accumulator.reading()?.maxDeviationDeg).toBeCloseTo(brute.maxAbsResidual, 9);
+  });
+
   it('a fixed control voltage gives no transfer fit', () => {
     const accumulator = new TransferCurveAccumulator();
     for (let i = 0; i < 10; i++) accumulator.add(2.5, 90 + i * 0.01);

@@ -121,13 +121,19 @@ describe('model properties (fast-check)', () => {
         const top = predictRamp(design, { partOverrides: { rBiasTop: design.parts.rBiasTop.ohm * factor } });
         const bottomDown = predictRamp(design, { partOverrides: { rBiasBottom: design.parts.rBiasBottom.ohm / factor } });
         const capacitor = predictRamp(design, { partOverrides: { cRamp: design.parts.cRamp.farad * factor } });
-        expect(emitter.chargingCurrentA).toBeLessThan(base.chargingCurrentA);
-        expect(top.chargingCurrentA).toBeGreaterThan(base.chargingCurrentA);
-        expect(bottomDown.chargingCurrentA).toBeGreaterThan(base.chargingCurrentA);
-        // 1 nV: the floor's fixed point stops within 1e-9 V, which a fully saturated peak carries unchanged
-        // (CI counterexample: full-wave 45 Hz, 100 us reset, 810 nF, peak up by 1e-12 V with 16 % more rEmitter).
-        expect(emitter.peakV).toBeLessThanOrEqual(base.peakV + 1e-9);
-        expect(capacitor.peakV).toBeLessThanOrEqual(base.peakV + 1e-9);
+        // The current law holds for a source in its active region at the floor. A reset too short for the capacitor
+        // leaves the floor above the clipping level, and the source saturated from the start is no current source:
+        // its current then follows the saturated drive (counterexample: 10 uF, 100 us reset, floor 12.6 V above a
+        // 0.99 V clip, where 50 % more rBiasTop lowered the current).
+        const activeAtFloor = (prediction: typeof base): boolean => prediction.floorV < prediction.clipV;
+        if (activeAtFloor(base) && activeAtFloor(emitter)) expect(emitter.chargingCurrentA).toBeLessThan(base.chargingCurrentA);
+        if (activeAtFloor(base) && activeAtFloor(top)) expect(top.chargingCurrentA).toBeGreaterThan(base.chargingCurrentA);
+        if (activeAtFloor(base) && activeAtFloor(bottomDown)) expect(bottomDown.chargingCurrentA).toBeGreaterThan(base.chargingCurrentA);
+        // 2 nV: each floor's fixed point stops within 1e-9 V, which a fully saturated peak carries unchanged, so two
+        // predictions differ by up to twice that (CI counterexamples: full-wave 45 Hz, 100 us reset, 810 nF, peak up
+        // by 1e-12 V with 16 % more rEmitter; 1.09 uF, peak up by 1.0e-9 V with 50 % more capacitance).
+        expect(emitter.peakV).toBeLessThanOrEqual(base.peakV + 2e-9);
+        expect(capacitor.peakV).toBeLessThanOrEqual(base.peakV + 2e-9);
         expect(capacitor.initialSlopeVPerS).toBeLessThan(base.initialSlopeVPerS);
       }),
       { numRuns: 100 },

@@ -129,11 +129,14 @@ describe('model properties (fast-check)', () => {
         if (activeAtFloor(base) && activeAtFloor(emitter)) expect(emitter.chargingCurrentA).toBeLessThan(base.chargingCurrentA);
         if (activeAtFloor(base) && activeAtFloor(top)) expect(top.chargingCurrentA).toBeGreaterThan(base.chargingCurrentA);
         if (activeAtFloor(base) && activeAtFloor(bottomDown)) expect(bottomDown.chargingCurrentA).toBeGreaterThan(base.chargingCurrentA);
-        // 2 nV: each floor's fixed point stops within 1e-9 V, which a fully saturated peak carries unchanged, so two
-        // predictions differ by up to twice that (CI counterexamples: full-wave 45 Hz, 100 us reset, 810 nF, peak up
-        // by 1e-12 V with 16 % more rEmitter; 1.09 uF, peak up by 1.0e-9 V with 50 % more capacitance).
-        expect(emitter.peakV).toBeLessThanOrEqual(base.peakV + 2e-9);
-        expect(capacitor.peakV).toBeLessThanOrEqual(base.peakV + 2e-9);
+        // A fully saturated peak is the saturated final value, which the model's inner fixed points (the floor to
+        // 1 nV, the clipping level in three passes from a floor-dependent start) leave with nanovolts of noise, so
+        // "falls" is checked to one part in 10^8 of the peak (counterexamples from repeated runs: 810 nF, 100 us
+        // reset, up by 1e-12 V with 16 % more rEmitter; 1.09 uF, up by 1.0e-9 V, and 1.12 uF, up by 2.0e-9 V, with
+        // more capacitance). A real change of a part by 1 % moves an unsaturated peak by millivolts.
+        const noiseV = 1e-8 * Math.abs(base.peakV) + 1e-9;
+        expect(emitter.peakV).toBeLessThanOrEqual(base.peakV + noiseV);
+        expect(capacitor.peakV).toBeLessThanOrEqual(base.peakV + noiseV);
         expect(capacitor.initialSlopeVPerS).toBeLessThan(base.initialSlopeVPerS);
       }),
       { numRuns: 100 },
